@@ -1,0 +1,165 @@
+//! Options shared by several commands, declared once.
+
+use super::Failure;
+use spinstate::engine::{Calculation, Geometry};
+
+/// Output format options.
+#[derive(Debug, Clone, clap::Args)]
+pub struct Format {
+    /// Print machine-readable JSON (a top-level object) instead of a table.
+    #[arg(long)]
+    pub json: bool,
+}
+
+/// The parameters of one ligand-field calculation: absolute (cm⁻¹) or as ratios to B.
+#[derive(Debug, Clone, clap::Args)]
+pub struct FieldArgs {
+    /// Number of d electrons, 0..=10.
+    #[arg(long, value_name = "N")]
+    pub dn: usize,
+    /// Geometry: oct, tet, sqpl or tetragonal.
+    #[arg(long, value_name = "G")]
+    pub geometry: String,
+    /// Racah B in cm⁻¹ (needs --c).
+    #[arg(long, value_name = "CM-1", allow_negative_numbers = true)]
+    pub b: Option<f64>,
+    /// Racah C in cm⁻¹ (needs --b).
+    #[arg(long, value_name = "CM-1", allow_negative_numbers = true)]
+    pub c: Option<f64>,
+    /// Dq in cm⁻¹ (Δ = 10Dq; for tet the positive Δt/10).
+    #[arg(long, value_name = "CM-1", allow_negative_numbers = true)]
+    pub dq: Option<f64>,
+    /// C/B ratio (energies are then in units of B; use with --delta-over-b).
+    #[arg(long, value_name = "R", allow_negative_numbers = true)]
+    pub c_over_b: Option<f64>,
+    /// Δ/B = 10Dq/B (ratio mode).
+    #[arg(long, value_name = "X", allow_negative_numbers = true)]
+    pub delta_over_b: Option<f64>,
+    /// Tetragonal parameter Ds in cm⁻¹ (or units of B in ratio mode).
+    #[arg(
+        long,
+        value_name = "CM-1",
+        default_value_t = 0.0,
+        allow_negative_numbers = true
+    )]
+    pub ds: f64,
+    /// Tetragonal parameter Dt in cm⁻¹ (or units of B in ratio mode).
+    #[arg(
+        long,
+        value_name = "CM-1",
+        default_value_t = 0.0,
+        allow_negative_numbers = true
+    )]
+    pub dt: f64,
+    /// One-electron spin–orbit constant ζ in cm⁻¹ (or units of B in ratio mode); 0 = off.
+    #[arg(
+        long,
+        value_name = "CM-1",
+        default_value_t = 0.0,
+        allow_negative_numbers = true
+    )]
+    pub zeta: f64,
+}
+
+/// Resolved parameters in the unit of the calculation.
+#[derive(Debug, Clone)]
+pub struct Resolved {
+    pub geometry: Geometry,
+    pub calc: Calculation,
+    pub dq: f64,
+    pub ds: f64,
+    pub dt: f64,
+    pub zeta: f64,
+    /// True when the input was given as ratios (energies in units of B).
+    pub ratio_mode: bool,
+}
+
+/// Parses a geometry name into a failure with exit code 2.
+pub fn parse_geometry(s: &str) -> Result<Geometry, Failure> {
+    s.parse::<Geometry>()
+        .map_err(|e| Failure::usage(format!("--geometry: {e}")))
+}
+
+impl FieldArgs {
+    /// Checks the combination of options and builds the calculation.
+    pub fn resolve(&self) -> Result<Resolved, Failure> {
+        let geometry = parse_geometry(&self.geometry)?;
+        if self.dn > 10 {
+            return Err(Failure::usage(format!(
+                "--dn {} is outside 0..=10",
+                self.dn
+            )));
+        }
+        let absolute = self.b.is_some() || self.c.is_some() || self.dq.is_some();
+        let ratio = self.c_over_b.is_some() || self.delta_over_b.is_some();
+        let (b, c, dq, ratio_mode) = match (absolute, ratio) {
+            (true, true) => {
+                return Err(Failure::usage(
+                    "give either --b, --c, --dq (cm⁻¹) or --c-over-b, --delta-over-b (ratios), not both",
+                ))
+            }
+            (false, false) => {
+                return Err(Failure::usage(
+                    "give the field: --b B --c C --dq DQ (cm⁻¹) or --c-over-b R --delta-over-b X",
+                ))
+            }
+            (true, false) => {
+                let (Some(b), Some(c)) = (self.b, self.c) else {
+                    return Err(Failure::usage(
+                        "--b and --c go together: give both Racah parameters in cm⁻¹",
+                    ));
+                };
+                (b, c, self.dq.unwrap_or(0.0), false)
+            }
+            (false, true) => {
+                let Some(r) = self.c_over_b else {
+                    return Err(Failure::usage("--delta-over-b needs --c-over-b (e.g. 4.8)"));
+                };
+                (1.0, r, self.delta_over_b.unwrap_or(0.0) / 10.0, true)
+            }
+        };
+        for (name, v) in [
+            ("--b", b),
+            ("--c (or --c-over-b)", c),
+            ("--dq (or --delta-over-b)", dq),
+            ("--ds", self.ds),
+            ("--dt", self.dt),
+            ("--zeta", self.zeta),
+        ] {
+            if !v.is_finite() {
+                return Err(Failure::usage(format!("{name} {v} is not a finite number")));
+            }
+        }
+        if b <= 0.0 {
+            return Err(Failure::usage(format!("--b {b} must be > 0 cm⁻¹")));
+        }
+        if c < 0.0 {
+            return Err(Failure::usage(format!(
+                "--c {c} must be ≥ 0 (C/B is usually 3.5–5)"
+            )));
+        }
+        if dq < 0.0 {
+            return Err(Failure::usage(format!(
+                "Dq {dq} must be ≥ 0 (for tet give the positive Δt/10; the sign convention is built in)"
+            )));
+        }
+        if self.zeta < 0.0 {
+            return Err(Failure::usage(format!(
+                "--zeta {} must be ≥ 0 cm⁻¹ (the one-electron constant ζ is positive)",
+                self.zeta
+            )));
+        }
+        let field = geometry.field(dq, self.ds, self.dt)?;
+        let group = geometry.point_group(self.ds, self.dt);
+        let calc = Calculation::new(self.dn, b, c, field, group)?;
+        Ok(Resolved {
+            geometry,
+            calc,
+            dq,
+            ds: self.ds,
+            dt: self.dt,
+            zeta: self.zeta,
+            ratio_mode,
+        })
+    }
+}

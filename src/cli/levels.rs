@@ -1,0 +1,55 @@
+//! `spinstate levels`: every level of one d^n calculation.
+
+use super::common::{FieldArgs, Format};
+use super::{Failure, Output};
+use spinstate::report::levels::{LevelRow, LevelsReport};
+use spinstate::report::to_json;
+
+#[derive(Debug, clap::Args)]
+pub struct Args {
+    #[command(flatten)]
+    pub field: FieldArgs,
+    #[command(flatten)]
+    pub format: Format,
+}
+
+pub fn run(args: &Args) -> Result<Output, Failure> {
+    let r = args.field.resolve()?;
+    let spectrum = r.calc.levels()?;
+    let ground = spectrum.ground().clone();
+    let levels = spectrum
+        .levels
+        .iter()
+        .map(|l| LevelRow {
+            energy: l.energy,
+            multiplicity: l.multiplicity(),
+            spin: l.spin(),
+            label: l.label(),
+            degeneracy: l.degeneracy,
+            parent: l.parent.clone(),
+            spin_allowed: l.two_s == ground.two_s,
+        })
+        .collect();
+    let report = LevelsReport {
+        dn: r.calc.dn,
+        geometry: r.geometry.name().to_string(),
+        point_group: format!("{:?}", r.calc.group),
+        energy_unit: if r.ratio_mode { "B" } else { "cm-1" }.to_string(),
+        b: r.calc.b,
+        c: r.calc.c,
+        dq: r.dq,
+        delta: 10.0 * r.dq,
+        ds: r.ds,
+        dt: r.dt,
+        zeta: r.zeta,
+        c_over_b: r.calc.c / r.calc.b,
+        delta_over_b: 10.0 * r.dq / r.calc.b,
+        ground: format!("{} ({})", ground.label(), ground.parent),
+        levels,
+    };
+    Ok(Output::text(if args.format.json {
+        to_json(&report)
+    } else {
+        report.to_table()
+    }))
+}

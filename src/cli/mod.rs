@@ -1,0 +1,75 @@
+//! Command-line layer: parse arguments, call the library, render. No science here.
+
+pub mod common;
+pub mod levels;
+
+use clap::{Parser, Subcommand};
+use std::path::PathBuf;
+
+/// spinstate — spin states of d-block complexes from a full d^n ligand-field calculation.
+#[derive(Debug, Parser)]
+#[command(name = "spinstate", version, about, long_about = None)]
+pub struct Cli {
+    /// Directory with edited copies of the data tables (ions.csv, ligands.csv, …) that replace
+    /// the bundled ones.
+    #[arg(long, global = true, value_name = "DIR")]
+    pub data: Option<PathBuf>,
+    #[command(subcommand)]
+    pub command: Command,
+}
+
+#[derive(Debug, Subcommand)]
+pub enum Command {
+    /// All d^n levels for given B, C and ligand field, labelled and sorted by energy.
+    Levels(levels::Args),
+}
+
+/// A failure with its exit code (1: computation did not finish, 2: bad usage or input).
+#[derive(Debug)]
+pub struct Failure {
+    pub code: u8,
+    pub message: String,
+}
+
+impl Failure {
+    pub fn usage(message: impl Into<String>) -> Self {
+        Failure {
+            code: 2,
+            message: message.into(),
+        }
+    }
+}
+
+impl From<spinstate::Error> for Failure {
+    fn from(e: spinstate::Error) -> Self {
+        Failure {
+            code: e.exit_code(),
+            message: e.to_string(),
+        }
+    }
+}
+
+/// What a command produced: text for stdout, plus an exit code (0 unless some rows failed).
+#[derive(Debug, Default)]
+pub struct Output {
+    pub stdout: String,
+    /// Messages for stderr that do not stop the command (e.g. bad rows in batch mode).
+    pub warnings: Vec<String>,
+    pub code: u8,
+}
+
+impl Output {
+    pub fn text(stdout: String) -> Self {
+        Output {
+            stdout,
+            ..Default::default()
+        }
+    }
+}
+
+/// Runs the parsed command.
+pub fn run(cli: Cli) -> Result<Output, Failure> {
+    match cli.command {
+        Command::Levels(a) => levels::run(&a),
+    }
+}

@@ -1,0 +1,479 @@
+//! The d^n ligand-field calculation: build each block's Hamiltonian from the cached unit matrices,
+//! diagonalise it, group degenerate states into levels and label them.
+//!
+//! H = B·H_B + C·H_C + Σ_{mm′} V_{mm′} Σ_σ a†_{mσ} a_{m′σ} (+ ζ Σ l·s, see [`super::spin_orbit`]),
+//! energies in cm⁻¹. Racah A only shifts every level of d^n equally and is left out.
+
+use super::field::LigandField;
+use super::shell::{shell, Shell, SpinBlock};
+use super::symmetry::{Characters, PointGroup};
+use crate::error::{require_finite, Error, Result};
+use nalgebra::{Complex, DMatrix, SMatrix, SymmetricEigen};
+
+type C64 = Complex<f64>;
+
+/// Letters of orbital angular momentum L = 0, 1, 2, …
+pub const L_LETTERS: [char; 13] = [
+    'S', 'P', 'D', 'F', 'G', 'H', 'I', 'K', 'L', 'M', 'N', 'O', 'Q',
+];
+
+/// Free-ion term symbol such as "4F" from 2S and L.
+pub fn term_symbol(two_s: i32, l: usize) -> String {
+    format!("{}{}", two_s + 1, L_LETTERS.get(l).copied().unwrap_or('?'))
+}
+
+/// One ligand-field calculation: d^n, Racah B and C, the one-electron field and the group whose
+/// labels are used. Spin–orbit coupling is handled by [`super::spin_orbit`].
+#[derive(Debug, Clone)]
+pub struct Calculation {
+    pub dn: usize,
+    /// Racah B (cm⁻¹).
+    pub b: f64,
+    /// Racah C (cm⁻¹).
+    pub c: f64,
+    pub field: LigandField,
+    pub group: PointGroup,
+    /// Coefficient η of an added η·L² term (cm⁻¹), used only internally to separate accidentally
+    /// degenerate free-ion terms of different L; zero in every public result.
+    l_squared_shift: f64,
+}
+
+/// One energy level (spin-free): a set of degenerate states of one total spin and one irrep.
+#[derive(Debug, Clone, PartialEq)]
+pub struct Level {
+    /// Energy above the ground level (cm⁻¹).
+    pub energy: f64,
+    /// Energy without the ground-state shift (cm⁻¹, Racah A = 0).
+    pub absolute_energy: f64,
+    /// Twice the total spin S (from the exact S² eigenspace of the state).
+    pub two_s: i32,
+    /// Mulliken label of the orbital part (e.g. "T1g"), or the L letter for a free ion.
+    pub irrep: String,
+    /// Orbital degeneracy (1, 2 or 3 in cubic groups; 2L+1 for a free ion).
+    pub degeneracy: usize,
+    /// Free-ion parent term (e.g. "4F") of the level, followed down to zero field.
+    pub parent: String,
+    /// Position of this level among levels of the same spin and irrep, lowest = 1.
+    pub index: usize,
+}
+
+impl Level {
+    /// Spin multiplicity 2S + 1.
+    pub fn multiplicity(&self) -> i32 {
+        self.two_s + 1
+    }
+
+    /// Full label such as "4T1g".
+    pub fn label(&self) -> String {
+        format!("{}{}", self.multiplicity(), self.irrep)
+    }
+
+    /// Total spin S.
+    pub fn spin(&self) -> f64 {
+        self.two_s as f64 / 2.0
+    }
+}
+
+/// All spin-free levels of one calculation, lowest first.
+#[derive(Debug, Clone)]
+pub struct Spectrum {
+    pub levels: Vec<Level>,
+}
+
+impl Spectrum {
+    /// The ground level.
+    pub fn ground(&self) -> &Level {
+        &self.levels[0]
+    }
+
+    /// Levels reached from the ground level without a change of spin.
+    pub fn spin_allowed(&self) -> impl Iterator<Item = &Level> {
+        let s = self.ground().two_s;
+        self.levels.iter().skip(1).filter(move |l| l.two_s == s)
+    }
+
+    /// Lowest level with the given 2S, if any.
+    pub fn lowest_of_spin(&self, two_s: i32) -> Option<&Level> {
+        self.levels.iter().find(|l| l.two_s == two_s)
+    }
+}
+
+/// Eigenstates of one block: energies and vectors over the block's spin-adapted basis.
+struct BlockStates<'a> {
+    block: &'a SpinBlock,
+    values: Vec<f64>,
+    vectors: DMatrix<C64>,
+}
+
+impl Calculation {
+    /// A checked calculation. `dn` must lie in 0..=10, B > 0, C ≥ 0, all finite.
+    pub fn new(dn: usize, b: f64, c: f64, field: LigandField, group: PointGroup) -> Result<Self> {
+        if dn > 10 {
+            return Err(Error::invalid("d-electron count", dn, "0..=10"));
+        }
+        require_finite("B", b)?;
+        require_finite("C", c)?;
+        if b <= 0.0 {
+            return Err(Error::invalid("B", b, "a Racah B > 0 cm⁻¹"));
+        }
+        if c < 0.0 {
+            return Err(Error::invalid("C", c, "a Racah C ≥ 0 cm⁻¹"));
+        }
+        if field.matrix.iter().any(|x| !x.is_finite()) {
+            return Err(Error::invalid(
+                "ligand field",
+                "a non-finite matrix element",
+                "finite values in cm⁻¹",
+            ));
+        }
+        let field = LigandField {
+            matrix: (field.matrix + field.matrix.transpose()) * 0.5,
+        };
+        Ok(Calculation {
+            dn,
+            b,
+            c,
+            field,
+            group,
+            l_squared_shift: 0.0,
+        })
+    }
+
+    fn shell(&self) -> &'static Shell {
+        shell(self.dn)
+    }
+
+    /// Whether blocks may be split by M_L mod 4 (true for fields with a fourfold z axis).
+    fn fourfold(&self) -> bool {
+        self.group != PointGroup::C1 && self.field.has_fourfold_z_axis()
+    }
+
+    fn block_matrix(
+        &self,
+        block: &SpinBlock,
+        v: &SMatrix<C64, 5, 5>,
+    ) -> (DMatrix<f64>, Option<DMatrix<f64>>) {
+        let mut re = &block.rep_b * self.b + &block.rep_c * self.c;
+        if self.l_squared_shift != 0.0 {
+            re += &block.l_squared * self.l_squared_shift;
+        }
+        let mut im: Option<DMatrix<f64>> = None;
+        for i in 0..5 {
+            for j in 0..5 {
+                let Some(e) = &block.excitations[i * 5 + j] else {
+                    continue;
+                };
+                let h = v[(i, j)];
+                if h.re != 0.0 {
+                    re += e * h.re;
+                }
+                if h.im.abs() > 1e-14 * (1.0 + h.re.abs()) {
+                    let m = im.get_or_insert_with(|| DMatrix::zeros(e.nrows(), e.ncols()));
+                    *m += e * h.im;
+                }
+            }
+        }
+        (re, im)
+    }
+
+    fn diagonalise<'a>(
+        &self,
+        block: &'a SpinBlock,
+        v: &SMatrix<C64, 5, 5>,
+    ) -> Result<BlockStates<'a>> {
+        let (re, im) = self.block_matrix(block, v);
+        let fail = || {
+            Error::Computation(format!(
+                "eigen-decomposition of a {}×{} block did not converge",
+                block.dim(),
+                block.dim()
+            ))
+        };
+        let (values, vectors) = match im {
+            None => {
+                let e = SymmetricEigen::try_new(re, 1e-14, 100_000).ok_or_else(fail)?;
+                (
+                    e.eigenvalues.iter().copied().collect::<Vec<_>>(),
+                    e.eigenvectors.map(|x| C64::new(x, 0.0)),
+                )
+            }
+            Some(im) => {
+                let h = DMatrix::from_fn(re.nrows(), re.ncols(), |i, j| {
+                    C64::new(re[(i, j)], im[(i, j)])
+                });
+                let e = SymmetricEigen::try_new(h, 1e-14, 100_000).ok_or_else(fail)?;
+                (
+                    e.eigenvalues.iter().copied().collect::<Vec<_>>(),
+                    e.eigenvectors,
+                )
+            }
+        };
+        if values.iter().any(|x| !x.is_finite()) {
+            return Err(fail());
+        }
+        Ok(BlockStates {
+            block,
+            values,
+            vectors,
+        })
+    }
+
+    /// Lowest energy (cm⁻¹, A = 0) of each total spin, as (2S, energy); eigenvalues only.
+    pub fn lowest_by_spin(&self) -> Result<Vec<(i32, f64)>> {
+        let v = self.field.complex_matrix();
+        let mut out: Vec<(i32, f64)> = Vec::new();
+        for block in self.shell().blocks(self.fourfold()) {
+            let (re, im) = self.block_matrix(block, &v);
+            let low = match im {
+                None => re.symmetric_eigenvalues().min(),
+                Some(im) => DMatrix::from_fn(re.nrows(), re.ncols(), |i, j| {
+                    C64::new(re[(i, j)], im[(i, j)])
+                })
+                .symmetric_eigenvalues()
+                .min(),
+            };
+            if !low.is_finite() {
+                return Err(Error::Computation("eigenvalues are not finite".into()));
+            }
+            match out.iter_mut().find(|(s, _)| *s == block.two_s) {
+                Some(entry) => entry.1 = entry.1.min(low),
+                None => out.push((block.two_s, low)),
+            }
+        }
+        Ok(out)
+    }
+
+    /// 2S of the ground state (the lowest spin wins an exact tie).
+    pub fn ground_two_s(&self) -> Result<i32> {
+        let lows = self.lowest_by_spin()?;
+        let mut best = lows[0];
+        for &(s, e) in &lows[1..] {
+            if e < best.1 - 1e-9 * (1.0 + e.abs()) {
+                best = (s, e);
+            }
+        }
+        Ok(best.0)
+    }
+
+    /// Tolerance (cm⁻¹) for treating two eigenvalues as one degenerate level.
+    fn degeneracy_tolerance(&self) -> f64 {
+        1e-7 * (self.b + self.c + 10.0 * self.field.magnitude()).max(1.0)
+    }
+
+    /// Raw grouped levels: (energy, 2S, irrep, dimension, ⟨L²⟩ per group) without parents.
+    fn grouped(&self, want_l: bool) -> Result<Vec<RawLevel>> {
+        if self.field.magnitude() == 0.0 && self.l_squared_shift == 0.0 {
+            // Free ion: separate accidentally degenerate terms (e.g. ²P and ²H of d³) by L.
+            let mut c = self.clone();
+            c.l_squared_shift = 1e-2 * self.b;
+            let mut raw = c.grouped(true)?;
+            for r in &mut raw {
+                let l = l_from_l_squared(r.l_sq.unwrap_or(0.0)) as f64;
+                r.energy -= c.l_squared_shift * l * (l + 1.0);
+            }
+            return Ok(raw);
+        }
+        let v = self.field.complex_matrix();
+        let shell = self.shell();
+        let free_ion = self.field.magnitude() == 0.0;
+        let states: Vec<BlockStates> = shell
+            .blocks(self.fourfold() || free_ion)
+            .iter()
+            .map(|b| self.diagonalise(b, &v))
+            .collect::<Result<_>>()?;
+        let tol = self.degeneracy_tolerance();
+        let mut raw = Vec::new();
+        let mut spins: Vec<i32> = states.iter().map(|s| s.block.two_s).collect();
+        spins.dedup();
+        for two_s in spins {
+            // (energy, block index, column)
+            let mut all: Vec<(f64, usize, usize)> = Vec::new();
+            for (bi, st) in states
+                .iter()
+                .enumerate()
+                .filter(|(_, s)| s.block.two_s == two_s)
+            {
+                for (k, &e) in st.values.iter().enumerate() {
+                    all.push((e, bi, k));
+                }
+            }
+            all.sort_by(|a, b| a.0.total_cmp(&b.0));
+            let mut start = 0;
+            while start < all.len() {
+                let mut end = start + 1;
+                while end < all.len() && all[end].0 - all[end - 1].0 < tol {
+                    end += 1;
+                }
+                let members = &all[start..end];
+                let energy = members.iter().map(|m| m.0).sum::<f64>() / members.len() as f64;
+                let l_sq = if want_l || free_ion {
+                    let mut s = 0.0;
+                    for &(_, bi, k) in members {
+                        let st = &states[bi];
+                        let col = st.vectors.column(k);
+                        let det_vec: Vec<C64> = (st.block.basis.map(|x| C64::new(x, 0.0)) * col)
+                            .iter()
+                            .copied()
+                            .collect();
+                        s += shell.l_squared(st.block, &det_vec);
+                    }
+                    Some(s / members.len() as f64)
+                } else {
+                    None
+                };
+                if free_ion {
+                    let l = l_from_l_squared(l_sq.unwrap_or(0.0));
+                    let ls = L_LETTERS.get(l).copied().unwrap_or('?').to_string();
+                    raw.push(RawLevel {
+                        energy,
+                        two_s,
+                        irrep: ls,
+                        dim: members.len(),
+                        l_sq,
+                    });
+                } else {
+                    let ch = self.characters(&states, members);
+                    match self.group.decompose(&ch) {
+                        Some(parts) => {
+                            for (name, dim) in parts {
+                                raw.push(RawLevel {
+                                    energy,
+                                    two_s,
+                                    irrep: name,
+                                    dim,
+                                    l_sq,
+                                });
+                            }
+                        }
+                        None => raw.push(RawLevel {
+                            energy,
+                            two_s,
+                            irrep: "?".into(),
+                            dim: members.len(),
+                            l_sq,
+                        }),
+                    }
+                }
+                start = end;
+            }
+        }
+        raw.sort_by(|a, b| a.energy.total_cmp(&b.energy).then(b.two_s.cmp(&a.two_s)));
+        Ok(raw)
+    }
+
+    fn characters(&self, states: &[BlockStates], members: &[(f64, usize, usize)]) -> Characters {
+        let mut ch = Characters::default();
+        let mut c4 = C64::new(0.0, 0.0);
+        for &(_, bi, k) in members {
+            let st = &states[bi];
+            ch.e += 1.0;
+            if let Some(r) = st.block.residue {
+                let angle = -std::f64::consts::FRAC_PI_2 * r as f64;
+                c4 += C64::new(angle.cos(), angle.sin());
+                ch.c2z += if r % 2 == 0 { 1.0 } else { -1.0 };
+            }
+            let col = st.vectors.column(k);
+            for (ri, rot) in super::symmetry::Rotation::ALL.iter().enumerate() {
+                if !self.group.needs(*rot) {
+                    continue;
+                }
+                let val = (col.adjoint() * &st.block.rotations[ri] * col)[(0, 0)].re;
+                match rot {
+                    super::symmetry::Rotation::C3Diagonal => ch.c3 += val,
+                    super::symmetry::Rotation::C2Face => ch.c2_face += val,
+                    super::symmetry::Rotation::C2X => ch.c2_x += val,
+                }
+            }
+        }
+        ch.c4z = c4.re;
+        ch
+    }
+
+    /// All spin-free levels, lowest first, labelled and with their free-ion parents.
+    pub fn levels(&self) -> Result<Spectrum> {
+        let raw = self.grouped(false)?;
+        let parents = self.parent_table()?;
+        Ok(assemble(raw, &parents))
+    }
+
+    /// For each (2S, irrep), the parent terms of its levels in order of energy, found at a field
+    /// scaled down to 10⁻⁴ B so that levels of one term stay together. Levels of the same spin and
+    /// symmetry never cross as the field is scaled (non-crossing rule), so the k-th such level at
+    /// full field descends from the k-th at vanishing field. Where two free-ion terms of one spin
+    /// are exactly degenerate (²P and ²H of d³ and d⁷), a small η·L² term orders them by L, so the
+    /// lower of the two correlating levels is given the term of lower L (a convention: the field
+    /// mixes such terms).
+    pub fn parent_table(&self) -> Result<ParentTable> {
+        let mag = self.field.magnitude();
+        let mut small = self.clone();
+        if mag > 0.0 {
+            small.field = self.field.scaled(1e-4 * self.b / mag);
+            small.l_squared_shift = 1e-2 * self.b;
+        }
+        let raw = small.grouped(true)?;
+        let mut table: ParentTable = Vec::new();
+        for r in raw {
+            let l = l_from_l_squared(r.l_sq.unwrap_or(0.0));
+            let term = term_symbol(r.two_s, l);
+            let key = (r.two_s, r.irrep.clone());
+            match table.iter_mut().find(|(k, _)| *k == key) {
+                Some((_, v)) => v.push(term),
+                None => table.push((key, vec![term])),
+            }
+        }
+        Ok(table)
+    }
+}
+
+/// For each (2S, irrep), the parent terms of its levels in order of energy.
+pub type ParentTable = Vec<((i32, String), Vec<String>)>;
+
+/// A grouped level before parents are attached.
+#[derive(Debug, Clone)]
+struct RawLevel {
+    energy: f64,
+    two_s: i32,
+    irrep: String,
+    dim: usize,
+    l_sq: Option<f64>,
+}
+
+fn l_from_l_squared(x: f64) -> usize {
+    (((1.0 + 4.0 * x.max(0.0)).sqrt() - 1.0) / 2.0).round() as usize
+}
+
+fn assemble(raw: Vec<RawLevel>, parents: &ParentTable) -> Spectrum {
+    let ground = raw.first().map(|r| r.energy).unwrap_or(0.0);
+    let mut counters: Vec<((i32, String), usize)> = Vec::new();
+    let levels = raw
+        .into_iter()
+        .map(|r| {
+            let key = (r.two_s, r.irrep.clone());
+            let idx = match counters.iter_mut().find(|(k, _)| *k == key) {
+                Some((_, n)) => {
+                    *n += 1;
+                    *n
+                }
+                None => {
+                    counters.push((key.clone(), 1));
+                    1
+                }
+            };
+            let parent = parents
+                .iter()
+                .find(|(k, _)| *k == key)
+                .and_then(|(_, v)| v.get(idx - 1).cloned())
+                .unwrap_or_else(|| "?".to_string());
+            Level {
+                energy: r.energy - ground,
+                absolute_energy: r.energy,
+                two_s: r.two_s,
+                irrep: r.irrep,
+                degeneracy: r.dim,
+                parent,
+                index: idx,
+            }
+        })
+        .collect();
+    Spectrum { levels }
+}

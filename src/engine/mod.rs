@@ -1,0 +1,18 @@
+//! The d^n ligand-field engine: determinant basis, electron repulsion, ligand field, spin–orbit
+//! coupling, block diagonalisation, symmetry labels, crossover points and energy diagrams.
+//!
+//! The engine does no IO: it takes numbers and returns plain result structs.
+
+pub mod angular;
+pub mod basis;
+pub mod field;
+pub mod geometry;
+pub mod levels;
+pub mod operators;
+pub mod shell;
+pub mod symmetry;
+
+pub use field::LigandField;
+pub use geometry::Geometry;
+pub use levels::{Calculation, Level, Spectrum};
+pub use symmetry::PointGroup;

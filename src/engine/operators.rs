@@ -1,0 +1,154 @@
+//! Many-electron matrices of one- and two-electron operators on lists of determinants.
+
+use super::angular::gaunt;
+use super::basis::{annihilate, create, excite, m_of, two_ms_of, Determinant, SPIN_ORBITALS};
+use nalgebra::DMatrix;
+
+/// An ordered list of determinants with a fast index.
+#[derive(Debug, Clone)]
+pub struct DetList {
+    pub dets: Vec<Determinant>,
+    index: Vec<u32>,
+}
+
+impl DetList {
+    pub fn new(dets: Vec<Determinant>) -> Self {
+        let mut index = vec![u32::MAX; 1 << SPIN_ORBITALS];
+        for (i, &d) in dets.iter().enumerate() {
+            index[d as usize] = i as u32;
+        }
+        DetList { dets, index }
+    }
+
+    pub fn len(&self) -> usize {
+        self.dets.len()
+    }
+
+    pub fn is_empty(&self) -> bool {
+        self.dets.is_empty()
+    }
+
+    /// Position of a determinant in the list.
+    pub fn position(&self, d: Determinant) -> Option<usize> {
+        let i = self.index[d as usize];
+        (i != u32::MAX).then_some(i as usize)
+    }
+}
+
+/// Matrix ⟨to_i| Σ_pq h(p,q) a†_p a_q |from_j⟩ of a one-electron operator given by its
+/// spin-orbital matrix elements `h(p, q)` (real).
+pub fn one_body(from: &DetList, to: &DetList, h: impl Fn(usize, usize) -> f64) -> DMatrix<f64> {
+    let mut m = DMatrix::zeros(to.len(), from.len());
+    for (j, &d) in from.dets.iter().enumerate() {
+        for q in 0..SPIN_ORBITALS {
+            if d & (1 << q) == 0 {
+                continue;
+            }
+            for p in 0..SPIN_ORBITALS {
+                let v = h(p, q);
+                if v == 0.0 {
+                    continue;
+                }
+                if let Some((d2, s)) = excite(d, p, q) {
+                    if let Some(i) = to.position(d2) {
+                        m[(i, j)] += s * v;
+                    }
+                }
+            }
+        }
+    }
+    m
+}
+
+/// Radial Slater integrals F⁰, F², F⁴ of a d shell.
+#[derive(Debug, Clone, Copy)]
+pub struct Slater {
+    pub f0: f64,
+    pub f2: f64,
+    pub f4: f64,
+}
+
+impl Slater {
+    /// Slater integrals from Racah A, B, C: F⁰ = A + 7C/5, F² = 49B + 7C, F⁴ = 63C/5
+    /// (G. Racah, *Phys. Rev.* 62, 438, 1942; with F₂ = F²/49, F₄ = F⁴/441, A = F₀ − 49F₄,
+    /// B = F₂ − 5F₄, C = 35F₄).
+    pub fn from_racah(a: f64, b: f64, c: f64) -> Self {
+        Slater {
+            f0: a + 7.0 * c / 5.0,
+            f2: 49.0 * b + 7.0 * c,
+            f4: 63.0 * c / 5.0,
+        }
+    }
+}
+
+/// Spatial two-electron integral ⟨m1 m2|1/r12|m3 m4⟩ for d electrons:
+/// δ(m1+m2, m3+m4) Σ_k c^k(2m1, 2m3) c^k(2m4, 2m2) F^k (Condon & Shortley 1935, ch. 6).
+pub fn coulomb_integral(m: [i32; 4], f: &Slater) -> f64 {
+    if m[0] + m[1] != m[2] + m[3] {
+        return 0.0;
+    }
+    let [a, b, c, d] = m.map(i64::from);
+    let mut s = 0.0;
+    for (k, fk) in [(0, f.f0), (2, f.f2), (4, f.f4)] {
+        if fk != 0.0 {
+            s += gaunt(2, a, k, 2, c) * gaunt(2, d, k, 2, b) * fk;
+        }
+    }
+    s
+}
+
+/// Matrix of the electron repulsion ½ Σ ⟨pq|rs⟩ a†_p a†_q a_s a_r on a determinant list
+/// (closed under the operator: it conserves M_L and M_S).
+pub fn two_body(list: &DetList, f: &Slater) -> DMatrix<f64> {
+    // Integral table over spatial m's, indexed by (m+2).
+    let mut g = [[[[0.0f64; 5]; 5]; 5]; 5];
+    for (i1, g1) in g.iter_mut().enumerate() {
+        for (i2, g2) in g1.iter_mut().enumerate() {
+            for (i3, g3) in g2.iter_mut().enumerate() {
+                for (i4, g4) in g3.iter_mut().enumerate() {
+                    let m = [i1, i2, i3, i4].map(|i| i as i32 - 2);
+                    *g4 = coulomb_integral(m, f);
+                }
+            }
+        }
+    }
+    let n = list.len();
+    let mut h = DMatrix::zeros(n, n);
+    for (j, &d) in list.dets.iter().enumerate() {
+        for r in 0..SPIN_ORBITALS {
+            let Some((d1, s1)) = annihilate(d, r) else {
+                continue;
+            };
+            for s in 0..SPIN_ORBITALS {
+                let Some((d2, s2)) = annihilate(d1, s) else {
+                    continue;
+                };
+                for q in 0..SPIN_ORBITALS {
+                    if two_ms_of(q) != two_ms_of(s) {
+                        continue;
+                    }
+                    let Some((d3, s3)) = create(d2, q) else {
+                        continue;
+                    };
+                    for p in 0..SPIN_ORBITALS {
+                        if two_ms_of(p) != two_ms_of(r) {
+                            continue;
+                        }
+                        let v = g[(m_of(p) + 2) as usize][(m_of(q) + 2) as usize]
+                            [(m_of(r) + 2) as usize][(m_of(s) + 2) as usize];
+                        if v == 0.0 {
+                            continue;
+                        }
+                        let Some((d4, s4)) = create(d3, p) else {
+                            continue;
+                        };
+                        if let Some(i) = list.position(d4) {
+                            h[(i, j)] += 0.5 * v * s1 * s2 * s3 * s4;
+                        }
+                    }
+                }
+            }
+        }
+    }
+    h
+}

@@ -1,0 +1,236 @@
+//! Per-configuration cache of everything that does not depend on B, C or the field: the
+//! determinant blocks, the spin-adapted bases, and the unit matrices of electron repulsion,
+//! one-electron excitations and rotations projected onto those bases. Built once per d^n on first
+//! use and shared (it is exact, so caching it changes no result).
+
+use super::basis::{all_determinants, m_of, total_ml, total_two_ms, two_ms_of, Determinant};
+use super::operators::{one_body, two_body, DetList, Slater};
+use super::symmetry::{rotation_matrix, Rotation};
+use nalgebra::{Complex, DMatrix, SymmetricEigen};
+use std::sync::OnceLock;
+
+type C64 = Complex<f64>;
+
+/// States of maximal projection M_S = S for one total spin S, in one M_L-mod-4 class (or all).
+#[derive(Debug)]
+pub struct SpinBlock {
+    /// Twice the total spin S.
+    pub two_s: i32,
+    /// M_L mod 4 of every determinant in the block, or None when the block holds all M_L.
+    pub residue: Option<i32>,
+    /// The determinants with M_S = S (and the residue).
+    pub dets: DetList,
+    /// Orthonormal basis of the S-eigenspace inside the block: columns over `dets`.
+    pub basis: DMatrix<f64>,
+    /// Electron repulsion per unit Racah B, projected.
+    pub rep_b: DMatrix<f64>,
+    /// Electron repulsion per unit Racah C, projected.
+    pub rep_c: DMatrix<f64>,
+    /// Spatial excitations Σ_σ a†_{mσ} a_{m′σ}, projected; index (m+2)·5 + (m′+2).
+    pub excitations: Vec<Option<DMatrix<f64>>>,
+    /// Diagonal blocks of the rotations of [`Rotation::ALL`], projected.
+    pub rotations: Vec<DMatrix<C64>>,
+    /// Orbital angular momentum squared L², projected (L² conserves M_L).
+    pub l_squared: DMatrix<f64>,
+}
+
+impl SpinBlock {
+    /// Number of spin-adapted states.
+    pub fn dim(&self) -> usize {
+        self.basis.ncols()
+    }
+}
+
+/// Everything cached for one d^n configuration.
+#[derive(Debug)]
+pub struct Shell {
+    pub n: usize,
+    pub determinants: Vec<Determinant>,
+    with_residues: OnceLock<Vec<SpinBlock>>,
+    without_residues: OnceLock<Vec<SpinBlock>>,
+    l_raise: OnceLock<Vec<(i32, DetList, DMatrix<f64>)>>,
+}
+
+static SHELLS: [OnceLock<Shell>; 11] = [const { OnceLock::new() }; 11];
+
+/// The cached shell of d^n (n ≤ 10; callers validate n).
+pub fn shell(n: usize) -> &'static Shell {
+    SHELLS[n].get_or_init(|| Shell {
+        n,
+        determinants: all_determinants(n),
+        with_residues: OnceLock::new(),
+        without_residues: OnceLock::new(),
+        l_raise: OnceLock::new(),
+    })
+}
+
+/// Possible values of 2S for d^n, lowest first.
+pub fn two_s_values(n: usize) -> Vec<i32> {
+    let max = n.min(10 - n) as i32;
+    ((n % 2) as i32..=max).step_by(2).collect()
+}
+
+impl Shell {
+    /// Spin blocks, split by M_L mod 4 when `fourfold` (fields with a C₄ axis along z).
+    pub fn blocks(&self, fourfold: bool) -> &[SpinBlock] {
+        if fourfold {
+            self.with_residues.get_or_init(|| self.build_blocks(true))
+        } else {
+            self.without_residues
+                .get_or_init(|| self.build_blocks(false))
+        }
+    }
+
+    fn build_blocks(&self, fourfold: bool) -> Vec<SpinBlock> {
+        let mut out = Vec::new();
+        for two_s in two_s_values(self.n) {
+            let residues: Vec<Option<i32>> = if fourfold {
+                (0..4).map(Some).collect()
+            } else {
+                vec![None]
+            };
+            for residue in residues {
+                if let Some(b) = self.build_block(two_s, residue) {
+                    out.push(b);
+                }
+            }
+        }
+        out
+    }
+
+    fn select(&self, two_ms: i32, residue: Option<i32>) -> DetList {
+        DetList::new(
+            self.determinants
+                .iter()
+                .copied()
+                .filter(|&d| total_two_ms(d) == two_ms)
+                .filter(|&d| residue.is_none_or(|r| total_ml(d).rem_euclid(4) == r))
+                .collect(),
+        )
+    }
+
+    fn build_block(&self, two_s: i32, residue: Option<i32>) -> Option<SpinBlock> {
+        let dets = self.select(two_s, residue);
+        if dets.is_empty() {
+            return None;
+        }
+        let upper = self.select(two_s + 2, residue);
+        // S+ = Σ_m a†_{mα} a_{mβ}; states with S = M_S are its kernel.
+        let basis = if upper.is_empty() {
+            DMatrix::identity(dets.len(), dets.len())
+        } else {
+            let raise = one_body(&dets, &upper, |p, q| {
+                if two_ms_of(p) == 1 && two_ms_of(q) == -1 && m_of(p) == m_of(q) {
+                    1.0
+                } else {
+                    0.0
+                }
+            });
+            let k = raise.transpose() * &raise;
+            let eig = SymmetricEigen::new(k);
+            let cols: Vec<_> = (0..dets.len())
+                .filter(|&i| eig.eigenvalues[i].abs() < 1e-8)
+                .map(|i| eig.eigenvectors.column(i).into_owned())
+                .collect();
+            if cols.is_empty() {
+                return None;
+            }
+            DMatrix::from_columns(&cols)
+        };
+        let project = |m: DMatrix<f64>| basis.transpose() * m * &basis;
+        let rep_b = project(two_body(&dets, &Slater::from_racah(0.0, 1.0, 0.0)));
+        let rep_c = project(two_body(&dets, &Slater::from_racah(0.0, 0.0, 1.0)));
+        let mut excitations = Vec::with_capacity(25);
+        for m in -2i32..=2 {
+            for mp in -2i32..=2 {
+                if residue.is_some() && (m - mp).rem_euclid(4) != 0 {
+                    excitations.push(None);
+                    continue;
+                }
+                let e = one_body(&dets, &dets, |p, q| {
+                    if m_of(p) == m && m_of(q) == mp && two_ms_of(p) == two_ms_of(q) {
+                        1.0
+                    } else {
+                        0.0
+                    }
+                });
+                excitations.push(Some(project(e)));
+            }
+        }
+        let cbasis = basis.map(|x| C64::new(x, 0.0));
+        let rotations = Rotation::ALL
+            .iter()
+            .map(|&r| cbasis.adjoint() * rotation_matrix(r, &dets, &dets) * &cbasis)
+            .collect();
+        let l_squared = project(self.l_squared_matrix(&dets));
+        Some(SpinBlock {
+            l_squared,
+            two_s,
+            residue,
+            dets,
+            basis,
+            rep_b,
+            rep_c,
+            excitations,
+            rotations,
+        })
+    }
+
+    /// L² = L₋L₊ + L_z² + L_z over the determinants of one block (same M_S).
+    fn l_squared_matrix(&self, dets: &DetList) -> DMatrix<f64> {
+        let two_ms = total_two_ms(dets.dets[0]);
+        let all = self.select(two_ms, None);
+        let lplus = one_body(dets, &all, |p, q| {
+            let (mp, mq) = (m_of(p), m_of(q));
+            if two_ms_of(p) == two_ms_of(q) && mp == mq + 1 {
+                ((6 - mq * (mq + 1)) as f64).sqrt()
+            } else {
+                0.0
+            }
+        });
+        let mut l2 = lplus.transpose() * lplus;
+        for (i, &d) in dets.dets.iter().enumerate() {
+            let ml = total_ml(d) as f64;
+            l2[(i, i)] += ml * ml + ml;
+        }
+        l2
+    }
+
+    /// ⟨L²⟩ of a state given over the determinants of `block` (any M_L), via
+    /// L² = L₋L₊ + L_z² + L_z.
+    pub fn l_squared(&self, block: &SpinBlock, det_vector: &[C64]) -> f64 {
+        let lists = self.l_raise.get_or_init(|| {
+            two_s_values(self.n)
+                .into_iter()
+                .map(|two_s| {
+                    let list = self.select(two_s, None);
+                    let lplus = one_body(&list, &list, |p, q| {
+                        let (mp, mq) = (m_of(p), m_of(q));
+                        if two_ms_of(p) == two_ms_of(q) && mp == mq + 1 {
+                            ((6 - mq * (mq + 1)) as f64).sqrt()
+                        } else {
+                            0.0
+                        }
+                    });
+                    (two_s, list, lplus)
+                })
+                .collect()
+        });
+        let (_, list, lplus) = lists
+            .iter()
+            .find(|(s, _, _)| *s == block.two_s)
+            .expect("every spin of the shell has an L+ matrix");
+        let mut full = nalgebra::DVector::from_element(list.len(), C64::new(0.0, 0.0));
+        let mut lz = 0.0;
+        for (i, &d) in block.dets.dets.iter().enumerate() {
+            let pos = list
+                .position(d)
+                .expect("block determinants are in the M_S list");
+            full[pos] = det_vector[i];
+            let ml = total_ml(d) as f64;
+            lz += det_vector[i].norm_sqr() * (ml * ml + ml);
+        }
+        let raised = lplus.map(|x| C64::new(x, 0.0)) * full;
+        lz + raised.norm_squared()
+    }
+}

@@ -1,0 +1,313 @@
+//! Point-group symmetry of d^n states: rotations acting on determinants, character tables and the
+//! Mulliken labels computed from characters.
+//!
+//! Every d^n state is gerade, so inversion acts as the identity and the labels of O_h and D_4h
+//! follow from the rotation subgroups O and D_4. T_d is isomorphic to O with S₄ ↔ C₄ and
+//! σ_d ↔ C₂′ acting on gerade functions, so tetrahedral labels are the O labels without "g".
+
+use super::basis::{Determinant, SPIN_ORBITALS};
+use super::field::complex_orbital_form;
+use super::operators::DetList;
+use nalgebra::{Complex, DMatrix, Matrix3};
+
+type C64 = Complex<f64>;
+
+/// The point group used for labels.
+#[derive(Debug, Clone, Copy, PartialEq, Eq, Hash)]
+pub enum PointGroup {
+    /// O_h (labels with g).
+    Oh,
+    /// T_d (labels without g).
+    Td,
+    /// D_4h (labels with g), z the fourfold axis.
+    D4h,
+    /// No symmetry: every level is "A".
+    C1,
+}
+
+/// A rotation used to compute characters: C₃ about [111], C₂ about [110] and C₂ about x.
+#[derive(Debug, Clone, Copy, PartialEq, Eq, Hash)]
+pub enum Rotation {
+    C3Diagonal,
+    C2Face,
+    C2X,
+}
+
+impl Rotation {
+    pub const ALL: [Rotation; 3] = [Rotation::C3Diagonal, Rotation::C2Face, Rotation::C2X];
+
+    /// The proper rotation as a 3×3 matrix acting on coordinates.
+    pub fn matrix(self) -> Matrix3<f64> {
+        match self {
+            // x → y → z → x
+            Rotation::C3Diagonal => Matrix3::new(0.0, 0.0, 1.0, 1.0, 0.0, 0.0, 0.0, 1.0, 0.0),
+            // (x, y, z) → (y, x, −z)
+            Rotation::C2Face => Matrix3::new(0.0, 1.0, 0.0, 1.0, 0.0, 0.0, 0.0, 0.0, -1.0),
+            // (x, y, z) → (x, −y, −z)
+            Rotation::C2X => Matrix3::new(1.0, 0.0, 0.0, 0.0, -1.0, 0.0, 0.0, 0.0, -1.0),
+        }
+    }
+
+    /// Representation on the complex d orbitals: D[m′][m] = ⟨Y_{2m′}| O_R |Y_{2m}⟩ with
+    /// (O_R f)(r) = f(R⁻¹ r), computed from the quadratic forms of the orbitals.
+    pub fn orbital_matrix(self) -> [[C64; 5]; 5] {
+        let r = self.matrix().map(|x| C64::new(x, 0.0));
+        let mut d = [[C64::new(0.0, 0.0); 5]; 5];
+        for m in -2..=2 {
+            let rotated = r * complex_orbital_form(m) * r.transpose();
+            for mp in -2..=2 {
+                let q = complex_orbital_form(mp);
+                d[(mp + 2) as usize][(m + 2) as usize] = q
+                    .iter()
+                    .zip(rotated.iter())
+                    .map(|(a, b)| a.conj() * b)
+                    .sum();
+            }
+        }
+        d
+    }
+}
+
+/// Determinant of a small complex matrix by Gaussian elimination with partial pivoting.
+fn small_det(mut a: Vec<Vec<C64>>) -> C64 {
+    let n = a.len();
+    let mut det = C64::new(1.0, 0.0);
+    for col in 0..n {
+        let piv = (col..n)
+            .max_by(|&i, &j| a[i][col].norm().total_cmp(&a[j][col].norm()))
+            .unwrap_or(col);
+        if a[piv][col].norm() < 1e-300 {
+            return C64::new(0.0, 0.0);
+        }
+        if piv != col {
+            a.swap(piv, col);
+            det = -det;
+        }
+        det *= a[col][col];
+        for row in col + 1..n {
+            let f = a[row][col] / a[col][col];
+            let pivot_row = a[col].clone();
+            for (x, v) in a[row].iter_mut().zip(pivot_row).skip(col) {
+                *x -= f * v;
+            }
+        }
+    }
+    det
+}
+
+/// The many-electron matrix ⟨to|O_R|from⟩ of a spatial rotation (spin untouched): the α and β
+/// electrons transform separately, each set by the minor of the orbital matrix.
+pub fn rotation_matrix(rot: Rotation, from: &DetList, to: &DetList) -> DMatrix<C64> {
+    let d = rot.orbital_matrix();
+    // minors[target][source] over 5-bit subsets with equal population
+    let mut minors = vec![vec![C64::new(0.0, 0.0); 32]; 32];
+    for (src, row) in minors.iter_mut().enumerate() {
+        for (tgt, entry) in row.iter_mut().enumerate() {
+            if (src as u32).count_ones() != (tgt as u32).count_ones() {
+                continue;
+            }
+            let s: Vec<usize> = (0..5).filter(|b| src & (1 << b) != 0).collect();
+            let t: Vec<usize> = (0..5).filter(|b| tgt & (1 << b) != 0).collect();
+            let sub = t
+                .iter()
+                .map(|&i| s.iter().map(|&j| d[i][j]).collect())
+                .collect();
+            *entry = if s.is_empty() {
+                C64::new(1.0, 0.0)
+            } else {
+                small_det(sub)
+            };
+        }
+    }
+    let mut m = DMatrix::from_element(to.len(), from.len(), C64::new(0.0, 0.0));
+    let split = |d: Determinant| ((d & 0x1f) as usize, ((d >> 5) & 0x1f) as usize);
+    debug_assert_eq!(SPIN_ORBITALS, 10);
+    for (j, &df) in from.dets.iter().enumerate() {
+        let (fa, fb) = split(df);
+        for (i, &dt) in to.dets.iter().enumerate() {
+            let (ta, tb) = split(dt);
+            m[(i, j)] = minors[fa][ta] * minors[fb][tb];
+        }
+    }
+    m
+}
+
+/// Classes used for characters: identity, C₄(z), C₂(z), and the three rotations of [`Rotation`].
+#[derive(Debug, Clone, Copy, Default)]
+pub struct Characters {
+    pub e: f64,
+    pub c4z: f64,
+    pub c2z: f64,
+    pub c3: f64,
+    pub c2_face: f64,
+    pub c2_x: f64,
+}
+
+struct Irrep {
+    name: &'static str,
+    dim: usize,
+    chars: &'static [f64],
+}
+
+// O: classes E, 8C3, 6C2' (face diagonals, [110]), 6C4, 3C2 (= C4²).
+const O_SIZES: [f64; 5] = [1.0, 8.0, 6.0, 6.0, 3.0];
+const O_IRREPS: [Irrep; 5] = [
+    Irrep {
+        name: "A1",
+        dim: 1,
+        chars: &[1.0, 1.0, 1.0, 1.0, 1.0],
+    },
+    Irrep {
+        name: "A2",
+        dim: 1,
+        chars: &[1.0, 1.0, -1.0, -1.0, 1.0],
+    },
+    Irrep {
+        name: "E",
+        dim: 2,
+        chars: &[2.0, -1.0, 0.0, 0.0, 2.0],
+    },
+    Irrep {
+        name: "T1",
+        dim: 3,
+        chars: &[3.0, 0.0, -1.0, 1.0, -1.0],
+    },
+    Irrep {
+        name: "T2",
+        dim: 3,
+        chars: &[3.0, 0.0, 1.0, -1.0, -1.0],
+    },
+];
+
+// D4: classes E, 2C4, C2 (= C4²), 2C2' (x, y axes), 2C2'' (diagonals).
+const D4_SIZES: [f64; 5] = [1.0, 2.0, 1.0, 2.0, 2.0];
+const D4_IRREPS: [Irrep; 5] = [
+    Irrep {
+        name: "A1",
+        dim: 1,
+        chars: &[1.0, 1.0, 1.0, 1.0, 1.0],
+    },
+    Irrep {
+        name: "A2",
+        dim: 1,
+        chars: &[1.0, 1.0, 1.0, -1.0, -1.0],
+    },
+    Irrep {
+        name: "B1",
+        dim: 1,
+        chars: &[1.0, -1.0, 1.0, 1.0, -1.0],
+    },
+    Irrep {
+        name: "B2",
+        dim: 1,
+        chars: &[1.0, -1.0, 1.0, -1.0, 1.0],
+    },
+    Irrep {
+        name: "E",
+        dim: 2,
+        chars: &[2.0, 0.0, -2.0, 0.0, 0.0],
+    },
+];
+
+impl PointGroup {
+    /// Rotations whose characters this group needs beyond C₄(z) and C₂(z).
+    pub fn needs(self, r: Rotation) -> bool {
+        match self {
+            PointGroup::Oh | PointGroup::Td => matches!(r, Rotation::C3Diagonal | Rotation::C2Face),
+            PointGroup::D4h => matches!(r, Rotation::C2X | Rotation::C2Face),
+            PointGroup::C1 => false,
+        }
+    }
+
+    /// Suffix for gerade labels.
+    fn suffix(self) -> &'static str {
+        match self {
+            PointGroup::Oh | PointGroup::D4h => "g",
+            _ => "",
+        }
+    }
+
+    /// Decomposes a (possibly reducible) character into irreducible labels with their
+    /// dimensions, e.g. [("T1g", 3)]. Returns None when the character is not a sum of irreps
+    /// (which signals a numerical grouping problem).
+    pub fn decompose(self, ch: &Characters) -> Option<Vec<(String, usize)>> {
+        let (sizes, irreps, chi): (&[f64], &[Irrep], [f64; 5]) = match self {
+            PointGroup::Oh | PointGroup::Td => (
+                &O_SIZES,
+                &O_IRREPS,
+                [ch.e, ch.c3, ch.c2_face, ch.c4z, ch.c2z],
+            ),
+            PointGroup::D4h => (
+                &D4_SIZES,
+                &D4_IRREPS,
+                [ch.e, ch.c4z, ch.c2z, ch.c2_x, ch.c2_face],
+            ),
+            PointGroup::C1 => {
+                let n = ch.e.round();
+                if (ch.e - n).abs() > 1e-6 || n < 1.0 {
+                    return None;
+                }
+                return Some(vec![("A".to_string(), 1); n as usize]);
+            }
+        };
+        let order: f64 = sizes.iter().sum();
+        let mut out = Vec::new();
+        let mut dim_total = 0.0;
+        for irrep in irreps {
+            let n: f64 = sizes
+                .iter()
+                .zip(irrep.chars)
+                .zip(chi.iter())
+                .map(|((s, a), b)| s * a * b)
+                .sum::<f64>()
+                / order;
+            let k = n.round();
+            if (n - k).abs() > 1e-4 || k < 0.0 {
+                return None;
+            }
+            for _ in 0..k as usize {
+                out.push((format!("{}{}", irrep.name, self.suffix()), irrep.dim));
+                dim_total += irrep.dim as f64;
+            }
+        }
+        ((dim_total - ch.e).abs() < 1e-6 && !out.is_empty()).then_some(out)
+    }
+}
+
+#[cfg(test)]
+mod tests {
+    use super::*;
+    use approx::assert_abs_diff_eq;
+
+    #[test]
+    fn orbital_rotation_is_unitary_and_has_right_trace() {
+        // Character of the d (l = 2) representation under a rotation by α is
+        // sin(5α/2)/sin(α/2): −1 for C3 (α = 120°) and +1 for C2 (common practice).
+        for (rot, expected) in [
+            (Rotation::C3Diagonal, -1.0),
+            (Rotation::C2Face, 1.0),
+            (Rotation::C2X, 1.0),
+        ] {
+            let d = rot.orbital_matrix();
+            let tr: C64 = (0..5).map(|i| d[i][i]).sum();
+            assert_abs_diff_eq!(tr.re, expected, epsilon = 1e-12);
+            assert_abs_diff_eq!(tr.im, 0.0, epsilon = 1e-12);
+        }
+    }
+
+    #[test]
+    fn d_orbitals_split_into_eg_and_t2g() {
+        // The five d orbitals span E_g + T_2g in O_h (common practice).
+        let ch = Characters {
+            e: 5.0,
+            c4z: -1.0,
+            c2z: 1.0,
+            c3: -1.0,
+            c2_face: 1.0,
+            c2_x: 1.0,
+        };
+        let parts = PointGroup::Oh.decompose(&ch).unwrap();
+        let names: Vec<_> = parts.iter().map(|p| p.0.as_str()).collect();
+        assert_eq!(names, ["Eg", "T2g"]);
+    }
+}

@@ -1,0 +1,124 @@
+//! Typed errors of the library. Every message says what is wrong and what is accepted, on one line.
+
+use thiserror::Error;
+
+/// Everything that can go wrong in spinstate's library code.
+#[derive(Debug, Error, Clone, PartialEq)]
+pub enum Error {
+    /// A value given by the user is outside what the model accepts.
+    #[error("{name} = {value} is not accepted: {accepted}")]
+    InvalidParameter {
+        name: String,
+        value: String,
+        accepted: String,
+    },
+    /// A name (metal, ligand, geometry, element…) is not known.
+    #[error("unknown {kind} '{name}'{}", suggestion_text(.suggestions))]
+    Unknown {
+        kind: String,
+        name: String,
+        suggestions: Vec<String>,
+    },
+    /// Malformed input text (a number, a formula, a CSV cell).
+    #[error("{0}")]
+    Parse(String),
+    /// A data table could not be read or fails its checks.
+    #[error("data table {table}: {message}")]
+    Data { table: String, message: String },
+    /// A numerical procedure did not finish (no convergence, singular matrix…).
+    #[error("computation did not finish: {0}")]
+    Computation(String),
+}
+
+fn suggestion_text(s: &[String]) -> String {
+    if s.is_empty() {
+        String::new()
+    } else {
+        format!("; did you mean {}?", s.join(", "))
+    }
+}
+
+impl Error {
+    /// Shorthand for [`Error::InvalidParameter`].
+    pub fn invalid(
+        name: impl Into<String>,
+        value: impl std::fmt::Display,
+        accepted: impl Into<String>,
+    ) -> Self {
+        Error::InvalidParameter {
+            name: name.into(),
+            value: value.to_string(),
+            accepted: accepted.into(),
+        }
+    }
+
+    /// Process exit code for this error: 1 when a computation could not finish, 2 for bad input.
+    pub fn exit_code(&self) -> u8 {
+        match self {
+            Error::Computation(_) => 1,
+            _ => 2,
+        }
+    }
+}
+
+/// Result with the library's error type.
+pub type Result<T> = std::result::Result<T, Error>;
+
+/// Rejects NaN and infinities with a one-line message naming the parameter.
+pub fn require_finite(name: &str, value: f64) -> Result<f64> {
+    if value.is_finite() {
+        Ok(value)
+    } else {
+        Err(Error::invalid(name, value, "a finite number"))
+    }
+}
+
+/// The known names closest to `name` (edit distance, case-insensitive), at most three.
+pub fn closest_names<'a>(name: &str, known: impl IntoIterator<Item = &'a str>) -> Vec<String> {
+    let target = name.to_lowercase();
+    let mut scored: Vec<(usize, String)> = known
+        .into_iter()
+        .map(|k| (edit_distance(&target, &k.to_lowercase()), k.to_string()))
+        .collect();
+    scored.sort();
+    scored.dedup_by(|a, b| a.1 == b.1);
+    let limit = (target.chars().count() / 2).max(2);
+    scored
+        .into_iter()
+        .filter(|(d, _)| *d <= limit)
+        .take(3)
+        .map(|(_, k)| k)
+        .collect()
+}
+
+fn edit_distance(a: &str, b: &str) -> usize {
+    let a: Vec<char> = a.chars().collect();
+    let b: Vec<char> = b.chars().collect();
+    let mut prev: Vec<usize> = (0..=b.len()).collect();
+    for (i, ca) in a.iter().enumerate() {
+        let mut cur = vec![i + 1; b.len() + 1];
+        for (j, cb) in b.iter().enumerate() {
+            let cost = usize::from(ca != cb);
+            cur[j + 1] = (prev[j] + cost).min(prev[j + 1] + 1).min(cur[j] + 1);
+        }
+        prev = cur;
+    }
+    prev[b.len()]
+}
+
+#[cfg(test)]
+mod tests {
+    use super::*;
+
+    #[test]
+    fn suggestions_find_near_names() {
+        let s = closest_names("bpyy", ["bpy", "phen", "py", "en"]);
+        assert_eq!(s[0], "bpy");
+    }
+
+    #[test]
+    fn exit_codes() {
+        assert_eq!(Error::Computation("x".into()).exit_code(), 1);
+        assert_eq!(Error::invalid("dn", 11, "0..=10").exit_code(), 2);
+    }
+}

@@ -1,0 +1,96 @@
+//! Report of `spinstate levels`: every level of one calculation.
+
+use super::{fmt_num, new_table};
+use serde::Serialize;
+
+/// One level as reported (energies in cm⁻¹, or in units of B when the input was given as ratios).
+#[derive(Debug, Clone, Serialize)]
+pub struct LevelRow {
+    /// Energy above the ground level (cm⁻¹, or units of B in ratio mode).
+    pub energy: f64,
+    /// Spin multiplicity 2S+1 (from ⟨S²⟩).
+    pub multiplicity: i32,
+    /// Total spin S.
+    pub spin: f64,
+    /// Mulliken label with multiplicity, e.g. "4T1g"; for a free ion the term symbol.
+    pub label: String,
+    /// Orbital degeneracy of a spin-free level; with spin–orbit coupling, the number of states.
+    pub degeneracy: usize,
+    /// Free-ion parent term (e.g. "4F").
+    pub parent: String,
+    /// Whether the transition from the ground level conserves spin.
+    pub spin_allowed: bool,
+}
+
+/// The whole `levels` report.
+#[derive(Debug, Clone, Serialize)]
+pub struct LevelsReport {
+    pub dn: usize,
+    pub geometry: String,
+    /// Point group whose labels are used (Oh, Td, D4h).
+    pub point_group: String,
+    /// "cm-1" or "B" (energies in units of Racah B).
+    pub energy_unit: String,
+    pub b: f64,
+    pub c: f64,
+    pub dq: f64,
+    /// Δ = 10Dq.
+    pub delta: f64,
+    pub ds: f64,
+    pub dt: f64,
+    /// One-electron spin–orbit constant ζ (0 when spin–orbit coupling is off).
+    pub zeta: f64,
+    pub c_over_b: f64,
+    pub delta_over_b: f64,
+    pub ground: String,
+    pub levels: Vec<LevelRow>,
+}
+
+impl LevelsReport {
+    /// Human table.
+    pub fn to_table(&self) -> String {
+        let unit = if self.energy_unit == "B" {
+            "E/B"
+        } else {
+            "E (cm⁻¹)"
+        };
+        let decimals = if self.energy_unit == "B" { 3 } else { 1 };
+        let mut t = new_table([
+            unit,
+            "2S+1",
+            "label",
+            "degeneracy",
+            "parent",
+            "spin-allowed",
+        ]);
+        for l in &self.levels {
+            t.add_row(vec![
+                fmt_num(l.energy, decimals),
+                l.multiplicity.to_string(),
+                l.label.clone(),
+                l.degeneracy.to_string(),
+                l.parent.clone(),
+                if l.spin_allowed { "yes" } else { "no" }.to_string(),
+            ]);
+        }
+        let zeta = if self.zeta != 0.0 {
+            format!(", ζ = {}", fmt_num(self.zeta, 1))
+        } else {
+            String::new()
+        };
+        format!(
+            "d{} {} ({}): B = {}, C = {} (C/B = {}), Δ = 10Dq = {} (Δ/B = {}){}\nground level: {}\n{}\n",
+            self.dn,
+            self.geometry,
+            self.point_group,
+            fmt_num(self.b, 1),
+            fmt_num(self.c, 1),
+            fmt_num(self.c_over_b, 3),
+            fmt_num(self.delta, 1),
+            fmt_num(self.delta_over_b, 3),
+            zeta,
+            self.ground,
+            t
+        )
+    }
+}

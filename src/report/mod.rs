@@ -1,0 +1,38 @@
+//! Serialisable report types and their renderers (table, JSON, CSV, SVG).
+//!
+//! Reports are plain data built from engine results; rendering never computes science. Human
+//! tables round; JSON and CSV keep full precision.
+
+pub mod levels;
+
+use comfy_table::{presets::UTF8_FULL_CONDENSED, ContentArrangement, Table};
+use serde::Serialize;
+
+/// Pretty JSON of a report (top-level object), with a trailing newline.
+pub fn to_json<T: Serialize>(report: &T) -> String {
+    let mut s = serde_json::to_string_pretty(report).expect("reports serialise to JSON");
+    s.push('\n');
+    s
+}
+
+/// A table with the project's style and the given header.
+pub fn new_table<I, S>(header: I) -> Table
+where
+    I: IntoIterator<Item = S>,
+    S: Into<comfy_table::Cell>,
+{
+    let mut t = Table::new();
+    t.load_style(UTF8_FULL_CONDENSED)
+        .set_content_arrangement(ContentArrangement::Disabled)
+        .set_header(header);
+    t
+}
+
+/// A number rounded for a human table.
+pub fn fmt_num(x: f64, decimals: usize) -> String {
+    if x.is_finite() {
+        format!("{x:.decimals$}")
+    } else {
+        "—".to_string()
+    }
+}
