@@ -1,6 +1,8 @@
 //! Command-line layer: parse arguments, call the library, render. No science here.
 
 pub mod common;
+pub mod crossover;
+pub mod diagram;
 pub mod levels;
 
 use clap::{Parser, Subcommand};
@@ -22,6 +24,10 @@ pub struct Cli {
 pub enum Command {
     /// All d^n levels for given B, C and ligand field, labelled and sorted by energy.
     Levels(levels::Args),
+    /// Tanabe–Sugano style diagram: E/B of every level against Δ/B (table, CSV, SVG).
+    Diagram(diagram::Args),
+    /// Δ/B at which the ground-state spin changes, for one d^n or every d^n of a geometry.
+    Crossover(crossover::Args),
 }
 
 /// A failure with its exit code (1: computation did not finish, 2: bad usage or input).
@@ -71,5 +77,7 @@ impl Output {
 pub fn run(cli: Cli) -> Result<Output, Failure> {
     match cli.command {
         Command::Levels(a) => levels::run(&a),
+        Command::Diagram(a) => diagram::run(&a),
+        Command::Crossover(a) => crossover::run(&a),
     }
 }
