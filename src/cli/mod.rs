@@ -4,6 +4,7 @@ pub mod common;
 pub mod crossover;
 pub mod diagram;
 pub mod levels;
+pub mod magnetism;
 
 use clap::{Parser, Subcommand};
 use std::path::PathBuf;
@@ -28,6 +29,8 @@ pub enum Command {
     Diagram(diagram::Args),
     /// Δ/B at which the ground-state spin changes, for one d^n or every d^n of a geometry.
     Crossover(crossover::Args),
+    /// χ(T), χT and μ_eff from the full ligand field with spin–orbit coupling (van Vleck).
+    Magnetism(magnetism::Args),
 }
 
 /// A failure with its exit code (1: computation did not finish, 2: bad usage or input).
@@ -79,5 +82,6 @@ pub fn run(cli: Cli) -> Result<Output, Failure> {
         Command::Levels(a) => levels::run(&a),
         Command::Diagram(a) => diagram::run(&a),
         Command::Crossover(a) => crossover::run(&a),
+        Command::Magnetism(a) => magnetism::run(&a),
     }
 }
