@@ -2,6 +2,8 @@
 
 pub mod engine;
 pub mod error;
+pub mod formula;
 pub mod report;
+pub mod units;
 
 pub use error::{Error, Result};
