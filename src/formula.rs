@@ -49,6 +49,17 @@ impl Formula {
         Parser::new(text, Some(lookup)).run()
     }
 
+    /// A formula with no atoms and no charge (e.g. the composition of a bond correction).
+    pub fn empty() -> Formula {
+        Formula {
+            text: String::new(),
+            elements: BTreeMap::new(),
+            free_elements: BTreeMap::new(),
+            groups: Vec::new(),
+            charge: 0,
+        }
+    }
+
     /// The text as given.
     pub fn text(&self) -> &str {
         &self.text

@@ -4,6 +4,7 @@ pub mod engine;
 pub mod error;
 pub mod formula;
 pub mod report;
+pub mod tables;
 pub mod units;
 
 pub use error::{Error, Result};
