@@ -101,7 +101,8 @@ impl Formula {
     /// The composition in Hill order (C, H, then alphabetical; alphabetical without carbon),
     /// with the charge, e.g. "C5H5N" or "Fe+2".
     pub fn hill(&self) -> String {
-        let mut symbols: Vec<(Element, f64)> = self.elements.iter().map(|(e, n)| (*e, *n)).collect();
+        let mut symbols: Vec<(Element, f64)> =
+            self.elements.iter().map(|(e, n)| (*e, *n)).collect();
         let has_carbon = self.elements.contains_key(&Element::C);
         symbols.sort_by(|(a, _), (b, _)| {
             let rank = |e: &Element| match (has_carbon, e) {
@@ -406,7 +407,10 @@ impl<'a> Parser<'a> {
                         if !SEPARATORS.contains(&c) && !c.is_whitespace() && !is_sign(c) {
                             return Err(self.error_at(
                                 self.pos,
-                                format!("unexpected '{c}' inside '{o}' opened at character {}", at + 1),
+                                format!(
+                                    "unexpected '{c}' inside '{o}' opened at character {}",
+                                    at + 1
+                                ),
                             ));
                         }
                         return Err(self.error_at(at, format!("unclosed '{o}'")));
@@ -555,7 +559,7 @@ impl<'a> Parser<'a> {
         }
         let digits_start = self.pos;
         let mut magnitude: Option<u64> = None;
-        let mut read_digits = |p: &mut Self| {
+        let read_digits = |p: &mut Self| {
             let mut v: Option<u64> = None;
             while let Some(c) = p.peek() {
                 let d = if c.is_ascii_digit() {
@@ -564,7 +568,11 @@ impl<'a> Parser<'a> {
                     superscript_digit(c)
                 };
                 let Some(d) = d else { break };
-                v = Some(v.unwrap_or(0).saturating_mul(10).saturating_add(u64::from(d)));
+                v = Some(
+                    v.unwrap_or(0)
+                        .saturating_mul(10)
+                        .saturating_add(u64::from(d)),
+                );
                 p.pos += 1;
             }
             v
@@ -687,7 +695,11 @@ mod tests {
     // K4[Fe(CN)6]·3H2O 422.39.
     #[test]
     fn molar_masses() {
-        assert_relative_eq!(Formula::parse("H2O").unwrap().molar_mass(), 18.015, epsilon = 2e-3);
+        assert_relative_eq!(
+            Formula::parse("H2O").unwrap().molar_mass(),
+            18.015,
+            epsilon = 2e-3
+        );
         assert_relative_eq!(
             Formula::parse("CuSO4·5H2O").unwrap().molar_mass(),
             249.68,
@@ -714,19 +726,34 @@ mod tests {
     #[test]
     fn errors_point_at_the_character() {
         let e = err("Fe(CN6");
-        assert!(e.contains("unclosed '('") && e.contains("character 3"), "{e}");
+        assert!(
+            e.contains("unclosed '('") && e.contains("character 3"),
+            "{e}"
+        );
         let e = err("K4[Fe(CN)6)");
-        assert!(e.contains("')' does not match '['") && e.contains("character 11"), "{e}");
+        assert!(
+            e.contains("')' does not match '['") && e.contains("character 11"),
+            "{e}"
+        );
         let e = err("FeXx3");
-        assert!(e.contains("unknown element 'Xx'") && e.contains("character 3"), "{e}");
+        assert!(
+            e.contains("unknown element 'Xx'") && e.contains("character 3"),
+            "{e}"
+        );
         let e = err("CuSO4·");
         assert!(e.contains("nothing follows"), "{e}");
         let e = err("H2O)");
-        assert!(e.contains("unmatched ')'") && e.contains("character 4"), "{e}");
+        assert!(
+            e.contains("unmatched ')'") && e.contains("character 4"),
+            "{e}"
+        );
         let e = err("Fe0");
         assert!(e.contains("count of 0"), "{e}");
         let e = err("SO42-");
-        assert!(e.contains("ambiguous") && e.contains("SO4^2-") && e.contains("character 3"), "{e}");
+        assert!(
+            e.contains("ambiguous") && e.contains("SO4^2-") && e.contains("character 3"),
+            "{e}"
+        );
         let e = err("[Fe(CN)6]42-");
         assert!(e.contains("implausible charge 42-"), "{e}");
         let e = err("py");
@@ -738,12 +765,18 @@ mod tests {
         let e = err("{py}4");
         assert!(e.contains("needs a table"), "{e}");
         let e = err("Fe%");
-        assert!(e.contains("unexpected '%'") && e.contains("character 3"), "{e}");
+        assert!(
+            e.contains("unexpected '%'") && e.contains("character 3"),
+            "{e}"
+        );
         let e = err("5");
         assert!(e.contains("nothing to multiply"), "{e}");
         assert!(err("").contains("empty formula"));
         let e = err("Fe2+ Cl");
-        assert!(e.contains("unexpected 'C'") && e.contains("character 6"), "{e}");
+        assert!(
+            e.contains("unexpected 'C'") && e.contains("character 6"),
+            "{e}"
+        );
         let e = err("[Fe(H2O)6]+-");
         assert!(e.contains("mixed"), "{e}");
     }
@@ -761,8 +794,13 @@ mod tests {
         // Atoms inside braces are not "free".
         assert_eq!(f.free_elements().get(&Element::C), Some(&2.0));
         assert_eq!(f.free_elements().get(&Element::N), Some(&2.0));
-        let e = Formula::parse_with("Fe{pyy}2", &lookup).unwrap_err().to_string();
-        assert!(e.contains("unknown name '{pyy}'") && e.contains("did you mean py"), "{e}");
+        let e = Formula::parse_with("Fe{pyy}2", &lookup)
+            .unwrap_err()
+            .to_string();
+        assert!(
+            e.contains("unknown name '{pyy}'") && e.contains("did you mean py"),
+            "{e}"
+        );
         assert!(e.contains("character 3"), "{e}");
         let f = Formula::parse_with("2{py}·{py}", &lookup).unwrap();
         assert_eq!(f.groups(), &[("py".to_string(), 3.0)]);

@@ -3,6 +3,7 @@
 pub mod engine;
 pub mod error;
 pub mod formula;
+pub mod magnetism;
 pub mod report;
 pub mod tables;
 pub mod units;

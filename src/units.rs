@@ -301,14 +301,26 @@ mod tests {
     #[test]
     fn spin_only_chi_t_matches_n_n_plus_2_over_8() {
         assert_relative_eq!(curie_constant_cgs(), 0.125049, epsilon = 2e-6);
-        for (n, chi_t) in [(1.0, 0.375), (2.0, 1.0), (3.0, 1.875), (4.0, 3.0), (5.0, 4.375)] {
+        for (n, chi_t) in [
+            (1.0, 0.375),
+            (2.0, 1.0),
+            (3.0, 1.875),
+            (4.0, 3.0),
+            (5.0, 4.375),
+        ] {
             assert_relative_eq!(spin_only_chi_t_cgs(n), chi_t, max_relative = 5e-4);
             // μ from the spin-only χT gives back √(n(n+2)).
             let mu = mu_eff_from_chi_t(spin_only_chi_t_cgs(n), SusceptibilityUnits::Cgs).unwrap();
             assert_relative_eq!(mu, spin_only_moment(n), max_relative = 1e-12);
             assert_relative_eq!(unpaired_from_moment(mu), n, max_relative = 1e-12);
         }
-        for (n, mu) in [(1.0, 1.732), (2.0, 2.828), (3.0, 3.873), (4.0, 4.899), (5.0, 5.916)] {
+        for (n, mu) in [
+            (1.0, 1.732),
+            (2.0, 2.828),
+            (3.0, 3.873),
+            (4.0, 4.899),
+            (5.0, 5.916),
+        ] {
             assert_relative_eq!(spin_only_moment(n), mu, epsilon = 5e-4);
         }
     }
@@ -346,7 +358,11 @@ mod tests {
     #[test]
     fn energy_conversions() {
         assert_relative_eq!(cm1_to_ev(1.0), 1.23984e-4, max_relative = 1e-5);
-        assert_relative_eq!(cm1_to_kj_per_mol(1.0) * 1000.0, 11.9627, max_relative = 1e-5);
+        assert_relative_eq!(
+            cm1_to_kj_per_mol(1.0) * 1000.0,
+            11.9627,
+            max_relative = 1e-5
+        );
         assert_relative_eq!(kj_per_mol_to_cm1(1.0), 83.5935, max_relative = 1e-5);
         assert_relative_eq!(cm1_to_kelvin(1.0), 1.438777, max_relative = 1e-6);
         assert_relative_eq!(cm1_nm(20_000.0).unwrap(), 500.0);
@@ -363,8 +379,14 @@ mod tests {
 
     #[test]
     fn unit_names_parse() {
-        assert_eq!("SI".parse::<SusceptibilityUnits>().unwrap(), SusceptibilityUnits::Si);
-        assert_eq!("cgs".parse::<SusceptibilityUnits>().unwrap(), SusceptibilityUnits::Cgs);
+        assert_eq!(
+            "SI".parse::<SusceptibilityUnits>().unwrap(),
+            SusceptibilityUnits::Si
+        );
+        assert_eq!(
+            "cgs".parse::<SusceptibilityUnits>().unwrap(),
+            SusceptibilityUnits::Cgs
+        );
         assert!("mks".parse::<SusceptibilityUnits>().is_err());
     }
 

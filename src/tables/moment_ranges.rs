@@ -89,8 +89,9 @@ impl MomentRangeTable {
             let row = i + 2;
             let record = record.map_err(|e| data_err(format!("row {row}: {e}")))?;
             let cell = |col: usize| record.get(col).unwrap_or("").to_string();
-            let at =
-                |col: usize, msg: String| data_err(format!("row {row}, column {}: {msg}", HEADER[col]));
+            let at = |col: usize, msg: String| {
+                data_err(format!("row {row}, column {}: {msg}", HEADER[col]))
+            };
             let number = |col: usize| -> Result<f64> {
                 cell(col)
                     .parse::<f64>()
@@ -114,7 +115,10 @@ impl MomentRangeTable {
                 .ok_or_else(|| at(2, format!("'{}' is not in 1..=6", cell(2))))?;
             let ground_term = cell(3);
             if !ground_term.starts_with(&multiplicity.to_string()) {
-                return Err(at(3, format!("'{ground_term}' does not start with the multiplicity {multiplicity}")));
+                return Err(at(
+                    3,
+                    format!("'{ground_term}' does not start with the multiplicity {multiplicity}"),
+                ));
             }
             let mu_min = number(4)?;
             let mu_max = number(5)?;
@@ -129,7 +133,10 @@ impl MomentRangeTable {
                 .iter()
                 .any(|r| r.dn == dn && r.geometry == geometry && r.multiplicity == multiplicity)
             {
-                return Err(at(0, format!("duplicate row for d{dn} {geometry} 2S+1 = {multiplicity}")));
+                return Err(at(
+                    0,
+                    format!("duplicate row for d{dn} {geometry} 2S+1 = {multiplicity}"),
+                ));
             }
             rows.push(MomentRange {
                 dn,
@@ -178,11 +185,14 @@ mod tests {
     #[test]
     fn bad_rows_are_reported() {
         let head = "dn,geometry,multiplicity,ground_term,mu_min_bm,mu_max_bm,examples,source\n";
-        let e = MomentRangeTable::from_csv(&format!("{head}11,oct,3,3A2g,2.9,3.3,,x\n")).unwrap_err();
+        let e =
+            MomentRangeTable::from_csv(&format!("{head}11,oct,3,3A2g,2.9,3.3,,x\n")).unwrap_err();
         assert!(e.to_string().contains("row 2, column dn"), "{e}");
-        let e = MomentRangeTable::from_csv(&format!("{head}8,oct,3,3A2g,3.3,2.9,,x\n")).unwrap_err();
+        let e =
+            MomentRangeTable::from_csv(&format!("{head}8,oct,3,3A2g,3.3,2.9,,x\n")).unwrap_err();
         assert!(e.to_string().contains("below"), "{e}");
-        let e = MomentRangeTable::from_csv(&format!("{head}8,hex,3,3A2g,2.9,3.3,,x\n")).unwrap_err();
+        let e =
+            MomentRangeTable::from_csv(&format!("{head}8,hex,3,3A2g,2.9,3.3,,x\n")).unwrap_err();
         assert!(e.to_string().contains("accepted: oct"), "{e}");
         let e = MomentRangeTable::from_csv(&format!("{head}8,oct,3,3A2g,2.9,3.3,,\n")).unwrap_err();
         assert!(e.to_string().contains("source"), "{e}");

@@ -133,11 +133,16 @@ impl PascalTable {
             let row = i + 2;
             let record = record.map_err(|e| data_err(format!("row {row}: {e}")))?;
             let cell = |col: usize| record.get(col).unwrap_or("").to_string();
-            let at = |col: usize, msg: String| data_err(format!("row {row}, column {}: {msg}", HEADER[col]));
+            let at = |col: usize, msg: String| {
+                data_err(format!("row {row}, column {}: {msg}", HEADER[col]))
+            };
             let kind: PascalKind = cell(0).parse().map_err(|m| at(0, m))?;
             let name = cell(1);
             if name.is_empty() || name.contains('{') || name.contains('}') {
-                return Err(at(1, format!("'{name}' must be non-empty and without braces")));
+                return Err(at(
+                    1,
+                    format!("'{name}' must be non-empty and without braces"),
+                ));
             }
             if entries.iter().any(|e| e.name == name) {
                 return Err(at(1, format!("duplicate name '{name}'")));
@@ -149,15 +154,23 @@ impl PascalTable {
                     return Err(at(2, "must be empty for a constitutive correction".into()))
                 }
                 (_, true) => return Err(at(2, "composition is required".into())),
-                (_, false) => Some(Formula::parse(&formula_text).map_err(|e| at(2, e.to_string()))?),
+                (_, false) => {
+                    Some(Formula::parse(&formula_text).map_err(|e| at(2, e.to_string()))?)
+                }
             };
             if kind == PascalKind::Atom {
                 let f = composition.as_ref().expect("checked above");
                 if f.elements().len() != 1 || f.charge() != 0 {
-                    return Err(at(2, format!("an atom row holds one element, found '{formula_text}'")));
+                    return Err(at(
+                        2,
+                        format!("an atom row holds one element, found '{formula_text}'"),
+                    ));
                 }
                 if element_symbol_name(&name).is_some_and(|e| !f.elements().contains_key(&e)) {
-                    return Err(at(2, format!("'{formula_text}' does not match the atom '{name}'")));
+                    return Err(at(
+                        2,
+                        format!("'{formula_text}' does not match the atom '{name}'"),
+                    ));
                 }
             }
             let raw: f64 = cell(3)
@@ -171,7 +184,10 @@ impl PascalTable {
                 PascalKind::Cation | PascalKind::Anion | PascalKind::Ligand | PascalKind::Solvent
             ) && raw >= 0.0
             {
-                return Err(at(3, format!("{raw}: a whole ion or molecule is diamagnetic (< 0)")));
+                return Err(at(
+                    3,
+                    format!("{raw}: a whole ion or molecule is diamagnetic (< 0)"),
+                ));
             }
             let source = cell(4);
             if source.is_empty() {
@@ -287,14 +303,21 @@ mod tests {
     fn bad_rows_are_reported_with_row_and_column() {
         let head = "kind,name,formula,value_1e-6_cm3_per_mol,source\n";
         let e = PascalTable::from_csv(&format!("{head}atom,H,H,abc,src\n")).unwrap_err();
-        assert!(e.to_string().contains("row 2, column value_1e-6_cm3_per_mol"), "{e}");
+        assert!(
+            e.to_string()
+                .contains("row 2, column value_1e-6_cm3_per_mol"),
+            "{e}"
+        );
         let e = PascalTable::from_csv(&format!("{head}ligand,py,C5H5N,-49,\n")).unwrap_err();
         assert!(e.to_string().contains("needs a source"), "{e}");
         let e = PascalTable::from_csv(&format!("{head}ligand,py,C5H5N,49,x\n")).unwrap_err();
         assert!(e.to_string().contains("diamagnetic"), "{e}");
         let e = PascalTable::from_csv(&format!("{head}atom,H,H,-2.93,x\natom,H,H,-2.93,x\n"))
             .unwrap_err();
-        assert!(e.to_string().contains("row 3") && e.to_string().contains("duplicate"), "{e}");
+        assert!(
+            e.to_string().contains("row 3") && e.to_string().contains("duplicate"),
+            "{e}"
+        );
         let e = PascalTable::from_csv(&format!("{head}atom,N,O,-5,x\n")).unwrap_err();
         assert!(e.to_string().contains("does not match"), "{e}");
         let e = PascalTable::from_csv(&format!("{head}ligand,py,C5H5Q,-49,x\n")).unwrap_err();
