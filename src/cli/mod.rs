@@ -1,7 +1,10 @@
 //! Command-line layer: parse arguments, call the library, render. No science here.
 
 pub mod common;
+pub mod evans;
 pub mod levels;
+pub mod magnetism;
+pub mod moment;
 
 use clap::{Parser, Subcommand};
 use std::path::PathBuf;
@@ -22,6 +25,10 @@ pub struct Cli {
 pub enum Command {
     /// All d^n levels for given B, C and ligand field, labelled and sorted by energy.
     Levels(levels::Args),
+    /// Evans-method NMR shift → χ_M, χ_M·T, μ_eff and unpaired electrons, with uncertainties.
+    Evans(evans::Args),
+    /// Measured χ_M, χ_M·T, μ_eff or magnetometer reading → the same quantities.
+    Moment(moment::Args),
 }
 
 /// A failure with its exit code (1: computation did not finish, 2: bad usage or input).
@@ -71,5 +78,7 @@ impl Output {
 pub fn run(cli: Cli) -> Result<Output, Failure> {
     match cli.command {
         Command::Levels(a) => levels::run(&a),
+        Command::Evans(a) => evans::run(&a, cli.data.as_deref()),
+        Command::Moment(a) => moment::run(&a, cli.data.as_deref()),
     }
 }

@@ -265,7 +265,7 @@ pub fn expectations(
             (Orbital::SecondOrder { alpha }, Some(l), Some(dq)) => {
                 Some(spin_only * (1.0 - alpha * l / (10.0 * dq)))
             }
-            (Orbital::SecondOrder { alpha }, _, _) if alpha == 0.0 => Some(spin_only),
+            (Orbital::SecondOrder { alpha: 0.0 }, _, _) => Some(spin_only),
             _ => None,
         };
         let mut notes = Vec::new();
@@ -331,12 +331,12 @@ pub fn compare(measured: Measured, states: Vec<StateExpectation>) -> Comparison 
         .map(|(i, _)| i)
         .collect();
     let describe = |s: &StateExpectation| {
-        format!(
-            "{} (S = {}, {})",
-            s.state,
-            spin_text(s.two_s),
-            s.ground_term
-        )
+        let name = match s.state.as_str() {
+            "high spin" => "high-spin state",
+            "low spin" => "low-spin state",
+            other => other,
+        };
+        format!("{name} (S = {}, {})", spin_text(s.two_s), s.ground_term)
     };
     let mu = format!("{:.2} ± {:.2} μB", measured.value, measured.err);
     let check =
@@ -499,7 +499,7 @@ mod tests {
         let e = || expectations(&spec(6, Geometry::Octahedral, None, None), &ranges()).unwrap();
         let c = compare(Measured::new("mu", 5.3, 0.1).unwrap(), e());
         assert_eq!(c.verdict, Verdict::Supports(0));
-        assert!(c.message.contains("high spin"));
+        assert!(c.message.contains("high-spin state"));
         let c = compare(Measured::new("mu", 0.2, 0.1).unwrap(), e());
         assert_eq!(c.verdict, Verdict::Supports(1));
         let c = compare(Measured::new("mu", 3.5, 0.1).unwrap(), e());

@@ -4,6 +4,7 @@
 //! tables round; JSON and CSV keep full precision.
 
 pub mod levels;
+pub mod magnetism;
 
 use comfy_table::{presets::UTF8_FULL_CONDENSED, ContentArrangement, Table};
 use serde::Serialize;
