@@ -338,7 +338,11 @@ pub fn compare(measured: Measured, states: Vec<StateExpectation>) -> Comparison 
         };
         format!("{name} (S = {}, {})", spin_text(s.two_s), s.ground_term)
     };
-    let mu = format!("{:.2} ± {:.2} μB", measured.value, measured.err);
+    let mu = if measured.err > 0.0 {
+        format!("{:.2} ± {:.2} μB", measured.value, measured.err)
+    } else {
+        format!("{:.2} μB", measured.value)
+    };
     let check =
         "check the concentration, the weighing, the diamagnetic correction and the temperature";
     let (verdict, message) = match matching.as_slice() {
