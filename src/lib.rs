@@ -2,7 +2,11 @@
 
 pub mod engine;
 pub mod error;
+pub mod formula;
+pub mod magnetism;
 pub mod report;
 pub mod susceptibility;
+pub mod tables;
+pub mod units;
 
 pub use error::{Error, Result};

@@ -16,32 +16,27 @@ use crate::engine::basis::all_determinants;
 use crate::engine::operators::{angular_momentum, one_body_complex, Axis, DetList};
 use crate::engine::{Calculation, SpinOrbitSolution};
 use crate::error::{require_finite, Error, Result};
+use crate::units;
 use nalgebra::{Complex, DMatrix, SymmetricEigen};
 use std::sync::OnceLock;
 
 type C64 = Complex<f64>;
 
-/// Avogadro constant (mol⁻¹), exact (CODATA 2018).
-pub const AVOGADRO: f64 = 6.022_140_76e23;
-/// Boltzmann constant in erg K⁻¹, exact (CODATA 2018).
-pub const BOLTZMANN_ERG: f64 = 1.380_649e-16;
-/// Bohr magneton in erg G⁻¹ (CODATA 2018).
-pub const BOHR_MAGNETON_ERG_PER_GAUSS: f64 = 9.274_010_078_3e-21;
-/// Boltzmann constant in cm⁻¹ K⁻¹ (k/hc, CODATA 2018).
-pub const BOLTZMANN_CM: f64 = 0.695_034_800;
-/// Bohr magneton in cm⁻¹ T⁻¹ (μ_B/hc, CODATA 2018).
-pub const BOHR_MAGNETON_CM_PER_TESLA: f64 = 0.466_864_478;
-/// Free-electron g value (CODATA 2018).
-pub const G_ELECTRON: f64 = 2.002_319_304;
+pub use crate::units::G_ELECTRON;
 
-/// N_A μ_B² / k (cgs): χ = this × (moment² / T); 0.37515 cm³ K mol⁻¹.
+/// k_B in cm⁻¹ K⁻¹ (k/hc from the CODATA constants in [`crate::units`]): 0.695 035.
+fn boltzmann_cm() -> f64 {
+    units::kelvin_to_cm1(1.0)
+}
+
+/// N_A μ_B² / k (cgs), i.e. 3 × the Curie constant per g²S(S+1): 0.37515 cm³ K mol⁻¹.
 pub fn curie_prefactor() -> f64 {
-    AVOGADRO * BOHR_MAGNETON_ERG_PER_GAUSS.powi(2) / BOLTZMANN_ERG
+    3.0 * units::curie_constant_cgs()
 }
 
 /// μ_eff = √(3k/(N_A μ_B²)) √(χT) = 2.828 √(χT) (cgs).
 pub fn mu_eff_from_chi_t(chi_t: f64) -> f64 {
-    (3.0 * chi_t.max(0.0) / curie_prefactor()).sqrt()
+    units::moment_factor_cgs() * chi_t.max(0.0).sqrt()
 }
 
 /// Options of the magnetic model.
@@ -276,7 +271,7 @@ impl ZeemanLevels {
         if t <= 0.0 {
             return Err(Error::invalid("temperature", t, "T > 0 K"));
         }
-        let kt = BOLTZMANN_CM * t; // cm⁻¹
+        let kt = boltzmann_cm() * t; // cm⁻¹
         let c0 = curie_prefactor(); // cm³ K mol⁻¹ per μB²
         let mut z = 0.0;
         let mut acc = [0.0; 3];
@@ -287,7 +282,8 @@ impl ZeemanLevels {
             for ax in 0..3 {
                 // Energies in the second-order term are converted to K: ΔE[K] = ΔE[cm⁻¹]/k.
                 acc[ax] += w
-                    * (self.first_order[i][ax] / t - 2.0 * self.second_order[i][ax] * BOLTZMANN_CM);
+                    * (self.first_order[i][ax] / t
+                        - 2.0 * self.second_order[i][ax] * boltzmann_cm());
                 mean[ax] += w * self.trace[i][ax];
             }
         }
@@ -369,7 +365,7 @@ pub fn finite_field_chi(
     // The single block lists the determinants in the same order as the moment matrices.
     debug_assert_eq!(blk.dets.dets, mm.dets.dets);
     let m = &mm.l[axis] * C64::new(model.kappa, 0.0) + &mm.s[axis] * C64::new(model.g_spin, 0.0);
-    let kt = BOLTZMANN_CM * t;
+    let kt = boltzmann_cm() * t;
     let free_energy = |b_cm: f64| -> Result<f64> {
         let hb = &h + &m * C64::new(b_cm, 0.0);
         let e = SymmetricEigen::try_new(hb, 1e-15, 100_000)
@@ -387,5 +383,5 @@ pub fn finite_field_chi(
     };
     // −∂²F/∂b² with F, b in cm⁻¹ (b = μ_B B); convert to K⁻¹ and multiply by N_A μ_B²/k.
     let d2 = -(4.0 * second(h)? - second(2.0 * h)?) / 3.0; // per cm⁻¹
-    Ok(curie_prefactor() * d2 * BOLTZMANN_CM)
+    Ok(curie_prefactor() * d2 * boltzmann_cm())
 }

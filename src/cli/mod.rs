@@ -3,8 +3,11 @@
 pub mod common;
 pub mod crossover;
 pub mod diagram;
+pub mod evans;
 pub mod levels;
 pub mod magnetism;
+pub mod measured;
+pub mod moment;
 
 use clap::{Parser, Subcommand};
 use std::path::PathBuf;
@@ -29,6 +32,10 @@ pub enum Command {
     Diagram(diagram::Args),
     /// Δ/B at which the ground-state spin changes, for one d^n or every d^n of a geometry.
     Crossover(crossover::Args),
+    /// Evans-method NMR shift → χ_M, χ_M·T, μ_eff and unpaired electrons, with uncertainties.
+    Evans(evans::Args),
+    /// Measured χ_M, χ_M·T, μ_eff or magnetometer reading → the same quantities.
+    Moment(moment::Args),
     /// χ(T), χT and μ_eff from the full ligand field with spin–orbit coupling (van Vleck).
     Magnetism(magnetism::Args),
 }
@@ -82,6 +89,8 @@ pub fn run(cli: Cli) -> Result<Output, Failure> {
         Command::Levels(a) => levels::run(&a),
         Command::Diagram(a) => diagram::run(&a),
         Command::Crossover(a) => crossover::run(&a),
+        Command::Evans(a) => evans::run(&a, cli.data.as_deref()),
+        Command::Moment(a) => moment::run(&a, cli.data.as_deref()),
         Command::Magnetism(a) => magnetism::run(&a),
     }
 }

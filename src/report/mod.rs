@@ -7,6 +7,7 @@ pub mod crossover;
 pub mod diagram;
 pub mod levels;
 pub mod magnetism;
+pub mod measured;
 
 use comfy_table::{presets::UTF8_FULL_CONDENSED, ContentArrangement, Table};
 use serde::Serialize;
