@@ -3,5 +3,6 @@
 pub mod engine;
 pub mod error;
 pub mod report;
+pub mod tables;
 
 pub use error::{Error, Result};
