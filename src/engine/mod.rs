@@ -5,6 +5,8 @@
 
 pub mod angular;
 pub mod basis;
+pub mod crossover;
+pub mod diagram;
 pub mod field;
 pub mod geometry;
 pub mod levels;
@@ -12,6 +14,8 @@ pub mod operators;
 pub mod shell;
 pub mod symmetry;
 
+pub use crossover::{crossover, Crossover, SpinGround};
+pub use diagram::{diagram, Diagram, Series};
 pub use field::LigandField;
 pub use geometry::Geometry;
 pub use levels::{Calculation, Level, Spectrum};

@@ -30,6 +30,8 @@ pub struct SpinBlock {
     pub excitations: Vec<Option<DMatrix<f64>>>,
     /// Diagonal blocks of the rotations of [`Rotation::ALL`], projected.
     pub rotations: Vec<DMatrix<C64>>,
+    /// Real parts of `rotations` (enough for ⟨v|R|v⟩ with real v).
+    pub rotations_re: Vec<DMatrix<f64>>,
     /// Orbital angular momentum squared L², projected (L² conserves M_L).
     pub l_squared: DMatrix<f64>,
 }
@@ -158,10 +160,11 @@ impl Shell {
             }
         }
         let cbasis = basis.map(|x| C64::new(x, 0.0));
-        let rotations = Rotation::ALL
+        let rotations: Vec<DMatrix<C64>> = Rotation::ALL
             .iter()
             .map(|&r| cbasis.adjoint() * rotation_matrix(r, &dets, &dets) * &cbasis)
             .collect();
+        let rotations_re = rotations.iter().map(|m| m.map(|z| z.re)).collect();
         let l_squared = project(self.l_squared_matrix(&dets));
         Some(SpinBlock {
             l_squared,
@@ -173,6 +176,7 @@ impl Shell {
             rep_c,
             excitations,
             rotations,
+            rotations_re,
         })
     }
 
