@@ -27,7 +27,7 @@ const HEADER: [&str; 9] = [
 
 /// Transition series of a d-block element.
 #[derive(Debug, Clone, Copy, PartialEq, Eq, Hash)]
-pub enum Series {
+pub enum TransitionSeries {
     /// 3d (period 4, Sc–Zn).
     ThreeD,
     /// 4d (period 5, Y–Cd).
@@ -36,13 +36,13 @@ pub enum Series {
     FiveD,
 }
 
-impl Series {
+impl TransitionSeries {
     /// "3d", "4d" or "5d".
     pub fn name(self) -> &'static str {
         match self {
-            Series::ThreeD => "3d",
-            Series::FourD => "4d",
-            Series::FiveD => "5d",
+            TransitionSeries::ThreeD => "3d",
+            TransitionSeries::FourD => "4d",
+            TransitionSeries::FiveD => "5d",
         }
     }
 }
@@ -57,7 +57,7 @@ pub struct Ion {
     /// Number of d electrons (group − oxidation state), 0..=10.
     pub dn: usize,
     /// Transition series.
-    pub series: Series,
+    pub series: TransitionSeries,
     /// Free-ion Racah B₀ (cm⁻¹).
     pub b0: Option<f64>,
     /// Free-ion Racah C₀ (cm⁻¹).
@@ -110,7 +110,7 @@ fn element(symbol: &str) -> Option<Element> {
 }
 
 /// Number of d electrons of a d-block element in an oxidation state: group − oxidation state.
-pub fn d_electron_count(symbol: &str, oxidation_state: i32) -> Result<(usize, Series)> {
+pub fn d_electron_count(symbol: &str, oxidation_state: i32) -> Result<(usize, TransitionSeries)> {
     let el = element(symbol).ok_or_else(|| Error::Unknown {
         kind: "element symbol".into(),
         name: symbol.into(),
@@ -118,9 +118,9 @@ pub fn d_electron_count(symbol: &str, oxidation_state: i32) -> Result<(usize, Se
     })?;
     let group = el.group().map(|g| g.group_number() as i32);
     let series = match el.period() {
-        4 => Some(Series::ThreeD),
-        5 => Some(Series::FourD),
-        6 => Some(Series::FiveD),
+        4 => Some(TransitionSeries::ThreeD),
+        5 => Some(TransitionSeries::FourD),
+        6 => Some(TransitionSeries::FiveD),
         _ => None,
     };
     match (group, series) {
@@ -266,8 +266,8 @@ mod tests {
         ] {
             assert_eq!(t.find(m, ox).unwrap().dn, dn, "{m}({ox})");
         }
-        assert_eq!(t.find("Pt", 2).unwrap().series, Series::FiveD);
-        assert_eq!(t.find("Ru", 2).unwrap().series, Series::FourD);
+        assert_eq!(t.find("Pt", 2).unwrap().series, TransitionSeries::FiveD);
+        assert_eq!(t.find("Ru", 2).unwrap().series, TransitionSeries::FourD);
     }
 
     /// Table self-test: every row has a source, 3d B0 come from one table (Jolly 1989), and
@@ -279,7 +279,7 @@ mod tests {
         for r in &t.rows {
             assert!(r.source.len() > 10, "{}: source too short", r.name());
             if let Some(b0) = r.b0 {
-                if r.series == Series::ThreeD {
+                if r.series == TransitionSeries::ThreeD {
                     assert!(
                         r.source.contains("Jolly"),
                         "{}: B0 not from Jolly",

@@ -11,7 +11,7 @@
 pub mod ions;
 pub mod ligands;
 
-pub use ions::{Ion, IonTable, Series};
+pub use ions::{Ion, IonTable, TransitionSeries};
 pub use ligands::{Ligand, LigandTable, PiRole};
 
 use crate::error::{Error, Result};
