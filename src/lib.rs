@@ -3,6 +3,7 @@
 pub mod complex;
 pub mod engine;
 pub mod error;
+pub mod predict;
 pub mod report;
 pub mod tables;
 
