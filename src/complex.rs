@@ -31,8 +31,10 @@
 //! The relative uncertainties are judged from how well the factor rules reproduce spectra
 //! (Δo within about 3 % for the Cr(III), Ni(II) and Co(III) aqua and ammine ions, but 18 % off for
 //! [Fe(H₂O)₆]²⁺ with Jørgensen's printed g; B within 0.5–15 %; see data/README.md):
-//! - Δ estimated: 10 %; 25 % when a π-acceptor ligand is bound to an ion in oxidation state ≤ 2,
-//!   where f·g is known to underestimate Δ. Δ given: 5 % (reading a broad d–d band maximum).
+//! - Δ estimated: 10 %; 25 % when a (strong) π-acceptor ligand is bound to an ion in oxidation
+//!   state ≤ 2, where f·g is known to underestimate Δ; 50 % for square planar, where the σ-only
+//!   model built from octahedral data leaves out d–s mixing and the shorter planar bonds.
+//!   Δ given: 5 % (reading a broad d–d band maximum).
 //! - B estimated: 10 %; 15 % when an h or k had to be defaulted; 25 % for 4d/5d ions, whose B₀
 //!   is an assumed value. B given: 5 %.
 
@@ -356,7 +358,13 @@ impl ComplexSpec {
         });
         let low_valent_acceptor =
             ion.oxidation_state <= 2 && bound.iter().any(|b| b.ligand.pi == PiRole::Acceptor);
-        let delta_uncertainty = if low_valent_acceptor { 0.25 } else { 0.10 };
+        let delta_uncertainty = if geometry == Geometry::SquarePlanar {
+            0.5
+        } else if low_valent_acceptor {
+            0.25
+        } else {
+            0.10
+        };
         let delta = match Parameter::choose(delta_estimate, self.overrides.delta, delta_uncertainty)
         {
             Some(p) => p,
@@ -384,6 +392,13 @@ impl ComplexSpec {
                 "f·g is known to underestimate Δ for π-acceptor ligands ({}) on ions in oxidation state ≤ 2: the real Δ is likely larger and a low-spin state more likely than predicted; give --delta from a spectrum",
                 acceptors.join(", ")
             ));
+        }
+
+        if geometry == Geometry::SquarePlanar && delta.origin == Origin::Estimated {
+            notes.push(
+                "square planar: Δ is the octahedral f·g of the same ligands in a σ-only angular overlap model; this underestimates the planar splitting (planar bonds are shorter and d–s mixing lowers z², both left out), so the estimate leans to high spin; planar d8 complexes are low-spin in practice (a high-spin four-coordinate d8 ion usually goes tetrahedral); give --delta from a spectrum"
+                    .to_string(),
+            );
         }
 
         // B and C
@@ -432,8 +447,8 @@ impl ComplexSpec {
             if beta <= 0.0 {
                 return Err(Error::invalid(
                     "β = 1 − h·k",
-                    format!("{beta:.3}"),
-                    "a ratio above 0: this h and k lie outside the factor rule's range; give --b",
+                    format!("{beta:.3} (h̄ = {:.2}, k = {:.2})", mean_h.unwrap_or(0.0), ion.k.unwrap_or(0.0)),
+                    "a ratio above 0; the factor rule fails for this ion and ligand set, so give a measured --b in cm⁻¹",
                 ));
             }
         }
@@ -479,7 +494,7 @@ impl ComplexSpec {
                 default_c_over_b(ion.dn)
             }
         };
-        let c_estimate = (b.origin != Origin::Nominal).then(|| c_over_b * b.value);
+        let c_estimate = (b.origin != Origin::Nominal).then_some(c_over_b * b.value);
         let c = Parameter::choose(c_estimate, self.overrides.c, b.relative_uncertainty)
             .unwrap_or_else(|| Parameter::nominal(c_over_b * NOMINAL_B));
 

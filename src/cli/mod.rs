@@ -1,7 +1,9 @@
 //! Command-line layer: parse arguments, call the library, render. No science here.
 
 pub mod common;
+pub mod data;
 pub mod levels;
+pub mod predict;
 
 use clap::{Parser, Subcommand};
 use std::path::PathBuf;
@@ -22,6 +24,11 @@ pub struct Cli {
 pub enum Command {
     /// All d^n levels for given B, C and ligand field, labelled and sorted by energy.
     Levels(levels::Args),
+    /// Spin state, ground term, moments and bands of a complex from metal, oxidation state,
+    /// geometry and ligands (Δ, B, C estimated or given).
+    Predict(predict::Args),
+    /// List the chemistry data tables (ions, ligands) with their sources.
+    Data(data::Args),
 }
 
 /// A failure with its exit code (1: computation did not finish, 2: bad usage or input).
@@ -71,5 +78,7 @@ impl Output {
 pub fn run(cli: Cli) -> Result<Output, Failure> {
     match cli.command {
         Command::Levels(a) => levels::run(&a),
+        Command::Predict(a) => predict::run(&a, cli.data.as_deref()),
+        Command::Data(a) => data::run(&a, cli.data.as_deref()),
     }
 }

@@ -3,7 +3,9 @@
 //! Reports are plain data built from engine results; rendering never computes science. Human
 //! tables round; JSON and CSV keep full precision.
 
+pub mod data;
 pub mod levels;
+pub mod predict;
 
 use comfy_table::{presets::UTF8_FULL_CONDENSED, ContentArrangement, Table};
 use serde::Serialize;

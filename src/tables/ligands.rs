@@ -5,7 +5,7 @@
 //! number of donors), `charge`, `f` (Jørgensen's ligand factor, Δo = f·g), `h` (Jørgensen's
 //! nephelauxetic ligand factor, β = 1 − h·k), `e_sigma` and `e_pi` (angular overlap parameters in
 //! cm⁻¹, published for Cr(III) only; informative, not used by the estimate), `pi`
-//! (`acceptor`, `donor` or `none`), `binds` (space-separated geometries the ligand can occupy:
+//! (`acceptor`, `weak-acceptor`, `donor` or `none`), `binds` (space-separated geometries the ligand can occupy:
 //! `oct`, `tet`, `sqpl`), `caution` (may be empty) and `source`. Empty cells mean "no value".
 
 use super::{records, Cell};
@@ -35,6 +35,8 @@ const HEADER: [&str; 13] = [
 pub enum PiRole {
     /// π acceptor (CN⁻, CO, diimines, phosphines): raises Δ, strongest on low-valent metals.
     Acceptor,
+    /// Weak π acceptor (pyridine, nitriles).
+    WeakAcceptor,
     /// π donor (halides, O donors): lowers Δ.
     Donor,
     /// σ only (saturated amines).
@@ -46,6 +48,7 @@ impl PiRole {
     pub fn name(self) -> &'static str {
         match self {
             PiRole::Acceptor => "acceptor",
+            PiRole::WeakAcceptor => "weak-acceptor",
             PiRole::Donor => "donor",
             PiRole::None => "none",
         }
@@ -127,12 +130,13 @@ impl LigandTable {
             let pi_cell = cell("pi");
             let pi = match pi_cell.text()?.as_str() {
                 "acceptor" => PiRole::Acceptor,
+                "weak-acceptor" => PiRole::WeakAcceptor,
                 "donor" => PiRole::Donor,
                 "none" => PiRole::None,
                 other => {
-                    return Err(
-                        pi_cell.error(format!("'{other}' is not one of acceptor, donor, none"))
-                    )
+                    return Err(pi_cell.error(format!(
+                        "'{other}' is not one of acceptor, weak-acceptor, donor, none"
+                    )))
                 }
             };
             let binds_cell = cell("binds");
