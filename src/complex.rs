@@ -2,7 +2,7 @@
 //! ligand-field parameters estimated from it, or given by the user in their place.
 //!
 //! [`ComplexSpec`] is what a user types; [`ComplexSpec::resolve`] checks it against the data
-//! tables and returns a [`Complex`] whose Δ, B and C are each a [`Parameter`] that records the
+//! tables and returns a [`ResolvedComplex`] whose Δ, B and C are each a [`Parameter`] that records the
 //! estimate, the given value and which one is used. Commands that need a complex from its
 //! composition (predict, moment comparison, screening) should all go through `resolve`.
 //!
@@ -227,7 +227,7 @@ pub struct BoundLigand {
 
 /// A complex resolved against the data tables: the ion, its ligands and its Δ, B, C.
 #[derive(Debug, Clone, PartialEq)]
-pub struct Complex {
+pub struct ResolvedComplex {
     pub ion: Ion,
     pub geometry: Geometry,
     pub ligands: Vec<BoundLigand>,
@@ -262,7 +262,7 @@ impl ComplexSpec {
     /// a ligand that cannot bind in the geometry, a donor count that does not fill the geometry,
     /// a non-finite or non-positive override, or a parameter that can be neither estimated nor
     /// was given.
-    pub fn resolve(&self, tables: &Tables) -> Result<Complex> {
+    pub fn resolve(&self, tables: &Tables) -> Result<ResolvedComplex> {
         let ion = tables.ions.find(&self.metal, self.oxidation_state)?.clone();
         let geometry = self.geometry;
         if geometry == Geometry::Tetragonal {
@@ -516,7 +516,7 @@ impl ComplexSpec {
             }
         }
 
-        Ok(Complex {
+        Ok(ResolvedComplex {
             ion,
             geometry,
             ligands: bound,
@@ -558,7 +558,7 @@ fn denticity_word(l: &Ligand) -> &'static str {
     }
 }
 
-impl Complex {
+impl ResolvedComplex {
     /// Dq = Δ/10 in the geometry's convention (cm⁻¹).
     pub fn dq(&self) -> f64 {
         self.delta.value / 10.0
@@ -655,7 +655,7 @@ mod tests {
         }
     }
 
-    fn resolve(metal: &str, ox: i32, geometry: &str, ligands: &[&str]) -> Result<Complex> {
+    fn resolve(metal: &str, ox: i32, geometry: &str, ligands: &[&str]) -> Result<ResolvedComplex> {
         spec(metal, ox, geometry, ligands).resolve(Tables::bundled().unwrap())
     }
 

@@ -1,4 +1,4 @@
-//! Spin-state prediction for a resolved [`Complex`]: which spin the ground state has, how far
+//! Spin-state prediction for a resolved [`ResolvedComplex`]: which spin the ground state has, how far
 //! the complex sits from the crossover, its ground term, moments and spin-allowed bands.
 //!
 //! The spin state compares the complex's Δ/B with the engine's crossover Δ/B for the same d^n,
@@ -10,7 +10,7 @@
 //! 1.75 times smaller: A. Hauser, *Top. Curr. Chem.* 233, 49, 2004), so near the crossover the
 //! prediction is a rough guide; the margin and its `borderline` flag say how rough.
 
-use crate::complex::{Complex, Origin};
+use crate::complex::{Origin, ResolvedComplex};
 use crate::engine::levels::L_LETTERS;
 use crate::engine::{crossover, Crossover, Level, PointGroup, Spectrum};
 use crate::error::{Error, Result};
@@ -46,7 +46,7 @@ pub struct Margin {
     /// The same difference in percent of the crossover Δ/B.
     pub percent: f64,
     /// Relative uncertainty assumed for the complex's Δ/B, in percent (see
-    /// [`Complex::delta_over_b_uncertainty`]).
+    /// [`ResolvedComplex::delta_over_b_uncertainty`]).
     pub uncertainty_percent: f64,
     /// True when |Δ/B − crossover| is within that uncertainty: the spin state cannot be told
     /// from these parameters.
@@ -81,7 +81,7 @@ pub struct SpinBands {
 /// Everything `predict` says about a complex.
 #[derive(Debug, Clone, PartialEq)]
 pub struct Prediction {
-    pub complex: Complex,
+    pub complex: ResolvedComplex,
     pub crossover: Crossover,
     pub spin_state: SpinState,
     /// None for [`SpinState::Fixed`].
@@ -153,7 +153,7 @@ fn spin_bands(spectrum: &Spectrum, two_s: i32) -> Option<SpinBands> {
 }
 
 /// Predicts the spin state of a resolved complex.
-pub fn predict(complex: &Complex) -> Result<Prediction> {
+pub fn predict(complex: &ResolvedComplex) -> Result<Prediction> {
     let dn = complex.ion.dn;
     let c_over_b = complex.c_over_b();
     let cross = crossover(dn, complex.geometry, c_over_b)?;

@@ -352,7 +352,7 @@ impl PredictReport {
         }
         match &self.margin {
             Some(m) => out.push_str(&format!(
-                "spin state: {}-spin, margin {} in Δ/B ({} % of the crossover; assumed uncertainty ±{} %){}\n",
+                "spin state: {}-spin, margin {} in Δ/B ({} % of the crossover; assumed uncertainty of Δ/B ±{} %, from the ± % column: the typical error of the factor rules against spectra, or of a measured band){}\n",
                 self.spin_state,
                 fmt_num(m.delta_over_b, 2),
                 fmt_num(m.percent, 1),
