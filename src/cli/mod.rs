@@ -1,7 +1,9 @@
 //! Command-line layer: parse arguments, call the library, render. No science here.
 
 pub mod common;
+pub mod crossover;
 pub mod data;
+pub mod diagram;
 pub mod levels;
 pub mod predict;
 
@@ -24,6 +26,10 @@ pub struct Cli {
 pub enum Command {
     /// All d^n levels for given B, C and ligand field, labelled and sorted by energy.
     Levels(levels::Args),
+    /// Tanabe–Sugano style diagram: E/B of every level against Δ/B (table, CSV, SVG).
+    Diagram(diagram::Args),
+    /// Δ/B at which the ground-state spin changes, for one d^n or every d^n of a geometry.
+    Crossover(crossover::Args),
     /// Spin state, ground term, moments and bands of a complex from metal, oxidation state,
     /// geometry and ligands (Δ, B, C estimated or given).
     Predict(predict::Args),
@@ -78,6 +84,8 @@ impl Output {
 pub fn run(cli: Cli) -> Result<Output, Failure> {
     match cli.command {
         Command::Levels(a) => levels::run(&a),
+        Command::Diagram(a) => diagram::run(&a),
+        Command::Crossover(a) => crossover::run(&a),
         Command::Predict(a) => predict::run(&a, cli.data.as_deref()),
         Command::Data(a) => data::run(&a, cli.data.as_deref()),
     }

@@ -3,7 +3,9 @@
 //! Reports are plain data built from engine results; rendering never computes science. Human
 //! tables round; JSON and CSV keep full precision.
 
+pub mod crossover;
 pub mod data;
+pub mod diagram;
 pub mod levels;
 pub mod predict;
 
