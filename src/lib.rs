@@ -1,9 +1,11 @@
 //! spinstate: spin states of d-block complexes from a full d^n ligand-field calculation.
 
+pub mod complex;
 pub mod engine;
 pub mod error;
 pub mod formula;
 pub mod magnetism;
+pub mod predict;
 pub mod report;
 pub mod susceptibility;
 pub mod tables;

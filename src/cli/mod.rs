@@ -2,12 +2,14 @@
 
 pub mod common;
 pub mod crossover;
+pub mod data;
 pub mod diagram;
 pub mod evans;
 pub mod levels;
 pub mod magnetism;
 pub mod measured;
 pub mod moment;
+pub mod predict;
 
 use clap::{Parser, Subcommand};
 use std::path::PathBuf;
@@ -38,6 +40,11 @@ pub enum Command {
     Moment(moment::Args),
     /// χ(T), χT and μ_eff from the full ligand field with spin–orbit coupling (van Vleck).
     Magnetism(magnetism::Args),
+    /// Spin state, ground term, moments and bands of a complex from metal, oxidation state,
+    /// geometry and ligands (Δ, B, C estimated or given).
+    Predict(predict::Args),
+    /// List the chemistry data tables (ions, ligands) with their sources.
+    Data(data::Args),
 }
 
 /// A failure with its exit code (1: computation did not finish, 2: bad usage or input).
@@ -92,5 +99,7 @@ pub fn run(cli: Cli) -> Result<Output, Failure> {
         Command::Evans(a) => evans::run(&a, cli.data.as_deref()),
         Command::Moment(a) => moment::run(&a, cli.data.as_deref()),
         Command::Magnetism(a) => magnetism::run(&a),
+        Command::Predict(a) => predict::run(&a, cli.data.as_deref()),
+        Command::Data(a) => data::run(&a, cli.data.as_deref()),
     }
 }

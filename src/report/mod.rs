@@ -4,10 +4,12 @@
 //! tables round; JSON and CSV keep full precision.
 
 pub mod crossover;
+pub mod data;
 pub mod diagram;
 pub mod levels;
 pub mod magnetism;
 pub mod measured;
+pub mod predict;
 
 use comfy_table::{presets::UTF8_FULL_CONDENSED, ContentArrangement, Table};
 use serde::Serialize;
