@@ -114,18 +114,48 @@ fn bad_input() {
     run_err(with(&["--tmin", "0"]), "0 < tmin");
     run_err(with(&["--tmin", "300", "--tmax", "10"]), "0 < tmin ≤ tmax");
     run_err(with(&["--zeta", "-3"]), "--zeta -3");
+    expect_usage_error(&["magnetism", "--geometry", "oct"], "give --dn");
     expect_usage_error(
         &[
             "magnetism",
-            "--dn",
-            "7",
+            "--metal",
+            "Qx",
+            "--ox",
+            "2",
             "--geometry",
             "oct",
-            "--c-over-b",
-            "4.6",
-            "--delta-over-b",
-            "12",
+            "--ligand",
+            "H2O:6",
         ],
-        "needs energies in cm⁻¹",
+        "unknown metal",
     );
+}
+
+#[test]
+fn from_a_complex_uses_the_tables() {
+    // [Co(H2O)6]2+: ζ from the ion table (Figgis 1966, from memory); high-spin d7 with a T
+    // ground term, so μ_eff rises with T well above spin-only (Figgis & Lewis 1960, from memory).
+    let v = run_json(&[
+        "magnetism",
+        "--metal",
+        "Co",
+        "--ox",
+        "2",
+        "--geometry",
+        "oct",
+        "--ligand",
+        "H2O:6",
+        "--points",
+        "3",
+        "--json",
+    ]);
+    assert_eq!(v["dn"], 7);
+    assert_eq!(v["zeta"], 533.0);
+    let pts = v["points"].as_array().unwrap();
+    let (low, high) = (
+        pts[0]["mu_eff"].as_f64().unwrap(),
+        pts[2]["mu_eff"].as_f64().unwrap(),
+    );
+    assert!(high > low + 0.8, "{low} → {high}");
+    assert!(high > v["spin_only_moment"].as_f64().unwrap() + 1.0);
 }

@@ -287,3 +287,33 @@ fn bad_input_exits_2() {
         "--geometry",
     );
 }
+
+#[test]
+fn t_term_comparison_uses_the_full_ligand_field_moment() {
+    // 4.95 μB for octahedral Co(II) at 295 K: above spin-only 3.87 but typical of the 4T1g
+    // ground term (4.7–5.2 μB, Figgis & Lewis 1960, from memory); the full ligand field with
+    // spin–orbit coupling gives a κ-bracket that contains it.
+    let v = json(&[
+        "--mu-eff",
+        "4.95",
+        "--temp",
+        "295",
+        "--metal",
+        "Co",
+        "--ox",
+        "2",
+        "--geometry",
+        "oct",
+        "--ligand",
+        "H2O:6",
+    ]);
+    let states = v["comparison"]["states"].as_array().unwrap();
+    let hs = &states[0];
+    let a = hs["mu_ligand_field_kappa_07"].as_f64().unwrap();
+    let b = hs["mu_ligand_field_kappa_10"].as_f64().unwrap();
+    assert!(a < 4.95 && 4.95 < b, "{a}–{b}");
+    assert!(v["comparison"]["message"]
+        .as_str()
+        .unwrap()
+        .contains("high-spin"));
+}

@@ -85,6 +85,34 @@ pub fn load_tables(data: Option<&Path>) -> Result<Cow<'static, Tables>, Failure>
     })
 }
 
+/// Resolves a complex given as metal, oxidation state, geometry and NAME[:COUNT] ligands, with
+/// Δ, B and C estimated from the tables.
+pub fn resolve_complex(
+    metal: &str,
+    ox: i32,
+    geometry: Geometry,
+    ligands: &[String],
+    data: Option<&Path>,
+) -> Result<spinstate::complex::ResolvedComplex, Failure> {
+    use spinstate::complex::{ComplexSpec, LigandCount, Overrides};
+    let tables = load_tables(data)?;
+    let ligands = ligands
+        .iter()
+        .map(|l| {
+            l.parse::<LigandCount>()
+                .map_err(|e| Failure::usage(format!("--ligand: {e}")))
+        })
+        .collect::<Result<Vec<_>, _>>()?;
+    let spec = ComplexSpec {
+        metal: metal.to_string(),
+        oxidation_state: ox,
+        geometry,
+        ligands,
+        overrides: Overrides::default(),
+    };
+    Ok(spec.resolve(&tables)?)
+}
+
 /// Parses a geometry name into a failure with exit code 2.
 pub fn parse_geometry(s: &str) -> Result<Geometry, Failure> {
     s.parse::<Geometry>()

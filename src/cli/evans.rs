@@ -142,7 +142,9 @@ pub fn run(args: &Args, data: Option<&Path>) -> Result<Output, Failure> {
         dia: resolved.dia_measured,
     };
     let result = evans::evans(&input)?;
-    let comparison = args.compare.run(result.moment.mu_eff, data)?;
+    let comparison = args
+        .compare
+        .run(result.moment.mu_eff, data, Some(args.temp))?;
     let report = MeasuredMomentReport::new(
         "evans",
         units,

@@ -7,12 +7,59 @@ use spinstate::report::to_json;
 use spinstate::susceptibility::{
     curie_prefactor, temperature_grid, MagneticModel, ZeemanLevels, G_ELECTRON,
 };
-use std::path::PathBuf;
+use std::path::{Path, PathBuf};
 
 #[derive(Debug, clap::Args)]
 pub struct Args {
-    #[command(flatten)]
-    pub field: FieldArgs,
+    /// Number of d electrons (with --b, --c, --dq, --zeta); or give --metal instead.
+    #[arg(long, value_name = "N", conflicts_with = "metal")]
+    pub dn: Option<usize>,
+    /// Geometry: oct, tet, sqpl or tetragonal.
+    #[arg(long, value_name = "G")]
+    pub geometry: String,
+    /// Racah B in cm⁻¹ (with --metal: replaces the estimate).
+    #[arg(long, value_name = "CM-1", allow_negative_numbers = true)]
+    pub b: Option<f64>,
+    /// Racah C in cm⁻¹ (with --metal: replaces the estimate).
+    #[arg(long, value_name = "CM-1", allow_negative_numbers = true)]
+    pub c: Option<f64>,
+    /// Dq in cm⁻¹ (with --metal: replaces the estimate Δ/10).
+    #[arg(long, value_name = "CM-1", allow_negative_numbers = true)]
+    pub dq: Option<f64>,
+    /// Tetragonal Ds in cm⁻¹.
+    #[arg(
+        long,
+        value_name = "CM-1",
+        default_value_t = 0.0,
+        allow_negative_numbers = true
+    )]
+    pub ds: f64,
+    /// Tetragonal Dt in cm⁻¹.
+    #[arg(
+        long,
+        value_name = "CM-1",
+        default_value_t = 0.0,
+        allow_negative_numbers = true
+    )]
+    pub dt: f64,
+    /// One-electron spin–orbit constant ζ in cm⁻¹ (with --metal: default the free-ion value of
+    /// the ion table).
+    #[arg(long, value_name = "CM-1", allow_negative_numbers = true)]
+    pub zeta: Option<f64>,
+    /// Metal (with --ox and --ligand): d^n, Δ, B, C and ζ from the data tables.
+    #[arg(long, value_name = "SYMBOL", requires_all = ["ox", "ligands"])]
+    pub metal: Option<String>,
+    /// Oxidation state of the metal.
+    #[arg(
+        long,
+        value_name = "N",
+        allow_negative_numbers = true,
+        requires = "metal"
+    )]
+    pub ox: Option<i32>,
+    /// A ligand, NAME[:COUNT] (repeatable), as in `predict`.
+    #[arg(long = "ligand", value_name = "NAME[:COUNT]", requires = "metal")]
+    pub ligands: Vec<String>,
     /// Orbital reduction factor κ (0..=1) on L in the Zeeman term.
     #[arg(
         long,
@@ -56,13 +103,82 @@ pub struct Args {
     pub format: Format,
 }
 
-pub fn run(args: &Args) -> Result<Output, Failure> {
-    let r = args.field.resolve()?;
-    if r.ratio_mode {
-        return Err(Failure::usage(
-            "magnetism needs energies in cm⁻¹ (they are compared with kT): give --b, --c, --dq and --zeta",
-        ));
-    }
+pub fn run(args: &Args, data: Option<&Path>) -> Result<Output, Failure> {
+    let mut notes = Vec::new();
+    let field = match (&args.metal, args.dn) {
+        (Some(metal), _) => {
+            let geometry = super::common::parse_geometry(&args.geometry)?;
+            let complex = super::common::resolve_complex(
+                metal,
+                args.ox.unwrap_or_default(),
+                geometry,
+                &args.ligands,
+                data,
+            )?;
+            let zeta = match (args.zeta, complex.ion.zeta) {
+                (Some(z), _) => z,
+                (None, Some(z)) => {
+                    notes.push(format!(
+                        "ζ = {z} cm⁻¹: free-ion value of {}({}) from the ion table",
+                        complex.ion.symbol, complex.ion.oxidation_state
+                    ));
+                    z
+                }
+                (None, None) => {
+                    return Err(Failure::usage(format!(
+                        "no ζ for {}({}) in the ion table: give --zeta in cm⁻¹",
+                        complex.ion.symbol, complex.ion.oxidation_state
+                    )))
+                }
+            };
+            notes.push(format!(
+                "Δ, B, C for {}: {} (see `spinstate predict` for how they were estimated)",
+                complex.formula(),
+                [
+                    ("Δ", args.dq.map(|d| 10.0 * d), complex.delta.value),
+                    ("B", args.b, complex.b.value),
+                    ("C", args.c, complex.c.value),
+                ]
+                .iter()
+                .map(|(n, given, est)| match given {
+                    Some(g) => format!("{n} {g:.0} given"),
+                    None => format!("{n} {est:.0} estimated"),
+                })
+                .collect::<Vec<_>>()
+                .join(", ")
+            ));
+            FieldArgs {
+                dn: complex.ion.dn,
+                geometry: args.geometry.clone(),
+                b: Some(args.b.unwrap_or(complex.b.value)),
+                c: Some(args.c.unwrap_or(complex.c.value)),
+                dq: Some(args.dq.unwrap_or(complex.dq())),
+                c_over_b: None,
+                delta_over_b: None,
+                ds: args.ds,
+                dt: args.dt,
+                zeta,
+            }
+        }
+        (None, Some(dn)) => FieldArgs {
+            dn,
+            geometry: args.geometry.clone(),
+            b: args.b,
+            c: args.c,
+            dq: args.dq,
+            c_over_b: None,
+            delta_over_b: None,
+            ds: args.ds,
+            dt: args.dt,
+            zeta: args.zeta.unwrap_or(0.0),
+        },
+        (None, None) => {
+            return Err(Failure::usage(
+                "give --dn with --b, --c, --dq and --zeta, or --metal, --ox and --ligand",
+            ))
+        }
+    };
+    let r = field.resolve()?;
     let model = MagneticModel {
         zeta: r.zeta,
         kappa: args.kappa,
@@ -76,7 +192,6 @@ pub fn run(args: &Args) -> Result<Output, Failure> {
     let spin_free = r.calc.levels()?;
     let ground = spin_free.ground();
     let s = ground.spin();
-    let mut notes = Vec::new();
     if r.zeta == 0.0 {
         notes.push("ζ = 0: no spin–orbit coupling, so orbital contributions to the moment are missing (give --zeta, e.g. the free-ion value)".into());
     }

@@ -148,32 +148,72 @@ pub struct CompareArgs {
         allow_negative_numbers = true
     )]
     pub lambda: Option<f64>,
+    /// Metal of the complex (with --ox, --geometry and --ligand): d^n, Dq, B and ζ then come
+    /// from the data tables unless given.
+    #[arg(long, value_name = "SYMBOL", requires_all = ["ox", "geometry", "ligands"], conflicts_with = "dn")]
+    pub metal: Option<String>,
+    /// Oxidation state of the metal.
+    #[arg(
+        long,
+        value_name = "N",
+        allow_negative_numbers = true,
+        requires = "metal"
+    )]
+    pub ox: Option<i32>,
+    /// A ligand of the complex, NAME[:COUNT] (repeatable), as in `predict`.
+    #[arg(long = "ligand", value_name = "NAME[:COUNT]", requires = "metal")]
+    pub ligands: Vec<String>,
 }
 
 impl CompareArgs {
-    /// The comparison, when --dn and --geometry were given.
+    /// The comparison, when --dn and --geometry (or --metal, --ox, --geometry, --ligand) were
+    /// given. `temperature` (K) lets T ground terms use the full ligand-field moment.
     pub fn run(
         &self,
         mu: Measured,
         data: Option<&Path>,
+        temperature: Option<f64>,
     ) -> Result<Option<(Comparison, usize, String)>, Failure> {
-        let (Some(dn), Some(g)) = (self.dn, &self.geometry) else {
+        let Some(g) = &self.geometry else {
             return Ok(None);
+        };
+        let geometry: Geometry = super::common::parse_geometry(g)?;
+        let mut zeta = self.zeta;
+        let mut dq = self.dq;
+        let mut b = None;
+        let dn = match (&self.metal, self.dn) {
+            (Some(metal), _) => {
+                let complex = super::common::resolve_complex(
+                    metal,
+                    self.ox.unwrap_or_default(),
+                    geometry,
+                    &self.ligands,
+                    data,
+                )?;
+                if zeta.is_none() && self.lambda.is_none() {
+                    zeta = complex.ion.zeta;
+                }
+                dq = dq.or(Some(complex.dq()));
+                b = Some(complex.b.value);
+                complex.ion.dn
+            }
+            (None, Some(dn)) => dn,
+            (None, None) => return Ok(None),
         };
         if dn > 10 {
             return Err(Failure::usage(format!("--dn {dn} is outside 0..=10")));
         }
-        let geometry: Geometry = super::common::parse_geometry(g)?;
-        let spin_orbit = match (self.zeta, self.lambda) {
+        let spin_orbit = match (zeta, self.lambda) {
             (Some(z), _) => Some(SpinOrbit::Zeta(z)),
             (None, Some(l)) => Some(SpinOrbit::Lambda(l)),
             _ => None,
         };
         let spec = ComplexSpec {
-            dn,
-            geometry,
-            dq: self.dq,
+            dq,
             spin_orbit,
+            b,
+            temperature,
+            ..ComplexSpec::new(dn, geometry)
         };
         let ranges = MomentRangeTable::load(data)?;
         let states = compare::expectations(&spec, &ranges)?;

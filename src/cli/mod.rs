@@ -98,7 +98,7 @@ pub fn run(cli: Cli) -> Result<Output, Failure> {
         Command::Crossover(a) => crossover::run(&a),
         Command::Evans(a) => evans::run(&a, cli.data.as_deref()),
         Command::Moment(a) => moment::run(&a, cli.data.as_deref()),
-        Command::Magnetism(a) => magnetism::run(&a),
+        Command::Magnetism(a) => magnetism::run(&a, cli.data.as_deref()),
         Command::Predict(a) => predict::run(&a, cli.data.as_deref()),
         Command::Data(a) => data::run(&a, cli.data.as_deref()),
     }

@@ -135,7 +135,7 @@ pub fn run(args: &Args, data: Option<&Path>) -> Result<Output, Failure> {
             "give one of --chi, --chi-t, --mu-eff or --magnetisation",
         ));
     };
-    let comparison = args.compare.run(result.mu_eff, data)?;
+    let comparison = args.compare.run(result.mu_eff, data, Some(args.temp))?;
     let report = MeasuredMomentReport::new(
         "moment",
         units,

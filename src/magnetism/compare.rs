@@ -51,7 +51,33 @@ pub struct ComplexSpec {
     /// Dq (cm⁻¹), i.e. Δ/10 (Δt/10 for tet); needed for the A/E-term correction.
     pub dq: Option<f64>,
     pub spin_orbit: Option<SpinOrbit>,
+    /// Racah B (cm⁻¹) for the full ligand-field moment of T terms; default [`DEFAULT_B`].
+    pub b: Option<f64>,
+    /// Temperature of the measurement (K): with ζ known, T ground terms get the moment of the
+    /// full ligand field with spin–orbit coupling at this temperature.
+    pub temperature: Option<f64>,
 }
+
+impl ComplexSpec {
+    /// d^n and geometry only.
+    pub fn new(dn: usize, geometry: Geometry) -> Self {
+        ComplexSpec {
+            dn,
+            geometry,
+            dq: None,
+            spin_orbit: None,
+            b: None,
+            temperature: None,
+        }
+    }
+}
+
+/// Racah B (cm⁻¹) assumed for the full-calculation moment when none is known (a typical value for
+/// 3d complexes, ≈ 0.8 of a free-ion B of ≈ 1000; common practice).
+pub const DEFAULT_B: f64 = 800.0;
+/// Orbital reduction factors bracketing the full-calculation moment of T terms: κ ≈ 0.7–1.0 is
+/// the usual range for 3d complexes (Figgis & Hitchman 2000, from memory).
+pub const KAPPA_RANGE: (f64, f64) = (0.7, 1.0);
 
 /// How the orbital moment enters for a ground term.
 #[derive(Debug, Clone, Copy, PartialEq)]
@@ -84,6 +110,11 @@ pub struct StateExpectation {
     pub lambda: Option<f64>,
     /// μ_so (1 − αλ/10Dq) (μB), when λ and Dq are known and the term is A or E.
     pub spin_orbit_corrected: Option<f64>,
+    /// For T ground terms with ζ and T known: μ_eff from the full ligand field with spin–orbit
+    /// coupling (van Vleck) at the measurement temperature, for κ = 0.7 and κ = 1.0 (μB).
+    pub computed: Option<(f64, f64)>,
+    /// Δ/B used for `computed`.
+    pub computed_delta_over_b: Option<f64>,
     /// Typical published range (μB) and its source.
     pub range: Option<(f64, f64)>,
     pub range_source: Option<String>,
@@ -218,6 +249,43 @@ fn zeta_of(spec: &ComplexSpec, two_s_high: i32) -> Result<Option<f64>> {
     }
 }
 
+/// μ_eff at temperature `t` from the full ligand field with spin–orbit coupling for the state of
+/// spin `two_s`, for κ at both ends of [`KAPPA_RANGE`]; returns (μ(κ=0.7), μ(κ=1), Δ/B used).
+/// The field is the given Dq when it lies on this state's side of the crossover, otherwise a
+/// representative field on that side (0.75 or 1.3 times the crossover Δ/B).
+fn full_moment(spec: &ComplexSpec, two_s: i32, zeta: f64, t: f64) -> Result<(f64, f64, f64)> {
+    use crate::susceptibility::{MagneticModel, ZeemanLevels};
+    let b = spec.b.unwrap_or(DEFAULT_B);
+    let c_over_b = crate::engine::tanabe_sugano_c_over_b(spec.dn);
+    let cross = crate::engine::crossover(spec.dn, spec.geometry, c_over_b)?;
+    let given = spec.dq.map(|dq| 10.0 * dq / b);
+    let x = match (given, cross.delta_over_b) {
+        (Some(x), Some(_)) if cross.two_s_at(x) == two_s => x,
+        (Some(x), None) => x,
+        (_, Some(xc)) if two_s == cross.high_spin.two_s => 0.75 * xc,
+        (_, Some(xc)) => 1.3 * xc,
+        (None, None) => 10.0,
+    };
+    let calc = Calculation::new(
+        spec.dn,
+        b,
+        c_over_b * b,
+        spec.geometry.field(x * b / 10.0, 0.0, 0.0)?,
+        spec.geometry.point_group(0.0, 0.0),
+    )?;
+    let mut mus = [0.0; 2];
+    for (i, kappa) in [KAPPA_RANGE.0, KAPPA_RANGE.1].into_iter().enumerate() {
+        let model = MagneticModel {
+            zeta,
+            kappa,
+            reduce_zeta: false,
+            g_spin: crate::units::G_ELECTRON,
+        };
+        mus[i] = ZeemanLevels::compute(&calc, &model)?.at(t)?.mu_eff;
+    }
+    Ok((mus[0], mus[1], x))
+}
+
 /// The expectations of each spin state of `spec` (high spin first).
 pub fn expectations(
     spec: &ComplexSpec,
@@ -294,8 +362,28 @@ pub fn expectations(
         if state == "low spin" && spec.geometry == Geometry::Tetrahedral {
             notes.push("low-spin tetrahedral complexes are very rare (Δt is small)".into());
         }
+        let (computed, computed_delta_over_b) = match (orbital, zeta, spec.temperature) {
+            (Orbital::FirstOrder, Some(z), Some(t)) => {
+                let (lo, hi, x) = full_moment(spec, level.two_s, z, t)?;
+                (Some((lo, hi)), Some(x))
+            }
+            _ => (None, None),
+        };
+        if let (Some((a, b)), Some(x)) = (computed, computed_delta_over_b) {
+            notes.push(format!(
+                "full ligand field + spin–orbit coupling at {:.0} K (Δ/B {:.1}, ζ {:.0} cm⁻¹, κ 0.7–1.0): {:.2}–{:.2} μB",
+                spec.temperature.unwrap_or(0.0),
+                x,
+                zeta.unwrap_or(0.0),
+                a.min(b),
+                a.max(b)
+            ));
+        }
         let mut points = vec![spin_only];
         points.extend(spin_orbit_corrected);
+        if let Some((a, b)) = computed {
+            points.extend([a, b]);
+        }
         if let Some(r) = range_row {
             points.extend([r.mu_min, r.mu_max]);
         }
@@ -311,6 +399,8 @@ pub fn expectations(
             orbital,
             lambda,
             spin_orbit_corrected,
+            computed,
+            computed_delta_over_b,
             range: range_row.map(|r| (r.mu_min, r.mu_max)),
             range_source: range_row.map(|r| r.source.clone()),
             window: ((lo - WINDOW_MARGIN).max(0.0), hi + WINDOW_MARGIN),
@@ -405,10 +495,9 @@ mod tests {
 
     fn spec(dn: usize, geometry: Geometry, dq: Option<f64>, so: Option<SpinOrbit>) -> ComplexSpec {
         ComplexSpec {
-            dn,
-            geometry,
             dq,
             spin_orbit: so,
+            ..ComplexSpec::new(dn, geometry)
         }
     }
 

@@ -78,6 +78,10 @@ pub struct StateRow {
     pub lambda: Option<f64>,
     /// μ_so(1 − αλ/10Dq) (μB).
     pub mu_spin_orbit_corrected: Option<f64>,
+    /// T terms: μ_eff (μB) at the measurement temperature from the full ligand field with
+    /// spin–orbit coupling, for κ = 0.7 and κ = 1.0.
+    pub mu_ligand_field_kappa_07: Option<f64>,
+    pub mu_ligand_field_kappa_10: Option<f64>,
     /// Typical published range (μB).
     pub range_min: Option<f64>,
     pub range_max: Option<f64>,
@@ -198,6 +202,8 @@ impl MeasuredMomentReport {
                     },
                     lambda: s.lambda,
                     mu_spin_orbit_corrected: s.spin_orbit_corrected,
+                    mu_ligand_field_kappa_07: s.computed.map(|c| c.0),
+                    mu_ligand_field_kappa_10: s.computed.map(|c| c.1),
                     range_min: s.range.map(|r| r.0),
                     range_max: s.range.map(|r| r.1),
                     range_source: s.range_source.clone(),
@@ -386,6 +392,7 @@ impl MeasuredMomentReport {
                 "spin-only μB",
                 "spin+orbital μB",
                 "A/E corrected μB",
+                "LF+SO μB (κ 0.7–1)",
                 "typical μB",
                 "window μB",
             ]);
@@ -398,6 +405,10 @@ impl MeasuredMomentReport {
                     st.mu_spin_orbital.map_or("—".into(), |v| fmt_num(v, 2)),
                     st.mu_spin_orbit_corrected
                         .map_or("—".into(), |v| fmt_num(v, 2)),
+                    match (st.mu_ligand_field_kappa_07, st.mu_ligand_field_kappa_10) {
+                        (Some(a), Some(b)) => format!("{:.2}–{:.2}", a.min(b), a.max(b)),
+                        _ => "—".into(),
+                    },
                     match (st.range_min, st.range_max) {
                         (Some(a), Some(b)) => format!("{a:.1}–{b:.1}"),
                         _ => "—".into(),
