@@ -8,6 +8,7 @@
 //!
 //! Reading a `--data` directory ([`Tables::from_dir`]) is the only file access in the library.
 
+pub mod bond_lengths;
 pub mod ions;
 pub mod ligands;
 pub mod moment_ranges;
