@@ -3,5 +3,6 @@
 pub mod engine;
 pub mod error;
 pub mod report;
+pub mod spectra;
 
 pub use error::{Error, Result};

@@ -1,6 +1,8 @@
 //! Command-line layer: parse arguments, call the library, render. No science here.
 
+pub mod bands;
 pub mod common;
+pub mod fit_bands;
 pub mod levels;
 
 use clap::{Parser, Subcommand};
@@ -22,6 +24,10 @@ pub struct Cli {
 pub enum Command {
     /// All d^n levels for given B, C and ligand field, labelled and sorted by energy.
     Levels(levels::Args),
+    /// Fit 10Dq and Racah B (and C) to observed d–d band maxima, with band assignment.
+    FitBands(fit_bands::Args),
+    /// Band-count check: spin-allowed bands of each spin state inside a spectrometer window.
+    Bands(bands::Args),
 }
 
 /// A failure with its exit code (1: computation did not finish, 2: bad usage or input).
@@ -71,5 +77,7 @@ impl Output {
 pub fn run(cli: Cli) -> Result<Output, Failure> {
     match cli.command {
         Command::Levels(a) => levels::run(&a),
+        Command::FitBands(a) => fit_bands::run(&a),
+        Command::Bands(a) => bands::run(&a),
     }
 }

@@ -3,6 +3,8 @@
 //! Reports are plain data built from engine results; rendering never computes science. Human
 //! tables round; JSON and CSV keep full precision.
 
+pub mod bands;
+pub mod fit_bands;
 pub mod levels;
 
 use comfy_table::{presets::UTF8_FULL_CONDENSED, ContentArrangement, Table};
