@@ -47,6 +47,9 @@ pub struct Args {
     /// Free-ion Racah B0 (cm⁻¹) for the nephelauxetic ratio β = B/B0.
     #[arg(long, value_name = "CM-1", allow_negative_numbers = true)]
     pub b0: Option<f64>,
+    /// Cap on model evaluations per tried assignment, as a multiple of (free parameters + 1).
+    #[arg(long, value_name = "K", default_value_t = spinstate::spectra::fit::DEFAULT_PATIENCE)]
+    pub max_evaluations: usize,
     #[command(flatten)]
     pub format: Format,
 }
@@ -84,7 +87,11 @@ pub fn run(args: &Args) -> Result<Output, Failure> {
         c_over_b: args.c_over_b,
         fit_c: args.fit_c,
         fixed_b: args.b,
+        patience: Some(args.max_evaluations),
     };
+    if args.max_evaluations == 0 {
+        return Err(Failure::usage("--max-evaluations 0 must be at least 1"));
+    }
     let out = fit_bands(&req).map_err(|e| {
         let mut f = Failure::from(e.clone());
         if f.code == 2 && f.message.contains("hold B fixed") {

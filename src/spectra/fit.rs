@@ -50,7 +50,13 @@ pub struct FitRequest {
     pub fit_c: bool,
     /// Hold B at this value (cm⁻¹) and fit Dq (and C) only.
     pub fixed_b: Option<f64>,
+    /// Cap on model evaluations per assignment, as a multiple of (free parameters + 1);
+    /// None uses [`DEFAULT_PATIENCE`].
+    pub patience: Option<usize>,
 }
+
+/// Default cap on model evaluations per assignment, × (free parameters + 1).
+pub const DEFAULT_PATIENCE: usize = 60;
 
 /// A model parameter.
 #[derive(Debug, Clone, Copy, PartialEq, Eq)]
@@ -160,6 +166,9 @@ pub struct BandFit {
     pub concerns: Vec<String>,
     /// rms + penalties (cm⁻¹); lower is better.
     pub score: f64,
+    /// Unassigned bands expected to be strong that lie below the highest observed band, at any
+    /// energy (tie-breaker between near-equal assignments).
+    pub skipped_below: usize,
 }
 
 impl BandFit {
@@ -484,7 +493,20 @@ pub fn fit_bands(req: &FitRequest) -> Result<FitOutcome> {
         }));
     }
     fits.sort_by(|a, b| a.score.total_cmp(&b.score));
-    let best = fits.remove(0);
+    // Among near-equal fits prefer the one leaving the fewest strong bands unassigned below the
+    // highest observed band (bands are usually assigned to the lowest transitions).
+    let tol = near_equal_tolerance(fits[0].rms);
+    let top_score = fits[0].score;
+    let pick = (0..fits.len())
+        .filter(|&i| fits[i].score <= top_score + tol)
+        .min_by(|&i, &j| {
+            fits[i]
+                .skipped_below
+                .cmp(&fits[j].skipped_below)
+                .then(fits[i].score.total_cmp(&fits[j].score))
+        })
+        .unwrap_or(0);
+    let best = fits.remove(pick);
     // A band far from every transition means the data fit no assignment.
     if let Some(a) = best
         .assigned
@@ -514,11 +536,10 @@ pub fn fit_bands(req: &FitRequest) -> Result<FitOutcome> {
             best.rms
         )));
     }
-    let tol = near_equal_tolerance(best.rms);
     let alternatives = fits
         .into_iter()
         .map(|f| {
-            let near = f.score <= best.score + tol;
+            let near = f.score <= best.score + near_equal_tolerance(best.rms);
             (f, near)
         })
         .collect();
@@ -834,7 +855,7 @@ fn refine(
         .with_ftol(1e-12)
         .with_xtol(1e-12)
         .with_gtol(1e-12)
-        .with_patience(60)
+        .with_patience(req.patience.unwrap_or(DEFAULT_PATIENCE).max(1))
         .minimize(problem);
     let ok = converged(&report.termination) && report.objective_function.is_finite();
     let (dq, b, c) = spec.natural(&solved.u);
@@ -943,6 +964,10 @@ fn refine(
         ));
     }
     let score = rms + CONCERN_PENALTY * concerns.len() as f64;
+    let skipped_below = predicted
+        .iter()
+        .filter(|pb| !pb.jump.weak && pb.transition.energy < top)
+        .count();
     Ok(Some(BandFit {
         dn: req.dn,
         geometry: req.geometry,
@@ -966,6 +991,7 @@ fn refine(
         evaluations: report.number_of_evaluations,
         concerns,
         score,
+        skipped_below,
     }))
 }
 
@@ -1049,6 +1075,7 @@ mod tests {
             c_over_b: None,
             fit_c: false,
             fixed_b: None,
+            patience: None,
         }
     }
 
@@ -1114,5 +1141,271 @@ mod tests {
         r.spin = SpinChoice::High;
         let e = fit_bands(&r).unwrap_err();
         assert!(e.to_string().contains("spin-forbidden"), "{e}");
+    }
+
+    /// Band positions computed by the engine for the named upper levels.
+    fn engine_bands(
+        dn: usize,
+        geometry: Geometry,
+        two_s: i32,
+        (dq, b, c): (f64, f64, f64),
+        labels: &[&str],
+    ) -> Vec<f64> {
+        let spectrum = calculation(dn, geometry, dq, b, c)
+            .unwrap()
+            .levels()
+            .unwrap();
+        let m = manifold(&spectrum, two_s).unwrap();
+        labels
+            .iter()
+            .map(|l| {
+                m.transitions
+                    .iter()
+                    .find(|t| t.label == *l)
+                    .unwrap_or_else(|| panic!("no {l} in d{dn}"))
+                    .energy
+            })
+            .collect()
+    }
+
+    /// Fits engine-computed bands back and checks Dq, B (and C) to 1e-4 relative.
+    fn round_trip(
+        dn: usize,
+        geometry: Geometry,
+        spin: SpinChoice,
+        two_s: i32,
+        (dq, b, r): (f64, f64, f64),
+        labels: &[&str],
+        fit_c: bool,
+    ) -> FitOutcome {
+        let bands = engine_bands(dn, geometry, two_s, (dq, b, r * b), labels);
+        let req = FitRequest {
+            dn,
+            geometry,
+            bands,
+            spin,
+            c_over_b: Some(r),
+            fit_c,
+            fixed_b: None,
+            patience: None,
+        };
+        let out = fit_bands(&req).unwrap();
+        let f = &out.best;
+        assert_eq!(f.spin_state.two_s, two_s, "d{dn}: spin");
+        let got: Vec<&str> = f
+            .assigned
+            .iter()
+            .map(|a| a.transition.label.as_str())
+            .collect();
+        let mut want = labels.to_vec();
+        let mut sorted = req.bands.clone();
+        sorted.sort_by(|a, b| a.total_cmp(b));
+        want.sort_by_key(|l| {
+            let e = engine_bands(dn, geometry, two_s, (dq, b, r * b), &[l])[0];
+            sorted.iter().position(|x| *x == e).unwrap()
+        });
+        assert_eq!(got, want, "d{dn}: assignment");
+        assert_relative_eq!(f.dq, dq, max_relative = 1e-4);
+        assert_relative_eq!(f.b.unwrap(), b, max_relative = 1e-4);
+        if fit_c {
+            assert_relative_eq!(f.c.unwrap(), r * b, max_relative = 1e-4);
+        }
+        assert!(f.converged);
+        out
+    }
+
+    #[test]
+    fn round_trip_d2_octahedral() {
+        round_trip(
+            2,
+            Geometry::Octahedral,
+            SpinChoice::Auto,
+            2,
+            (1910.0, 613.0, 4.42),
+            &["3T2g", "3T1g(P)", "3A2g"],
+            false,
+        );
+    }
+
+    #[test]
+    fn round_trip_d3_octahedral() {
+        let out = round_trip(
+            3,
+            Geometry::Octahedral,
+            SpinChoice::Auto,
+            3,
+            (1740.0, 700.0, 4.5),
+            &["4T2g", "4T1g(F)", "4T1g(P)"],
+            false,
+        );
+        // Three bands, two parameters, exact data: one degree of freedom, zero residual.
+        assert_eq!(out.best.determination, Determination::Over { dof: 1 });
+        assert!(out.best.rms < 1e-3);
+    }
+
+    #[test]
+    fn round_trip_d6_low_spin() {
+        round_trip(
+            6,
+            Geometry::Octahedral,
+            SpinChoice::Low,
+            0,
+            (2300.0, 630.0, 4.8),
+            &["1T1g", "1T2g"],
+            false,
+        );
+        // Auto finds the low-spin state by itself.
+        round_trip(
+            6,
+            Geometry::Octahedral,
+            SpinChoice::Auto,
+            0,
+            (2300.0, 630.0, 4.8),
+            &["1T1g", "1T2g"],
+            false,
+        );
+    }
+
+    #[test]
+    fn round_trip_d6_low_spin_with_c_free() {
+        // C enters the singlet bands of d6 LS, so three bands fix Dq, B and C.
+        let out = round_trip(
+            6,
+            Geometry::Octahedral,
+            SpinChoice::Low,
+            0,
+            (2300.0, 630.0, 4.3),
+            &["1T1g", "1T2g", "1T2g[2]"],
+            true,
+        );
+        assert_eq!(
+            out.best.free,
+            vec![Parameter::Dq, Parameter::B, Parameter::C]
+        );
+    }
+
+    #[test]
+    fn round_trip_d7_high_spin() {
+        round_trip(
+            7,
+            Geometry::Octahedral,
+            SpinChoice::High,
+            3,
+            (920.0, 825.0, 4.633),
+            &["4T2g", "4A2g", "4T1g(P)"],
+            false,
+        );
+    }
+
+    #[test]
+    fn round_trip_d8_octahedral_and_tetrahedral_d7() {
+        round_trip(
+            8,
+            Geometry::Octahedral,
+            SpinChoice::Auto,
+            2,
+            (850.0, 900.0, 4.709),
+            &["3T2g", "3T1g(F)", "3T1g(P)"],
+            false,
+        );
+        round_trip(
+            7,
+            Geometry::Tetrahedral,
+            SpinChoice::Auto,
+            3,
+            (320.0, 720.0, 4.633),
+            &["4T2", "4T1(F)", "4T1(P)"],
+            false,
+        );
+    }
+
+    #[test]
+    fn sum_rule_for_d3_and_d8() {
+        // 15B = ν2 + ν3 − 3ν1 for octahedral d3 and d8 (Lever, J. Chem. Educ. 1968, 45, 711;
+        // Lever 1984; FACTS.md §5.5 [M]), checked on engine bands and on the fitted B.
+        for (dn, labels, r) in [
+            (3, ["4T2g", "4T1g(F)", "4T1g(P)"], 4.5),
+            (8, ["3T2g", "3T1g(F)", "3T1g(P)"], 4.709),
+        ] {
+            for (dq, b) in [(1200.0, 800.0), (2000.0, 650.0)] {
+                let nu = engine_bands(
+                    dn,
+                    Geometry::Octahedral,
+                    (dn == 3) as i32 + 2,
+                    (dq, b, r * b),
+                    &labels,
+                );
+                assert_relative_eq!(nu[1] + nu[2] - 3.0 * nu[0], 15.0 * b, max_relative = 1e-9);
+                assert_relative_eq!(nu[0], 10.0 * dq, max_relative = 1e-12);
+            }
+        }
+        // A three-band fit of exact d3 data reproduces the sum-rule B.
+        let nu = engine_bands(
+            3,
+            Geometry::Octahedral,
+            3,
+            (1500.0, 760.0, 3420.0),
+            &["4T2g", "4T1g(F)", "4T1g(P)"],
+        );
+        let out = fit_bands(&request(3, Geometry::Octahedral, nu.clone())).unwrap();
+        assert_relative_eq!(
+            out.best.b.unwrap(),
+            (nu[1] + nu[2] - 3.0 * nu[0]) / 15.0,
+            max_relative = 1e-6
+        );
+    }
+
+    #[test]
+    fn two_band_closed_forms() {
+        // d3 from ν1, ν2: B = (ν2 − ν1)(ν2 − 2ν1)/(15ν2 − 27ν1) (FACTS.md §5.5 [C], equivalent to
+        // Lever 1968). [Cr(H2O)6]3+ 17 400, 24 600 → B = 728.6 (FACTS.md §5.6).
+        let (n1, n2) = (17_400.0, 24_600.0);
+        let closed = (n2 - n1) * (n2 - 2.0 * n1) / (15.0 * n2 - 27.0 * n1);
+        let out = fit_bands(&request(3, Geometry::Octahedral, vec![n1, n2])).unwrap();
+        assert_relative_eq!(out.best.b.unwrap(), closed, max_relative = 1e-6);
+        assert_relative_eq!(closed, 728.6, epsilon = 0.05);
+        // d2/d7-HS from ν1 = ν(T2g), ν3 = ν(T1g(P)), a = 2ν1 − ν3:
+        // B = [−48a + √(2880ν3² − 576a²)]/1440, 10Dq = a + 15B (FACTS.md §5.5 [C]);
+        // [V(H2O)6]3+ 17 800, 25 700 (Lever 1984 [M]).
+        let (n1, n3): (f64, f64) = (17_800.0, 25_700.0);
+        let a = 2.0 * n1 - n3;
+        let b = (-48.0 * a + (2880.0 * n3 * n3 - 576.0 * a * a).sqrt()) / 1440.0;
+        let out = fit_bands(&request(2, Geometry::Octahedral, vec![n1, n3])).unwrap();
+        assert_relative_eq!(out.best.b.unwrap(), b, max_relative = 1e-6);
+        assert_relative_eq!(out.best.delta(), a + 15.0 * b, max_relative = 1e-6);
+        // ν(A2g) − ν(T2g) = 10Dq exactly.
+        let a2 = out
+            .best
+            .predicted
+            .iter()
+            .find(|p| p.transition.key.irrep == "A2g")
+            .unwrap();
+        assert_relative_eq!(
+            a2.transition.energy - n1,
+            out.best.delta(),
+            max_relative = 1e-9
+        );
+    }
+
+    #[test]
+    fn low_spin_d6_exceeds_first_order_b() {
+        // First-order strong-field forms E(1T1g) = 10Dq − C, E(1T2g) = 10Dq + 16B − C give
+        // B ≈ (ν2 − ν1)/16 and underestimate B by ≈15–20 % (FACTS.md §5.5 [C]; forms Lever
+        // 1984 [M]). [Co(NH3)6]3+ 21 000, 29 500: first-order 531, full fit 634.8 at C = 4.8B.
+        let mut r = request(6, Geometry::Octahedral, vec![21_000.0, 29_500.0]);
+        r.c_over_b = Some(4.8);
+        let out = fit_bands(&r).unwrap();
+        let first_order = (29_500.0 - 21_000.0) / 16.0;
+        let b = out.best.b.unwrap();
+        assert!(b / first_order > 1.15 && b / first_order < 1.25, "B {b}");
+    }
+
+    #[test]
+    fn iteration_cap_gives_a_computation_error_with_the_best_point() {
+        let mut r = request(3, Geometry::Octahedral, vec![17_400.0, 24_600.0, 37_800.0]);
+        r.patience = Some(1);
+        let e = fit_bands(&r).unwrap_err();
+        assert_eq!(e.exit_code(), 1);
+        assert!(e.to_string().contains("best point reached: 10Dq ="), "{e}");
     }
 }
