@@ -15,21 +15,48 @@ pub struct Args {
 
 pub fn run(args: &Args) -> Result<Output, Failure> {
     let r = args.field.resolve()?;
-    let spectrum = r.calc.levels()?;
-    let ground = spectrum.ground().clone();
-    let levels = spectrum
-        .levels
-        .iter()
-        .map(|l| LevelRow {
-            energy: l.energy,
-            multiplicity: l.multiplicity(),
-            spin: l.spin(),
-            label: l.label(),
-            degeneracy: l.degeneracy,
-            parent: l.parent.clone(),
-            spin_allowed: l.two_s == ground.two_s,
-        })
-        .collect();
+    let (levels, ground): (Vec<LevelRow>, String) = if r.zeta > 0.0 {
+        let so = r.calc.spin_orbit_levels(r.zeta)?;
+        let g = so[0].multiplicity();
+        let rows = so
+            .iter()
+            .map(|l| LevelRow {
+                energy: l.energy,
+                multiplicity: l.multiplicity(),
+                spin: (l.multiplicity() - 1) as f64 / 2.0,
+                label: l.parent_level.clone(),
+                degeneracy: l.degeneracy,
+                parent: l.parent_term.clone(),
+                spin_allowed: l.multiplicity() == g,
+                s_squared: Some(l.s_squared),
+                weight: Some(l.weight),
+            })
+            .collect();
+        let ground = format!(
+            "{} states from {} ({})",
+            so[0].degeneracy, so[0].parent_level, so[0].parent_term
+        );
+        (rows, ground)
+    } else {
+        let spectrum = r.calc.levels()?;
+        let ground = spectrum.ground().clone();
+        let rows = spectrum
+            .levels
+            .iter()
+            .map(|l| LevelRow {
+                energy: l.energy,
+                multiplicity: l.multiplicity(),
+                spin: l.spin(),
+                label: l.label(),
+                degeneracy: l.degeneracy,
+                parent: l.parent.clone(),
+                spin_allowed: l.two_s == ground.two_s,
+                s_squared: None,
+                weight: None,
+            })
+            .collect();
+        (rows, format!("{} ({})", ground.label(), ground.parent))
+    };
     let report = LevelsReport {
         dn: r.calc.dn,
         geometry: r.geometry.name().to_string(),
@@ -44,7 +71,7 @@ pub fn run(args: &Args) -> Result<Output, Failure> {
         zeta: r.zeta,
         c_over_b: r.calc.c / r.calc.b,
         delta_over_b: 10.0 * r.dq / r.calc.b,
-        ground: format!("{} ({})", ground.label(), ground.parent),
+        ground,
         levels,
     };
     Ok(Output::text(if args.format.json {

@@ -2,6 +2,8 @@
 
 pub mod bands;
 pub mod common;
+pub mod crossover;
+pub mod diagram;
 pub mod fit_bands;
 pub mod levels;
 
@@ -24,6 +26,10 @@ pub struct Cli {
 pub enum Command {
     /// All d^n levels for given B, C and ligand field, labelled and sorted by energy.
     Levels(levels::Args),
+    /// Tanabe–Sugano style diagram: E/B of every level against Δ/B (table, CSV, SVG).
+    Diagram(diagram::Args),
+    /// Δ/B at which the ground-state spin changes, for one d^n or every d^n of a geometry.
+    Crossover(crossover::Args),
     /// Fit 10Dq and Racah B (and C) to observed d–d band maxima, with band assignment.
     FitBands(fit_bands::Args),
     /// Band-count check: spin-allowed bands of each spin state inside a spectrometer window.
@@ -77,6 +83,8 @@ impl Output {
 pub fn run(cli: Cli) -> Result<Output, Failure> {
     match cli.command {
         Command::Levels(a) => levels::run(&a),
+        Command::Diagram(a) => diagram::run(&a),
+        Command::Crossover(a) => crossover::run(&a),
         Command::FitBands(a) => fit_bands::run(&a),
         Command::Bands(a) => bands::run(&a),
     }

@@ -94,6 +94,12 @@ fn frobenius(a: &Matrix3<Complex<f64>>, b: &Matrix3<Complex<f64>>) -> Complex<f6
 
 /// Overlap ⟨Y_{2m}|real orbital a⟩, rows m = −2..=2, columns in [`REAL_ORBITALS`] order.
 pub fn complex_from_real() -> nalgebra::SMatrix<Complex<f64>, 5, 5> {
+    static T: std::sync::OnceLock<nalgebra::SMatrix<Complex<f64>, 5, 5>> =
+        std::sync::OnceLock::new();
+    *T.get_or_init(build_complex_from_real)
+}
+
+fn build_complex_from_real() -> nalgebra::SMatrix<Complex<f64>, 5, 5> {
     let mut t = nalgebra::SMatrix::<Complex<f64>, 5, 5>::zeros();
     for m in -2..=2 {
         let qm = complex_orbital_form(m);

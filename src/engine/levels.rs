@@ -102,7 +102,8 @@ impl Spectrum {
 struct BlockStates<'a> {
     block: &'a SpinBlock,
     values: Vec<f64>,
-    vectors: DMatrix<C64>,
+    /// Eigenvectors (columns), when they were computed.
+    vectors: Option<DMatrix<C64>>,
 }
 
 impl Calculation {
@@ -153,9 +154,10 @@ impl Calculation {
         block: &SpinBlock,
         v: &SMatrix<C64, 5, 5>,
     ) -> (DMatrix<f64>, Option<DMatrix<f64>>) {
-        let mut re = &block.rep_b * self.b + &block.rep_c * self.c;
+        let mut re = &block.rep_b * self.b;
+        add_scaled(&mut re, self.c, &block.rep_c);
         if self.l_squared_shift != 0.0 {
-            re += &block.l_squared * self.l_squared_shift;
+            add_scaled(&mut re, self.l_squared_shift, &block.l_squared);
         }
         let mut im: Option<DMatrix<f64>> = None;
         for i in 0..5 {
@@ -165,11 +167,11 @@ impl Calculation {
                 };
                 let h = v[(i, j)];
                 if h.re != 0.0 {
-                    re += e * h.re;
+                    add_scaled(&mut re, h.re, e);
                 }
                 if h.im.abs() > 1e-14 * (1.0 + h.re.abs()) {
                     let m = im.get_or_insert_with(|| DMatrix::zeros(e.nrows(), e.ncols()));
-                    *m += e * h.im;
+                    add_scaled(m, h.im, e);
                 }
             }
         }
@@ -180,8 +182,29 @@ impl Calculation {
         &self,
         block: &'a SpinBlock,
         v: &SMatrix<C64, 5, 5>,
+        with_vectors: bool,
     ) -> Result<BlockStates<'a>> {
         let (re, im) = self.block_matrix(block, v);
+        if !with_vectors {
+            let values: Vec<f64> = match im {
+                None => re.symmetric_eigenvalues().iter().copied().collect(),
+                Some(im) => DMatrix::from_fn(re.nrows(), re.ncols(), |i, j| {
+                    C64::new(re[(i, j)], im[(i, j)])
+                })
+                .symmetric_eigenvalues()
+                .iter()
+                .copied()
+                .collect(),
+            };
+            if values.iter().any(|x| !x.is_finite()) {
+                return Err(Error::Computation("eigenvalues are not finite".into()));
+            }
+            return Ok(BlockStates {
+                block,
+                values,
+                vectors: None,
+            });
+        }
         let fail = || {
             Error::Computation(format!(
                 "eigen-decomposition of a {}×{} block did not converge",
@@ -214,15 +237,31 @@ impl Calculation {
         Ok(BlockStates {
             block,
             values,
-            vectors,
+            vectors: Some(vectors),
         })
+    }
+
+    /// True when the field is unchanged by the C₂ rotation about x, which maps M_L to −M_L, so
+    /// the M_L ≡ 3 (mod 4) block has the same eigenvalues as the M_L ≡ 1 block.
+    fn mirror_symmetric(&self) -> bool {
+        // Under C₂(x): z², yz, x²−y² keep their sign; xz and xy change it.
+        let sign = [1.0, -1.0, 1.0, 1.0, -1.0];
+        let m = &self.field.matrix;
+        let scale = m.amax().max(1e-300);
+        (0..5)
+            .all(|a| (0..5).all(|b| (m[(a, b)] * (1.0 - sign[a] * sign[b])).abs() <= 1e-12 * scale))
     }
 
     /// Lowest energy (cm⁻¹, A = 0) of each total spin, as (2S, energy); eigenvalues only.
     pub fn lowest_by_spin(&self) -> Result<Vec<(i32, f64)>> {
         let v = self.field.complex_matrix();
         let mut out: Vec<(i32, f64)> = Vec::new();
-        for block in self.shell().blocks(self.fourfold()) {
+        let fourfold = self.fourfold();
+        let skip_mirror = fourfold && self.mirror_symmetric();
+        for block in self.shell().blocks(fourfold) {
+            if skip_mirror && block.residue == Some(3) {
+                continue;
+            }
             let (re, im) = self.block_matrix(block, &v);
             let low = match im {
                 None => re.symmetric_eigenvalues().min(),
@@ -261,26 +300,61 @@ impl Calculation {
     }
 
     /// Raw grouped levels: (energy, 2S, irrep, dimension, ⟨L²⟩ per group) without parents.
-    fn grouped(&self, want_l: bool) -> Result<Vec<RawLevel>> {
-        if self.field.magnitude() == 0.0 && self.l_squared_shift == 0.0 {
+    fn grouped(&self, want_l: bool, terms_at_zero_field: bool) -> Result<Vec<RawLevel>> {
+        let free_ion = terms_at_zero_field && self.field.magnitude() == 0.0;
+        if free_ion && self.l_squared_shift == 0.0 {
             // Free ion: separate accidentally degenerate terms (e.g. ²P and ²H of d³) by L.
             let mut c = self.clone();
             c.l_squared_shift = 1e-2 * self.b;
-            let mut raw = c.grouped(true)?;
+            let mut raw = c.grouped(true, true)?;
             for r in &mut raw {
                 let l = l_from_l_squared(r.l_sq.unwrap_or(0.0)) as f64;
                 r.energy -= c.l_squared_shift * l * (l + 1.0);
             }
             return Ok(raw);
         }
+        let fast = !want_l && !free_ion && self.fourfold() && self.mirror_symmetric();
+        if fast {
+            if let Some(raw) = self.grouped_impl(false, false, true)? {
+                return Ok(raw);
+            }
+        }
+        Ok(self
+            .grouped_impl(want_l, free_ion, false)?
+            .expect("every eigenvector is available when not in fast mode"))
+    }
+
+    /// Grouping and labelling. In `fast` mode the M_L ≡ 1 (mod 4) block is diagonalised without
+    /// eigenvectors and the M_L ≡ 3 block is not diagonalised at all (its eigenvalues are those
+    /// of the mirror block); Ok(None) is returned if a label then needed a missing eigenvector.
+    fn grouped_impl(
+        &self,
+        want_l: bool,
+        free_ion: bool,
+        fast: bool,
+    ) -> Result<Option<Vec<RawLevel>>> {
         let v = self.field.complex_matrix();
         let shell = self.shell();
-        let free_ion = self.field.magnitude() == 0.0;
-        let states: Vec<BlockStates> = shell
-            .blocks(self.fourfold() || free_ion)
-            .iter()
-            .map(|b| self.diagonalise(b, &v))
-            .collect::<Result<_>>()?;
+        let blocks = shell.blocks(self.fourfold() || free_ion);
+        let mut states: Vec<BlockStates> = Vec::with_capacity(blocks.len());
+        for b in blocks {
+            if fast && b.residue == Some(3) {
+                let twin = states
+                    .iter()
+                    .find(|s| s.block.two_s == b.two_s && s.block.residue == Some(1));
+                if let Some(t) = twin {
+                    let values = t.values.clone();
+                    states.push(BlockStates {
+                        block: b,
+                        values,
+                        vectors: None,
+                    });
+                    continue;
+                }
+            }
+            let vectors = !(fast && b.residue == Some(1));
+            states.push(self.diagonalise(b, &v, vectors)?);
+        }
         let tol = self.degeneracy_tolerance();
         let mut raw = Vec::new();
         let mut spins: Vec<i32> = states.iter().map(|s| s.block.two_s).collect();
@@ -310,7 +384,10 @@ impl Calculation {
                     let mut s = 0.0;
                     for &(_, bi, k) in members {
                         let st = &states[bi];
-                        let col = st.vectors.column(k);
+                        let Some(vecs) = &st.vectors else {
+                            return Ok(None);
+                        };
+                        let col = vecs.column(k);
                         let det_vec: Vec<C64> = (st.block.basis.map(|x| C64::new(x, 0.0)) * col)
                             .iter()
                             .copied()
@@ -332,8 +409,11 @@ impl Calculation {
                         l_sq,
                     });
                 } else {
-                    let ch = self.characters(&states, members);
-                    match self.group.decompose(&ch) {
+                    let parts = match self.group_labels(&states, members) {
+                        Ok(p) => p,
+                        Err(MissingVector) => return Ok(None),
+                    };
+                    match parts {
                         Some(parts) => {
                             for (name, dim) in parts {
                                 raw.push(RawLevel {
@@ -358,10 +438,77 @@ impl Calculation {
             }
         }
         raw.sort_by(|a, b| a.energy.total_cmp(&b.energy).then(b.two_s.cmp(&a.two_s)));
-        Ok(raw)
+        Ok(Some(raw))
     }
 
-    fn characters(&self, states: &[BlockStates], members: &[(f64, usize, usize)]) -> Characters {
+    /// Irreps of one degenerate group. The M_L-mod-4 classes of its states give the characters of
+    /// C₄ and C₂ for free; when they already fix the irrep (T₁, T₂, A₁, A₂ of O; E of D₄) no
+    /// further work is needed, otherwise the characters of the other rotations are computed
+    /// from the eigenvectors.
+    fn group_labels(
+        &self,
+        states: &[BlockStates],
+        members: &[(f64, usize, usize)],
+    ) -> std::result::Result<Option<Vec<(String, usize)>>, MissingVector> {
+        let mut residues: Vec<i32> = members
+            .iter()
+            .filter_map(|&(_, bi, _)| states[bi].block.residue)
+            .collect();
+        residues.sort_unstable();
+        if residues.len() == members.len() {
+            let g = match self.group {
+                PointGroup::Oh => "g",
+                _ => "",
+            };
+            let direct = match (self.group, residues.as_slice()) {
+                (PointGroup::Oh | PointGroup::Td, [0]) => Some(("A1", 1)),
+                (PointGroup::Oh | PointGroup::Td, [2]) => Some(("A2", 1)),
+                (PointGroup::Oh | PointGroup::Td, [0, 1, 3]) => Some(("T1", 3)),
+                (PointGroup::Oh | PointGroup::Td, [1, 2, 3]) => Some(("T2", 3)),
+                (PointGroup::D4h, [1, 3]) => Some(("Eg", 2)),
+                _ => None,
+            };
+            if let Some((name, dim)) = direct {
+                return Ok(Some(vec![(format!("{name}{g}"), dim)]));
+            }
+            // E of O (χ(C₃) = −1) or one-dimensional irreps of D₄ (χ(C₂′) = ±1): one rotation
+            // is enough; anything else falls through to the full set of characters.
+            let rot_char = |ri: usize| -> std::result::Result<f64, MissingVector> {
+                let mut sum = 0.0;
+                for &(_, bi, k) in members {
+                    let st = &states[bi];
+                    let vecs = st.vectors.as_ref().ok_or(MissingVector)?;
+                    sum += expectation(st.block, vecs, k, ri);
+                }
+                Ok(sum)
+            };
+            match (self.group, residues.as_slice()) {
+                (PointGroup::Oh | PointGroup::Td, [0, 2]) if (rot_char(0)? + 1.0).abs() < 1e-4 => {
+                    return Ok(Some(vec![(format!("E{g}"), 2)]));
+                }
+                (PointGroup::D4h, [r @ (0 | 2)]) => {
+                    let c2x = rot_char(2)?;
+                    let name = match (r, c2x > 0.0) {
+                        (0, true) => "A1g",
+                        (0, false) => "A2g",
+                        (_, true) => "B1g",
+                        (_, false) => "B2g",
+                    };
+                    if (c2x.abs() - 1.0).abs() < 1e-4 {
+                        return Ok(Some(vec![(name.to_string(), 1)]));
+                    }
+                }
+                _ => {}
+            }
+        }
+        Ok(self.group.decompose(&self.characters(states, members)?))
+    }
+
+    fn characters(
+        &self,
+        states: &[BlockStates],
+        members: &[(f64, usize, usize)],
+    ) -> std::result::Result<Characters, MissingVector> {
         let mut ch = Characters::default();
         let mut c4 = C64::new(0.0, 0.0);
         for &(_, bi, k) in members {
@@ -372,12 +519,17 @@ impl Calculation {
                 c4 += C64::new(angle.cos(), angle.sin());
                 ch.c2z += if r % 2 == 0 { 1.0 } else { -1.0 };
             }
-            let col = st.vectors.column(k);
+            let Some(vecs) = &st.vectors else {
+                if self.group == PointGroup::C1 {
+                    continue;
+                }
+                return Err(MissingVector);
+            };
             for (ri, rot) in super::symmetry::Rotation::ALL.iter().enumerate() {
                 if !self.group.needs(*rot) {
                     continue;
                 }
-                let val = (col.adjoint() * &st.block.rotations[ri] * col)[(0, 0)].re;
+                let val = expectation(st.block, vecs, k, ri);
                 match rot {
                     super::symmetry::Rotation::C3Diagonal => ch.c3 += val,
                     super::symmetry::Rotation::C2Face => ch.c2_face += val,
@@ -386,14 +538,26 @@ impl Calculation {
             }
         }
         ch.c4z = c4.re;
-        ch
+        Ok(ch)
     }
 
     /// All spin-free levels, lowest first, labelled and with their free-ion parents.
     pub fn levels(&self) -> Result<Spectrum> {
-        let raw = self.grouped(false)?;
         let parents = self.parent_table()?;
-        Ok(assemble(raw, &parents))
+        self.levels_with(&parents, true)
+    }
+
+    /// Levels with a parent table computed once elsewhere (e.g. once for a whole diagram along
+    /// one field direction). With `terms_at_zero_field` false, a zero field still gets the
+    /// point-group labels of the group (each free-ion term decomposed into its irreps), so that
+    /// series of a diagram continue to Δ = 0.
+    pub fn levels_with(
+        &self,
+        parents: &ParentTable,
+        terms_at_zero_field: bool,
+    ) -> Result<Spectrum> {
+        let raw = self.grouped(false, terms_at_zero_field)?;
+        Ok(assemble(raw, parents))
     }
 
     /// For each (2S, irrep), the parent terms of its levels in order of energy, found at a field
@@ -410,7 +574,7 @@ impl Calculation {
             small.field = self.field.scaled(1e-4 * self.b / mag);
             small.l_squared_shift = 1e-2 * self.b;
         }
-        let raw = small.grouped(true)?;
+        let raw = small.grouped(true, true)?;
         let mut table: ParentTable = Vec::new();
         for r in raw {
             let l = l_from_l_squared(r.l_sq.unwrap_or(0.0));
@@ -427,6 +591,27 @@ impl Calculation {
 
 /// For each (2S, irrep), the parent terms of its levels in order of energy.
 pub type ParentTable = Vec<((i32, String), Vec<String>)>;
+
+/// Re⟨v|R|v⟩ for eigenvector `k` of a block and rotation `ri` of [`super::symmetry::Rotation::ALL`].
+fn expectation(block: &SpinBlock, vecs: &DMatrix<C64>, k: usize, ri: usize) -> f64 {
+    let col = vecs.column(k);
+    if col.iter().all(|z| z.im == 0.0) {
+        let v: nalgebra::DVector<f64> = col.map(|z| z.re);
+        v.dot(&(&block.rotations_re[ri] * &v))
+    } else {
+        (col.adjoint() * &block.rotations[ri] * col)[(0, 0)].re
+    }
+}
+
+/// dst += a · src, in place.
+fn add_scaled(dst: &mut DMatrix<f64>, a: f64, src: &DMatrix<f64>) {
+    for (d, s) in dst.as_mut_slice().iter_mut().zip(src.as_slice()) {
+        *d += a * s;
+    }
+}
+
+/// Signals that a label needed an eigenvector that fast mode did not compute.
+struct MissingVector;
 
 /// A grouped level before parents are attached.
 #[derive(Debug, Clone)]

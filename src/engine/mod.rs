@@ -5,14 +5,20 @@
 
 pub mod angular;
 pub mod basis;
+pub mod crossover;
+pub mod diagram;
 pub mod field;
 pub mod geometry;
 pub mod levels;
 pub mod operators;
 pub mod shell;
+pub mod spin_orbit;
 pub mod symmetry;
 
+pub use crossover::{crossover, tanabe_sugano_c_over_b, Crossover, SpinGround};
+pub use diagram::{diagram, Diagram, Series};
 pub use field::LigandField;
 pub use geometry::Geometry;
 pub use levels::{Calculation, Level, Spectrum};
+pub use spin_orbit::{SpinOrbitLevel, SpinOrbitSolution};
 pub use symmetry::PointGroup;

@@ -152,3 +152,100 @@ pub fn two_body(list: &DetList, f: &Slater) -> DMatrix<f64> {
     }
     h
 }
+
+/// Matrix ⟨to_i| Σ_pq h[p][q] a†_p a_q |from_j⟩ of a one-electron operator with complex
+/// spin-orbital matrix elements (e.g. L_x, S_y for Zeeman terms).
+pub fn one_body_complex(
+    from: &DetList,
+    to: &DetList,
+    h: &[[nalgebra::Complex<f64>; SPIN_ORBITALS]; SPIN_ORBITALS],
+) -> DMatrix<nalgebra::Complex<f64>> {
+    let re = one_body(from, to, |p, q| h[p][q].re);
+    let im = one_body(from, to, |p, q| h[p][q].im);
+    DMatrix::from_fn(re.nrows(), re.ncols(), |i, j| {
+        nalgebra::Complex::new(re[(i, j)], im[(i, j)])
+    })
+}
+
+/// Spin-orbital matrix elements ⟨p|l·s|q⟩ for a d shell (real with Condon–Shortley phases):
+/// l_z s_z on the diagonal and ½(l₊s₋ + l₋s₊) off it.
+pub fn l_dot_s(p: usize, q: usize) -> f64 {
+    let (mp, mq) = (m_of(p), m_of(q));
+    let (sp, sq) = (two_ms_of(p), two_ms_of(q));
+    if p == q {
+        return mp as f64 * sp as f64 / 2.0;
+    }
+    // l₊ s₋ : (m, α) → (m+1, β)
+    if sq == 1 && sp == -1 && mp == mq + 1 {
+        return 0.5 * ((6 - mq * (mq + 1)) as f64).sqrt();
+    }
+    // l₋ s₊ : (m, β) → (m−1, α)
+    if sq == -1 && sp == 1 && mp == mq - 1 {
+        return 0.5 * ((6 - mq * (mq - 1)) as f64).sqrt();
+    }
+    0.0
+}
+
+/// Cartesian component of an angular-momentum vector operator.
+#[derive(Debug, Clone, Copy, PartialEq, Eq)]
+pub enum Axis {
+    X,
+    Y,
+    Z,
+}
+
+/// Spin-orbital matrix of one component of l (orbital) or s (spin) for a d electron, in units
+/// of ħ: l_x = (l₊ + l₋)/2, l_y = (l₊ − l₋)/2i, and likewise for s.
+pub fn angular_momentum(orbital: bool, axis: Axis) -> [[nalgebra::Complex<f64>; 10]; 10] {
+    use nalgebra::Complex;
+    let mut h = [[Complex::new(0.0, 0.0); 10]; 10];
+    for (p, row) in h.iter_mut().enumerate() {
+        for (q, entry) in row.iter_mut().enumerate() {
+            let (mp, mq) = (m_of(p), m_of(q));
+            let (sp, sq) = (two_ms_of(p), two_ms_of(q));
+            // raising and lowering elements of the chosen momentum
+            let (same, up, down, diag) = if orbital {
+                (
+                    sp == sq,
+                    mp == mq + 1,
+                    mp == mq - 1,
+                    if mp == mq { mq as f64 } else { 0.0 },
+                )
+            } else {
+                (
+                    mp == mq,
+                    sp == sq + 2,
+                    sp == sq - 2,
+                    if sp == sq { sq as f64 / 2.0 } else { 0.0 },
+                )
+            };
+            if !same {
+                continue;
+            }
+            let plus = if up {
+                if orbital {
+                    ((6 - mq * (mq + 1)) as f64).sqrt()
+                } else {
+                    1.0
+                }
+            } else {
+                0.0
+            };
+            let minus = if down {
+                if orbital {
+                    ((6 - mq * (mq - 1)) as f64).sqrt()
+                } else {
+                    1.0
+                }
+            } else {
+                0.0
+            };
+            *entry = match axis {
+                Axis::Z => Complex::new(diag, 0.0),
+                Axis::X => Complex::new((plus + minus) / 2.0, 0.0),
+                Axis::Y => Complex::new(0.0, -(plus - minus) / 2.0),
+            };
+        }
+    }
+    h
+}

@@ -4,7 +4,7 @@
 //! use and shared (it is exact, so caching it changes no result).
 
 use super::basis::{all_determinants, m_of, total_ml, total_two_ms, two_ms_of, Determinant};
-use super::operators::{one_body, two_body, DetList, Slater};
+use super::operators::{l_dot_s, one_body, two_body, DetList, Slater};
 use super::symmetry::{rotation_matrix, Rotation};
 use nalgebra::{Complex, DMatrix, SymmetricEigen};
 use std::sync::OnceLock;
@@ -30,6 +30,8 @@ pub struct SpinBlock {
     pub excitations: Vec<Option<DMatrix<f64>>>,
     /// Diagonal blocks of the rotations of [`Rotation::ALL`], projected.
     pub rotations: Vec<DMatrix<C64>>,
+    /// Real parts of `rotations` (enough for ⟨v|R|v⟩ with real v).
+    pub rotations_re: Vec<DMatrix<f64>>,
     /// Orbital angular momentum squared L², projected (L² conserves M_L).
     pub l_squared: DMatrix<f64>,
 }
@@ -41,6 +43,25 @@ impl SpinBlock {
     }
 }
 
+/// A block of determinants of one class of 2M_J mod 8 (or all determinants), for calculations
+/// with spin–orbit coupling, with the unit matrices of every term of the Hamiltonian.
+#[derive(Debug)]
+pub struct SpinOrbitBlock {
+    /// (2M_L + 2M_S) mod 8 of the block, or None when it holds every determinant.
+    pub class: Option<i32>,
+    pub dets: DetList,
+    /// Electron repulsion per unit B and per unit C.
+    pub rep_b: DMatrix<f64>,
+    pub rep_c: DMatrix<f64>,
+    /// Spatial excitations Σ_σ a†_{mσ} a_{m′σ}; index (m+2)·5 + (m′+2); None where they leave
+    /// the block.
+    pub excitations: Vec<Option<DMatrix<f64>>>,
+    /// Σ_i l_i·s_i (multiply by ζ).
+    pub spin_orbit: DMatrix<f64>,
+    /// Total S².
+    pub s_squared: DMatrix<f64>,
+}
+
 /// Everything cached for one d^n configuration.
 #[derive(Debug)]
 pub struct Shell {
@@ -49,6 +70,8 @@ pub struct Shell {
     with_residues: OnceLock<Vec<SpinBlock>>,
     without_residues: OnceLock<Vec<SpinBlock>>,
     l_raise: OnceLock<Vec<(i32, DetList, DMatrix<f64>)>>,
+    so_with_classes: OnceLock<Vec<SpinOrbitBlock>>,
+    so_without_classes: OnceLock<Vec<SpinOrbitBlock>>,
 }
 
 static SHELLS: [OnceLock<Shell>; 11] = [const { OnceLock::new() }; 11];
@@ -61,6 +84,8 @@ pub fn shell(n: usize) -> &'static Shell {
         with_residues: OnceLock::new(),
         without_residues: OnceLock::new(),
         l_raise: OnceLock::new(),
+        so_with_classes: OnceLock::new(),
+        so_without_classes: OnceLock::new(),
     })
 }
 
@@ -79,6 +104,87 @@ impl Shell {
             self.without_residues
                 .get_or_init(|| self.build_blocks(false))
         }
+    }
+
+    /// Blocks for spin–orbit calculations, split by 2M_J mod 8 when `fourfold`.
+    pub fn spin_orbit_blocks(&self, fourfold: bool) -> &[SpinOrbitBlock] {
+        if fourfold {
+            self.so_with_classes
+                .get_or_init(|| self.build_so_blocks(true))
+        } else {
+            self.so_without_classes
+                .get_or_init(|| self.build_so_blocks(false))
+        }
+    }
+
+    fn build_so_blocks(&self, fourfold: bool) -> Vec<SpinOrbitBlock> {
+        let class_of = |d: Determinant| (2 * total_ml(d) + total_two_ms(d)).rem_euclid(8);
+        let classes: Vec<Option<i32>> = if fourfold {
+            let mut c: Vec<i32> = self.determinants.iter().map(|&d| class_of(d)).collect();
+            c.sort_unstable();
+            c.dedup();
+            c.into_iter().map(Some).collect()
+        } else {
+            vec![None]
+        };
+        // S² over all determinants: S₋S₊ + S_z² + S_z, restricted per block below.
+        let all = DetList::new(self.determinants.clone());
+        let splus = one_body(&all, &all, |p, q| {
+            if two_ms_of(p) == 1 && two_ms_of(q) == -1 && m_of(p) == m_of(q) {
+                1.0
+            } else {
+                0.0
+            }
+        });
+        let mut s2_all = splus.transpose() * &splus;
+        for (i, &d) in all.dets.iter().enumerate() {
+            let sz = total_two_ms(d) as f64 / 2.0;
+            s2_all[(i, i)] += sz * sz + sz;
+        }
+        classes
+            .into_iter()
+            .map(|class| {
+                let dets = DetList::new(
+                    self.determinants
+                        .iter()
+                        .copied()
+                        .filter(|&d| class.is_none_or(|c| class_of(d) == c))
+                        .collect(),
+                );
+                let idx: Vec<usize> = dets
+                    .dets
+                    .iter()
+                    .map(|&d| all.position(d).expect("block determinant in full list"))
+                    .collect();
+                let s_squared =
+                    DMatrix::from_fn(dets.len(), dets.len(), |i, j| s2_all[(idx[i], idx[j])]);
+                let mut excitations = Vec::with_capacity(25);
+                for m in -2i32..=2 {
+                    for mp in -2i32..=2 {
+                        if class.is_some() && (m - mp).rem_euclid(4) != 0 {
+                            excitations.push(None);
+                            continue;
+                        }
+                        excitations.push(Some(one_body(&dets, &dets, |p, q| {
+                            if m_of(p) == m && m_of(q) == mp && two_ms_of(p) == two_ms_of(q) {
+                                1.0
+                            } else {
+                                0.0
+                            }
+                        })));
+                    }
+                }
+                SpinOrbitBlock {
+                    class,
+                    rep_b: two_body(&dets, &Slater::from_racah(0.0, 1.0, 0.0)),
+                    rep_c: two_body(&dets, &Slater::from_racah(0.0, 0.0, 1.0)),
+                    spin_orbit: one_body(&dets, &dets, l_dot_s),
+                    excitations,
+                    s_squared,
+                    dets,
+                }
+            })
+            .collect()
     }
 
     fn build_blocks(&self, fourfold: bool) -> Vec<SpinBlock> {
@@ -158,10 +264,11 @@ impl Shell {
             }
         }
         let cbasis = basis.map(|x| C64::new(x, 0.0));
-        let rotations = Rotation::ALL
+        let rotations: Vec<DMatrix<C64>> = Rotation::ALL
             .iter()
             .map(|&r| cbasis.adjoint() * rotation_matrix(r, &dets, &dets) * &cbasis)
             .collect();
+        let rotations_re = rotations.iter().map(|m| m.map(|z| z.re)).collect();
         let l_squared = project(self.l_squared_matrix(&dets));
         Some(SpinBlock {
             l_squared,
@@ -173,6 +280,7 @@ impl Shell {
             rep_c,
             excitations,
             rotations,
+            rotations_re,
         })
     }
 

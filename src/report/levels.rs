@@ -18,8 +18,15 @@ pub struct LevelRow {
     pub degeneracy: usize,
     /// Free-ion parent term (e.g. "4F").
     pub parent: String,
-    /// Whether the transition from the ground level conserves spin.
+    /// Whether the transition from the ground level conserves spin (with spin–orbit coupling:
+    /// whether the nearest pure spins agree).
     pub spin_allowed: bool,
+    /// With spin–orbit coupling only: ⟨S²⟩ of the level (S(S+1) for a pure spin).
+    #[serde(skip_serializing_if = "Option::is_none")]
+    pub s_squared: Option<f64>,
+    /// With spin–orbit coupling only: weight (0..1) of the spin-free level named in `label`.
+    #[serde(skip_serializing_if = "Option::is_none")]
+    pub weight: Option<f64>,
 }
 
 /// The whole `levels` report.
@@ -55,23 +62,36 @@ impl LevelsReport {
             "E (cm⁻¹)"
         };
         let decimals = if self.energy_unit == "B" { 3 } else { 1 };
-        let mut t = new_table([
+        let so = self.zeta != 0.0;
+        let mut header = vec![
             unit,
             "2S+1",
             "label",
             "degeneracy",
             "parent",
             "spin-allowed",
-        ]);
+        ];
+        if so {
+            header[2] = "from level";
+            header[3] = "states";
+            header.push("⟨S²⟩");
+            header.push("weight");
+        }
+        let mut t = new_table(header);
         for l in &self.levels {
-            t.add_row(vec![
+            let mut row = vec![
                 fmt_num(l.energy, decimals),
                 l.multiplicity.to_string(),
                 l.label.clone(),
                 l.degeneracy.to_string(),
                 l.parent.clone(),
                 if l.spin_allowed { "yes" } else { "no" }.to_string(),
-            ]);
+            ];
+            if so {
+                row.push(fmt_num(l.s_squared.unwrap_or(f64::NAN), 3));
+                row.push(fmt_num(l.weight.unwrap_or(f64::NAN), 3));
+            }
+            t.add_row(row);
         }
         let zeta = if self.zeta != 0.0 {
             format!(", ζ = {}", fmt_num(self.zeta, 1))

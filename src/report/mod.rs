@@ -4,6 +4,8 @@
 //! tables round; JSON and CSV keep full precision.
 
 pub mod bands;
+pub mod crossover;
+pub mod diagram;
 pub mod fit_bands;
 pub mod levels;
 

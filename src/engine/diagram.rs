@@ -1,0 +1,132 @@
+//! Energy-level diagrams in the convention of Tanabe and Sugano (J. Phys. Soc. Jpn. 9, 753, 1954):
+//! E/B of every level against Δ/B at fixed C/B, with the ground level drawn at zero.
+
+use super::crossover::{crossover, Crossover};
+use super::geometry::Geometry;
+use super::levels::Calculation;
+use crate::error::{require_finite, Error, Result};
+
+/// One level followed across the diagram.
+#[derive(Debug, Clone, PartialEq)]
+pub struct Series {
+    /// Twice the total spin.
+    pub two_s: i32,
+    /// Mulliken label without multiplicity, e.g. "T1g".
+    pub irrep: String,
+    /// Position among levels of the same spin and irrep (lowest = 1).
+    pub index: usize,
+    /// Free-ion parent term.
+    pub parent: String,
+    /// Orbital degeneracy.
+    pub degeneracy: usize,
+    /// E/B above the ground level at each Δ/B of the diagram.
+    pub energies: Vec<f64>,
+}
+
+impl Series {
+    /// Label with multiplicity, e.g. "4T1g".
+    pub fn label(&self) -> String {
+        format!("{}{}", self.two_s + 1, self.irrep)
+    }
+
+    /// A unique column name such as "4T1g(4P)" or, for repeated labels, "2T2g#3(2H)".
+    pub fn key(&self, repeated: bool) -> String {
+        if repeated {
+            format!("{}#{}({})", self.label(), self.index, self.parent)
+        } else {
+            format!("{}({})", self.label(), self.parent)
+        }
+    }
+}
+
+/// A full diagram.
+#[derive(Debug, Clone)]
+pub struct Diagram {
+    pub dn: usize,
+    pub geometry: Geometry,
+    pub c_over_b: f64,
+    /// Δ/B values, evenly spaced from 0 to the maximum, both included.
+    pub delta_over_b: Vec<f64>,
+    pub series: Vec<Series>,
+    pub crossover: Crossover,
+}
+
+impl Diagram {
+    /// Whether several series share the same label and parent (so their keys need the index).
+    pub fn needs_index(&self, s: &Series) -> bool {
+        self.series
+            .iter()
+            .filter(|o| o.two_s == s.two_s && o.irrep == s.irrep && o.parent == s.parent)
+            .count()
+            > 1
+    }
+}
+
+/// Computes the diagram of d^n in `geometry` at C/B for `points` values of Δ/B from 0 to `max`.
+pub fn diagram(
+    dn: usize,
+    geometry: Geometry,
+    c_over_b: f64,
+    max: f64,
+    points: usize,
+) -> Result<Diagram> {
+    require_finite("maximum Δ/B", max)?;
+    if max <= 0.0 {
+        return Err(Error::invalid("maximum Δ/B", max, "a value > 0 (e.g. 40)"));
+    }
+    if points < 2 {
+        return Err(Error::invalid("points", points, "at least 2"));
+    }
+    let group = geometry.point_group(0.0, 0.0);
+    let at = |x: f64| -> Result<Calculation> {
+        Calculation::new(
+            dn,
+            1.0,
+            c_over_b,
+            geometry.field(x / 10.0, 0.0, 0.0)?,
+            group,
+        )
+    };
+    let parents = at(max)?.parent_table()?;
+    let xs: Vec<f64> = (0..points)
+        .map(|i| max * i as f64 / (points - 1) as f64)
+        .collect();
+    let mut series: Vec<Series> = Vec::new();
+    for (pi, &x) in xs.iter().enumerate() {
+        let spectrum = at(x)?.levels_with(&parents, false)?;
+        for l in &spectrum.levels {
+            let existing = series
+                .iter_mut()
+                .find(|s| s.two_s == l.two_s && s.irrep == l.irrep && s.index == l.index);
+            match existing {
+                Some(s) => s.energies[pi] = l.energy,
+                None => {
+                    let mut energies = vec![f64::NAN; points];
+                    energies[pi] = l.energy;
+                    series.push(Series {
+                        two_s: l.two_s,
+                        irrep: l.irrep.clone(),
+                        index: l.index,
+                        parent: l.parent.clone(),
+                        degeneracy: l.degeneracy,
+                        energies,
+                    });
+                }
+            }
+        }
+    }
+    // Order series by their energy at the largest field, lowest first.
+    series.sort_by(|a, b| {
+        let ea = a.energies.last().copied().unwrap_or(f64::NAN);
+        let eb = b.energies.last().copied().unwrap_or(f64::NAN);
+        ea.total_cmp(&eb)
+    });
+    Ok(Diagram {
+        dn,
+        geometry,
+        c_over_b,
+        delta_over_b: xs,
+        series,
+        crossover: crossover(dn, geometry, c_over_b)?,
+    })
+}

@@ -1,0 +1,255 @@
+//! Spin–orbit coupling ζ Σ l·s added to the ligand-field Hamiltonian. The matrices are complex
+//! Hermitian in general (real for fields that are real over the complex orbitals); blocks are
+//! classes of 2M_J mod 8 when the field has a fourfold axis along z (the field conserves M_L mod
+//! 4, spin–orbit coupling conserves M_J), otherwise one block of all determinants.
+//!
+//! Levels are named after the spin-free level that carries the largest weight of their states
+//! (the spin-free eigenstates are computed in the same blocks), with ⟨S²⟩ reported as computed.
+
+use super::levels::Calculation;
+use super::shell::{shell, SpinOrbitBlock};
+use super::symmetry::PointGroup;
+use crate::error::{require_finite, Error, Result};
+use nalgebra::{Complex, DMatrix, SymmetricEigen};
+
+type C64 = Complex<f64>;
+
+/// Eigenstates of one spin–orbit block.
+#[derive(Debug, Clone)]
+pub struct SpinOrbitBlockStates {
+    /// The cached block (determinants and unit matrices).
+    pub block: &'static SpinOrbitBlock,
+    /// Energies (cm⁻¹, Racah A = 0), ascending.
+    pub energies: Vec<f64>,
+    /// Eigenvectors as columns over `block.dets`.
+    pub vectors: DMatrix<C64>,
+}
+
+/// All eigenstates of H = H_rep + V_LF + ζ Σ l·s.
+#[derive(Debug, Clone)]
+pub struct SpinOrbitSolution {
+    pub zeta: f64,
+    pub blocks: Vec<SpinOrbitBlockStates>,
+}
+
+impl SpinOrbitSolution {
+    /// Lowest energy of all states (cm⁻¹).
+    pub fn ground_energy(&self) -> f64 {
+        self.blocks
+            .iter()
+            .flat_map(|b| b.energies.iter().copied())
+            .fold(f64::INFINITY, f64::min)
+    }
+
+    /// Total number of states.
+    pub fn state_count(&self) -> usize {
+        self.blocks.iter().map(|b| b.energies.len()).sum()
+    }
+}
+
+/// One level with spin–orbit coupling: a set of degenerate states.
+#[derive(Debug, Clone, PartialEq)]
+pub struct SpinOrbitLevel {
+    /// Energy above the lowest state (cm⁻¹).
+    pub energy: f64,
+    /// Number of degenerate states.
+    pub degeneracy: usize,
+    /// ⟨S²⟩ averaged over the states (spin is not a good quantum number with ζ ≠ 0).
+    pub s_squared: f64,
+    /// Spin-free level with the largest weight, e.g. "4T1g".
+    pub parent_level: String,
+    /// Free-ion term of that spin-free level, e.g. "4F".
+    pub parent_term: String,
+    /// Weight (0..1) of that spin-free level in the states.
+    pub weight: f64,
+}
+
+impl SpinOrbitLevel {
+    /// 2S+1 of the nearest pure spin, from ⟨S²⟩ = S(S+1).
+    pub fn multiplicity(&self) -> i32 {
+        let s = ((1.0 + 4.0 * self.s_squared.max(0.0)).sqrt() - 1.0) / 2.0;
+        (2.0 * s).round() as i32 + 1
+    }
+}
+
+fn hamiltonian(
+    calc: &Calculation,
+    block: &SpinOrbitBlock,
+    zeta: f64,
+) -> (DMatrix<f64>, Option<DMatrix<f64>>) {
+    let v = calc.field.complex_matrix();
+    let mut re = &block.rep_b * calc.b + &block.rep_c * calc.c;
+    if zeta != 0.0 {
+        re += &block.spin_orbit * zeta;
+    }
+    let mut im: Option<DMatrix<f64>> = None;
+    for i in 0..5 {
+        for j in 0..5 {
+            let Some(e) = &block.excitations[i * 5 + j] else {
+                continue;
+            };
+            let h = v[(i, j)];
+            if h.re != 0.0 {
+                re += e * h.re;
+            }
+            if h.im.abs() > 1e-14 * (1.0 + h.re.abs()) {
+                let m = im.get_or_insert_with(|| DMatrix::zeros(e.nrows(), e.ncols()));
+                *m += e * h.im;
+            }
+        }
+    }
+    (re, im)
+}
+
+fn eigen(re: DMatrix<f64>, im: Option<DMatrix<f64>>) -> Result<(Vec<f64>, DMatrix<C64>)> {
+    let n = re.nrows();
+    let fail = || {
+        Error::Computation(format!(
+            "eigen-decomposition of a {n}×{n} spin–orbit block did not converge"
+        ))
+    };
+    let (values, vectors) = match im {
+        None => {
+            let e = SymmetricEigen::try_new(re, 1e-14, 100_000).ok_or_else(fail)?;
+            (
+                e.eigenvalues.iter().copied().collect::<Vec<_>>(),
+                e.eigenvectors.map(|x| C64::new(x, 0.0)),
+            )
+        }
+        Some(im) => {
+            let h = DMatrix::from_fn(n, n, |i, j| C64::new(re[(i, j)], im[(i, j)]));
+            let e = SymmetricEigen::try_new(h, 1e-14, 100_000).ok_or_else(fail)?;
+            (e.eigenvalues.iter().copied().collect(), e.eigenvectors)
+        }
+    };
+    if values.iter().any(|x| !x.is_finite()) {
+        return Err(fail());
+    }
+    // Sort ascending (the solver returns eigenvalues unsorted).
+    let mut order: Vec<usize> = (0..values.len()).collect();
+    order.sort_by(|&a, &b| values[a].total_cmp(&values[b]));
+    let sorted_values = order.iter().map(|&i| values[i]).collect();
+    let sorted_vectors = DMatrix::from_columns(
+        &order
+            .iter()
+            .map(|&i| vectors.column(i).into_owned())
+            .collect::<Vec<_>>(),
+    );
+    Ok((sorted_values, sorted_vectors))
+}
+
+impl Calculation {
+    fn spin_orbit_blocks(&self) -> &'static [SpinOrbitBlock] {
+        let fourfold = self.group != PointGroup::C1 && self.field.has_fourfold_z_axis();
+        shell(self.dn).spin_orbit_blocks(fourfold)
+    }
+
+    /// Every eigenstate with spin–orbit coupling ζ Σ l·s (ζ in cm⁻¹, ≥ 0).
+    pub fn spin_orbit(&self, zeta: f64) -> Result<SpinOrbitSolution> {
+        require_finite("ζ", zeta)?;
+        if zeta < 0.0 {
+            return Err(Error::invalid(
+                "ζ",
+                zeta,
+                "a one-electron spin–orbit constant ≥ 0 cm⁻¹",
+            ));
+        }
+        let blocks = self
+            .spin_orbit_blocks()
+            .iter()
+            .map(|block| {
+                let (re, im) = hamiltonian(self, block, zeta);
+                let (energies, vectors) = eigen(re, im)?;
+                Ok(SpinOrbitBlockStates {
+                    block,
+                    energies,
+                    vectors,
+                })
+            })
+            .collect::<Result<Vec<_>>>()?;
+        Ok(SpinOrbitSolution { zeta, blocks })
+    }
+
+    /// Levels with spin–orbit coupling, lowest first, each named after its dominant spin-free
+    /// level.
+    pub fn spin_orbit_levels(&self, zeta: f64) -> Result<Vec<SpinOrbitLevel>> {
+        let solution = self.spin_orbit(zeta)?;
+        let spin_free = self.levels()?;
+        let tol = 1e-6 * (self.b + self.c + 10.0 * self.field.magnitude()).max(1.0);
+        // (energy, s², parent index, weight)
+        let mut states: Vec<(f64, f64, usize, f64)> = Vec::new();
+        for st in &solution.blocks {
+            let (re0, im0) = hamiltonian(self, st.block, 0.0);
+            let (e0, v0) = eigen(re0, im0)?;
+            // Spin-free level of each zero-ζ eigenvector, matched by energy.
+            let owner: Vec<usize> = e0
+                .iter()
+                .map(|&e| {
+                    spin_free
+                        .levels
+                        .iter()
+                        .enumerate()
+                        .min_by(|a, b| {
+                            (a.1.absolute_energy - e)
+                                .abs()
+                                .total_cmp(&(b.1.absolute_energy - e).abs())
+                        })
+                        .map(|(i, _)| i)
+                        .unwrap_or(0)
+                })
+                .collect();
+            let overlaps = v0.adjoint() * &st.vectors;
+            let s2 = st.block.s_squared.map(|x| C64::new(x, 0.0));
+            for (k, &e) in st.energies.iter().enumerate() {
+                let mut weights = vec![0.0; spin_free.levels.len()];
+                for (j, &o) in owner.iter().enumerate() {
+                    weights[o] += overlaps[(j, k)].norm_sqr();
+                }
+                let (best, w) = weights
+                    .iter()
+                    .enumerate()
+                    .max_by(|a, b| a.1.total_cmp(b.1))
+                    .map(|(i, w)| (i, *w))
+                    .unwrap_or((0, 0.0));
+                let col = st.vectors.column(k);
+                let s_sq = (col.adjoint() * &s2 * col)[(0, 0)].re;
+                states.push((e, s_sq, best, w));
+            }
+        }
+        states.sort_by(|a, b| a.0.total_cmp(&b.0));
+        let ground = states.first().map(|s| s.0).unwrap_or(0.0);
+        let mut levels: Vec<SpinOrbitLevel> = Vec::new();
+        let mut i = 0;
+        while i < states.len() {
+            let mut j = i + 1;
+            while j < states.len() && states[j].0 - states[j - 1].0 < tol {
+                j += 1;
+            }
+            let group = &states[i..j];
+            let n = group.len() as f64;
+            // Parent: the spin-free level with the largest total weight in the group.
+            let mut totals: Vec<(usize, f64)> = Vec::new();
+            for s in group {
+                match totals.iter_mut().find(|t| t.0 == s.2) {
+                    Some(t) => t.1 += s.3,
+                    None => totals.push((s.2, s.3)),
+                }
+            }
+            let (parent, wsum) = totals
+                .into_iter()
+                .max_by(|a, b| a.1.total_cmp(&b.1))
+                .unwrap_or((0, 0.0));
+            let pl = &spin_free.levels[parent];
+            levels.push(SpinOrbitLevel {
+                energy: group.iter().map(|s| s.0).sum::<f64>() / n - ground,
+                degeneracy: group.len(),
+                s_squared: group.iter().map(|s| s.1).sum::<f64>() / n,
+                parent_level: pl.label(),
+                parent_term: pl.parent.clone(),
+                weight: wsum / n,
+            });
+            i = j;
+        }
+        Ok(levels)
+    }
+}

@@ -1,0 +1,114 @@
+//! `spinstate diagram`: CSV, SVG, JSON and bad input.
+
+mod common;
+use common::*;
+
+#[test]
+fn csv_has_one_column_per_level_and_ground_at_zero() {
+    let dir = tempfile::tempdir().unwrap();
+    let csv_path = dir.path().join("d6.csv");
+    let svg_path = dir.path().join("d6.svg");
+    let (code, out, err) = run(&[
+        "diagram",
+        "--dn",
+        "6",
+        "--geometry",
+        "oct",
+        "--c-over-b",
+        "4.8",
+        "--points",
+        "81",
+        "--csv",
+        csv_path.to_str().unwrap(),
+        "--svg",
+        svg_path.to_str().unwrap(),
+    ]);
+    assert_eq!(code, 0, "{err}");
+    assert!(out.contains("spin crossover at Δ/B = 20.0"));
+    let mut rdr = csv::Reader::from_path(&csv_path).unwrap();
+    let header = rdr.headers().unwrap().clone();
+    assert_eq!(&header[0], "delta_over_b");
+    // d6 has 43 distinct Oh levels (16 free-ion terms split; common practice).
+    assert_eq!(header.len(), 1 + 43);
+    let rows: Vec<_> = rdr.records().map(|r| r.unwrap()).collect();
+    assert_eq!(rows.len(), 81);
+    for row in &rows {
+        let min = row
+            .iter()
+            .skip(1)
+            .map(|x| x.parse::<f64>().unwrap())
+            .fold(f64::INFINITY, f64::min);
+        assert!(min.abs() < 1e-9, "ground level must be at zero");
+    }
+    let svg = std::fs::read_to_string(&svg_path).unwrap();
+    assert!(svg.starts_with("<svg"));
+    assert!(svg.contains("Δ/B"));
+    assert!(svg.contains("crossover"));
+}
+
+#[test]
+fn json_series() {
+    let v = run_json(&[
+        "diagram",
+        "--dn",
+        "3",
+        "--geometry",
+        "oct",
+        "--c-over-b",
+        "4.5",
+        "--points",
+        "11",
+        "--max",
+        "30",
+        "--json",
+    ]);
+    assert_eq!(v["delta_over_b"].as_array().unwrap().len(), 11);
+    assert!(v["crossover_delta_over_b"].is_null());
+    let first = &v["series"][0];
+    assert_eq!(first["label"], "4A2g");
+    assert_eq!(first["energies"].as_array().unwrap().len(), 11);
+}
+
+#[test]
+fn bad_input() {
+    expect_usage_error(
+        &[
+            "diagram",
+            "--dn",
+            "6",
+            "--geometry",
+            "oct",
+            "--c-over-b",
+            "0",
+        ],
+        "must be a ratio > 0",
+    );
+    expect_usage_error(
+        &[
+            "diagram",
+            "--dn",
+            "6",
+            "--geometry",
+            "oct",
+            "--c-over-b",
+            "4.8",
+            "--points",
+            "1",
+        ],
+        "--points 1",
+    );
+    expect_usage_error(
+        &[
+            "diagram",
+            "--dn",
+            "6",
+            "--geometry",
+            "oct",
+            "--c-over-b",
+            "4.8",
+            "--max",
+            "-3",
+        ],
+        "--max -3",
+    );
+}
