@@ -4,7 +4,7 @@ use super::common::{parse_geometry, Format};
 use super::{Failure, Output};
 use spinstate::report::fit_bands::{Context, FitBandsReport};
 use spinstate::report::to_json;
-use spinstate::spectra::fit::{fit_bands, FitRequest};
+use spinstate::spectra::fit::{crossover_position, fit_bands, FitRequest};
 use spinstate::spectra::units::parse_bands;
 use spinstate::spectra::{EnergyUnit, SpinChoice};
 
@@ -105,7 +105,7 @@ pub fn run(args: &Args) -> Result<Output, Failure> {
     let ctx = Context {
         input_unit: Some(unit),
         b0: args.b0.map(|b0| (b0, "given with --b0".to_string())),
-        crossover: None,
+        crossover: crossover_position(&out.best)?.map(|p| p.crossover),
     };
     let report = FitBandsReport::new(&out, &ctx)?;
     Ok(Output::text(if args.format.json {

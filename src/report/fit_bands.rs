@@ -25,8 +25,8 @@ pub struct AssignmentRow {
     pub residual: f64,
     /// Electrons changing orbital set in the strong-field limit (1 = one-electron jump).
     pub electrons_moved: Option<u32>,
-    /// Expected weak: a jump of 2+ electrons with no one-electron level of its symmetry to mix
-    /// with, or one within a configuration.
+    /// Expected weak: a two-electron jump with no one-electron level of its symmetry to mix
+    /// with, a jump of three or more electrons, or one within a configuration.
     pub weak: bool,
 }
 
@@ -80,7 +80,7 @@ pub struct SpinCheckRow {
     /// Lowest level of the nearest other spin state minus that of the assumed one (cm⁻¹);
     /// positive when the assumed state is lower. Null when there is no other spin state.
     pub gap: Option<f64>,
-    /// Crossover Δ/B at the fit's C/B, when known.
+    /// Crossover Δ/B at `c_over_b_used`, when the ground spin changes for this d^n and geometry.
     pub crossover_delta_over_b: Option<f64>,
     /// Fitted Δ/B minus the crossover (positive: low-spin side).
     pub margin_delta_over_b: Option<f64>,
@@ -125,7 +125,11 @@ pub struct FitBandsReport {
     pub b: Option<f64>,
     /// Racah C (cm⁻¹), null when C does not enter the bands.
     pub c: Option<f64>,
+    /// C/B of the fit, null when C does not enter the bands.
     pub c_over_b: Option<f64>,
+    /// C/B used in the calculation (fitted, given or the default), also when C does not enter
+    /// the bands; the crossover is placed at this ratio.
+    pub c_over_b_used: f64,
     pub delta_over_b: Option<f64>,
     /// Nephelauxetic ratio B/B0, when B0 is given.
     pub beta: Option<f64>,
@@ -219,10 +223,8 @@ impl FitBandsReport {
             delta: f.delta(),
             b: f.b,
             c: f.c,
-            c_over_b: match (f.b, f.c) {
-                (Some(b), Some(c)) => Some(c / b),
-                _ => None,
-            },
+            c_over_b: f.c.map(|_| f.c_over_b),
+            c_over_b_used: f.c_over_b,
             delta_over_b: f.delta_over_b(),
             beta,
             b0: ctx.b0.as_ref().map(|b| b.0),
@@ -425,8 +427,9 @@ impl FitBandsReport {
         }
         if let (Some(x), Some(m)) = (sc.crossover_delta_over_b, sc.margin_delta_over_b) {
             s.push_str(&format!(
-                "; crossover Δ/B = {}, margin {} ({} side)",
+                "; crossover Δ/B = {} at C/B = {}, margin {} ({} side)",
                 fmt_num(x, 2),
+                fmt_num(self.c_over_b_used, 3),
                 fmt_num(m, 2),
                 if m > 0.0 { "low-spin" } else { "high-spin" }
             ));

@@ -137,8 +137,11 @@ pub struct BandFit {
     pub dq: f64,
     /// Racah B (cm⁻¹); None when B does not enter the spin-allowed bands.
     pub b: Option<f64>,
-    /// Racah C (cm⁻¹); None when C does not enter the spin-allowed bands (and was not tied to B).
+    /// Racah C (cm⁻¹); None when C does not enter the spin-allowed bands.
     pub c: Option<f64>,
+    /// C/B used in the calculation: fitted, given, or the default (also when C does not enter
+    /// the bands; it still sets the positions of levels of other spin).
+    pub c_over_b: f64,
     pub uncertainties: Uncertainties,
     /// Free parameters, in fit order.
     pub free: Vec<Parameter>,
@@ -976,6 +979,7 @@ fn refine(
         dq,
         b: b_enters.then_some(b),
         c: (c_enters || spec.free.contains(&Parameter::C)).then_some(c),
+        c_over_b: c / b,
         uncertainties: unc.unwrap_or_default(),
         free: spec.free.clone(),
         fixed: fixed.to_vec(),
@@ -1043,6 +1047,19 @@ pub struct CrossoverPosition {
     pub relative: f64,
     /// True when the fitted field lies on the low-spin side.
     pub low_spin_side: bool,
+}
+
+/// Where a fit lies relative to the engine's spin crossover at the fit's C/B, or None when B is
+/// not determined or the ground spin never changes for this d^n and geometry.
+pub fn crossover_position(fit: &BandFit) -> Result<Option<CrossoverPosition>> {
+    let Some(x) = fit.delta_over_b() else {
+        return Ok(None);
+    };
+    let cross = crate::engine::crossover(fit.dn, fit.geometry, fit.c_over_b)?;
+    match cross.delta_over_b {
+        Some(xc) => relative_to_crossover(x, xc).map(Some),
+        None => Ok(None),
+    }
 }
 
 /// Places a fitted Δ/B relative to a crossover Δ/B (both at the same C/B).

@@ -9,29 +9,19 @@
 use crate::engine::{Calculation, Geometry, Level, LigandField, Spectrum};
 use crate::error::{Error, Result};
 
-/// C/B ratios of the original Tanabe–Sugano diagrams for d² … d⁸ (Y. Tanabe, S. Sugano,
-/// *J. Phys. Soc. Jpn.* 1954, 9, 753 and 766; values as printed on the usual reproductions,
-/// from memory — FACTS.md §5.1 [M]).
-pub const TANABE_SUGANO_C_OVER_B: [(usize, f64); 7] = [
-    (2, 4.42),
-    (3, 4.50),
-    (4, 4.61),
-    (5, 4.477),
-    (6, 4.8),
-    (7, 4.633),
-    (8, 4.709),
-];
-
-/// Source text for [`TANABE_SUGANO_C_OVER_B`].
+/// Source text for the Tanabe–Sugano C/B ratios of [`crate::engine::tanabe_sugano_c_over_b`]
+/// (FACTS.md §5.1 [M]).
 pub const TANABE_SUGANO_SOURCE: &str =
     "Tanabe & Sugano, J. Phys. Soc. Jpn. 1954, 9, 753 and 766 (ratios of the original diagrams; from memory)";
 
 /// The default C/B for d^n: the Tanabe–Sugano ratio for d²–d⁸ with its source, or 4.5 without a
 /// source for d⁰, d¹, d⁹ and d¹⁰, whose levels do not depend on C (one free-ion term, or none).
 pub fn default_c_over_b(dn: usize) -> (f64, Option<&'static str>) {
-    match TANABE_SUGANO_C_OVER_B.iter().find(|(n, _)| *n == dn) {
-        Some((_, r)) => (*r, Some(TANABE_SUGANO_SOURCE)),
-        None => (4.5, None),
+    let r = crate::engine::tanabe_sugano_c_over_b(dn);
+    if (2..=8).contains(&dn) {
+        (r, Some(TANABE_SUGANO_SOURCE))
+    } else {
+        (r, None)
     }
 }
 
@@ -423,18 +413,17 @@ pub fn electrons_moved(from: &[u32], to: &[u32]) -> u32 {
 pub struct Jump {
     /// Electrons changing orbital set (see [`electrons_moved`]), None if not determined.
     pub electrons: Option<u32>,
-    /// Expected weak: not a one-electron jump, and no level of the same spin and irrep is a
-    /// one-electron jump it could mix with.
+    /// Expected weak (rule of [`jumps`]).
     pub weak: bool,
 }
 
 /// The jump of every transition of a manifold (same order as `m.transitions`).
 ///
-/// Rule: a one-electron jump is strong. A jump of two or more electrons whose upper level shares
-/// its irrep with a one-electron-jump level mixes with it and borrows intensity (the octahedral
-/// d³ and d⁸ ν₃ bands, e.g. t₂g³ → t₂g¹e_g² for ⁴T₁g(P)), so it is not marked weak; one that has
-/// no such partner (the ³A₂g of d² and ⁴A₂g of d⁷, FACTS.md §5.4 [M]) is weak, as is a
-/// transition within one configuration. Common practice; the intensity borrowing is the usual
+/// Rule: a one-electron jump is strong. A two-electron jump whose upper level shares its irrep
+/// with a one-electron-jump level mixes with it and borrows intensity (the octahedral d³ and d⁸
+/// ν₃ bands, e.g. t₂g³ → t₂g¹e_g² for ⁴T₁g(P)), so it is not marked weak; one that has no such
+/// partner (the ³A₂g of d² and ⁴A₂g of d⁷, FACTS.md §5.4 [M]) is weak, as are jumps of three or
+/// more electrons and transitions within one configuration. Common practice; the intensity borrowing is the usual
 /// configuration-interaction explanation, not computed here.
 pub fn jumps(dn: usize, geometry: Geometry, b: f64, c: f64, m: &Manifold) -> Result<Vec<Jump>> {
     let mut keys = vec![m.reference.clone()];
@@ -458,7 +447,8 @@ pub fn jumps(dn: usize, geometry: Geometry, b: f64, c: f64, m: &Manifold) -> Res
             let weak = match electrons {
                 Some(1) | None => false,
                 Some(0) => true,
-                Some(_) => !partner,
+                Some(2) => !partner,
+                Some(_) => true,
             };
             Jump { electrons, weak }
         })
