@@ -199,6 +199,19 @@ fn bad_input_is_rejected_with_exit_code_2() {
     expect_usage_error(&with(&["--bands", "17400,-24600"]), "positive");
     expect_usage_error(&with(&["--bands", "17400,24600,90000"]), "misses it by");
     expect_usage_error(&with(&["--bands", "17400,24600,37800", "--fit-c"]), "C/B");
+    expect_usage_error(&with(&["--bands", "500,900"]), "needs B =");
+    expect_usage_error(
+        &[
+            "fit-bands",
+            "--dn",
+            "3",
+            "--geometry",
+            "tetragonal",
+            "--bands",
+            "17400,24600",
+        ],
+        "Ds and Dt are not fitted",
+    );
     expect_usage_error(&with(&["--bands", "1,2,3,4"]), "at most 3");
     expect_usage_error(
         &with(&["--bands", "17400,24600", "--spin", "medium"]),

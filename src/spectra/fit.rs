@@ -22,6 +22,11 @@ use nalgebra::{storage::Owned, DMatrix, DVector, Dyn};
 /// is flagged (common practice: 3d complexes have B ≈ 400–1100, 4d/5d lower).
 pub const PLAUSIBLE_B: (f64, f64) = (100.0, 1500.0);
 
+/// Range of Racah B (cm⁻¹) outside which a fit is rejected as impossible: free 3d ions have
+/// B₀ ≲ 1300 cm⁻¹ and complexes less (Jolly 1989 and Griffith/Lever B₀ tables, FACTS.md §4.2;
+/// the margins are this tool's choice).
+pub const POSSIBLE_B: (f64, f64) = (50.0, 3000.0);
+
 /// Penalty (cm⁻¹ added to the rms) for each concern when ranking assignments: a band expected to
 /// be strong predicted where it could have been seen (above 1100 nm or the lowest observed band,
 /// below the highest observed band) but not assigned,
@@ -418,6 +423,13 @@ pub fn fit_bands(req: &FitRequest) -> Result<FitOutcome> {
     if req.dn > 10 {
         return Err(Error::invalid("d-electron count", req.dn, "0..=10"));
     }
+    if req.geometry == Geometry::Tetragonal {
+        return Err(Error::invalid(
+            "geometry",
+            "tetragonal",
+            "oct, tet or sqpl: Ds and Dt are not fitted, and without them a tetragonal field is the octahedral one",
+        ));
+    }
     if req.bands.is_empty() {
         return Err(Error::invalid("bands", "none", "at least one band maximum"));
     }
@@ -484,7 +496,7 @@ pub fn fit_bands(req: &FitRequest) -> Result<FitOutcome> {
                 notes.append(&mut n);
             }
             Err(e) if !explicit && chosen.len() > 1 && e.exit_code() == 2 => {
-                notes.push(format!("{} not fitted: {e}", state.describe()));
+                notes.push(format!("not fitted: {e}"));
                 last_error = Some(e);
             }
             Err(e) => return Err(e),
@@ -529,6 +541,26 @@ pub fn fit_bands(req: &FitRequest) -> Result<FitOutcome> {
                 a.residual.abs()
             ),
         ));
+    }
+    if let (true, Some(b)) = (best.free.contains(&Parameter::B), best.b) {
+        if !(POSSIBLE_B.0..=POSSIBLE_B.1).contains(&b) {
+            return Err(Error::invalid(
+                "bands",
+                bands
+                    .iter()
+                    .map(|x| format!("{x:.0}"))
+                    .collect::<Vec<_>>()
+                    .join(", "),
+                format!(
+                    "positions that spin-allowed transitions of d{} {} reach with B in {:.0}–{:.0} cm⁻¹; the best assignment ({}) needs B = {b:.0} cm⁻¹",
+                    req.dn,
+                    req.geometry,
+                    POSSIBLE_B.0,
+                    POSSIBLE_B.1,
+                    best.assignment_text()
+                ),
+            ));
+        }
     }
     if !best.converged {
         return Err(Error::Computation(format!(
@@ -609,11 +641,8 @@ fn fit_one_spin(
     if total == 0 {
         return Err(Error::invalid(
             "spin state",
-            state.describe(),
-            format!(
-                "a state with spin-allowed d–d transitions (d{} {}, {} has none: its bands are spin-forbidden and weak)",
-                req.dn, req.geometry, state.describe()
-            ),
+            format!("{} of d{} {}", state.describe(), req.dn, req.geometry),
+            "one with spin-allowed d–d bands; this one has none (its bands are spin-forbidden and weak)",
         ));
     }
     if n > total {
@@ -746,8 +775,8 @@ fn fit_one_spin(
             state,
             &ratios,
             BSeed::Free {
-                min: 1.0,
-                max: 10_000.0,
+                min: POSSIBLE_B.0,
+                max: POSSIBLE_B.1,
             },
         )?;
     }
