@@ -22,6 +22,10 @@ use nalgebra::{storage::Owned, DMatrix, DVector, Dyn};
 /// is flagged (common practice: 3d complexes have B ≈ 400–1100, 4d/5d lower).
 pub const PLAUSIBLE_B: (f64, f64) = (100.0, 1500.0);
 
+/// Range of fitted C/B treated as plausible (free-ion C is about 4–5 B, FACTS.md §4.2 [M];
+/// the margins are this tool's choice).
+pub const PLAUSIBLE_C_OVER_B: (f64, f64) = (3.0, 6.0);
+
 /// Range of Racah B (cm⁻¹) outside which a fit is rejected as impossible: free 3d ions have
 /// B₀ ≲ 1300 cm⁻¹ and complexes less (Jolly 1989 and Griffith/Lever B₀ tables, FACTS.md §4.2;
 /// the margins are this tool's choice).
@@ -30,7 +34,7 @@ pub const POSSIBLE_B: (f64, f64) = (50.0, 3000.0);
 /// Penalty (cm⁻¹ added to the rms) for each concern when ranking assignments: a band expected to
 /// be strong predicted where it could have been seen (above 1100 nm or the lowest observed band,
 /// below the highest observed band) but not assigned,
-/// a field that makes another spin state the ground state, or an implausible B. A ranking
+/// a field that makes another spin state the ground state, an implausible B or fitted C/B. A ranking
 /// heuristic of this tool, not a published rule.
 pub const CONCERN_PENALTY: f64 = 1000.0;
 
@@ -977,6 +981,16 @@ fn refine(
             PLAUSIBLE_B.0, PLAUSIBLE_B.1
         ));
     }
+    if spec.free.contains(&Parameter::C)
+        && !(PLAUSIBLE_C_OVER_B.0..=PLAUSIBLE_C_OVER_B.1).contains(&(c / b))
+    {
+        concerns.push(format!(
+            "C/B = {:.2} is outside the usual {:.0}–{:.0}",
+            c / b,
+            PLAUSIBLE_C_OVER_B.0,
+            PLAUSIBLE_C_OVER_B.1
+        ));
+    }
     let calc = calculation(req.dn, req.geometry, dq, b, c)?;
     let lows = calc.lowest_by_spin()?;
     let ground_two_s = calc.ground_two_s()?;
@@ -1453,5 +1467,24 @@ mod tests {
         let e = fit_bands(&r).unwrap_err();
         assert_eq!(e.exit_code(), 1);
         assert!(e.to_string().contains("best point reached: 10Dq ="), "{e}");
+    }
+
+    #[test]
+    fn result_does_not_depend_on_band_order() {
+        let a = fit_bands(&request(
+            8,
+            Geometry::Octahedral,
+            vec![8_500.0, 13_800.0, 25_300.0],
+        ))
+        .unwrap();
+        let b = fit_bands(&request(
+            8,
+            Geometry::Octahedral,
+            vec![25_300.0, 8_500.0, 13_800.0],
+        ))
+        .unwrap();
+        assert_eq!(a.best.dq, b.best.dq);
+        assert_eq!(a.best.b, b.best.b);
+        assert_eq!(a.best.assignment_text(), b.best.assignment_text());
     }
 }
