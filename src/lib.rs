@@ -1,8 +1,15 @@
 //! spinstate: spin states of d-block complexes from a full d^n ligand-field calculation.
 
+pub mod complex;
 pub mod engine;
 pub mod error;
+pub mod formula;
+pub mod magnetism;
+pub mod predict;
 pub mod report;
 pub mod spectra;
+pub mod susceptibility;
+pub mod tables;
+pub mod units;
 
 pub use error::{Error, Result};

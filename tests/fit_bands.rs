@@ -176,6 +176,62 @@ fn fixed_b_allows_one_band() {
 }
 
 #[test]
+fn metal_and_oxidation_state_give_dn_and_b0() {
+    // B0(Cr3+) = 918 cm⁻¹ (Jolly, Modern Inorganic Chemistry 1989, p. 411, as reproduced;
+    // data/ions.csv); [Cr(H2O)6]3+ β ≈ 0.79 (shared fact sheet §4.5).
+    let v = run_json(&[
+        "fit-bands",
+        "--metal",
+        "Cr",
+        "--ox",
+        "3",
+        "--geometry",
+        "oct",
+        "--bands",
+        "17400,24600",
+        "--json",
+    ]);
+    assert_eq!(v["dn"], 3);
+    assert_abs_diff_eq!(v["b0"].as_f64().unwrap(), 918.0, epsilon = 1e-9);
+    assert_abs_diff_eq!(v["beta"].as_f64().unwrap(), 0.79, epsilon = 0.01);
+    assert!(v["b0_source"].as_str().unwrap().contains("Jolly"));
+    let notes = v["notes"].as_array().unwrap();
+    assert!(notes
+        .iter()
+        .any(|n| n.as_str().unwrap().starts_with("caution:")));
+    expect_usage_error(
+        &[
+            "fit-bands",
+            "--metal",
+            "Xx",
+            "--ox",
+            "3",
+            "--geometry",
+            "oct",
+            "--bands",
+            "17400,24600",
+        ],
+        "unknown metal",
+    );
+    expect_usage_error(
+        &[
+            "fit-bands",
+            "--metal",
+            "Cr",
+            "--ox",
+            "3",
+            "--dn",
+            "4",
+            "--geometry",
+            "oct",
+            "--bands",
+            "17400,24600",
+        ],
+        "disagrees",
+    );
+}
+
+#[test]
 fn help_carries_a_safety_note() {
     let (code, out, _) = run(&["fit-bands", "--help"]);
     assert_eq!(code, 0);

@@ -2,6 +2,9 @@
 
 use super::Failure;
 use spinstate::engine::{Calculation, Geometry};
+use spinstate::tables::Tables;
+use std::borrow::Cow;
+use std::path::Path;
 
 /// Output format options.
 #[derive(Debug, Clone, clap::Args)]
@@ -72,6 +75,14 @@ pub struct Resolved {
     pub zeta: f64,
     /// True when the input was given as ratios (energies in units of B).
     pub ratio_mode: bool,
+}
+
+/// The chemistry tables: bundled, or with the files in the global `--data DIR` replacing them.
+pub fn load_tables(data: Option<&Path>) -> Result<Cow<'static, Tables>, Failure> {
+    Ok(match data {
+        Some(dir) => Cow::Owned(Tables::from_dir(dir)?),
+        None => Cow::Borrowed(Tables::bundled()?),
+    })
 }
 
 /// Parses a geometry name into a failure with exit code 2.

@@ -1,12 +1,13 @@
 //! `spinstate fit-bands`: fit Dq, B (and C) to observed band maxima.
 
-use super::common::{parse_geometry, Format};
+use super::common::{load_tables, parse_geometry, Format};
 use super::{Failure, Output};
 use spinstate::report::fit_bands::{Context, FitBandsReport};
 use spinstate::report::to_json;
 use spinstate::spectra::fit::{crossover_position, fit_bands, FitRequest};
 use spinstate::spectra::units::parse_bands;
 use spinstate::spectra::{EnergyUnit, SpinChoice};
+use std::path::Path;
 
 /// Caution shown in the help of the spectroscopy commands.
 pub const SAFETY: &str = "Safety: nickel and cobalt salts are skin and respiratory sensitisers and (suspected) carcinogens, chromium work can form Cr(VI), and UV lamps need eye protection. Follow your institution's rules, the supplier's SDS and a local risk assessment; this output is no safety approval.";
@@ -14,9 +15,20 @@ pub const SAFETY: &str = "Safety: nickel and cobalt salts are skin and respirato
 #[derive(Debug, clap::Args)]
 #[command(after_help = SAFETY)]
 pub struct Args {
-    /// Number of d electrons, 1..=9.
-    #[arg(long, value_name = "N")]
-    pub dn: usize,
+    /// Number of d electrons, 1..=9 (taken from --metal/--ox when given).
+    #[arg(long, value_name = "N", required_unless_present = "metal")]
+    pub dn: Option<usize>,
+    /// Metal element symbol (with --ox): d^n and the free-ion B0 for β come from ions.csv.
+    #[arg(long, value_name = "SYMBOL", requires = "ox")]
+    pub metal: Option<String>,
+    /// Oxidation state of --metal.
+    #[arg(
+        long,
+        value_name = "N",
+        requires = "metal",
+        allow_negative_numbers = true
+    )]
+    pub ox: Option<i32>,
     /// Geometry: oct, tet, sqpl or tetragonal (no distortion parameters here).
     #[arg(long, value_name = "G")]
     pub geometry: String,
@@ -44,7 +56,8 @@ pub struct Args {
     /// Hold Racah B at this value (cm⁻¹) and fit Dq only (e.g. with a single band).
     #[arg(long, value_name = "CM-1", allow_negative_numbers = true)]
     pub b: Option<f64>,
-    /// Free-ion Racah B0 (cm⁻¹) for the nephelauxetic ratio β = B/B0.
+    /// Free-ion Racah B0 (cm⁻¹) for the nephelauxetic ratio β = B/B0 (overrides the ions.csv
+    /// value of --metal/--ox).
     #[arg(long, value_name = "CM-1", allow_negative_numbers = true)]
     pub b0: Option<f64>,
     /// Cap on model evaluations per tried assignment, as a multiple of (free parameters + 1).
@@ -54,12 +67,32 @@ pub struct Args {
     pub format: Format,
 }
 
-pub fn run(args: &Args) -> Result<Output, Failure> {
+pub fn run(args: &Args, data: Option<&Path>) -> Result<Output, Failure> {
     let geometry = parse_geometry(&args.geometry)?;
-    if !(1..=9).contains(&args.dn) {
+    // The ion, when named: d^n, B0 (with its table source) and a handling caution.
+    let tables = match (&args.metal, args.ox) {
+        (Some(_), Some(_)) => Some(load_tables(data)?),
+        _ => None,
+    };
+    let ion = match (&args.metal, args.ox, &tables) {
+        (Some(metal), Some(ox), Some(t)) => Some(t.ions.find(metal, ox)?),
+        _ => None,
+    };
+    let dn = match (args.dn, ion) {
+        (Some(dn), Some(ion)) if dn != ion.dn => {
+            return Err(Failure::usage(format!(
+                "--dn {dn} disagrees with {} (d{}); give one or the other",
+                ion.name(),
+                ion.dn
+            )))
+        }
+        (_, Some(ion)) => ion.dn,
+        (Some(dn), None) => dn,
+        (None, None) => return Err(Failure::usage("give --dn N or --metal M --ox K")),
+    };
+    if !(1..=9).contains(&dn) {
         return Err(Failure::usage(format!(
-            "--dn {} is outside 1..=9 (d0 and d10 have no d–d bands)",
-            args.dn
+            "--dn {dn} is outside 1..=9 (d0 and d10 have no d–d bands)"
         )));
     }
     let unit: EnergyUnit = args
@@ -80,7 +113,7 @@ pub fn run(args: &Args) -> Result<Output, Failure> {
         }
     }
     let req = FitRequest {
-        dn: args.dn,
+        dn,
         geometry,
         bands,
         spin,
@@ -102,12 +135,39 @@ pub fn run(args: &Args) -> Result<Output, Failure> {
         }
         f
     })?;
+    let b0 = match (args.b0, ion) {
+        (Some(b0), _) => Some((b0, "given with --b0".to_string())),
+        (None, Some(ion)) => ion.b0.map(|b0| {
+            // The part of the row's source that names the B0 table.
+            let table = ion
+                .source
+                .split(';')
+                .map(str::trim)
+                .find(|part| part.starts_with("B0"))
+                .unwrap_or(ion.source.as_str());
+            (b0, format!("{} in ions.csv, {table}", ion.name()))
+        }),
+        (None, None) => None,
+    };
     let ctx = Context {
         input_unit: Some(unit),
-        b0: args.b0.map(|b0| (b0, "given with --b0".to_string())),
+        b0,
         crossover: crossover_position(&out.best)?.map(|p| p.crossover),
     };
-    let report = FitBandsReport::new(&out, &ctx)?;
+    let mut report = FitBandsReport::new(&out, &ctx)?;
+    if let Some(ion) = ion {
+        if ion.b0.is_none() && args.b0.is_none() {
+            report.notes.push(format!(
+                "ions.csv has no free-ion B0 for {}: β not computed (give --b0)",
+                ion.name()
+            ));
+        }
+        if let Some(c) = &ion.caution {
+            report.notes.push(format!(
+                "caution: {c}; follow your institution's rules and the SDS"
+            ));
+        }
+    }
     Ok(Output::text(if args.format.json {
         to_json(&report)
     } else {

@@ -3,9 +3,15 @@
 pub mod bands;
 pub mod common;
 pub mod crossover;
+pub mod data;
 pub mod diagram;
+pub mod evans;
 pub mod fit_bands;
 pub mod levels;
+pub mod magnetism;
+pub mod measured;
+pub mod moment;
+pub mod predict;
 
 use clap::{Parser, Subcommand};
 use std::path::PathBuf;
@@ -30,6 +36,17 @@ pub enum Command {
     Diagram(diagram::Args),
     /// Δ/B at which the ground-state spin changes, for one d^n or every d^n of a geometry.
     Crossover(crossover::Args),
+    /// Evans-method NMR shift → χ_M, χ_M·T, μ_eff and unpaired electrons, with uncertainties.
+    Evans(evans::Args),
+    /// Measured χ_M, χ_M·T, μ_eff or magnetometer reading → the same quantities.
+    Moment(moment::Args),
+    /// χ(T), χT and μ_eff from the full ligand field with spin–orbit coupling (van Vleck).
+    Magnetism(magnetism::Args),
+    /// Spin state, ground term, moments and bands of a complex from metal, oxidation state,
+    /// geometry and ligands (Δ, B, C estimated or given).
+    Predict(predict::Args),
+    /// List the chemistry data tables (ions, ligands) with their sources.
+    Data(data::Args),
     /// Fit 10Dq and Racah B (and C) to observed d–d band maxima, with band assignment.
     FitBands(fit_bands::Args),
     /// Band-count check: spin-allowed bands of each spin state inside a spectrometer window.
@@ -85,7 +102,12 @@ pub fn run(cli: Cli) -> Result<Output, Failure> {
         Command::Levels(a) => levels::run(&a),
         Command::Diagram(a) => diagram::run(&a),
         Command::Crossover(a) => crossover::run(&a),
-        Command::FitBands(a) => fit_bands::run(&a),
+        Command::Evans(a) => evans::run(&a, cli.data.as_deref()),
+        Command::Moment(a) => moment::run(&a, cli.data.as_deref()),
+        Command::Magnetism(a) => magnetism::run(&a),
+        Command::Predict(a) => predict::run(&a, cli.data.as_deref()),
+        Command::Data(a) => data::run(&a, cli.data.as_deref()),
+        Command::FitBands(a) => fit_bands::run(&a, cli.data.as_deref()),
         Command::Bands(a) => bands::run(&a),
     }
 }

@@ -5,9 +5,13 @@
 
 pub mod bands;
 pub mod crossover;
+pub mod data;
 pub mod diagram;
 pub mod fit_bands;
 pub mod levels;
+pub mod magnetism;
+pub mod measured;
+pub mod predict;
 
 use comfy_table::{presets::UTF8_FULL_CONDENSED, ContentArrangement, Table};
 use serde::Serialize;

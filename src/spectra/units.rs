@@ -1,13 +1,11 @@
 //! Units in which band maxima are given: wavenumber (cm⁻¹), wavelength (nm), kilokayser (kK,
-//! 1000 cm⁻¹) and electronvolt (eV). Everything inside spinstate works in cm⁻¹.
+//! 1000 cm⁻¹) and electronvolt (eV). Everything inside spinstate works in cm⁻¹; the conversions
+//! are those of [`crate::units`] (CODATA constants).
 
 use crate::error::{closest_names, require_finite, Error, Result};
+use crate::units::{cm1_nm, cm1_to_ev, cm1_to_kk, ev_to_cm1, kk_to_cm1};
 use std::fmt;
 use std::str::FromStr;
-
-/// cm⁻¹ per eV: 1/(hc/e) with hc/e = 1.239841984×10⁻⁴ eV cm (CODATA 2018, exact constants;
-/// from memory; FACTS.md §0 gives 1 cm⁻¹ = 1.23984×10⁻⁴ eV).
-pub const WAVENUMBER_PER_EV: f64 = 8_065.543_937;
 
 /// A unit for band positions.
 #[derive(Debug, Clone, Copy, PartialEq, Eq)]
@@ -47,12 +45,12 @@ impl EnergyUnit {
                 "a positive number",
             ));
         }
-        Ok(match self {
-            EnergyUnit::Wavenumber => x,
-            EnergyUnit::Nanometre => 1e7 / x,
-            EnergyUnit::KiloKayser => 1e3 * x,
-            EnergyUnit::ElectronVolt => x * WAVENUMBER_PER_EV,
-        })
+        match self {
+            EnergyUnit::Wavenumber => Ok(x),
+            EnergyUnit::Nanometre => cm1_nm(x),
+            EnergyUnit::KiloKayser => Ok(kk_to_cm1(x)),
+            EnergyUnit::ElectronVolt => Ok(ev_to_cm1(x)),
+        }
     }
 
     /// Converts a positive wavenumber (cm⁻¹) to this unit.
@@ -60,8 +58,8 @@ impl EnergyUnit {
         match self {
             EnergyUnit::Wavenumber => nu,
             EnergyUnit::Nanometre => 1e7 / nu,
-            EnergyUnit::KiloKayser => nu / 1e3,
-            EnergyUnit::ElectronVolt => nu / WAVENUMBER_PER_EV,
+            EnergyUnit::KiloKayser => cm1_to_kk(nu),
+            EnergyUnit::ElectronVolt => cm1_to_ev(nu),
         }
     }
 }

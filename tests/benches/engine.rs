@@ -76,5 +76,35 @@ fn bench_crossover(c: &mut Criterion) {
     g.finish();
 }
 
-criterion_group!(benches, bench_diagram, bench_levels, bench_crossover);
+fn bench_magnetism(c: &mut Criterion) {
+    use spinstate::susceptibility::{temperature_grid, MagneticModel, ZeemanLevels};
+    let calc = Calculation::new(
+        7,
+        800.0,
+        3700.0,
+        LigandField::octahedral(920.0),
+        PointGroup::Oh,
+    )
+    .unwrap();
+    let model = MagneticModel::new(533.0);
+    let temps = temperature_grid(2.0, 300.0, 300).unwrap();
+    ZeemanLevels::compute(&calc, &model).unwrap();
+    c.bench_function(
+        "magnetism d7 oct HS, 300-point curve (levels + Zeeman + sums)",
+        |b| {
+            b.iter(|| {
+                let z = ZeemanLevels::compute(black_box(&calc), &model).unwrap();
+                z.curve(&temps).unwrap()
+            })
+        },
+    );
+}
+
+criterion_group!(
+    benches,
+    bench_diagram,
+    bench_levels,
+    bench_crossover,
+    bench_magnetism
+);
 criterion_main!(benches);

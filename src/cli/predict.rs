@@ -1,0 +1,76 @@
+//! `spinstate predict`: spin state, ground term, moments and bands of a complex from its
+//! composition.
+
+use super::common::{load_tables, parse_geometry, Format};
+use super::{Failure, Output};
+use spinstate::complex::{ComplexSpec, LigandCount, Overrides};
+use spinstate::predict::predict;
+use spinstate::report::predict::PredictReport;
+use spinstate::report::to_json;
+use std::path::Path;
+
+#[derive(Debug, clap::Args)]
+pub struct Args {
+    /// Metal element symbol, e.g. Fe.
+    #[arg(long, value_name = "SYMBOL")]
+    pub metal: String,
+    /// Oxidation state of the metal, e.g. 2.
+    #[arg(long, value_name = "N", allow_negative_numbers = true)]
+    pub ox: i32,
+    /// Geometry: oct, tet or sqpl.
+    #[arg(long, value_name = "G")]
+    pub geometry: String,
+    /// A ligand and how many of it are bound, NAME[:COUNT] (repeatable; e.g. --ligand NCS:2
+    /// --ligand py:4). The donor atoms must fill the geometry exactly.
+    #[arg(long = "ligand", value_name = "NAME[:COUNT]", required = true)]
+    pub ligands: Vec<String>,
+    /// Measured Δ in cm⁻¹ to use instead of the estimate (Δo for oct, Δt for tet, the
+    /// octahedral 10Dq of the same ligands for sqpl).
+    #[arg(long, value_name = "CM-1", allow_negative_numbers = true)]
+    pub delta: Option<f64>,
+    /// Measured Racah B in cm⁻¹ to use instead of the estimate.
+    #[arg(long, value_name = "CM-1", allow_negative_numbers = true)]
+    pub b: Option<f64>,
+    /// Measured Racah C in cm⁻¹ to use instead of the estimate.
+    #[arg(long, value_name = "CM-1", allow_negative_numbers = true)]
+    pub c: Option<f64>,
+    #[command(flatten)]
+    pub format: Format,
+}
+
+impl Args {
+    /// The complex described by the options.
+    pub fn spec(&self) -> Result<ComplexSpec, Failure> {
+        let ligands = self
+            .ligands
+            .iter()
+            .map(|l| {
+                l.parse::<LigandCount>()
+                    .map_err(|e| Failure::usage(format!("--ligand: {e}")))
+            })
+            .collect::<Result<Vec<_>, _>>()?;
+        Ok(ComplexSpec {
+            metal: self.metal.clone(),
+            oxidation_state: self.ox,
+            geometry: parse_geometry(&self.geometry)?,
+            ligands,
+            overrides: Overrides {
+                delta: self.delta,
+                b: self.b,
+                c: self.c,
+            },
+        })
+    }
+}
+
+pub fn run(args: &Args, data: Option<&Path>) -> Result<Output, Failure> {
+    let tables = load_tables(data)?;
+    let complex = args.spec()?.resolve(&tables)?;
+    let prediction = predict(&complex)?;
+    let report = PredictReport::new(&prediction);
+    Ok(Output::text(if args.format.json {
+        to_json(&report)
+    } else {
+        report.to_table()
+    }))
+}

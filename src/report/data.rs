@@ -1,0 +1,172 @@
+//! Report of `spinstate data`: the chemistry tables as loaded (bundled or from `--data DIR`).
+
+use super::{fmt_num, new_table};
+use crate::tables::{Ion, Ligand};
+use serde::Serialize;
+
+/// One ion row (energies in cm⁻¹).
+#[derive(Debug, Clone, Serialize)]
+pub struct IonRow {
+    pub symbol: String,
+    pub oxidation_state: i32,
+    /// Name with Roman numeral, e.g. "Fe(II)".
+    pub ion: String,
+    /// d-electron count (group − oxidation state).
+    pub dn: usize,
+    /// "3d", "4d" or "5d".
+    pub series: String,
+    /// Free-ion Racah B₀ (cm⁻¹).
+    pub b0: Option<f64>,
+    /// Free-ion Racah C₀ (cm⁻¹).
+    pub c0: Option<f64>,
+    /// One-electron spin–orbit constant ζ (cm⁻¹).
+    pub zeta: Option<f64>,
+    /// Jørgensen g (cm⁻¹).
+    pub g: Option<f64>,
+    /// Jørgensen k (dimensionless).
+    pub k: Option<f64>,
+    pub caution: Option<String>,
+    pub source: String,
+}
+
+impl From<&Ion> for IonRow {
+    fn from(i: &Ion) -> Self {
+        IonRow {
+            symbol: i.symbol.clone(),
+            oxidation_state: i.oxidation_state,
+            ion: i.name(),
+            dn: i.dn,
+            series: i.series.name().to_string(),
+            b0: i.b0,
+            c0: i.c0,
+            zeta: i.zeta,
+            g: i.g,
+            k: i.k,
+            caution: i.caution.clone(),
+            source: i.source.clone(),
+        }
+    }
+}
+
+/// One ligand row.
+#[derive(Debug, Clone, Serialize)]
+pub struct LigandRow {
+    pub name: String,
+    pub aliases: Vec<String>,
+    /// Donor atoms (element symbols); their number is the denticity.
+    pub donors: Vec<String>,
+    pub denticity: usize,
+    pub charge: i32,
+    /// Jørgensen f (dimensionless).
+    pub f: Option<f64>,
+    /// Jørgensen h (dimensionless).
+    pub h: Option<f64>,
+    /// Angular overlap e_σ for Cr(III) (cm⁻¹).
+    pub e_sigma: Option<f64>,
+    /// Angular overlap e_π for Cr(III) (cm⁻¹).
+    pub e_pi: Option<f64>,
+    /// "acceptor", "donor" or "none".
+    pub pi: String,
+    /// Geometries the ligand can occupy.
+    pub binds: Vec<String>,
+    pub caution: Option<String>,
+    pub source: String,
+}
+
+impl From<&Ligand> for LigandRow {
+    fn from(l: &Ligand) -> Self {
+        LigandRow {
+            name: l.name.clone(),
+            aliases: l.aliases.clone(),
+            donors: l.donors.clone(),
+            denticity: l.denticity(),
+            charge: l.charge,
+            f: l.f,
+            h: l.h,
+            e_sigma: l.e_sigma,
+            e_pi: l.e_pi,
+            pi: l.pi.name().to_string(),
+            binds: l.binds.iter().map(|g| g.name().to_string()).collect(),
+            caution: l.caution.clone(),
+            source: l.source.clone(),
+        }
+    }
+}
+
+/// `spinstate data ions`.
+#[derive(Debug, Clone, Serialize)]
+pub struct IonsReport {
+    /// "bundled" or the `--data` directory.
+    pub origin: String,
+    pub ions: Vec<IonRow>,
+}
+
+/// `spinstate data ligands`.
+#[derive(Debug, Clone, Serialize)]
+pub struct LigandsReport {
+    /// "bundled" or the `--data` directory.
+    pub origin: String,
+    pub ligands: Vec<LigandRow>,
+}
+
+fn opt(x: Option<f64>, d: usize) -> String {
+    x.map_or(String::new(), |v| fmt_num(v, d))
+}
+
+impl IonsReport {
+    /// Human table.
+    pub fn to_table(&self) -> String {
+        let mut t = new_table([
+            "ion",
+            "d^n",
+            "series",
+            "B0 (cm⁻¹)",
+            "C0 (cm⁻¹)",
+            "ζ (cm⁻¹)",
+            "g (cm⁻¹)",
+            "k",
+            "source",
+        ]);
+        for r in &self.ions {
+            t.add_row(vec![
+                r.ion.clone(),
+                r.dn.to_string(),
+                r.series.clone(),
+                opt(r.b0, 0),
+                opt(r.c0, 0),
+                opt(r.zeta, 0),
+                opt(r.g, 0),
+                opt(r.k, 2),
+                r.source.clone(),
+            ]);
+        }
+        format!(
+            "{} ions ({}); d^n = group − oxidation state\n{t}\n",
+            self.ions.len(),
+            self.origin
+        )
+    }
+}
+
+impl LigandsReport {
+    /// Human table.
+    pub fn to_table(&self) -> String {
+        let mut t = new_table([
+            "ligand", "aliases", "donors", "charge", "f", "h", "π", "binds", "source",
+        ]);
+        for r in &self.ligands {
+            t.add_row(vec![
+                r.name.clone(),
+                r.aliases.join(", "),
+                r.donors.join(" "),
+                r.charge.to_string(),
+                opt(r.f, 2),
+                opt(r.h, 1),
+                r.pi.clone(),
+                r.binds.join(" "),
+                r.source.clone(),
+            ]);
+        }
+        format!("{} ligands ({})\n{t}\n", self.ligands.len(), self.origin)
+    }
+}

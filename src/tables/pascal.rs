@@ -1,0 +1,342 @@
+//! The Pascal-constant table, `data/pascal.csv`: diamagnetic increments for atoms, constitutive
+//! (bond) corrections, ions, ligands and solvents. This module alone knows the CSV layout.
+//!
+//! Columns: `kind` (atom, constitutive, cation, anion, ligand, solvent), `name` (the key used in
+//! `{…}` groups of a formula), `formula` (composition of the entry; empty for constitutive
+//! corrections), `value_1e-6_cm3_per_mol` (χ_D in 10⁻⁶ cm³ mol⁻¹, cgs-emu) and `source`.
+
+use crate::error::{closest_names, Error, Result};
+use crate::formula::Formula;
+use mendeleev::Element;
+use std::path::Path;
+use std::str::FromStr;
+
+/// File name of the table, bundled and in a `--data` directory.
+pub const FILE: &str = "pascal.csv";
+const BUNDLED: &str = include_str!("../../data/pascal.csv");
+const HEADER: [&str; 5] = [
+    "kind",
+    "name",
+    "formula",
+    "value_1e-6_cm3_per_mol",
+    "source",
+];
+
+/// What a Pascal entry stands for.
+#[derive(Debug, Clone, Copy, PartialEq, Eq)]
+pub enum PascalKind {
+    /// An atom in a covalent molecule (possibly a bonding variant such as N(ring)).
+    Atom,
+    /// A bond or structural correction added to the atom sum (no atoms of its own).
+    Constitutive,
+    Cation,
+    Anion,
+    /// A whole ligand molecule or ion.
+    Ligand,
+    /// A whole solvent molecule.
+    Solvent,
+}
+
+impl PascalKind {
+    pub fn name(self) -> &'static str {
+        match self {
+            PascalKind::Atom => "atom",
+            PascalKind::Constitutive => "constitutive",
+            PascalKind::Cation => "cation",
+            PascalKind::Anion => "anion",
+            PascalKind::Ligand => "ligand",
+            PascalKind::Solvent => "solvent",
+        }
+    }
+}
+
+impl FromStr for PascalKind {
+    type Err = String;
+    fn from_str(s: &str) -> std::result::Result<Self, String> {
+        Ok(match s.trim() {
+            "atom" => PascalKind::Atom,
+            "constitutive" => PascalKind::Constitutive,
+            "cation" => PascalKind::Cation,
+            "anion" => PascalKind::Anion,
+            "ligand" => PascalKind::Ligand,
+            "solvent" => PascalKind::Solvent,
+            other => {
+                return Err(format!(
+                    "unknown kind '{other}' (accepted: atom, constitutive, cation, anion, ligand, solvent)"
+                ))
+            }
+        })
+    }
+}
+
+/// One validated row.
+#[derive(Debug, Clone, PartialEq)]
+pub struct PascalEntry {
+    pub kind: PascalKind,
+    pub name: String,
+    /// Composition; `None` for constitutive corrections.
+    pub composition: Option<Formula>,
+    /// Diamagnetic susceptibility χ_D in cm³ mol⁻¹ (cgs-emu), i.e. the CSV value × 10⁻⁶.
+    pub value: f64,
+    pub source: String,
+}
+
+/// The whole table, rows in file order.
+#[derive(Debug, Clone)]
+pub struct PascalTable {
+    entries: Vec<PascalEntry>,
+}
+
+impl PascalTable {
+    /// The table bundled with the program.
+    pub fn bundled() -> Result<Self> {
+        Self::from_csv(BUNDLED)
+    }
+
+    /// DIR/pascal.csv when `data_dir` is given and holds that file, else the bundled table.
+    pub fn load(data_dir: Option<&Path>) -> Result<Self> {
+        if let Some(dir) = data_dir {
+            let path = dir.join(FILE);
+            if path.is_file() {
+                let text = std::fs::read_to_string(&path).map_err(|e| Error::Data {
+                    table: path.display().to_string(),
+                    message: format!("cannot be read: {e}"),
+                })?;
+                return Self::from_csv(&text);
+            }
+        }
+        Self::bundled()
+    }
+
+    /// Parses and validates CSV text in the layout described in the module docs.
+    pub fn from_csv(text: &str) -> Result<Self> {
+        let data_err = |message: String| Error::Data {
+            table: FILE.to_string(),
+            message,
+        };
+        let mut reader = csv::ReaderBuilder::new()
+            .trim(csv::Trim::All)
+            .from_reader(text.as_bytes());
+        let header = reader
+            .headers()
+            .map_err(|e| data_err(format!("bad header: {e}")))?
+            .clone();
+        if header.iter().collect::<Vec<_>>() != HEADER {
+            return Err(data_err(format!(
+                "header must be {} (found {})",
+                HEADER.join(","),
+                header.iter().collect::<Vec<_>>().join(",")
+            )));
+        }
+        let mut entries: Vec<PascalEntry> = Vec::new();
+        for (i, record) in reader.records().enumerate() {
+            let row = i + 2;
+            let record = record.map_err(|e| data_err(format!("row {row}: {e}")))?;
+            let cell = |col: usize| record.get(col).unwrap_or("").to_string();
+            let at = |col: usize, msg: String| {
+                data_err(format!("row {row}, column {}: {msg}", HEADER[col]))
+            };
+            let kind: PascalKind = cell(0).parse().map_err(|m| at(0, m))?;
+            let name = cell(1);
+            if name.is_empty() || name.contains('{') || name.contains('}') {
+                return Err(at(
+                    1,
+                    format!("'{name}' must be non-empty and without braces"),
+                ));
+            }
+            if entries.iter().any(|e| e.name == name) {
+                return Err(at(1, format!("duplicate name '{name}'")));
+            }
+            let formula_text = cell(2);
+            let composition = match (kind, formula_text.is_empty()) {
+                (PascalKind::Constitutive, true) => None,
+                (PascalKind::Constitutive, false) => {
+                    return Err(at(2, "must be empty for a constitutive correction".into()))
+                }
+                (_, true) => return Err(at(2, "composition is required".into())),
+                (_, false) => {
+                    Some(Formula::parse(&formula_text).map_err(|e| at(2, e.to_string()))?)
+                }
+            };
+            if kind == PascalKind::Atom {
+                let f = composition.as_ref().expect("checked above");
+                if f.elements().len() != 1 || f.charge() != 0 {
+                    return Err(at(
+                        2,
+                        format!("an atom row holds one element, found '{formula_text}'"),
+                    ));
+                }
+                if element_symbol_name(&name).is_some_and(|e| !f.elements().contains_key(&e)) {
+                    return Err(at(
+                        2,
+                        format!("'{formula_text}' does not match the atom '{name}'"),
+                    ));
+                }
+            }
+            let raw: f64 = cell(3)
+                .parse()
+                .map_err(|_| at(3, format!("'{}' is not a number", cell(3))))?;
+            if !raw.is_finite() {
+                return Err(at(3, "must be finite".into()));
+            }
+            if matches!(
+                kind,
+                PascalKind::Cation | PascalKind::Anion | PascalKind::Ligand | PascalKind::Solvent
+            ) && raw >= 0.0
+            {
+                return Err(at(
+                    3,
+                    format!("{raw}: a whole ion or molecule is diamagnetic (< 0)"),
+                ));
+            }
+            let source = cell(4);
+            if source.is_empty() {
+                return Err(at(4, "every row needs a source".into()));
+            }
+            entries.push(PascalEntry {
+                kind,
+                name,
+                composition,
+                value: raw * 1e-6,
+                source,
+            });
+        }
+        if entries.is_empty() {
+            return Err(data_err("no rows".into()));
+        }
+        Ok(PascalTable { entries })
+    }
+
+    /// All rows, in file order.
+    pub fn entries(&self) -> &[PascalEntry] {
+        &self.entries
+    }
+
+    /// The row with this exact name.
+    pub fn get(&self, name: &str) -> Option<&PascalEntry> {
+        self.entries.iter().find(|e| e.name == name)
+    }
+
+    /// The row with this name, or an error naming the closest known names.
+    pub fn require(&self, name: &str) -> Result<&PascalEntry> {
+        self.get(name).ok_or_else(|| Error::Unknown {
+            kind: "Pascal-table entry".into(),
+            name: name.to_string(),
+            suggestions: self.closest(name),
+        })
+    }
+
+    /// The default atom row for an element: the atom row named by its bare symbol.
+    pub fn atom(&self, element: Element) -> Option<&PascalEntry> {
+        self.entries
+            .iter()
+            .find(|e| e.kind == PascalKind::Atom && e.name == element.symbol())
+    }
+
+    /// Every row for an element: cations and anions made of that one element (e.g. Fe2+, Fe3+),
+    /// and atom variants (e.g. N(ring)).
+    pub fn rows_of(&self, element: Element) -> Vec<&PascalEntry> {
+        self.entries
+            .iter()
+            .filter(|e| {
+                e.composition
+                    .as_ref()
+                    .is_some_and(|f| f.elements().len() == 1 && f.elements().contains_key(&element))
+            })
+            .collect()
+    }
+
+    /// The cation rows made of one atom of `element` (e.g. K+ for K; Fe2+ and Fe3+ for Fe).
+    pub fn cations_of(&self, element: Element) -> Vec<&PascalEntry> {
+        self.rows_of(element)
+            .into_iter()
+            .filter(|e| e.kind == PascalKind::Cation)
+            .collect()
+    }
+
+    /// The known names closest to `name`.
+    pub fn closest(&self, name: &str) -> Vec<String> {
+        closest_names(name, self.entries.iter().map(|e| e.name.as_str()))
+    }
+
+    /// Parses a formula whose `{name}` groups are rows of this table (constitutive rows add no
+    /// atoms).
+    pub fn parse_formula(&self, text: &str) -> Result<Formula> {
+        let lookup = |name: &str| match self.get(name) {
+            Some(e) => Ok(e.composition.clone().unwrap_or_else(Formula::empty)),
+            None => Err(self.closest(name)),
+        };
+        Formula::parse_with(text, &lookup)
+    }
+}
+
+fn element_symbol_name(name: &str) -> Option<Element> {
+    crate::formula::element_from_symbol(name)
+}
+
+#[cfg(test)]
+mod tests {
+    use super::*;
+    use approx::assert_relative_eq;
+
+    #[test]
+    fn bundled_table_loads_and_every_row_has_a_tagged_source() {
+        let t = PascalTable::bundled().unwrap();
+        assert!(t.entries().len() > 80);
+        for e in t.entries() {
+            assert!(
+                e.source.starts_with("[S]") || e.source.starts_with("[M]"),
+                "{}: {}",
+                e.name,
+                e.source
+            );
+        }
+        // Spot values, Bain & Berry, J. Chem. Educ. 2008, 85, 532 (as reproduced).
+        assert_relative_eq!(t.get("H").unwrap().value, -2.93e-6);
+        assert_relative_eq!(t.get("py").unwrap().value, -49e-6);
+        assert_relative_eq!(t.atom(Element::Cl).unwrap().value, -20.1e-6);
+        assert_eq!(t.cations_of(Element::K).len(), 1);
+        assert_eq!(t.cations_of(Element::Fe).len(), 2);
+    }
+
+    #[test]
+    fn bad_rows_are_reported_with_row_and_column() {
+        let head = "kind,name,formula,value_1e-6_cm3_per_mol,source\n";
+        let e = PascalTable::from_csv(&format!("{head}atom,H,H,abc,src\n")).unwrap_err();
+        assert!(
+            e.to_string()
+                .contains("row 2, column value_1e-6_cm3_per_mol"),
+            "{e}"
+        );
+        let e = PascalTable::from_csv(&format!("{head}ligand,py,C5H5N,-49,\n")).unwrap_err();
+        assert!(e.to_string().contains("needs a source"), "{e}");
+        let e = PascalTable::from_csv(&format!("{head}ligand,py,C5H5N,49,x\n")).unwrap_err();
+        assert!(e.to_string().contains("diamagnetic"), "{e}");
+        let e = PascalTable::from_csv(&format!("{head}atom,H,H,-2.93,x\natom,H,H,-2.93,x\n"))
+            .unwrap_err();
+        assert!(
+            e.to_string().contains("row 3") && e.to_string().contains("duplicate"),
+            "{e}"
+        );
+        let e = PascalTable::from_csv(&format!("{head}atom,N,O,-5,x\n")).unwrap_err();
+        assert!(e.to_string().contains("does not match"), "{e}");
+        let e = PascalTable::from_csv(&format!("{head}ligand,py,C5H5Q,-49,x\n")).unwrap_err();
+        assert!(e.to_string().contains("column formula"), "{e}");
+        let e = PascalTable::from_csv("a,b\n1,2\n").unwrap_err();
+        assert!(e.to_string().contains("header"), "{e}");
+    }
+
+    #[test]
+    fn braces_expand_to_compositions() {
+        let t = PascalTable::bundled().unwrap();
+        let f = t.parse_formula("[{Fe2+}{py}4({NCS-})2]").unwrap();
+        assert_eq!(f.count(Element::C), 22.0);
+        assert_eq!(f.count(Element::Fe), 1.0);
+        assert!(f.free_elements().is_empty());
+        let f = t.parse_formula("C5H5{N(ring)}{C-in-ring}5").unwrap();
+        assert_eq!(f.count(Element::N), 1.0);
+        assert_eq!(f.count(Element::C), 5.0);
+        let e = t.parse_formula("{pyy}").unwrap_err().to_string();
+        assert!(e.contains("did you mean py"), "{e}");
+    }
+}

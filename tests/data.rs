@@ -1,0 +1,110 @@
+//! Integration tests of `spinstate data`, running the real binary.
+
+use assert_cmd::Command;
+use predicates::str::contains;
+use serde_json::Value;
+
+fn json(args: &[&str]) -> Value {
+    let out = Command::cargo_bin("spinstate")
+        .unwrap()
+        .args(args)
+        .assert()
+        .success()
+        .get_output()
+        .stdout
+        .clone();
+    serde_json::from_slice(&out).unwrap()
+}
+
+/// Every ion row has a source; d-electron counts follow group − oxidation state (common
+/// practice: Fe(II) d6, Cu(II) d9, Pt(II) d8).
+#[test]
+fn ions_are_listed_with_sources() {
+    let v = json(&["data", "ions", "--json"]);
+    assert_eq!(v["origin"], "bundled");
+    let ions = v["ions"].as_array().unwrap();
+    assert!(ions.len() >= 40);
+    for r in ions {
+        assert!(!r["source"].as_str().unwrap().is_empty());
+    }
+    let find = |ion: &str| ions.iter().find(|r| r["ion"] == ion).unwrap().clone();
+    assert_eq!(find("Fe(II)")["dn"], 6);
+    assert_eq!(find("Cu(II)")["dn"], 9);
+    assert_eq!(find("Pt(II)")["dn"], 8);
+    assert_eq!(find("Pt(II)")["series"], "5d");
+    Command::cargo_bin("spinstate")
+        .unwrap()
+        .args(["data", "ions"])
+        .assert()
+        .success()
+        .stdout(contains("Fe(III)"))
+        .stdout(contains("Jolly"));
+}
+
+#[test]
+fn ligands_are_listed_with_sources() {
+    let v = json(&["data", "ligands", "--json"]);
+    let ligands = v["ligands"].as_array().unwrap();
+    assert!(ligands.len() >= 30);
+    for r in ligands {
+        assert!(!r["source"].as_str().unwrap().is_empty());
+        assert_eq!(
+            r["denticity"].as_u64().unwrap() as usize,
+            r["donors"].as_array().unwrap().len()
+        );
+    }
+    Command::cargo_bin("spinstate")
+        .unwrap()
+        .args(["data", "ligands"])
+        .assert()
+        .success()
+        .stdout(contains("phen"))
+        .stdout(contains("Jørgensen"));
+}
+
+#[test]
+fn data_directory_adds_a_ligand() {
+    let dir = tempfile::tempdir().unwrap();
+    let mut text = include_str!("../data/ligands.csv").to_string();
+    text.push_str("Lx,invented-ligand,N,1,0,1.10,,,,none,oct tet sqpl,,invented test row\n");
+    std::fs::write(dir.path().join("ligands.csv"), text).unwrap();
+    let d = dir.path().to_str().unwrap();
+    let v = json(&["--data", d, "data", "ligands", "--json"]);
+    assert_eq!(v["origin"], d);
+    assert!(v["ligands"]
+        .as_array()
+        .unwrap()
+        .iter()
+        .any(|r| r["name"] == "Lx"));
+    // The ion table was not replaced and stays the bundled one.
+    let v = json(&["--data", d, "data", "ions", "--json"]);
+    assert!(v["ions"].as_array().unwrap().len() >= 40);
+}
+
+#[test]
+fn bad_tables_and_options_fail_with_exit_code_2() {
+    let dir = tempfile::tempdir().unwrap();
+    let mut text = include_str!("../data/ions.csv").to_string();
+    text.push_str("Fe,4,5000,,,,,,bad row\n");
+    std::fs::write(dir.path().join("ions.csv"), text).unwrap();
+    Command::cargo_bin("spinstate")
+        .unwrap()
+        .arg("--data")
+        .arg(dir.path())
+        .args(["data", "ions"])
+        .assert()
+        .code(2)
+        .stderr(contains("column b0"))
+        .stderr(contains("ions.csv"));
+    Command::cargo_bin("spinstate")
+        .unwrap()
+        .args(["--data", "/no/such/dir", "data", "ions"])
+        .assert()
+        .code(2)
+        .stderr(contains("--data"));
+    Command::cargo_bin("spinstate")
+        .unwrap()
+        .args(["data", "pascal"])
+        .assert()
+        .code(2);
+}

@@ -1,0 +1,131 @@
+//! `spinstate magnetism`: JSON contract, CSV/SVG files and bad input.
+
+mod common;
+use common::*;
+
+#[test]
+fn json_points_have_the_contract_names() {
+    let v = run_json(&[
+        "magnetism",
+        "--dn",
+        "7",
+        "--geometry",
+        "oct",
+        "--b",
+        "800",
+        "--c",
+        "3700",
+        "--dq",
+        "920",
+        "--zeta",
+        "533",
+        "--kappa",
+        "0.9",
+        "--tmin",
+        "2",
+        "--tmax",
+        "300",
+        "--points",
+        "300",
+        "--json",
+    ]);
+    let pts = v["points"].as_array().unwrap();
+    assert_eq!(pts.len(), 300);
+    for key in ["t", "chi", "chi_t", "mu_eff"] {
+        assert!(pts[0].get(key).is_some(), "{key}");
+    }
+    assert_eq!(pts[0]["t"], 2.0);
+    assert_eq!(pts[299]["t"], 300.0);
+    // χT = χ·T for every point.
+    for p in pts {
+        let (t, chi, chi_t) = (
+            p["t"].as_f64().unwrap(),
+            p["chi"].as_f64().unwrap(),
+            p["chi_t"].as_f64().unwrap(),
+        );
+        assert!((chi * t - chi_t).abs() < 1e-12 * chi_t.abs().max(1.0));
+    }
+    // High-spin octahedral Co(II): 4.7–5.2 μB at room temperature (Figgis & Lewis 1960, from
+    // memory), well above the spin-only 3.87.
+    let mu = pts[299]["mu_eff"].as_f64().unwrap();
+    assert!((4.7..=5.2).contains(&mu), "{mu}");
+    assert_eq!(v["orbital_triplet_ground"], true);
+}
+
+#[test]
+fn csv_and_svg_files() {
+    let dir = tempfile::tempdir().unwrap();
+    let csv = dir.path().join("m.csv");
+    let svg = dir.path().join("m.svg");
+    let (code, _, err) = run(&[
+        "magnetism",
+        "--dn",
+        "1",
+        "--geometry",
+        "oct",
+        "--b",
+        "700",
+        "--c",
+        "3000",
+        "--dq",
+        "2000",
+        "--zeta",
+        "154",
+        "--points",
+        "20",
+        "--csv",
+        csv.to_str().unwrap(),
+        "--svg",
+        svg.to_str().unwrap(),
+    ]);
+    assert_eq!(code, 0, "{err}");
+    let text = std::fs::read_to_string(&csv).unwrap();
+    assert!(text.starts_with("t_k,chi_cm3_per_mol,chi_t_cm3_k_per_mol,mu_eff_bohr"));
+    assert_eq!(text.lines().count(), 21);
+    assert!(std::fs::read_to_string(&svg).unwrap().contains("μ_eff"));
+}
+
+#[test]
+fn bad_input() {
+    let base = [
+        "magnetism",
+        "--dn",
+        "7",
+        "--geometry",
+        "oct",
+        "--b",
+        "800",
+        "--c",
+        "3700",
+        "--dq",
+        "920",
+    ];
+    let with = |extra: &[&str]| -> Vec<String> {
+        base.iter()
+            .chain(extra.iter())
+            .map(|s| s.to_string())
+            .collect()
+    };
+    let run_err = |args: Vec<String>, needle: &str| {
+        let refs: Vec<&str> = args.iter().map(|s| s.as_str()).collect();
+        expect_usage_error(&refs, needle);
+    };
+    run_err(with(&["--kappa", "1.4"]), "κ = 1.4");
+    run_err(with(&["--tmin", "0"]), "0 < tmin");
+    run_err(with(&["--tmin", "300", "--tmax", "10"]), "0 < tmin ≤ tmax");
+    run_err(with(&["--zeta", "-3"]), "--zeta -3");
+    expect_usage_error(
+        &[
+            "magnetism",
+            "--dn",
+            "7",
+            "--geometry",
+            "oct",
+            "--c-over-b",
+            "4.6",
+            "--delta-over-b",
+            "12",
+        ],
+        "needs energies in cm⁻¹",
+    );
+}
