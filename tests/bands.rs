@@ -244,3 +244,36 @@ fn bad_input_is_rejected_with_exit_code_2() {
     let (code, _, _) = run(&["bands", "--dn", "3", "--geometry", "oct", "--b", "700"]);
     assert_eq!(code, 2);
 }
+
+#[test]
+fn complex_from_the_tables() {
+    // [Co(NH3)6]3+: low-spin d6 with two spin-allowed bands (1T1g, 1T2g) in the visible
+    // (Lever 1984, from memory); the estimate comes from Jørgensen's f and g.
+    let out = assert_cmd::Command::cargo_bin("spinstate")
+        .unwrap()
+        .args([
+            "bands",
+            "--metal",
+            "Co",
+            "--ox",
+            "3",
+            "--geometry",
+            "oct",
+            "--ligand",
+            "NH3:6",
+            "--observed",
+            "2",
+            "--json",
+        ])
+        .output()
+        .unwrap();
+    assert!(
+        out.status.success(),
+        "{}",
+        String::from_utf8_lossy(&out.stderr)
+    );
+    let v: serde_json::Value = serde_json::from_slice(&out.stdout).unwrap();
+    assert_eq!(v["dn"], 6);
+    let text = v.to_string();
+    assert!(text.contains("1T1g"), "{text}");
+}

@@ -11,15 +11,30 @@ use spinstate::spectra::transitions::default_c_over_b;
 #[derive(Debug, clap::Args)]
 #[command(after_help = SAFETY)]
 pub struct Args {
-    /// Number of d electrons, 1..=9.
-    #[arg(long, value_name = "N")]
-    pub dn: usize,
+    /// Number of d electrons, 1..=9 (or give --metal, --ox and --ligand).
+    #[arg(long, value_name = "N", conflicts_with = "metal")]
+    pub dn: Option<usize>,
+    /// Metal of the complex (with --ox and --ligand): d^n, Δ, B and C come from the data tables
+    /// unless given, as in `predict`.
+    #[arg(long, value_name = "SYMBOL", requires_all = ["ox", "ligands"])]
+    pub metal: Option<String>,
+    /// Oxidation state of the metal.
+    #[arg(
+        long,
+        value_name = "N",
+        allow_negative_numbers = true,
+        requires = "metal"
+    )]
+    pub ox: Option<i32>,
+    /// A ligand, NAME[:COUNT] (repeatable), as in `predict`.
+    #[arg(long = "ligand", value_name = "NAME[:COUNT]", requires = "metal")]
+    pub ligands: Vec<String>,
     /// Geometry: oct, tet, sqpl or tetragonal.
     #[arg(long, value_name = "G")]
     pub geometry: String,
-    /// Racah B in cm⁻¹.
+    /// Racah B in cm⁻¹ (required without --metal).
     #[arg(long, value_name = "CM-1", allow_negative_numbers = true)]
-    pub b: f64,
+    pub b: Option<f64>,
     /// Racah C in cm⁻¹ (default: C/B × B).
     #[arg(
         long,
@@ -36,7 +51,6 @@ pub struct Args {
         long,
         value_name = "CM-1",
         conflicts_with = "delta",
-        required_unless_present = "delta",
         allow_negative_numbers = true
     )]
     pub dq: Option<f64>,
@@ -76,31 +90,59 @@ fn parse_window(s: &str) -> Result<(f64, f64), Failure> {
     Ok((lo, hi))
 }
 
-pub fn run(args: &Args) -> Result<Output, Failure> {
+pub fn run(args: &Args, data: Option<&std::path::Path>) -> Result<Output, Failure> {
     let geometry = parse_geometry(&args.geometry)?;
-    if !(1..=9).contains(&args.dn) {
+    // From a complex: d^n and estimates of Δ, B, C (each replaced by a value given here).
+    let complex = match &args.metal {
+        Some(metal) => Some(super::common::resolve_complex(
+            metal,
+            args.ox.unwrap_or_default(),
+            geometry,
+            &args.ligands,
+            data,
+        )?),
+        None => None,
+    };
+    let dn = match (&complex, args.dn) {
+        (Some(cx), _) => cx.ion.dn,
+        (None, Some(n)) => n,
+        (None, None) => {
+            return Err(Failure::usage(
+                "give --dn with --b and --dq (or --delta), or --metal, --ox and --ligand",
+            ))
+        }
+    };
+    if !(1..=9).contains(&dn) {
         return Err(Failure::usage(format!(
-            "--dn {} is outside 1..=9 (d0 and d10 have no d–d bands)",
-            args.dn
+            "--dn {dn} is outside 1..=9 (d0 and d10 have no d–d bands)"
         )));
     }
-    if !(args.b.is_finite() && args.b > 0.0) {
-        return Err(Failure::usage(format!("--b {} must be > 0 cm⁻¹", args.b)));
+    let b = match (args.b, &complex) {
+        (Some(b), _) => b,
+        (None, Some(cx)) => cx.b.value,
+        (None, None) => return Err(Failure::usage("give --b (Racah B in cm⁻¹)")),
+    };
+    if !(b.is_finite() && b > 0.0) {
+        return Err(Failure::usage(format!("--b {b} must be > 0 cm⁻¹")));
     }
-    let c = match (args.c, args.c_over_b) {
-        (Some(c), _) => c,
-        (None, Some(r)) => r * args.b,
-        (None, None) => default_c_over_b(args.dn).0 * args.b,
+    let c = match (args.c, args.c_over_b, &complex) {
+        (Some(c), _, _) => c,
+        (None, Some(r), _) => r * b,
+        (None, None, Some(cx)) if args.b.is_none() => cx.c.value,
+        (None, None, _) => default_c_over_b(dn).0 * b,
     };
     if !(c.is_finite() && c >= 0.0) {
         return Err(Failure::usage(format!(
             "C = {c} must be ≥ 0 cm⁻¹ (C/B is usually 3.5–5)"
         )));
     }
-    let dq = match (args.dq, args.delta) {
-        (Some(dq), _) => dq,
-        (None, Some(d)) => d / 10.0,
-        (None, None) => return Err(Failure::usage("give the field with --dq or --delta (cm⁻¹)")),
+    let dq = match (args.dq, args.delta, &complex) {
+        (Some(dq), _, _) => dq,
+        (None, Some(d), _) => d / 10.0,
+        (None, None, Some(cx)) => cx.dq(),
+        (None, None, None) => {
+            return Err(Failure::usage("give the field with --dq or --delta (cm⁻¹)"))
+        }
     };
     if !(dq.is_finite() && dq >= 0.0) {
         return Err(Failure::usage(format!(
@@ -114,10 +156,10 @@ pub fn run(args: &Args) -> Result<Output, Failure> {
         )));
     }
     let req = CountRequest {
-        dn: args.dn,
+        dn,
         geometry,
         dq,
-        b: args.b,
+        b,
         c,
         window_nm: parse_window(&args.window)?,
         resolution: args.resolution,

@@ -108,6 +108,6 @@ pub fn run(cli: Cli) -> Result<Output, Failure> {
         Command::Predict(a) => predict::run(&a, cli.data.as_deref()),
         Command::Data(a) => data::run(&a, cli.data.as_deref()),
         Command::FitBands(a) => fit_bands::run(&a, cli.data.as_deref()),
-        Command::Bands(a) => bands::run(&a),
+        Command::Bands(a) => bands::run(&a, cli.data.as_deref()),
     }
 }
