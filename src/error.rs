@@ -13,7 +13,7 @@ pub enum Error {
         accepted: String,
     },
     /// A name (metal, ligand, geometry, element…) is not known.
-    #[error("unknown {kind} '{name}'{}", suggestion_text(.suggestions))]
+    #[error("{}", unknown_text(.kind, .name, .suggestions))]
     Unknown {
         kind: String,
         name: String,
@@ -28,6 +28,21 @@ pub enum Error {
     /// A numerical procedure did not finish (no convergence, singular matrix…).
     #[error("computation did not finish: {0}")]
     Computation(String),
+}
+
+/// "unknown KIND 'NAME'; did you mean A, B? (HINT)": a parenthetical hint at the end of `kind`
+/// goes after the suggestions.
+fn unknown_text(kind: &str, name: &str, suggestions: &[String]) -> String {
+    let (head, hint) = match kind.find(" (") {
+        Some(i) if kind.ends_with(')') => (&kind[..i], &kind[i + 1..]),
+        _ => (kind, ""),
+    };
+    let mut s = format!("unknown {head} '{name}'{}", suggestion_text(suggestions));
+    if !hint.is_empty() {
+        s.push(' ');
+        s.push_str(hint);
+    }
+    s
 }
 
 fn suggestion_text(s: &[String]) -> String {
@@ -114,6 +129,19 @@ mod tests {
     fn suggestions_find_near_names() {
         let s = closest_names("bpyy", ["bpy", "phen", "py", "en"]);
         assert_eq!(s[0], "bpy");
+    }
+
+    #[test]
+    fn unknown_names_put_the_hint_last() {
+        let e = Error::Unknown {
+            kind: "geometry (accepted: oct, tet)".into(),
+            name: "octt".into(),
+            suggestions: vec!["oct".into()],
+        };
+        assert_eq!(
+            e.to_string(),
+            "unknown geometry 'octt'; did you mean oct? (accepted: oct, tet)"
+        );
     }
 
     #[test]

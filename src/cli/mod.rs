@@ -1,10 +1,12 @@
 //! Command-line layer: parse arguments, call the library, render. No science here.
 
+pub mod bands;
 pub mod common;
 pub mod crossover;
 pub mod data;
 pub mod diagram;
 pub mod evans;
+pub mod fit_bands;
 pub mod levels;
 pub mod magnetism;
 pub mod measured;
@@ -45,6 +47,10 @@ pub enum Command {
     Predict(predict::Args),
     /// List the chemistry data tables (ions, ligands) with their sources.
     Data(data::Args),
+    /// Fit 10Dq and Racah B (and C) to observed d–d band maxima, with band assignment.
+    FitBands(fit_bands::Args),
+    /// Band-count check: spin-allowed bands of each spin state inside a spectrometer window.
+    Bands(bands::Args),
 }
 
 /// A failure with its exit code (1: computation did not finish, 2: bad usage or input).
@@ -101,5 +107,7 @@ pub fn run(cli: Cli) -> Result<Output, Failure> {
         Command::Magnetism(a) => magnetism::run(&a, cli.data.as_deref()),
         Command::Predict(a) => predict::run(&a, cli.data.as_deref()),
         Command::Data(a) => data::run(&a, cli.data.as_deref()),
+        Command::FitBands(a) => fit_bands::run(&a, cli.data.as_deref()),
+        Command::Bands(a) => bands::run(&a, cli.data.as_deref()),
     }
 }

@@ -3,9 +3,11 @@
 //! Reports are plain data built from engine results; rendering never computes science. Human
 //! tables round; JSON and CSV keep full precision.
 
+pub mod bands;
 pub mod crossover;
 pub mod data;
 pub mod diagram;
+pub mod fit_bands;
 pub mod levels;
 pub mod magnetism;
 pub mod measured;

@@ -1,0 +1,176 @@
+//! `spinstate fit-bands`: fit Dq, B (and C) to observed band maxima.
+
+use super::common::{load_tables, parse_geometry, Format};
+use super::{Failure, Output};
+use spinstate::report::fit_bands::{Context, FitBandsReport};
+use spinstate::report::to_json;
+use spinstate::spectra::fit::{crossover_position, fit_bands, FitRequest};
+use spinstate::spectra::units::parse_bands;
+use spinstate::spectra::{EnergyUnit, SpinChoice};
+use std::path::Path;
+
+/// Caution shown in the help of the spectroscopy commands.
+pub const SAFETY: &str = "Safety: nickel and cobalt salts are skin and respiratory sensitisers and (suspected) carcinogens, chromium work can form Cr(VI), and UV lamps need eye protection. Follow your institution's rules, the supplier's SDS and a local risk assessment; this output is no safety approval.";
+
+#[derive(Debug, clap::Args)]
+#[command(after_help = SAFETY)]
+pub struct Args {
+    /// Number of d electrons, 1..=9 (taken from --metal/--ox when given).
+    #[arg(long, value_name = "N", required_unless_present = "metal")]
+    pub dn: Option<usize>,
+    /// Metal element symbol (with --ox): d^n and the free-ion B0 for β come from ions.csv.
+    #[arg(long, value_name = "SYMBOL", requires = "ox")]
+    pub metal: Option<String>,
+    /// Oxidation state of --metal.
+    #[arg(
+        long,
+        value_name = "N",
+        requires = "metal",
+        allow_negative_numbers = true
+    )]
+    pub ox: Option<i32>,
+    /// Geometry: oct, tet, sqpl or tetragonal (no distortion parameters here).
+    #[arg(long, value_name = "G")]
+    pub geometry: String,
+    /// Observed d–d band maxima, comma-separated, in --units (e.g. 17400,24600,37800).
+    #[arg(long, value_name = "LIST", allow_hyphen_values = true)]
+    pub bands: String,
+    /// Unit of --bands: cm-1, nm, kK or eV.
+    #[arg(long, value_name = "UNIT", default_value = "cm-1")]
+    pub units: String,
+    /// Spin state to assume: high, low or auto (try each and keep the best consistent fit).
+    #[arg(long, value_name = "S", default_value = "auto")]
+    pub spin: String,
+    /// Hold C/B at this ratio (default: the Tanabe–Sugano ratio for d2–d8).
+    #[arg(
+        long,
+        value_name = "R",
+        conflicts_with = "fit_c",
+        allow_negative_numbers = true
+    )]
+    pub c_over_b: Option<f64>,
+    /// Fit C as a third free parameter (needs as many bands as free parameters, and C must
+    /// enter the spin-allowed bands).
+    #[arg(long)]
+    pub fit_c: bool,
+    /// Hold Racah B at this value (cm⁻¹) and fit Dq only (e.g. with a single band).
+    #[arg(long, value_name = "CM-1", allow_negative_numbers = true)]
+    pub b: Option<f64>,
+    /// Free-ion Racah B0 (cm⁻¹) for the nephelauxetic ratio β = B/B0 (overrides the ions.csv
+    /// value of --metal/--ox).
+    #[arg(long, value_name = "CM-1", allow_negative_numbers = true)]
+    pub b0: Option<f64>,
+    /// Cap on model evaluations per tried assignment, as a multiple of (free parameters + 1).
+    #[arg(long, value_name = "K", default_value_t = spinstate::spectra::fit::DEFAULT_PATIENCE)]
+    pub max_evaluations: usize,
+    #[command(flatten)]
+    pub format: Format,
+}
+
+pub fn run(args: &Args, data: Option<&Path>) -> Result<Output, Failure> {
+    let geometry = parse_geometry(&args.geometry)?;
+    // The ion, when named: d^n, B0 (with its table source) and a handling caution.
+    let tables = match (&args.metal, args.ox) {
+        (Some(_), Some(_)) => Some(load_tables(data)?),
+        _ => None,
+    };
+    let ion = match (&args.metal, args.ox, &tables) {
+        (Some(metal), Some(ox), Some(t)) => Some(t.ions.find(metal, ox)?),
+        _ => None,
+    };
+    let dn = match (args.dn, ion) {
+        (Some(dn), Some(ion)) if dn != ion.dn => {
+            return Err(Failure::usage(format!(
+                "--dn {dn} disagrees with {} (d{}); give one or the other",
+                ion.name(),
+                ion.dn
+            )))
+        }
+        (_, Some(ion)) => ion.dn,
+        (Some(dn), None) => dn,
+        (None, None) => return Err(Failure::usage("give --dn N or --metal M --ox K")),
+    };
+    if !(1..=9).contains(&dn) {
+        return Err(Failure::usage(format!(
+            "--dn {dn} is outside 1..=9 (d0 and d10 have no d–d bands)"
+        )));
+    }
+    let unit: EnergyUnit = args
+        .units
+        .parse()
+        .map_err(|e| Failure::usage(format!("--units: {e}")))?;
+    let spin: SpinChoice = args
+        .spin
+        .parse()
+        .map_err(|e| Failure::usage(format!("--spin: {e}")))?;
+    let bands =
+        parse_bands(&args.bands, unit).map_err(|e| Failure::usage(format!("--bands: {e}")))?;
+    if let Some(b0) = args.b0 {
+        if !(b0.is_finite() && b0 > 0.0) {
+            return Err(Failure::usage(format!(
+                "--b0 {b0} must be a free-ion Racah B > 0 cm⁻¹"
+            )));
+        }
+    }
+    let req = FitRequest {
+        dn,
+        geometry,
+        bands,
+        spin,
+        c_over_b: args.c_over_b,
+        fit_c: args.fit_c,
+        fixed_b: args.b,
+        patience: Some(args.max_evaluations),
+    };
+    if args.max_evaluations == 0 {
+        return Err(Failure::usage("--max-evaluations 0 must be at least 1"));
+    }
+    let out = fit_bands(&req).map_err(|e| {
+        let mut f = Failure::from(e.clone());
+        if f.code == 2 && f.message.contains("hold B fixed") {
+            f.message.push_str(" (option --b)");
+        } else if f.code == 2 && f.message.contains("hold C/B fixed") {
+            f.message
+                .push_str(" (drop --fit-c; --c-over-b sets the ratio)");
+        }
+        f
+    })?;
+    let b0 = match (args.b0, ion) {
+        (Some(b0), _) => Some((b0, "given with --b0".to_string())),
+        (None, Some(ion)) => ion.b0.map(|b0| {
+            // The part of the row's source that names the B0 table.
+            let table = ion
+                .source
+                .split(';')
+                .map(str::trim)
+                .find(|part| part.starts_with("B0"))
+                .unwrap_or(ion.source.as_str());
+            (b0, format!("{} in ions.csv, {table}", ion.name()))
+        }),
+        (None, None) => None,
+    };
+    let ctx = Context {
+        input_unit: Some(unit),
+        b0,
+        crossover: crossover_position(&out.best)?.map(|p| p.crossover),
+    };
+    let mut report = FitBandsReport::new(&out, &ctx)?;
+    if let Some(ion) = ion {
+        if ion.b0.is_none() && args.b0.is_none() {
+            report.notes.push(format!(
+                "ions.csv has no free-ion B0 for {}: β not computed (give --b0)",
+                ion.name()
+            ));
+        }
+        if let Some(c) = &ion.caution {
+            report.notes.push(format!(
+                "caution: {c}; follow your institution's rules and the SDS"
+            ));
+        }
+    }
+    Ok(Output::text(if args.format.json {
+        to_json(&report)
+    } else {
+        report.to_table()
+    }))
+}

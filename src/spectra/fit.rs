@@ -1,0 +1,1490 @@
+//! Fit of Dq, B (and C) to observed d–d band maxima with the full d^n calculation.
+//!
+//! For each spin state tried, the observed bands are assigned to calculated spin-allowed
+//! transitions by a grid search over Δ/B ([`super::assign`]); the best assignments are refined by
+//! Levenberg–Marquardt least squares (crate `levenberg-marquardt`) on the full engine, with
+//! parameters taken as logarithms so that Dq, B and C stay positive. Uncertainties come from the
+//! covariance s²(JᵀJ)⁻¹, J the Jacobian in Dq, B, C at the optimum and s² the residual variance,
+//! when there are more bands than free parameters.
+
+use super::assign::{self, BSeed, Seed, MAX_DELTA_OVER_B};
+use super::count::DEFAULT_WINDOW_NM;
+use super::transitions::{
+    calculation, default_c_over_b, jumps, manifold, select_spin, spin_states, Jump, Manifold,
+    SpinChoice, SpinState, Transition, TransitionKey,
+};
+use crate::engine::Geometry;
+use crate::error::{require_finite, Error, Result};
+use levenberg_marquardt::{LeastSquaresProblem, LevenbergMarquardt, TerminationReason};
+use nalgebra::{storage::Owned, DMatrix, DVector, Dyn};
+
+/// Range of Racah B (cm⁻¹) treated as plausible for a d-block complex; outside it an assignment
+/// is flagged (common practice: 3d complexes have B ≈ 400–1100, 4d/5d lower).
+pub const PLAUSIBLE_B: (f64, f64) = (100.0, 1500.0);
+
+/// Range of fitted C/B treated as plausible (free-ion C is about 4–5 B, FACTS.md §4.2 [M];
+/// the margins are this tool's choice).
+pub const PLAUSIBLE_C_OVER_B: (f64, f64) = (3.0, 6.0);
+
+/// Range of Racah B (cm⁻¹) outside which a fit is rejected as impossible: free 3d ions have
+/// B₀ ≲ 1300 cm⁻¹ and complexes less (Jolly 1989 and Griffith/Lever B₀ tables, FACTS.md §4.2;
+/// the margins are this tool's choice).
+pub const POSSIBLE_B: (f64, f64) = (50.0, 3000.0);
+
+/// Penalty (cm⁻¹ added to the rms) for each concern when ranking assignments: a band expected to
+/// be strong predicted where it could have been seen (above 1100 nm or the lowest observed band,
+/// below the highest observed band) but not assigned,
+/// a field that makes another spin state the ground state, an implausible B or fitted C/B. A ranking
+/// heuristic of this tool, not a published rule.
+pub const CONCERN_PENALTY: f64 = 1000.0;
+
+/// A band misses its transition "by far" when the residual exceeds this many cm⁻¹ and
+/// [`FAR_FRACTION`] of the band; such data are rejected as reaching no transition.
+pub const FAR_ABSOLUTE: f64 = 2000.0;
+/// See [`FAR_ABSOLUTE`].
+pub const FAR_FRACTION: f64 = 0.10;
+
+/// What to fit.
+#[derive(Debug, Clone)]
+pub struct FitRequest {
+    pub dn: usize,
+    pub geometry: Geometry,
+    /// Observed band maxima (cm⁻¹), any order.
+    pub bands: Vec<f64>,
+    pub spin: SpinChoice,
+    /// C/B held fixed; None uses the Tanabe–Sugano ratio of [`default_c_over_b`]. Ignored with
+    /// `fit_c` except as the starting value.
+    pub c_over_b: Option<f64>,
+    /// Fit C as a free parameter.
+    pub fit_c: bool,
+    /// Hold B at this value (cm⁻¹) and fit Dq (and C) only.
+    pub fixed_b: Option<f64>,
+    /// Cap on model evaluations per assignment, as a multiple of (free parameters + 1);
+    /// None uses [`DEFAULT_PATIENCE`].
+    pub patience: Option<usize>,
+}
+
+/// Default cap on model evaluations per assignment, × (free parameters + 1).
+pub const DEFAULT_PATIENCE: usize = 60;
+
+/// A model parameter.
+#[derive(Debug, Clone, Copy, PartialEq, Eq)]
+pub enum Parameter {
+    Dq,
+    B,
+    C,
+}
+
+impl Parameter {
+    pub fn name(self) -> &'static str {
+        match self {
+            Parameter::Dq => "Dq",
+            Parameter::B => "B",
+            Parameter::C => "C",
+        }
+    }
+}
+
+/// A parameter that was not fitted, and why.
+#[derive(Debug, Clone, PartialEq)]
+pub struct FixedParameter {
+    /// "B", "C" or "C/B".
+    pub name: String,
+    /// The value held (cm⁻¹, or the ratio), or None when the parameter does not enter.
+    pub value: Option<f64>,
+    pub reason: String,
+}
+
+/// How many bands there were for the free parameters.
+#[derive(Debug, Clone, Copy, PartialEq, Eq)]
+pub enum Determination {
+    /// As many bands as free parameters: the bands are reproduced exactly, no uncertainties.
+    Exact,
+    /// More bands than free parameters, with this many degrees of freedom.
+    Over { dof: usize },
+}
+
+/// One observed band and the transition assigned to it.
+#[derive(Debug, Clone, PartialEq)]
+pub struct AssignedBand {
+    /// Observed maximum (cm⁻¹).
+    pub observed: f64,
+    /// The transition at the fitted parameters.
+    pub transition: Transition,
+    /// Observed minus calculated (cm⁻¹).
+    pub residual: f64,
+    /// Strong-field configuration change.
+    pub jump: Jump,
+}
+
+/// A calculated transition that no observed band was assigned to.
+#[derive(Debug, Clone, PartialEq)]
+pub struct PredictedBand {
+    pub transition: Transition,
+    pub jump: Jump,
+}
+
+/// Standard uncertainties (1σ) of the fitted parameters, when over-determined.
+#[derive(Debug, Clone, Copy, PartialEq, Default)]
+pub struct Uncertainties {
+    pub dq: Option<f64>,
+    pub b: Option<f64>,
+    pub c: Option<f64>,
+    pub delta_over_b: Option<f64>,
+}
+
+/// One fitted assignment.
+#[derive(Debug, Clone, PartialEq)]
+pub struct BandFit {
+    pub dn: usize,
+    pub geometry: Geometry,
+    /// The spin state assumed: bands are transitions from its lowest level.
+    pub spin_state: SpinState,
+    /// Label of the lowest level of that spin ("4A2g").
+    pub reference: String,
+    /// Dq (cm⁻¹); Δ = 10Dq.
+    pub dq: f64,
+    /// Racah B (cm⁻¹); None when B does not enter the spin-allowed bands.
+    pub b: Option<f64>,
+    /// Racah C (cm⁻¹); None when C does not enter the spin-allowed bands.
+    pub c: Option<f64>,
+    /// C/B used in the calculation: fitted, given, or the default (also when C does not enter
+    /// the bands; it still sets the positions of levels of other spin).
+    pub c_over_b: f64,
+    pub uncertainties: Uncertainties,
+    /// Free parameters, in fit order.
+    pub free: Vec<Parameter>,
+    pub fixed: Vec<FixedParameter>,
+    pub determination: Determination,
+    /// Residual variance s² = Σr²/(n − p) (cm⁻²), when over-determined.
+    pub residual_variance: Option<f64>,
+    /// Bands in increasing energy with their assignment.
+    pub assigned: Vec<AssignedBand>,
+    /// Transitions not observed, lowest first (up to 50 000 cm⁻¹ or 5 000 above the highest band).
+    pub predicted: Vec<PredictedBand>,
+    /// Root-mean-square residual (cm⁻¹).
+    pub rms: f64,
+    /// 2S of the ground state at the fitted parameters.
+    pub ground_two_s: i32,
+    /// Energy of the lowest level of the nearest other ground-spin candidate minus that of the
+    /// assumed spin (cm⁻¹; positive: the assumed spin is lower), when there is another.
+    pub spin_gap: Option<f64>,
+    pub converged: bool,
+    /// Why the minimiser stopped.
+    pub termination: String,
+    /// Model evaluations used by the minimiser.
+    pub evaluations: usize,
+    /// Reasons this assignment is doubtful (each adds [`CONCERN_PENALTY`] to the score).
+    pub concerns: Vec<String>,
+    /// rms + penalties (cm⁻¹); lower is better.
+    pub score: f64,
+    /// Unassigned bands expected to be strong that lie below the highest observed band, at any
+    /// energy (tie-breaker between near-equal assignments).
+    pub skipped_below: usize,
+}
+
+impl BandFit {
+    /// Δ = 10Dq (cm⁻¹).
+    pub fn delta(&self) -> f64 {
+        10.0 * self.dq
+    }
+
+    /// Δ/B, when B is determined.
+    pub fn delta_over_b(&self) -> Option<f64> {
+        self.b.map(|b| 10.0 * self.dq / b)
+    }
+
+    /// Whether the fitted field makes the assumed spin state the ground state.
+    pub fn consistent(&self) -> bool {
+        self.ground_two_s == self.spin_state.two_s
+    }
+
+    /// Assignment text such as "4T2g, 4T1g(F)" in band order.
+    pub fn assignment_text(&self) -> String {
+        self.assigned
+            .iter()
+            .map(|a| a.transition.label.clone())
+            .collect::<Vec<_>>()
+            .join(", ")
+    }
+}
+
+/// The result of [`fit_bands`].
+#[derive(Debug, Clone)]
+pub struct FitOutcome {
+    pub best: BandFit,
+    /// Other refined assignments, best first; `near_equal` marks those within the tolerance.
+    pub alternatives: Vec<(BandFit, bool)>,
+    /// The possible ground spin states of this d^n and geometry, weak field first.
+    pub spin_states: Vec<SpinState>,
+    /// Statements about the fit (fixed parameters, skipped spin states, …).
+    pub notes: Vec<String>,
+}
+
+/// Tolerance (cm⁻¹) within which another assignment's score counts as near-equal.
+pub fn near_equal_tolerance(best_rms: f64) -> f64 {
+    (0.25 * best_rms).max(100.0)
+}
+
+/// How parameters map to Dq, B, C.
+#[derive(Debug, Clone)]
+struct Spec {
+    free: Vec<Parameter>,
+    /// B when B is not free (cm⁻¹).
+    b_fixed: f64,
+    /// C/B when C is not free.
+    c_over_b: f64,
+}
+
+impl Spec {
+    fn natural(&self, u: &DVector<f64>) -> (f64, f64, f64) {
+        let mut dq = 0.0;
+        let mut b = self.b_fixed;
+        let mut c = None;
+        for (p, v) in self.free.iter().zip(u.iter()) {
+            match p {
+                Parameter::Dq => dq = v.exp(),
+                Parameter::B => b = v.exp(),
+                Parameter::C => c = Some(v.exp()),
+            }
+        }
+        (dq, b, c.unwrap_or(self.c_over_b * b))
+    }
+
+    fn log_params(&self, dq: f64, b: f64, c: f64) -> DVector<f64> {
+        DVector::from_iterator(
+            self.free.len(),
+            self.free.iter().map(|p| match p {
+                Parameter::Dq => dq.ln(),
+                Parameter::B => b.ln(),
+                Parameter::C => c.ln(),
+            }),
+        )
+    }
+}
+
+/// The energies of given transitions for one spin at Dq, B, C.
+struct Model<'a> {
+    dn: usize,
+    geometry: Geometry,
+    two_s: i32,
+    keys: &'a [TransitionKey],
+}
+
+impl Model<'_> {
+    fn manifold(&self, dq: f64, b: f64, c: f64) -> Option<Manifold> {
+        if !(dq.is_finite() && b.is_finite() && c.is_finite()) || dq <= 0.0 || b <= 0.0 {
+            return None;
+        }
+        let spectrum = calculation(self.dn, self.geometry, dq, b, c)
+            .ok()?
+            .levels()
+            .ok()?;
+        manifold(&spectrum, self.two_s)
+    }
+
+    fn energies(&self, dq: f64, b: f64, c: f64) -> Option<Vec<f64>> {
+        let m = self.manifold(dq, b, c)?;
+        self.keys
+            .iter()
+            .map(|k| m.get(k).map(|t| t.energy))
+            .collect()
+    }
+}
+
+/// The least-squares problem in log parameters for the `levenberg-marquardt` crate.
+struct Problem<'a> {
+    model: &'a Model<'a>,
+    spec: &'a Spec,
+    bands: &'a [f64],
+    u: DVector<f64>,
+    residuals: Option<DVector<f64>>,
+}
+
+impl Problem<'_> {
+    fn residuals_at(&self, u: &DVector<f64>) -> Option<DVector<f64>> {
+        let (dq, b, c) = self.spec.natural(u);
+        let e = self.model.energies(dq, b, c)?;
+        Some(DVector::from_iterator(
+            e.len(),
+            e.iter().zip(self.bands).map(|(calc, obs)| calc - obs),
+        ))
+    }
+}
+
+/// Step of the central differences in log parameters.
+const LOG_STEP: f64 = 1e-6;
+
+impl LeastSquaresProblem<f64, Dyn, Dyn> for Problem<'_> {
+    type ResidualStorage = Owned<f64, Dyn>;
+    type JacobianStorage = Owned<f64, Dyn, Dyn>;
+    type ParameterStorage = Owned<f64, Dyn>;
+
+    fn set_params(&mut self, u: &DVector<f64>) {
+        self.u.copy_from(u);
+        self.residuals = self.residuals_at(u);
+    }
+
+    fn params(&self) -> DVector<f64> {
+        self.u.clone()
+    }
+
+    fn residuals(&self) -> Option<DVector<f64>> {
+        self.residuals.clone()
+    }
+
+    fn jacobian(&self) -> Option<DMatrix<f64>> {
+        let n = self.bands.len();
+        let p = self.u.len();
+        let mut j = DMatrix::zeros(n, p);
+        for k in 0..p {
+            let mut up = self.u.clone();
+            let mut down = self.u.clone();
+            up[k] += LOG_STEP;
+            down[k] -= LOG_STEP;
+            let col = (self.residuals_at(&up)? - self.residuals_at(&down)?) / (2.0 * LOG_STEP);
+            j.set_column(k, &col);
+        }
+        Some(j)
+    }
+}
+
+/// Whether the minimiser's stop counts as converged: its own success criteria, or tolerances
+/// already at machine precision.
+fn converged(t: &TerminationReason) -> bool {
+    t.was_successful() || matches!(t, TerminationReason::NoImprovementPossible(_))
+}
+
+/// Jacobian of the energies of `keys` with respect to the natural free parameters (cm⁻¹ per
+/// cm⁻¹), by central differences of relative step 10⁻⁵.
+fn natural_jacobian(model: &Model, spec: &Spec, dq: f64, b: f64, c: f64) -> Option<DMatrix<f64>> {
+    let n = model.keys.len();
+    let mut j = DMatrix::zeros(n, spec.free.len());
+    for (k, p) in spec.free.iter().enumerate() {
+        let value = match p {
+            Parameter::Dq => dq,
+            Parameter::B => b,
+            Parameter::C => c,
+        };
+        let h = 1e-5 * value;
+        let at = |delta: f64| {
+            let (mut d, mut bb, mut cc) = (dq, b, c);
+            match p {
+                Parameter::Dq => d += delta,
+                Parameter::B => {
+                    bb += delta;
+                    if !spec.free.contains(&Parameter::C) {
+                        cc = spec.c_over_b * bb;
+                    }
+                }
+                Parameter::C => cc += delta,
+            }
+            model.energies(d, bb, cc)
+        };
+        let up = DVector::from_vec(at(h)?);
+        let down = DVector::from_vec(at(-h)?);
+        j.set_column(k, &((up - down) / (2.0 * h)));
+    }
+    Some(j)
+}
+
+/// Which parameters the spin-allowed bands of one spin depend on, tested numerically at a
+/// typical point (Δ/B = 20, B = 800 cm⁻¹): (B enters with C = ratio·B, C enters on its own).
+fn dependence(dn: usize, geometry: Geometry, two_s: i32, c_over_b: f64) -> Result<(bool, bool)> {
+    let energies = |dq: f64, b: f64, c: f64| -> Result<Vec<(TransitionKey, f64)>> {
+        let s = calculation(dn, geometry, dq, b, c)?.levels()?;
+        Ok(manifold(&s, two_s)
+            .map(|m| {
+                m.transitions
+                    .into_iter()
+                    .map(|t| (t.key, t.energy))
+                    .collect()
+            })
+            .unwrap_or_default())
+    };
+    let base = energies(1600.0, 800.0, 800.0 * c_over_b)?;
+    let differs = |other: Vec<(TransitionKey, f64)>| {
+        base.len() != other.len()
+            || base
+                .iter()
+                .zip(&other)
+                .any(|(a, b)| a.0 != b.0 || (a.1 - b.1).abs() > 1e-6 * (1.0 + a.1.abs()))
+    };
+    let b_enters = differs(energies(1600.0, 880.0, 880.0 * c_over_b)?);
+    let c_enters = differs(energies(1600.0, 800.0, 880.0 * c_over_b)?);
+    Ok((b_enters, c_enters))
+}
+
+/// Fits Dq, B (and C) to the bands; see the module documentation.
+///
+/// Errors (all [`Error::InvalidParameter`], exit code 2, unless stated): no bands or bad values;
+/// a spin state without spin-allowed transitions; more bands than transitions; fewer bands than
+/// free parameters (the message says which parameter to hold); `fit_c` when C does not enter; a
+/// band that no assignment reaches within [`FAR_ABSOLUTE`]/[`FAR_FRACTION`]. When the best
+/// assignment's minimisation does not converge: [`Error::Computation`] (exit code 1) whose
+/// message gives the best point reached.
+pub fn fit_bands(req: &FitRequest) -> Result<FitOutcome> {
+    if req.dn > 10 {
+        return Err(Error::invalid("d-electron count", req.dn, "0..=10"));
+    }
+    if req.geometry == Geometry::Tetragonal {
+        return Err(Error::invalid(
+            "geometry",
+            "tetragonal",
+            "oct, tet or sqpl: Ds and Dt are not fitted, and without them a tetragonal field is the octahedral one",
+        ));
+    }
+    if req.bands.is_empty() {
+        return Err(Error::invalid("bands", "none", "at least one band maximum"));
+    }
+    for &nu in &req.bands {
+        require_finite("band", nu)?;
+        if nu <= 0.0 {
+            return Err(Error::invalid("band", nu, "a positive position in cm⁻¹"));
+        }
+    }
+    if let Some(b) = req.fixed_b {
+        require_finite("fixed B", b)?;
+        if b <= 0.0 {
+            return Err(Error::invalid("fixed B", b, "a Racah B > 0 cm⁻¹"));
+        }
+    }
+    let (default_ratio, default_source) = default_c_over_b(req.dn);
+    let (c_over_b, ratio_source) = match req.c_over_b {
+        Some(r) => {
+            require_finite("C/B", r)?;
+            if r <= 0.0 {
+                return Err(Error::invalid("C/B", r, "a ratio > 0 (usually 3.5–5)"));
+            }
+            (r, Some("given".to_string()))
+        }
+        None => (default_ratio, default_source.map(|s| s.to_string())),
+    };
+    let mut bands = req.bands.clone();
+    bands.sort_by(|a, b| a.total_cmp(b));
+
+    let states = spin_states(req.dn, req.geometry, c_over_b)?;
+    if states.is_empty() {
+        return Err(Error::invalid(
+            "d-electron count",
+            req.dn,
+            "1..=9 (d0 and d10 have no d–d bands)",
+        ));
+    }
+    let chosen = select_spin(&states, req.spin);
+    let explicit = req.spin != SpinChoice::Auto;
+    let mut notes = Vec::new();
+    if states.len() == 1 && explicit {
+        notes.push(format!(
+            "d{} {} has a single ground spin state, {}; the spin choice makes no difference",
+            req.dn,
+            req.geometry,
+            states[0].describe()
+        ));
+    }
+
+    let mut fits: Vec<BandFit> = Vec::new();
+    let mut last_error: Option<Error> = None;
+    for state in &chosen {
+        let result = fit_one_spin(
+            req,
+            &bands,
+            *state,
+            &states,
+            c_over_b,
+            ratio_source.as_deref(),
+        );
+        match result {
+            Ok((mut these, mut n)) => {
+                fits.append(&mut these);
+                notes.append(&mut n);
+            }
+            Err(e) if !explicit && chosen.len() > 1 && e.exit_code() == 2 => {
+                notes.push(format!("not fitted: {e}"));
+                last_error = Some(e);
+            }
+            Err(e) => return Err(e),
+        }
+    }
+    if fits.is_empty() {
+        return Err(last_error.unwrap_or_else(|| {
+            Error::invalid("bands", "given", "bands that some spin state can explain")
+        }));
+    }
+    fits.sort_by(|a, b| a.score.total_cmp(&b.score));
+    // Among near-equal fits prefer the one leaving the fewest strong bands unassigned below the
+    // highest observed band (bands are usually assigned to the lowest transitions).
+    let tol = near_equal_tolerance(fits[0].rms);
+    let top_score = fits[0].score;
+    let pick = (0..fits.len())
+        .filter(|&i| fits[i].score <= top_score + tol)
+        .min_by(|&i, &j| {
+            fits[i]
+                .skipped_below
+                .cmp(&fits[j].skipped_below)
+                .then(fits[i].score.total_cmp(&fits[j].score))
+        })
+        .unwrap_or(0);
+    let best = fits.remove(pick);
+    // A band far from every transition means the data fit no assignment.
+    if let Some(a) = best
+        .assigned
+        .iter()
+        .find(|a| a.residual.abs() > FAR_ABSOLUTE.max(FAR_FRACTION * a.observed))
+    {
+        return Err(Error::invalid(
+            "band",
+            format!("{:.0} cm⁻¹", a.observed),
+            format!(
+                "a position reachable by a spin-allowed transition of d{} {} with B in {:.0}–{:.0} cm⁻¹ and Δ/B up to {MAX_DELTA_OVER_B}; the best assignment ({}) misses it by {:.0} cm⁻¹",
+                req.dn,
+                req.geometry,
+                PLAUSIBLE_B.0,
+                PLAUSIBLE_B.1,
+                best.assignment_text(),
+                a.residual.abs()
+            ),
+        ));
+    }
+    if let (true, Some(b)) = (best.free.contains(&Parameter::B), best.b) {
+        if !(POSSIBLE_B.0..=POSSIBLE_B.1).contains(&b) {
+            return Err(Error::invalid(
+                "bands",
+                bands
+                    .iter()
+                    .map(|x| format!("{x:.0}"))
+                    .collect::<Vec<_>>()
+                    .join(", "),
+                format!(
+                    "positions that spin-allowed transitions of d{} {} reach with B in {:.0}–{:.0} cm⁻¹; the best assignment ({}) needs B = {b:.0} cm⁻¹",
+                    req.dn,
+                    req.geometry,
+                    POSSIBLE_B.0,
+                    POSSIBLE_B.1,
+                    best.assignment_text()
+                ),
+            ));
+        }
+    }
+    if !best.converged {
+        return Err(Error::Computation(format!(
+            "the fit did not converge ({} after {} evaluations); best point reached: {}, rms {:.1} cm⁻¹",
+            best.termination,
+            best.evaluations,
+            point_text(&best),
+            best.rms
+        )));
+    }
+    let alternatives = fits
+        .into_iter()
+        .map(|f| {
+            let near = f.score <= best.score + near_equal_tolerance(best.rms);
+            (f, near)
+        })
+        .collect();
+    Ok(FitOutcome {
+        best,
+        alternatives,
+        spin_states: states,
+        notes,
+    })
+}
+
+/// "10Dq = 17400, B = 729, C = 3279 cm⁻¹" for messages.
+pub fn point_text(f: &BandFit) -> String {
+    let mut s = format!("10Dq = {:.0}", f.delta());
+    if let Some(b) = f.b {
+        s.push_str(&format!(", B = {b:.1}"));
+    }
+    if let Some(c) = f.c {
+        s.push_str(&format!(", C = {c:.0}"));
+    }
+    s.push_str(" cm⁻¹");
+    s
+}
+
+/// Grid seeds for one spin state, with C/B values to try.
+fn seeds_for(
+    req: &FitRequest,
+    bands: &[f64],
+    state: SpinState,
+    ratios: &[f64],
+    b_seed: BSeed,
+) -> Result<Vec<Seed>> {
+    let mut all = Vec::new();
+    for &r in ratios {
+        let g = assign::grid(req.dn, req.geometry, state.two_s, r)?;
+        let cands = assign::candidates(&g, bands.len(), 8);
+        all.extend(assign::seeds(&g, &cands, bands, b_seed, r));
+    }
+    all.sort_by(|a, b| a.rss.total_cmp(&b.rss));
+    // Keep the best seed of each assignment.
+    let mut unique: Vec<Seed> = Vec::new();
+    for s in all {
+        if !unique.iter().any(|u| u.keys == s.keys) {
+            unique.push(s);
+        }
+    }
+    Ok(unique)
+}
+
+/// Fits every promising assignment for one spin state.
+fn fit_one_spin(
+    req: &FitRequest,
+    bands: &[f64],
+    state: SpinState,
+    states: &[SpinState],
+    c_over_b: f64,
+    ratio_source: Option<&str>,
+) -> Result<(Vec<BandFit>, Vec<String>)> {
+    let n = bands.len();
+    let probe = calculation(req.dn, req.geometry, 1600.0, 800.0, 800.0 * c_over_b)?.levels()?;
+    let total = manifold(&probe, state.two_s)
+        .map(|m| m.transitions.len())
+        .unwrap_or(0);
+    if total == 0 {
+        return Err(Error::invalid(
+            "spin state",
+            format!("{} of d{} {}", state.describe(), req.dn, req.geometry),
+            "one with spin-allowed d–d bands; this one has none (its bands are spin-forbidden and weak)",
+        ));
+    }
+    if n > total {
+        return Err(Error::invalid(
+            "number of bands",
+            n,
+            format!(
+                "at most {total}: d{} {}, {} has {total} spin-allowed transition(s)",
+                req.dn,
+                req.geometry,
+                state.describe()
+            ),
+        ));
+    }
+    let (b_enters, c_enters) = dependence(req.dn, req.geometry, state.two_s, c_over_b)?;
+    let mut free = vec![Parameter::Dq];
+    let mut fixed = Vec::new();
+    let mut notes = Vec::new();
+    if !b_enters {
+        fixed.push(FixedParameter {
+            name: "B".into(),
+            value: None,
+            reason: format!(
+                "B and C do not enter the spin-allowed bands of d{} {}, {} (one free-ion term of this spin): only Δ is determined",
+                req.dn, req.geometry, state.describe()
+            ),
+        });
+        if req.fit_c {
+            return Err(Error::invalid(
+                "fit C",
+                "requested",
+                format!(
+                    "only when C enters the spin-allowed bands; for d{} {}, {} neither B nor C does",
+                    req.dn,
+                    req.geometry,
+                    state.describe()
+                ),
+            ));
+        }
+    } else {
+        match req.fixed_b {
+            Some(b) => fixed.push(FixedParameter {
+                name: "B".into(),
+                value: Some(b),
+                reason: "held at the given value".into(),
+            }),
+            None => free.push(Parameter::B),
+        }
+        if req.fit_c {
+            if !c_enters {
+                return Err(Error::invalid(
+                    "fit C",
+                    "requested",
+                    format!(
+                        "only when C enters the spin-allowed bands; for d{} {}, {} they depend on Dq and B alone — fix C/B instead",
+                        req.dn,
+                        req.geometry,
+                        state.describe()
+                    ),
+                ));
+            }
+            free.push(Parameter::C);
+        } else if c_enters {
+            fixed.push(FixedParameter {
+                name: "C/B".into(),
+                value: Some(c_over_b),
+                reason: match ratio_source {
+                    Some("given") => "held at the given ratio".into(),
+                    Some(src) => format!("held at the default for d{}: {src}", req.dn),
+                    None => "held at a nominal ratio".into(),
+                },
+            });
+        } else {
+            fixed.push(FixedParameter {
+                name: "C".into(),
+                value: None,
+                reason: format!(
+                    "the spin-allowed bands of d{} {}, {} depend on Dq and B only, so C is not determined",
+                    req.dn,
+                    req.geometry,
+                    state.describe()
+                ),
+            });
+        }
+    }
+    let p = free.len();
+    if n < p {
+        let names: Vec<&str> = free.iter().map(|f| f.name()).collect();
+        let hint = if free.contains(&Parameter::C) {
+            "hold C/B fixed instead of fitting C, or add a band"
+        } else {
+            "hold B fixed at a value in cm⁻¹ (e.g. β·B0), or add a band"
+        };
+        return Err(Error::invalid(
+            "number of bands",
+            n,
+            format!(
+                "at least {p} for the free parameters {} of d{} {}, {}: {hint}",
+                names.join(", "),
+                req.dn,
+                req.geometry,
+                state.describe()
+            ),
+        ));
+    }
+
+    let spec_b_fixed = if b_enters {
+        req.fixed_b.unwrap_or(800.0)
+    } else {
+        1000.0
+    };
+    let ratios: Vec<f64> = if req.fit_c {
+        vec![0.85 * c_over_b, c_over_b, 1.15 * c_over_b]
+    } else {
+        vec![c_over_b]
+    };
+    let b_seed = match (b_enters, req.fixed_b) {
+        (true, Some(b)) => BSeed::Fixed(b),
+        _ => BSeed::Free {
+            min: PLAUSIBLE_B.0,
+            max: PLAUSIBLE_B.1,
+        },
+    };
+    let mut seeds = seeds_for(req, bands, state, &ratios, b_seed)?;
+    if seeds.is_empty() && matches!(b_seed, BSeed::Free { .. }) {
+        // No assignment with a plausible B on the grid: widen B before giving up.
+        seeds = seeds_for(
+            req,
+            bands,
+            state,
+            &ratios,
+            BSeed::Free {
+                min: POSSIBLE_B.0,
+                max: POSSIBLE_B.1,
+            },
+        )?;
+    }
+    if seeds.is_empty() {
+        return Err(Error::invalid(
+            "bands",
+            bands
+                .iter()
+                .map(|b| format!("{b:.0}"))
+                .collect::<Vec<_>>()
+                .join(", "),
+            format!(
+                "positions that spin-allowed transitions of d{} {}, {} can reach for Δ/B up to {MAX_DELTA_OVER_B}",
+                req.dn,
+                req.geometry,
+                state.describe()
+            ),
+        ));
+    }
+    // Refine the most promising assignments.
+    let best_rss = seeds[0].rss;
+    let limit = 4.0 * best_rss + n as f64 * 500.0_f64.powi(2);
+    let chosen: Vec<Seed> = seeds
+        .into_iter()
+        .filter(|s| s.rss <= limit)
+        .take(8)
+        .collect();
+    let mut fits = Vec::new();
+    for seed in chosen {
+        let spec = Spec {
+            free: free.clone(),
+            b_fixed: if b_enters { spec_b_fixed } else { 1000.0 },
+            c_over_b: seed.c_over_b,
+        };
+        let deps = (b_enters, c_enters);
+        if let Some(f) = refine(req, bands, state, states, &spec, &seed, &fixed, deps)? {
+            fits.push(f);
+        }
+    }
+    if fits.is_empty() {
+        return Err(Error::invalid(
+            "bands",
+            "given",
+            format!(
+                "positions that the spin-allowed transitions of d{} {}, {} reproduce",
+                req.dn,
+                req.geometry,
+                state.describe()
+            ),
+        ));
+    }
+    if !free.contains(&Parameter::C) && c_enters {
+        notes.push(format!(
+            "C/B = {c_over_b} was held fixed{}",
+            match ratio_source {
+                Some("given") => String::from(" at the given value"),
+                Some(src) => format!(" ({src})"),
+                None => String::new(),
+            }
+        ));
+    }
+    Ok((fits, notes))
+}
+
+/// Refines one seed with Levenberg–Marquardt and evaluates the result. None when the model
+/// cannot be evaluated at the seed (a transition of the assignment is missing there).
+#[allow(clippy::too_many_arguments)]
+fn refine(
+    req: &FitRequest,
+    bands: &[f64],
+    state: SpinState,
+    states: &[SpinState],
+    spec: &Spec,
+    seed: &Seed,
+    fixed: &[FixedParameter],
+    (b_enters, c_enters): (bool, bool),
+) -> Result<Option<BandFit>> {
+    let model = Model {
+        dn: req.dn,
+        geometry: req.geometry,
+        two_s: state.two_s,
+        keys: &seed.keys,
+    };
+    let b0 = if spec.free.contains(&Parameter::B) {
+        seed.b
+    } else {
+        spec.b_fixed
+    };
+    let dq0 = seed.x * seed.b / 10.0;
+    let mut spec = spec.clone();
+    if !spec.free.contains(&Parameter::B) && !b_enters {
+        // B does not enter: express the seed's Δ with the nominal B.
+        spec.b_fixed = 1000.0;
+    }
+    let u0 = spec.log_params(dq0, b0, seed.c_over_b * b0);
+    let mut problem = Problem {
+        model: &model,
+        spec: &spec,
+        bands,
+        u: u0.clone(),
+        residuals: None,
+    };
+    problem.set_params(&u0);
+    if problem.residuals.is_none() {
+        return Ok(None);
+    }
+    let (solved, report) = LevenbergMarquardt::new()
+        .with_ftol(1e-12)
+        .with_xtol(1e-12)
+        .with_gtol(1e-12)
+        .with_patience(req.patience.unwrap_or(DEFAULT_PATIENCE).max(1))
+        .minimize(problem);
+    let ok = converged(&report.termination) && report.objective_function.is_finite();
+    let (dq, b, c) = spec.natural(&solved.u);
+    let Some(m) = model.manifold(dq, b, c) else {
+        return Ok(None);
+    };
+    // Assigned bands, in band order (bands are sorted).
+    let mut assigned = Vec::new();
+    for (key, &obs) in seed.keys.iter().zip(bands) {
+        let Some(t) = m.get(key) else {
+            return Ok(None);
+        };
+        assigned.push(AssignedBand {
+            observed: obs,
+            transition: t.clone(),
+            residual: obs - t.energy,
+            jump: Jump {
+                electrons: None,
+                weak: false,
+            },
+        });
+    }
+    let n = bands.len();
+    let rss: f64 = assigned.iter().map(|a| a.residual.powi(2)).sum();
+    let rms = (rss / n as f64).sqrt();
+
+    // Strong-field configurations: one-electron vs two-electron jumps.
+    let all_jumps = jumps(req.dn, req.geometry, b, c, &m)?;
+    let jump_of = |key: &TransitionKey| -> Jump {
+        m.transitions
+            .iter()
+            .position(|t| &t.key == key)
+            .map(|i| all_jumps[i])
+            .unwrap_or(Jump {
+                electrons: None,
+                weak: false,
+            })
+    };
+    for a in &mut assigned {
+        a.jump = jump_of(&a.transition.key);
+    }
+    let top = bands.iter().cloned().fold(0.0, f64::max);
+    // A strong band counts as missing only where it could have been seen: inside the default
+    // window (from 1100 nm) or above the lowest observed band, and below the highest.
+    let low_edge = (1e7 / DEFAULT_WINDOW_NM.1).min(bands[0]);
+    let ceiling = (top + 5000.0).max(50_000.0);
+    let predicted: Vec<PredictedBand> = m
+        .transitions
+        .iter()
+        .filter(|t| !seed.keys.contains(&t.key) && t.energy <= ceiling)
+        .map(|t| PredictedBand {
+            transition: t.clone(),
+            jump: jump_of(&t.key),
+        })
+        .collect();
+
+    // Uncertainties.
+    let p = spec.free.len();
+    let (determination, variance, unc) = if n > p {
+        let s2 = rss / (n - p) as f64;
+        let unc = natural_jacobian(&model, &spec, dq, b, c)
+            .and_then(|j| (j.transpose() * &j).try_inverse())
+            .map(|inv| covariance_to_sigmas(&spec.free, &(inv * s2), dq, b));
+        (Determination::Over { dof: n - p }, Some(s2), unc)
+    } else {
+        (Determination::Exact, None, None)
+    };
+    let mut concerns = Vec::new();
+    if n > p && unc.is_none() {
+        concerns.push("JᵀJ is singular: the parameters are not separately determined".into());
+    }
+    let skipped: Vec<&PredictedBand> = predicted
+        .iter()
+        .filter(|pb| {
+            !pb.jump.weak && pb.transition.energy >= low_edge && pb.transition.energy < top
+        })
+        .collect();
+    for s in &skipped {
+        concerns.push(format!(
+            "a band expected to be strong, {}, is predicted at {:.0} cm⁻¹, inside the observed range, but not assigned",
+            s.transition.label, s.transition.energy
+        ));
+    }
+    if b_enters && !(PLAUSIBLE_B.0..=PLAUSIBLE_B.1).contains(&b) {
+        concerns.push(format!(
+            "B = {b:.0} cm⁻¹ is outside the plausible {:.0}–{:.0} cm⁻¹",
+            PLAUSIBLE_B.0, PLAUSIBLE_B.1
+        ));
+    }
+    if spec.free.contains(&Parameter::C)
+        && !(PLAUSIBLE_C_OVER_B.0..=PLAUSIBLE_C_OVER_B.1).contains(&(c / b))
+    {
+        concerns.push(format!(
+            "C/B = {:.2} is outside the usual {:.0}–{:.0}",
+            c / b,
+            PLAUSIBLE_C_OVER_B.0,
+            PLAUSIBLE_C_OVER_B.1
+        ));
+    }
+    let calc = calculation(req.dn, req.geometry, dq, b, c)?;
+    let lows = calc.lowest_by_spin()?;
+    let ground_two_s = calc.ground_two_s()?;
+    let own = lows.iter().find(|(s, _)| *s == state.two_s).map(|l| l.1);
+    let spin_gap = own.and_then(|own| {
+        states
+            .iter()
+            .filter(|s| s.two_s != state.two_s)
+            .filter_map(|s| lows.iter().find(|(t, _)| *t == s.two_s).map(|l| l.1 - own))
+            .min_by(|a, b| a.abs().total_cmp(&b.abs()))
+    });
+    if ground_two_s != state.two_s {
+        concerns.push(format!(
+            "at the fitted field the ground state has 2S+1 = {}, not the assumed {}",
+            ground_two_s + 1,
+            state.multiplicity()
+        ));
+    }
+    let score = rms + CONCERN_PENALTY * concerns.len() as f64;
+    let skipped_below = predicted
+        .iter()
+        .filter(|pb| !pb.jump.weak && pb.transition.energy < top)
+        .count();
+    Ok(Some(BandFit {
+        dn: req.dn,
+        geometry: req.geometry,
+        spin_state: state,
+        reference: m.reference_label.clone(),
+        dq,
+        b: b_enters.then_some(b),
+        c: (c_enters || spec.free.contains(&Parameter::C)).then_some(c),
+        c_over_b: c / b,
+        uncertainties: unc.unwrap_or_default(),
+        free: spec.free.clone(),
+        fixed: fixed.to_vec(),
+        determination,
+        residual_variance: variance,
+        assigned,
+        predicted,
+        rms,
+        ground_two_s,
+        spin_gap,
+        converged: ok,
+        termination: format!("{:?}", report.termination),
+        evaluations: report.number_of_evaluations,
+        concerns,
+        score,
+        skipped_below,
+    }))
+}
+
+/// 1σ of Dq, B, C and Δ/B from the covariance of the free parameters.
+fn covariance_to_sigmas(free: &[Parameter], cov: &DMatrix<f64>, dq: f64, b: f64) -> Uncertainties {
+    let idx = |p: Parameter| free.iter().position(|f| *f == p);
+    let sd = |i: Option<usize>| i.map(|i| cov[(i, i)].max(0.0).sqrt());
+    let (i_dq, i_b, i_c) = (idx(Parameter::Dq), idx(Parameter::B), idx(Parameter::C));
+    // Δ/B = 10Dq/B: gradient (10/B, −10Dq/B²).
+    let delta_over_b = i_dq.map(|a| {
+        let g_dq = 10.0 / b;
+        match i_b {
+            Some(bi) => {
+                let g_b = -10.0 * dq / (b * b);
+                (g_dq * g_dq * cov[(a, a)]
+                    + g_b * g_b * cov[(bi, bi)]
+                    + 2.0 * g_dq * g_b * cov[(a, bi)])
+                    .max(0.0)
+                    .sqrt()
+            }
+            None => g_dq * cov[(a, a)].max(0.0).sqrt(),
+        }
+    });
+    Uncertainties {
+        dq: sd(i_dq),
+        b: sd(i_b),
+        c: sd(i_c),
+        delta_over_b,
+    }
+}
+
+/// Nephelauxetic ratio β = B/B₀ (B₀ the free-ion value in cm⁻¹, > 0).
+pub fn nephelauxetic_ratio(b: f64, b0: f64) -> Result<f64> {
+    require_finite("B0", b0)?;
+    if b0 <= 0.0 {
+        return Err(Error::invalid("B0", b0, "a free-ion Racah B > 0 cm⁻¹"));
+    }
+    Ok(b / b0)
+}
+
+/// Where a fitted Δ/B lies relative to the spin crossover.
+#[derive(Debug, Clone, Copy, PartialEq)]
+pub struct CrossoverPosition {
+    /// Crossover Δ/B (at the fit's C/B).
+    pub crossover: f64,
+    /// Fitted Δ/B minus the crossover (positive: on the strong-field, low-spin side).
+    pub margin: f64,
+    /// Relative margin, margin / crossover.
+    pub relative: f64,
+    /// True when the fitted field lies on the low-spin side.
+    pub low_spin_side: bool,
+}
+
+/// Where a fit lies relative to the engine's spin crossover at the fit's C/B, or None when B is
+/// not determined or the ground spin never changes for this d^n and geometry.
+pub fn crossover_position(fit: &BandFit) -> Result<Option<CrossoverPosition>> {
+    let Some(x) = fit.delta_over_b() else {
+        return Ok(None);
+    };
+    let cross = crate::engine::crossover(fit.dn, fit.geometry, fit.c_over_b)?;
+    match cross.delta_over_b {
+        Some(xc) => relative_to_crossover(x, xc).map(Some),
+        None => Ok(None),
+    }
+}
+
+/// Places a fitted Δ/B relative to a crossover Δ/B (both at the same C/B).
+pub fn relative_to_crossover(delta_over_b: f64, crossover: f64) -> Result<CrossoverPosition> {
+    require_finite("crossover Δ/B", crossover)?;
+    require_finite("Δ/B", delta_over_b)?;
+    if crossover <= 0.0 {
+        return Err(Error::invalid("crossover Δ/B", crossover, "a value > 0"));
+    }
+    let margin = delta_over_b - crossover;
+    Ok(CrossoverPosition {
+        crossover,
+        margin,
+        relative: margin / crossover,
+        low_spin_side: margin > 0.0,
+    })
+}
+
+#[cfg(test)]
+mod tests {
+    use super::*;
+    use approx::assert_relative_eq;
+
+    fn request(dn: usize, geometry: Geometry, bands: Vec<f64>) -> FitRequest {
+        FitRequest {
+            dn,
+            geometry,
+            bands,
+            spin: SpinChoice::Auto,
+            c_over_b: None,
+            fit_c: false,
+            fixed_b: None,
+            patience: None,
+        }
+    }
+
+    #[test]
+    fn beta_and_crossover_position() {
+        // β = B/B0 (Jørgensen's nephelauxetic ratio); [Cr(H2O)6]3+ B ≈ 725 with Jolly's
+        // B0(Cr3+) = 918 gives β ≈ 0.79 (FACTS.md §4.5 [C], Jolly 1989 [S]).
+        assert_relative_eq!(
+            nephelauxetic_ratio(725.0, 918.0).unwrap(),
+            0.7898,
+            epsilon = 1e-4
+        );
+        assert!(nephelauxetic_ratio(725.0, 0.0).is_err());
+        let pos = relative_to_crossover(36.3, 20.0).unwrap();
+        assert!(pos.low_spin_side);
+        assert_relative_eq!(pos.margin, 16.3, epsilon = 1e-12);
+    }
+
+    #[test]
+    fn single_band_d1_gives_delta_only() {
+        // d1 octahedral: one band, Δ = ν (FACTS.md §5.5, Lever 1984 [M]); [Ti(H2O)6]3+ 20 300.
+        let out = fit_bands(&request(1, Geometry::Octahedral, vec![20_300.0])).unwrap();
+        assert_relative_eq!(out.best.delta(), 20_300.0, max_relative = 1e-6);
+        assert_eq!(out.best.b, None);
+        assert_eq!(out.best.free, vec![Parameter::Dq]);
+        assert_eq!(out.best.determination, Determination::Exact);
+    }
+
+    #[test]
+    fn too_few_bands_names_the_parameter_to_hold() {
+        let e = fit_bands(&request(3, Geometry::Octahedral, vec![17_400.0])).unwrap_err();
+        assert_eq!(e.exit_code(), 2);
+        assert!(e.to_string().contains("hold B fixed"), "{e}");
+        let mut r = request(3, Geometry::Octahedral, vec![17_400.0]);
+        r.fixed_b = Some(728.6);
+        let out = fit_bands(&r).unwrap();
+        assert_relative_eq!(out.best.dq, 1740.0, max_relative = 1e-6);
+    }
+
+    #[test]
+    fn fit_c_is_refused_when_c_does_not_enter() {
+        // d3 quartets span 4F and 4P only, 15B apart: C cannot be fitted (FACTS.md §5.1 [C]).
+        let mut r = request(3, Geometry::Octahedral, vec![17_400.0, 24_600.0, 37_800.0]);
+        r.fit_c = true;
+        let e = fit_bands(&r).unwrap_err();
+        assert!(e.to_string().contains("C/B"), "{e}");
+    }
+
+    #[test]
+    fn band_out_of_reach_is_bad_input() {
+        let e = fit_bands(&request(
+            3,
+            Geometry::Octahedral,
+            vec![17_400.0, 24_600.0, 90_000.0],
+        ))
+        .unwrap_err();
+        assert_eq!(e.exit_code(), 2, "{e}");
+    }
+
+    #[test]
+    fn d5_high_spin_has_nothing_to_fit() {
+        let mut r = request(5, Geometry::Octahedral, vec![18_000.0]);
+        r.spin = SpinChoice::High;
+        let e = fit_bands(&r).unwrap_err();
+        assert!(e.to_string().contains("spin-forbidden"), "{e}");
+    }
+
+    /// Band positions computed by the engine for the named upper levels.
+    fn engine_bands(
+        dn: usize,
+        geometry: Geometry,
+        two_s: i32,
+        (dq, b, c): (f64, f64, f64),
+        labels: &[&str],
+    ) -> Vec<f64> {
+        let spectrum = calculation(dn, geometry, dq, b, c)
+            .unwrap()
+            .levels()
+            .unwrap();
+        let m = manifold(&spectrum, two_s).unwrap();
+        labels
+            .iter()
+            .map(|l| {
+                m.transitions
+                    .iter()
+                    .find(|t| t.label == *l)
+                    .unwrap_or_else(|| panic!("no {l} in d{dn}"))
+                    .energy
+            })
+            .collect()
+    }
+
+    /// Fits engine-computed bands back and checks Dq, B (and C) to 1e-4 relative.
+    fn round_trip(
+        dn: usize,
+        geometry: Geometry,
+        spin: SpinChoice,
+        two_s: i32,
+        (dq, b, r): (f64, f64, f64),
+        labels: &[&str],
+        fit_c: bool,
+    ) -> FitOutcome {
+        let bands = engine_bands(dn, geometry, two_s, (dq, b, r * b), labels);
+        let req = FitRequest {
+            dn,
+            geometry,
+            bands,
+            spin,
+            c_over_b: Some(r),
+            fit_c,
+            fixed_b: None,
+            patience: None,
+        };
+        let out = fit_bands(&req).unwrap();
+        let f = &out.best;
+        assert_eq!(f.spin_state.two_s, two_s, "d{dn}: spin");
+        let got: Vec<&str> = f
+            .assigned
+            .iter()
+            .map(|a| a.transition.label.as_str())
+            .collect();
+        let mut want = labels.to_vec();
+        let mut sorted = req.bands.clone();
+        sorted.sort_by(|a, b| a.total_cmp(b));
+        want.sort_by_key(|l| {
+            let e = engine_bands(dn, geometry, two_s, (dq, b, r * b), &[l])[0];
+            sorted.iter().position(|x| *x == e).unwrap()
+        });
+        assert_eq!(got, want, "d{dn}: assignment");
+        assert_relative_eq!(f.dq, dq, max_relative = 1e-4);
+        assert_relative_eq!(f.b.unwrap(), b, max_relative = 1e-4);
+        if fit_c {
+            assert_relative_eq!(f.c.unwrap(), r * b, max_relative = 1e-4);
+        }
+        assert!(f.converged);
+        out
+    }
+
+    #[test]
+    fn round_trip_d2_octahedral() {
+        round_trip(
+            2,
+            Geometry::Octahedral,
+            SpinChoice::Auto,
+            2,
+            (1910.0, 613.0, 4.42),
+            &["3T2g", "3T1g(P)", "3A2g"],
+            false,
+        );
+    }
+
+    #[test]
+    fn round_trip_d3_octahedral() {
+        let out = round_trip(
+            3,
+            Geometry::Octahedral,
+            SpinChoice::Auto,
+            3,
+            (1740.0, 700.0, 4.5),
+            &["4T2g", "4T1g(F)", "4T1g(P)"],
+            false,
+        );
+        // Three bands, two parameters, exact data: one degree of freedom, zero residual.
+        assert_eq!(out.best.determination, Determination::Over { dof: 1 });
+        assert!(out.best.rms < 1e-3);
+    }
+
+    #[test]
+    fn round_trip_d6_low_spin() {
+        round_trip(
+            6,
+            Geometry::Octahedral,
+            SpinChoice::Low,
+            0,
+            (2300.0, 630.0, 4.8),
+            &["1T1g", "1T2g"],
+            false,
+        );
+        // Auto finds the low-spin state by itself.
+        round_trip(
+            6,
+            Geometry::Octahedral,
+            SpinChoice::Auto,
+            0,
+            (2300.0, 630.0, 4.8),
+            &["1T1g", "1T2g"],
+            false,
+        );
+    }
+
+    #[test]
+    fn round_trip_d6_low_spin_with_c_free() {
+        // C enters the singlet bands of d6 LS, so three bands fix Dq, B and C.
+        let out = round_trip(
+            6,
+            Geometry::Octahedral,
+            SpinChoice::Low,
+            0,
+            (2300.0, 630.0, 4.3),
+            &["1T1g", "1T2g", "1T2g[2]"],
+            true,
+        );
+        assert_eq!(
+            out.best.free,
+            vec![Parameter::Dq, Parameter::B, Parameter::C]
+        );
+    }
+
+    #[test]
+    fn round_trip_d7_high_spin() {
+        round_trip(
+            7,
+            Geometry::Octahedral,
+            SpinChoice::High,
+            3,
+            (920.0, 825.0, 4.633),
+            &["4T2g", "4A2g", "4T1g(P)"],
+            false,
+        );
+    }
+
+    #[test]
+    fn round_trip_d8_octahedral_and_tetrahedral_d7() {
+        round_trip(
+            8,
+            Geometry::Octahedral,
+            SpinChoice::Auto,
+            2,
+            (850.0, 900.0, 4.709),
+            &["3T2g", "3T1g(F)", "3T1g(P)"],
+            false,
+        );
+        round_trip(
+            7,
+            Geometry::Tetrahedral,
+            SpinChoice::Auto,
+            3,
+            (320.0, 720.0, 4.633),
+            &["4T2", "4T1(F)", "4T1(P)"],
+            false,
+        );
+    }
+
+    #[test]
+    fn sum_rule_for_d3_and_d8() {
+        // 15B = ν2 + ν3 − 3ν1 for octahedral d3 and d8 (Lever, J. Chem. Educ. 1968, 45, 711;
+        // Lever 1984; FACTS.md §5.5 [M]), checked on engine bands and on the fitted B.
+        for (dn, labels, r) in [
+            (3, ["4T2g", "4T1g(F)", "4T1g(P)"], 4.5),
+            (8, ["3T2g", "3T1g(F)", "3T1g(P)"], 4.709),
+        ] {
+            for (dq, b) in [(1200.0, 800.0), (2000.0, 650.0)] {
+                let nu = engine_bands(
+                    dn,
+                    Geometry::Octahedral,
+                    (dn == 3) as i32 + 2,
+                    (dq, b, r * b),
+                    &labels,
+                );
+                assert_relative_eq!(nu[1] + nu[2] - 3.0 * nu[0], 15.0 * b, max_relative = 1e-9);
+                assert_relative_eq!(nu[0], 10.0 * dq, max_relative = 1e-12);
+            }
+        }
+        // A three-band fit of exact d3 data reproduces the sum-rule B.
+        let nu = engine_bands(
+            3,
+            Geometry::Octahedral,
+            3,
+            (1500.0, 760.0, 3420.0),
+            &["4T2g", "4T1g(F)", "4T1g(P)"],
+        );
+        let out = fit_bands(&request(3, Geometry::Octahedral, nu.clone())).unwrap();
+        assert_relative_eq!(
+            out.best.b.unwrap(),
+            (nu[1] + nu[2] - 3.0 * nu[0]) / 15.0,
+            max_relative = 1e-6
+        );
+    }
+
+    #[test]
+    fn two_band_closed_forms() {
+        // d3 from ν1, ν2: B = (ν2 − ν1)(ν2 − 2ν1)/(15ν2 − 27ν1) (FACTS.md §5.5 [C], equivalent to
+        // Lever 1968). [Cr(H2O)6]3+ 17 400, 24 600 → B = 728.6 (FACTS.md §5.6).
+        let (n1, n2) = (17_400.0, 24_600.0);
+        let closed = (n2 - n1) * (n2 - 2.0 * n1) / (15.0 * n2 - 27.0 * n1);
+        let out = fit_bands(&request(3, Geometry::Octahedral, vec![n1, n2])).unwrap();
+        assert_relative_eq!(out.best.b.unwrap(), closed, max_relative = 1e-6);
+        assert_relative_eq!(closed, 728.6, epsilon = 0.05);
+        // d2/d7-HS from ν1 = ν(T2g), ν3 = ν(T1g(P)), a = 2ν1 − ν3:
+        // B = [−48a + √(2880ν3² − 576a²)]/1440, 10Dq = a + 15B (FACTS.md §5.5 [C]);
+        // [V(H2O)6]3+ 17 800, 25 700 (Lever 1984 [M]).
+        let (n1, n3): (f64, f64) = (17_800.0, 25_700.0);
+        let a = 2.0 * n1 - n3;
+        let b = (-48.0 * a + (2880.0 * n3 * n3 - 576.0 * a * a).sqrt()) / 1440.0;
+        let out = fit_bands(&request(2, Geometry::Octahedral, vec![n1, n3])).unwrap();
+        assert_relative_eq!(out.best.b.unwrap(), b, max_relative = 1e-6);
+        assert_relative_eq!(out.best.delta(), a + 15.0 * b, max_relative = 1e-6);
+        // ν(A2g) − ν(T2g) = 10Dq exactly.
+        let a2 = out
+            .best
+            .predicted
+            .iter()
+            .find(|p| p.transition.key.irrep == "A2g")
+            .unwrap();
+        assert_relative_eq!(
+            a2.transition.energy - n1,
+            out.best.delta(),
+            max_relative = 1e-9
+        );
+    }
+
+    #[test]
+    fn low_spin_d6_exceeds_first_order_b() {
+        // First-order strong-field forms E(1T1g) = 10Dq − C, E(1T2g) = 10Dq + 16B − C give
+        // B ≈ (ν2 − ν1)/16 and underestimate B by ≈15–20 % (FACTS.md §5.5 [C]; forms Lever
+        // 1984 [M]). [Co(NH3)6]3+ 21 000, 29 500: first-order 531, full fit 634.8 at C = 4.8B.
+        let mut r = request(6, Geometry::Octahedral, vec![21_000.0, 29_500.0]);
+        r.c_over_b = Some(4.8);
+        let out = fit_bands(&r).unwrap();
+        let first_order = (29_500.0 - 21_000.0) / 16.0;
+        let b = out.best.b.unwrap();
+        assert!(b / first_order > 1.15 && b / first_order < 1.25, "B {b}");
+    }
+
+    #[test]
+    fn iteration_cap_gives_a_computation_error_with_the_best_point() {
+        let mut r = request(3, Geometry::Octahedral, vec![17_400.0, 24_600.0, 37_800.0]);
+        r.patience = Some(1);
+        let e = fit_bands(&r).unwrap_err();
+        assert_eq!(e.exit_code(), 1);
+        assert!(e.to_string().contains("best point reached: 10Dq ="), "{e}");
+    }
+
+    #[test]
+    fn result_does_not_depend_on_band_order() {
+        let a = fit_bands(&request(
+            8,
+            Geometry::Octahedral,
+            vec![8_500.0, 13_800.0, 25_300.0],
+        ))
+        .unwrap();
+        let b = fit_bands(&request(
+            8,
+            Geometry::Octahedral,
+            vec![25_300.0, 8_500.0, 13_800.0],
+        ))
+        .unwrap();
+        assert_eq!(a.best.dq, b.best.dq);
+        assert_eq!(a.best.b, b.best.b);
+        assert_eq!(a.best.assignment_text(), b.best.assignment_text());
+    }
+}

@@ -1,0 +1,16 @@
+//! Electronic spectra of d^n complexes: units of band positions, spin-allowed transitions and
+//! their strong-field configurations, the fit of Dq, B and C to observed band maxima with
+//! assignment search, and the band-count check.
+//!
+//! Everything here works in cm⁻¹ and calls the engine; nothing does IO.
+
+pub mod assign;
+pub mod count;
+pub mod fit;
+pub mod transitions;
+pub mod units;
+
+pub use count::{count_bands, BandCount, CountRequest};
+pub use fit::{fit_bands, BandFit, FitOutcome, FitRequest};
+pub use transitions::{SpinChoice, SpinKind, SpinState, Transition, TransitionKey};
+pub use units::EnergyUnit;

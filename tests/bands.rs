@@ -1,0 +1,279 @@
+//! `spinstate bands`: band counts per spin state, verdicts, notes and bad input.
+
+mod common;
+use common::*;
+
+fn bands(args: &[&str]) -> serde_json::Value {
+    let mut all = vec!["bands", "--json"];
+    all.extend_from_slice(args);
+    run_json(&all)
+}
+
+#[test]
+fn cobalt_aqua_two_bands_support_high_spin() {
+    // [Co(H2O)6]2+, Dq ≈ 920, B ≈ 825 (Lever 1984, from memory; shared fact sheet §5.6).
+    // Octahedral d7 HS shows → 4T2g, → 4A2g (weak, two-electron) and → 4T1g(P) (Lever 1984;
+    // fact sheet §5.4 [M]); the 4T2g band near 8 100 cm⁻¹ lies beyond 1100 nm.
+    let v = bands(&[
+        "--dn",
+        "7",
+        "--geometry",
+        "oct",
+        "--dq",
+        "921.5",
+        "--b",
+        "827.7",
+        "--observed",
+        "2",
+    ]);
+    let hs = &v["spin_states"][0];
+    assert_eq!(hs["spin_state"], "high");
+    assert_eq!(hs["is_ground"], true);
+    let a2 = hs["bands"]
+        .as_array()
+        .unwrap()
+        .iter()
+        .find(|b| b["label"] == "4A2g")
+        .unwrap();
+    assert_eq!(a2["electrons_moved"], 2);
+    assert_eq!(a2["weak"], true);
+    let t2 = &hs["bands"][0];
+    assert_eq!(t2["label"], "4T2g");
+    assert_eq!(t2["in_window"], false);
+    assert_eq!(hs["supports_observed"], true);
+    assert_eq!(v["verdict"], "high spin");
+}
+
+#[test]
+fn chromium_aqua_three_bands_and_too_many() {
+    // Octahedral d3: three spin-allowed bands (Lever 1984; fact sheet §5.4 [M]); [Cr(H2O)6]3+
+    // Dq = 1740, B = 728.6 (fact sheet §5.6). ν3 lies above 25 000 cm⁻¹ and may be hidden by
+    // charge transfer (common practice), so 2 or 3 bands are expected.
+    let args = [
+        "--dn",
+        "3",
+        "--geometry",
+        "oct",
+        "--dq",
+        "1740",
+        "--b",
+        "728.6",
+    ];
+    let mut three = args.to_vec();
+    three.extend(["--observed", "3"]);
+    let v = bands(&three);
+    let s = &v["spin_states"][0];
+    assert_eq!(s["spin_state"], "only");
+    assert_eq!(s["min_expected"], 2);
+    assert_eq!(s["max_expected"], 3);
+    assert!(v["verdict"]
+        .as_str()
+        .unwrap()
+        .contains("only ground spin state"));
+    let mut five = args.to_vec();
+    five.extend(["--observed", "5"]);
+    assert_eq!(bands(&five)["verdict"], "neither");
+}
+
+#[test]
+fn cobalt_ammine_three_bands_point_to_low_spin() {
+    // [Co(NH3)6]3+ Dq = 2303, B = 634.8, C = 4.8B (fact sheet §5.6 [C]). Low-spin d6 has the
+    // 1T1g and 1T2g bands plus weaker ones in the far UV; high-spin d6 has one band (5T2g →
+    // 5Eg), at most two with a Jahn–Teller shoulder (fact sheet §5.4 [M]).
+    let v = bands(&[
+        "--dn",
+        "6",
+        "--geometry",
+        "oct",
+        "--dq",
+        "2303",
+        "--b",
+        "634.8",
+        "--c-over-b",
+        "4.8",
+        "--observed",
+        "3",
+    ]);
+    let states = v["spin_states"].as_array().unwrap();
+    let hs = states.iter().find(|s| s["spin_state"] == "high").unwrap();
+    let ls = states.iter().find(|s| s["spin_state"] == "low").unwrap();
+    assert_eq!(hs["bands"].as_array().unwrap().len(), 1);
+    assert_eq!(hs["max_expected"], 2);
+    assert_eq!(ls["is_ground"], true);
+    assert_eq!(hs["is_ground"], false);
+    assert_eq!(v["verdict"], "low spin");
+}
+
+#[test]
+fn high_spin_d5_has_no_spin_allowed_bands() {
+    // d5 HS 6A1g: no spin-allowed d–d bands (Lever 1984; fact sheet §5.4 [M]). Field and B of an
+    // invented Mn(II) complex.
+    let v = bands(&[
+        "--dn",
+        "5",
+        "--geometry",
+        "oct",
+        "--dq",
+        "850",
+        "--b",
+        "860",
+        "--observed",
+        "0",
+    ]);
+    let hs = &v["spin_states"][0];
+    assert_eq!(hs["bands"].as_array().unwrap().len(), 0);
+    assert_eq!(hs["supports_observed"], true);
+    let notes: Vec<&str> = v["notes"]
+        .as_array()
+        .unwrap()
+        .iter()
+        .map(|n| n.as_str().unwrap())
+        .collect();
+    assert!(notes.iter().any(|n| n.contains("no spin-allowed")));
+}
+
+#[test]
+fn notes_mention_charge_transfer_and_jahn_teller() {
+    // d9 2Eg ground term: Jahn–Teller broadened or split (fact sheet §5.4 [M]).
+    let (code, out, _) = run(&[
+        "bands",
+        "--dn",
+        "9",
+        "--geometry",
+        "oct",
+        "--delta",
+        "12500",
+        "--b",
+        "1000",
+    ]);
+    assert_eq!(code, 0);
+    assert!(out.contains("charge-transfer"), "{out}");
+    assert!(out.contains("Jahn–Teller"), "{out}");
+    assert!(out.contains("2Eg → 2T2g"), "{out}");
+}
+
+#[test]
+fn window_and_resolution_change_the_count() {
+    let base = [
+        "--dn",
+        "3",
+        "--geometry",
+        "oct",
+        "--dq",
+        "1740",
+        "--b",
+        "728.6",
+    ];
+    let mut narrow = base.to_vec();
+    narrow.extend(["--window", "350-500"]);
+    let v = bands(&narrow);
+    // Only ν2 (24 600 cm⁻¹, 407 nm) lies between 350 and 500 nm.
+    assert_eq!(v["spin_states"][0]["merged"].as_array().unwrap().len(), 1);
+    let mut coarse = base.to_vec();
+    coarse.extend(["--resolution", "8000"]);
+    let v = bands(&coarse);
+    let merged = v["spin_states"][0]["merged"].as_array().unwrap();
+    assert_eq!(merged.len(), 2);
+    assert_eq!(merged[0]["members"].as_array().unwrap().len(), 2);
+}
+
+#[test]
+fn bad_input_is_rejected_with_exit_code_2() {
+    let base = [
+        "bands",
+        "--dn",
+        "3",
+        "--geometry",
+        "oct",
+        "--dq",
+        "1740",
+        "--b",
+        "728.6",
+    ];
+    let with = |extra: &[&'static str]| -> Vec<&'static str> {
+        let mut v = base.to_vec();
+        v.extend_from_slice(extra);
+        v
+    };
+    expect_usage_error(&with(&["--window", "900-300"]), "--window");
+    expect_usage_error(&with(&["--window", "abc"]), "--window");
+    expect_usage_error(&with(&["--resolution", "-5"]), "--resolution");
+    expect_usage_error(
+        &[
+            "bands",
+            "--dn",
+            "3",
+            "--geometry",
+            "oct",
+            "--dq",
+            "1740",
+            "--b",
+            "-1",
+        ],
+        "--b",
+    );
+    expect_usage_error(
+        &[
+            "bands",
+            "--dn",
+            "11",
+            "--geometry",
+            "oct",
+            "--dq",
+            "1740",
+            "--b",
+            "700",
+        ],
+        "--dn",
+    );
+    expect_usage_error(
+        &[
+            "bands",
+            "--dn",
+            "3",
+            "--geometry",
+            "oct",
+            "--dq",
+            "-10",
+            "--b",
+            "700",
+        ],
+        "Dq",
+    );
+    // No field given: a parser error, exit code 2.
+    let (code, _, _) = run(&["bands", "--dn", "3", "--geometry", "oct", "--b", "700"]);
+    assert_eq!(code, 2);
+}
+
+#[test]
+fn complex_from_the_tables() {
+    // [Co(NH3)6]3+: low-spin d6 with two spin-allowed bands (1T1g, 1T2g) in the visible
+    // (Lever 1984, from memory); the estimate comes from Jørgensen's f and g.
+    let out = assert_cmd::Command::cargo_bin("spinstate")
+        .unwrap()
+        .args([
+            "bands",
+            "--metal",
+            "Co",
+            "--ox",
+            "3",
+            "--geometry",
+            "oct",
+            "--ligand",
+            "NH3:6",
+            "--observed",
+            "2",
+            "--json",
+        ])
+        .output()
+        .unwrap();
+    assert!(
+        out.status.success(),
+        "{}",
+        String::from_utf8_lossy(&out.stderr)
+    );
+    let v: serde_json::Value = serde_json::from_slice(&out.stdout).unwrap();
+    assert_eq!(v["dn"], 6);
+    let text = v.to_string();
+    assert!(text.contains("1T1g"), "{text}");
+}
