@@ -1,5 +1,6 @@
 //! spinstate: spin states of d-block complexes from a full d^n ligand-field calculation.
 
+pub mod check;
 pub mod complex;
 pub mod engine;
 pub mod error;

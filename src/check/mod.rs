@@ -16,7 +16,7 @@
 //!   was taken at a lower temperature than every high-spin one: that is what a thermal spin
 //!   crossover does (the high-spin state has the larger entropy, so its fraction rises with
 //!   temperature; P. Gütlich, H. A. Goodwin, *Top. Curr. Chem.* 2004, 233, 1, from memory), and the
-//!   verdict is `crossover-or-mixture`.
+//!   verdict is `crossover-or-mixture`. The temperatures must differ by at least [`MIN_GAP_K`].
 //! - A measurement between the two states (a moment between their windows, a bond length between
 //!   their ranges) gives `crossover-or-mixture`.
 //! - A complex whose d^n and geometry allow one ground spin only gets `single-spin-state` when the
@@ -318,14 +318,11 @@ pub fn check(
     let prediction = predict(&complex).map_err(at(Part::Complex))?;
     let mut evidence = vec![evidence::prediction(&prediction)];
     if let Some(e) = &input.evans {
-        evidence.push(
-            evidence::evans(e, &complex, tables.moment_ranges).map_err(at(Part::Evans))?,
-        );
+        evidence.push(evidence::evans(e, &complex, tables.moment_ranges).map_err(at(Part::Evans))?);
     }
     if let Some(m) = &input.moment {
-        evidence.push(
-            evidence::moment(m, &complex, tables.moment_ranges).map_err(at(Part::Moment))?,
-        );
+        evidence
+            .push(evidence::moment(m, &complex, tables.moment_ranges).map_err(at(Part::Moment))?);
     }
     if let Some(b) = &input.bands {
         evidence.push(evidence::bands(b, &complex).map_err(at(Part::Bands))?);
@@ -378,6 +375,10 @@ fn recheck_of(items: &[&Evidence]) -> Vec<String> {
     }
     out
 }
+
+/// Low-spin and high-spin measurements must be at least this far apart in temperature (K) to be
+/// read as a thermal crossover; closer, they contradict each other (a rule of this tool).
+pub const MIN_GAP_K: f64 = 10.0;
 
 /// Temperatures of all items, or None when any is unknown.
 fn temperatures(items: &[&Evidence]) -> Option<Vec<f64>> {
@@ -458,15 +459,15 @@ pub fn decide(evidence: &[Evidence], single: bool) -> Decision {
     let high = with(Support::High);
     let low = with(Support::Low);
     let mixed = with(Support::Mixture);
-    let mut verdict;
+    let verdict;
     let confidence;
     if !high.is_empty() && !low.is_empty() {
         let th = temperatures(&high);
         let tl = temperatures(&low);
         match (th, tl) {
             (Some(th), Some(tl))
-                if tl.iter().copied().fold(f64::MIN, f64::max)
-                    < th.iter().copied().fold(f64::MAX, f64::min) =>
+                if tl.iter().copied().fold(f64::MIN, f64::max) + MIN_GAP_K
+                    <= th.iter().copied().fold(f64::MAX, f64::min) =>
             {
                 verdict = Verdict::CrossoverOrMixture;
                 confidence = strongest(&high).min(strongest(&low));
@@ -475,7 +476,11 @@ pub fn decide(evidence: &[Evidence], single: bool) -> Decision {
                     list(&low),
                     list(&high)
                 ));
-                reasons.extend(mixed.iter().map(|e| format!("{}: {}", e.kind.name(), e.detail)));
+                reasons.extend(
+                    mixed
+                        .iter()
+                        .map(|e| format!("{}: {}", e.kind.name(), e.detail)),
+                );
             }
             (th, tl) => {
                 verdict = Verdict::Inconsistent;
@@ -486,9 +491,9 @@ pub fn decide(evidence: &[Evidence], single: bool) -> Decision {
                     list(&low)
                 ));
                 match (th, tl) {
-                    (Some(_), Some(_)) => reasons.push(
-                        "the temperatures do not explain it: a thermal crossover would give low spin at the lower temperature, not the higher".into(),
-                    ),
+                    (Some(_), Some(_)) => reasons.push(format!(
+                        "the temperatures do not explain it: a thermal crossover would give low spin at a temperature at least {MIN_GAP_K:.0} K below the high-spin one"
+                    )),
                     _ => reasons.push(
                         "give the temperature of every measurement: low spin at a lower temperature than high spin would be a thermal crossover".into(),
                     ),
@@ -604,17 +609,12 @@ pub fn decide(evidence: &[Evidence], single: bool) -> Decision {
                 "prediction: {}",
                 EvidenceKind::Prediction.recheck()
             ));
-        } else if p.supports == Support::Both
-            && matches!(verdict, Verdict::CrossoverOrMixture)
-        {
+        } else if p.supports == Support::Both && matches!(verdict, Verdict::CrossoverOrMixture) {
             reasons.push(format!(
                 "the prediction puts the complex near the crossover ({}), as a crossover needs",
                 p.predicted
             ));
         }
-    }
-    if verdict == Verdict::Inconsistent && recheck.is_empty() {
-        verdict = Verdict::Undecided;
     }
     Decision {
         verdict,
@@ -710,7 +710,11 @@ mod tests {
                 .collect();
             let d = decide(&e, false);
             assert_eq!(d.verdict, Verdict::Inconsistent, "{odd:?}");
-            assert!(d.recheck[0].starts_with(odd.name()), "{odd:?}: {:?}", d.recheck);
+            assert!(
+                d.recheck[0].starts_with(odd.name()),
+                "{odd:?}: {:?}",
+                d.recheck
+            );
         }
     }
 
@@ -764,7 +768,10 @@ mod tests {
         );
         assert_eq!(d.verdict, Verdict::SingleSpinState);
         assert_eq!(d.confidence, St::Strong);
-        let d = decide(&[ev(K::Moment, S::Neither, St::Moderate, Some(298.0))], true);
+        let d = decide(
+            &[ev(K::Moment, S::Neither, St::Moderate, Some(298.0))],
+            true,
+        );
         assert_eq!(d.verdict, Verdict::Inconsistent);
     }
 }

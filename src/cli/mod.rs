@@ -1,9 +1,11 @@
 //! Command-line layer: parse arguments, call the library, render. No science here.
 
 pub mod bands;
+pub mod check;
 pub mod common;
 pub mod crossover;
 pub mod data;
+pub mod demo;
 pub mod diagram;
 pub mod evans;
 pub mod fit_bands;
@@ -51,6 +53,11 @@ pub enum Command {
     FitBands(fit_bands::Args),
     /// Band-count check: spin-allowed bands of each spin state inside a spectrometer window.
     Bands(bands::Args),
+    /// One verdict on the spin state from all the evidence (Evans, magnetometer, bands, bond
+    /// length) for one complex or every row of a CSV file.
+    Check(check::Args),
+    /// Run the invented screening scenario of data/demo end to end.
+    Demo(demo::Args),
 }
 
 /// A failure with its exit code (1: computation did not finish, 2: bad usage or input).
@@ -109,5 +116,7 @@ pub fn run(cli: Cli) -> Result<Output, Failure> {
         Command::Data(a) => data::run(&a, cli.data.as_deref()),
         Command::FitBands(a) => fit_bands::run(&a, cli.data.as_deref()),
         Command::Bands(a) => bands::run(&a, cli.data.as_deref()),
+        Command::Check(a) => check::run(&a, cli.data.as_deref()),
+        Command::Demo(a) => demo::run(&a, cli.data.as_deref()),
     }
 }

@@ -4,6 +4,7 @@
 //! tables round; JSON and CSV keep full precision.
 
 pub mod bands;
+pub mod check;
 pub mod crossover;
 pub mod data;
 pub mod diagram;

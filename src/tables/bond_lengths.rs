@@ -116,8 +116,9 @@ impl BondLengthTable {
             let row = i + 2;
             let record = record.map_err(|e| data_err(format!("row {row}: {e}")))?;
             let cell = |col: usize| record.get(col).unwrap_or("").to_string();
-            let at =
-                |col: usize, msg: String| data_err(format!("row {row}, column {}: {msg}", HEADER[col]));
+            let at = |col: usize, msg: String| {
+                data_err(format!("row {row}, column {}: {msg}", HEADER[col]))
+            };
             let length = |col: usize| -> Result<Option<f64>> {
                 let text = cell(col);
                 if text.is_empty() {
@@ -141,7 +142,9 @@ impl BondLengthTable {
                 match (length(lo)?, length(lo + 1)?) {
                     (None, None) => Ok(None),
                     (Some(a), Some(b)) if a <= b => Ok(Some((a, b))),
-                    (Some(a), Some(b)) => Err(at(lo + 1, format!("{b} is below {} {a}", HEADER[lo]))),
+                    (Some(a), Some(b)) => {
+                        Err(at(lo + 1, format!("{b} is below {} {a}", HEADER[lo])))
+                    }
                     _ => Err(at(lo, "give both ends of the range, or neither".into())),
                 }
             };
@@ -160,12 +163,18 @@ impl BondLengthTable {
             }
             let donor_class = cell(3);
             if donor_class.is_empty() {
-                return Err(at(3, "is empty; use 'any' or a donor type such as imine".into()));
+                return Err(at(
+                    3,
+                    "is empty; use 'any' or a donor type such as imine".into(),
+                ));
             }
             let low_spin = range(4)?;
             let high_spin = range(6)?;
             if low_spin.is_some() != high_spin.is_some() {
-                return Err(at(4, "give both the low-spin and the high-spin range, or neither".into()));
+                return Err(at(
+                    4,
+                    "give both the low-spin and the high-spin range, or neither".into(),
+                ));
             }
             let delta_r = match cell(8) {
                 t if t.is_empty() => None,
@@ -177,7 +186,10 @@ impl BondLengthTable {
                 ),
             };
             if low_spin.is_none() && delta_r.is_none() {
-                return Err(at(8, "a row needs the two ranges or the change delta_r_a".into()));
+                return Err(at(
+                    8,
+                    "a row needs the two ranges or the change delta_r_a".into(),
+                ));
             }
             let source = cell(10);
             if source.is_empty() {
@@ -228,9 +240,11 @@ impl BondLengthTable {
             .cloned()
             .collect();
         let join = |pick: fn(&BondLengthRow) -> Option<(f64, f64)>| {
-            rows.iter().filter_map(pick).fold(None, |acc: Option<(f64, f64)>, (a, b)| {
-                Some(acc.map_or((a, b), |(x, y)| (x.min(a), y.max(b))))
-            })
+            rows.iter()
+                .filter_map(pick)
+                .fold(None, |acc: Option<(f64, f64)>, (a, b)| {
+                    Some(acc.map_or((a, b), |(x, y)| (x.min(a), y.max(b))))
+                })
         };
         let low_spin = join(|r| r.low_spin)?;
         let high_spin = join(|r| r.high_spin)?;

@@ -1,0 +1,606 @@
+//! Batch input for `check`: one sample per CSV row. This module alone knows the layout.
+//!
+//! Required columns: `name`, `metal`, `ox`, `geometry`, `ligands` ("NCS:2 py:4": NAME[:COUNT]
+//! separated by spaces or `;`). Optional columns (empty cell = not measured):
+//! - `delta`, `b`, `c`: measured ligand-field parameters (cm⁻¹);
+//! - Evans: `evans_shift_ppm`, or `evans_shift_hz` with `evans_freq_mhz`; `evans_shift_err` (same
+//!   unit), `evans_conc` and `evans_conc_err` (mol/L), `evans_temp` (K), `evans_magnet`
+//!   (`solenoid`, the default, or `transverse`);
+//! - magnetometer: one of `mu_eff` (μB), `chi_m` (cm³/mol, before the diamagnetic correction),
+//!   `chi_m_t` (cm³ K/mol, corrected); `moment_err` (same unit), `moment_temp` (K);
+//! - `dia`: diamagnetic correction χ_D (cm³/mol, ≤ 0) for the Evans and magnetometer values;
+//! - bands: `bands` (maxima in cm⁻¹ separated by spaces or `;`), `band_window` (nm, e.g.
+//!   `350-1100`; default 200-1100), `band_resolution` (cm⁻¹, default 1500), `band_temp` (K);
+//! - structure: `bond_length` (mean metal–donor distance, Å), `bond_length_err` (Å),
+//!   `structure_temp` (K);
+//! - `note`: free text, not used.
+//!
+//! Any other column is an error (a misspelt column must not be dropped silently).
+
+use super::{
+    BandInput, BondLengthInput, CheckError, CheckInput, MomentInput, MomentQuantity, Part,
+};
+use crate::complex::{ComplexSpec, LigandCount, Overrides};
+use crate::engine::Geometry;
+use crate::error::{closest_names, Error, Result};
+use crate::magnetism::evans::{EvansInput, MagnetGeometry, Shift, SolventTerms};
+use crate::magnetism::Measured;
+use crate::spectra::count::{DEFAULT_RESOLUTION, DEFAULT_WINDOW_NM};
+
+/// Columns every file needs.
+pub const REQUIRED: [&str; 5] = ["name", "metal", "ox", "geometry", "ligands"];
+/// Columns a file may have.
+pub const OPTIONAL: [&str; 25] = [
+    "delta",
+    "b",
+    "c",
+    "evans_shift_ppm",
+    "evans_shift_hz",
+    "evans_freq_mhz",
+    "evans_shift_err",
+    "evans_conc",
+    "evans_conc_err",
+    "evans_temp",
+    "evans_magnet",
+    "mu_eff",
+    "chi_m",
+    "chi_m_t",
+    "moment_err",
+    "moment_temp",
+    "dia",
+    "bands",
+    "band_window",
+    "band_resolution",
+    "band_temp",
+    "bond_length",
+    "bond_length_err",
+    "structure_temp",
+    "note",
+];
+
+/// One good row.
+#[derive(Debug, Clone, PartialEq)]
+pub struct Sample {
+    /// Line of the file (the header is line 1).
+    pub row: usize,
+    pub name: String,
+    pub input: CheckInput,
+}
+
+/// A bad row: where, and what is wrong.
+#[derive(Debug, Clone, PartialEq)]
+pub struct RowError {
+    /// Line of the file (the header is line 1).
+    pub row: usize,
+    /// Sample name, when the row has one.
+    pub name: Option<String>,
+    /// Column(s) at fault.
+    pub column: String,
+    pub message: String,
+}
+
+impl std::fmt::Display for RowError {
+    fn fmt(&self, f: &mut std::fmt::Formatter<'_>) -> std::fmt::Result {
+        write!(f, "row {}", self.row)?;
+        if let Some(n) = &self.name {
+            write!(f, " ({n})")?;
+        }
+        write!(f, ", column {}: {}", self.column, self.message)
+    }
+}
+
+/// Parses a batch file. File-level problems (empty, no header, missing or unknown columns, no
+/// rows) are an `Err`; each row is then a [`Sample`] or a [`RowError`], in file order.
+pub fn parse(text: &str) -> Result<Vec<std::result::Result<Sample, RowError>>> {
+    let accepted = || {
+        format!(
+            "a CSV file whose first line names the columns; required: {}",
+            REQUIRED.join(",")
+        )
+    };
+    if text.trim().is_empty() {
+        return Err(Error::invalid("input file", "empty", accepted()));
+    }
+    let mut reader = csv::ReaderBuilder::new()
+        .has_headers(true)
+        .flexible(true)
+        .trim(csv::Trim::All)
+        .from_reader(text.as_bytes());
+    let header: Vec<String> = reader
+        .headers()
+        .map_err(|e| Error::Parse(format!("input file: the header cannot be read: {e}")))?
+        .iter()
+        .map(|h| h.to_lowercase())
+        .collect();
+    let known: Vec<&str> = REQUIRED.iter().chain(OPTIONAL.iter()).copied().collect();
+    for (i, h) in header.iter().enumerate() {
+        if !known.contains(&h.as_str()) {
+            let near = closest_names(h, known.iter().copied());
+            return Err(Error::Unknown {
+                kind: format!(
+                    "column (header position {}; accepted: {}, {})",
+                    i + 1,
+                    REQUIRED.join(", "),
+                    OPTIONAL.join(", ")
+                ),
+                name: h.clone(),
+                suggestions: near,
+            });
+        }
+        if header[..i].contains(h) {
+            return Err(Error::invalid(
+                "column",
+                format!("'{h}' twice"),
+                "each column once",
+            ));
+        }
+    }
+    let missing: Vec<&str> = REQUIRED
+        .iter()
+        .copied()
+        .filter(|r| !header.iter().any(|h| h == r))
+        .collect();
+    if !missing.is_empty() {
+        return Err(Error::invalid(
+            "input file",
+            format!("missing column(s) {}", missing.join(", ")),
+            accepted(),
+        ));
+    }
+    let mut out = Vec::new();
+    for record in reader.records() {
+        let record = match record {
+            Ok(r) => r,
+            Err(e) => {
+                let row = e.position().map_or(0, |p| p.line() as usize);
+                out.push(Err(RowError {
+                    row,
+                    name: None,
+                    column: "(whole row)".into(),
+                    message: format!("cannot be read: {e}"),
+                }));
+                continue;
+            }
+        };
+        let row = record.position().map_or(0, |p| p.line() as usize);
+        if record.iter().all(str::is_empty) {
+            continue; // a blank line
+        }
+        out.push(parse_row(row, &header, &record));
+    }
+    if out.is_empty() {
+        return Err(Error::invalid(
+            "input file",
+            "a header without rows",
+            "one sample per row below the header",
+        ));
+    }
+    Ok(out)
+}
+
+struct Row<'a> {
+    row: usize,
+    name: Option<String>,
+    header: &'a [String],
+    record: &'a csv::StringRecord,
+}
+
+impl Row<'_> {
+    fn cell(&self, column: &str) -> Option<&str> {
+        let i = self.header.iter().position(|h| h == column)?;
+        self.record.get(i).filter(|s| !s.is_empty())
+    }
+
+    fn error(&self, column: &str, message: impl Into<String>) -> RowError {
+        RowError {
+            row: self.row,
+            name: self.name.clone(),
+            column: column.into(),
+            message: message.into(),
+        }
+    }
+
+    fn text(&self, column: &str) -> std::result::Result<&str, RowError> {
+        self.cell(column)
+            .ok_or_else(|| self.error(column, "is empty; a value is required"))
+    }
+
+    fn number(&self, column: &str, unit: &str) -> std::result::Result<Option<f64>, RowError> {
+        match self.cell(column) {
+            None => Ok(None),
+            Some(t) => t
+                .parse::<f64>()
+                .ok()
+                .filter(|x| x.is_finite())
+                .map(Some)
+                .ok_or_else(|| self.error(column, format!("'{t}' is not a number ({unit})"))),
+        }
+    }
+
+    fn positive(&self, column: &str, unit: &str) -> std::result::Result<Option<f64>, RowError> {
+        match self.number(column, unit)? {
+            Some(x) if x <= 0.0 => Err(self.error(column, format!("{x} must be > 0 {unit}"))),
+            v => Ok(v),
+        }
+    }
+
+    fn err(&self, column: &str, unit: &str) -> std::result::Result<f64, RowError> {
+        match self.number(column, unit)? {
+            Some(x) if x < 0.0 => Err(self.error(column, format!("{x} must be ≥ 0 {unit}"))),
+            v => Ok(v.unwrap_or(0.0)),
+        }
+    }
+
+    fn needs(&self, column: &str, by: &str, unit: &str) -> std::result::Result<f64, RowError> {
+        self.positive(column, unit)?
+            .ok_or_else(|| self.error(column, format!("is empty; {by} needs it ({unit})")))
+    }
+}
+
+fn parse_row(
+    row: usize,
+    header: &[String],
+    record: &csv::StringRecord,
+) -> std::result::Result<Sample, RowError> {
+    let mut r = Row {
+        row,
+        name: None,
+        header,
+        record,
+    };
+    if record.len() != header.len() {
+        return Err(r.error(
+            "(whole row)",
+            format!(
+                "has {} cells; the header has {}",
+                record.len(),
+                header.len()
+            ),
+        ));
+    }
+    let name = r.text("name")?.to_string();
+    r.name = Some(name.clone());
+    let metal = r.text("metal")?.to_string();
+    let ox_text = r.text("ox")?;
+    let oxidation_state: i32 = ox_text.parse().map_err(|_| {
+        r.error(
+            "ox",
+            format!("'{ox_text}' is not an integer oxidation state"),
+        )
+    })?;
+    let geometry: Geometry = r
+        .text("geometry")?
+        .parse()
+        .map_err(|e: Error| r.error("geometry", e.to_string()))?;
+    let ligands = r
+        .text("ligands")?
+        .split(|c: char| c.is_whitespace() || c == ';')
+        .filter(|s| !s.is_empty())
+        .map(|s| s.parse::<LigandCount>())
+        .collect::<Result<Vec<_>>>()
+        .map_err(|e| r.error("ligands", format!("{e} (write e.g. \"NCS:2 py:4\")")))?;
+    let overrides = Overrides {
+        delta: r.positive("delta", "cm⁻¹")?,
+        b: r.positive("b", "cm⁻¹")?,
+        c: r.positive("c", "cm⁻¹")?,
+    };
+    let dia_value = r.number("dia", "cm³/mol")?.unwrap_or(0.0);
+    if dia_value > 0.0 {
+        return Err(r.error(
+            "dia",
+            format!("{dia_value} must be ≤ 0 cm³/mol: diamagnetic corrections are negative"),
+        ));
+    }
+    let dia = Measured::exact(dia_value);
+
+    // Evans
+    let ppm = r.number("evans_shift_ppm", "ppm")?;
+    let hz = r.number("evans_shift_hz", "Hz")?;
+    let shift_err = r.err("evans_shift_err", "in the unit of the shift")?;
+    let shift = match (ppm, hz) {
+        (None, None) => {
+            for c in ["evans_freq_mhz", "evans_conc", "evans_temp", "evans_magnet"] {
+                if r.cell(c).is_some() {
+                    return Err(r.error(c, "is given without evans_shift_ppm or evans_shift_hz"));
+                }
+            }
+            None
+        }
+        (Some(_), Some(_)) => {
+            return Err(r.error(
+                "evans_shift_ppm, evans_shift_hz",
+                "give the shift in ppm or in Hz, not both",
+            ))
+        }
+        (Some(p), None) => Some(Shift::Ppm(Measured {
+            value: p,
+            err: shift_err,
+        })),
+        (None, Some(h)) => Some(Shift::Hertz {
+            shift: Measured {
+                value: h,
+                err: shift_err,
+            },
+            freq_mhz: r.needs("evans_freq_mhz", "evans_shift_hz", "MHz")?,
+        }),
+    };
+    let evans = match shift {
+        None => None,
+        Some(shift) => {
+            let magnet: MagnetGeometry = match r.cell("evans_magnet") {
+                None => MagnetGeometry::Solenoid,
+                Some(m) => m
+                    .parse()
+                    .map_err(|e: Error| r.error("evans_magnet", e.to_string()))?,
+            };
+            Some(EvansInput {
+                shift,
+                magnet,
+                concentration: Measured {
+                    value: r.needs("evans_conc", "an Evans shift", "mol/L")?,
+                    err: r.err("evans_conc_err", "mol/L")?,
+                },
+                molar_mass: None,
+                solvent: SolventTerms::default(),
+                temperature: Measured::exact(r.needs("evans_temp", "an Evans shift", "K")?),
+                dia,
+            })
+        }
+    };
+
+    // Magnetometer
+    let given: Vec<(&str, MomentQuantity)> = [
+        ("mu_eff", MomentQuantity::MuEff),
+        ("chi_m", MomentQuantity::ChiM),
+        ("chi_m_t", MomentQuantity::ChiMT),
+    ]
+    .into_iter()
+    .filter(|(c, _)| r.cell(c).is_some())
+    .collect();
+    let moment = match given.as_slice() {
+        [] => {
+            if r.cell("moment_temp").is_some() {
+                return Err(r.error("moment_temp", "is given without mu_eff, chi_m or chi_m_t"));
+            }
+            None
+        }
+        [(column, quantity)] => {
+            let unit = match quantity {
+                MomentQuantity::MuEff => "μB",
+                MomentQuantity::ChiM => "cm³/mol",
+                MomentQuantity::ChiMT => "cm³ K/mol",
+            };
+            let value = r.number(column, unit)?.unwrap_or_default();
+            Some(MomentInput {
+                quantity: *quantity,
+                value: Measured {
+                    value,
+                    err: r.err("moment_err", unit)?,
+                },
+                temperature: r.needs("moment_temp", column, "K")?,
+                dia,
+            })
+        }
+        _ => {
+            let cols: Vec<&str> = given.iter().map(|(c, _)| *c).collect();
+            return Err(r.error(
+                &cols.join(", "),
+                "give one magnetometer quantity per row (mu_eff, chi_m or chi_m_t)",
+            ));
+        }
+    };
+
+    // Bands
+    let bands = match r.cell("bands") {
+        None => {
+            for c in ["band_window", "band_resolution", "band_temp"] {
+                if r.cell(c).is_some() {
+                    return Err(r.error(c, "is given without bands"));
+                }
+            }
+            None
+        }
+        Some(text) => {
+            let maxima = text
+                .split(|c: char| c.is_whitespace() || c == ';')
+                .filter(|s| !s.is_empty())
+                .map(|s| {
+                    s.parse::<f64>()
+                        .ok()
+                        .filter(|x| x.is_finite() && *x > 0.0)
+                        .ok_or_else(|| {
+                            r.error(
+                                "bands",
+                                format!("'{s}' is not a band maximum in cm⁻¹ (write e.g. \"11800 17200\")"),
+                            )
+                        })
+                })
+                .collect::<std::result::Result<Vec<f64>, RowError>>()?;
+            let window_nm = match r.cell("band_window") {
+                None => DEFAULT_WINDOW_NM,
+                Some(w) => parse_window(w).ok_or_else(|| {
+                    r.error(
+                        "band_window",
+                        format!("'{w}' is not a wavelength range: two numbers in nm, shortest first, e.g. 350-1100"),
+                    )
+                })?,
+            };
+            let resolution = match r.number("band_resolution", "cm⁻¹")? {
+                None => DEFAULT_RESOLUTION,
+                Some(x) if x >= 0.0 => x,
+                Some(x) => return Err(r.error("band_resolution", format!("{x} must be ≥ 0 cm⁻¹"))),
+            };
+            Some(BandInput {
+                maxima,
+                window_nm,
+                resolution,
+                temperature: r.positive("band_temp", "K")?,
+            })
+        }
+    };
+
+    // Structure
+    let bond_length = match r.number("bond_length", "Å")? {
+        None => {
+            for c in ["bond_length_err", "structure_temp"] {
+                if r.cell(c).is_some() {
+                    return Err(r.error(c, "is given without bond_length"));
+                }
+            }
+            None
+        }
+        Some(x) => Some(BondLengthInput {
+            mean: Measured {
+                value: x,
+                err: r.err("bond_length_err", "Å")?,
+            },
+            temperature: r.positive("structure_temp", "K")?,
+        }),
+    };
+
+    Ok(Sample {
+        row,
+        name,
+        input: CheckInput {
+            complex: ComplexSpec {
+                metal,
+                oxidation_state,
+                geometry,
+                ligands,
+                overrides,
+            },
+            evans,
+            moment,
+            bands,
+            bond_length,
+        },
+    })
+}
+
+/// One sample from (column, value) pairs in the batch layout, e.g. from command-line options
+/// named after the columns. The same checks as a file row; `row` of errors is 0.
+pub fn from_fields(fields: &[(&str, String)]) -> std::result::Result<Sample, RowError> {
+    let known: Vec<&str> = REQUIRED.iter().chain(OPTIONAL.iter()).copied().collect();
+    let header: Vec<String> = fields.iter().map(|(c, _)| c.to_string()).collect();
+    for c in &header {
+        if !known.contains(&c.as_str()) {
+            return Err(RowError {
+                row: 0,
+                name: None,
+                column: c.clone(),
+                message: "is not a column of the batch layout".into(),
+            });
+        }
+    }
+    let record = csv::StringRecord::from(fields.iter().map(|(_, v)| v.trim()).collect::<Vec<_>>());
+    parse_row(0, &header, &record)
+}
+
+/// "350-1100" or "350,1100" (nm) → (350, 1100).
+pub fn parse_window(s: &str) -> Option<(f64, f64)> {
+    let parts: Vec<&str> = s.split(['-', ',']).map(str::trim).collect();
+    let [lo, hi] = parts.as_slice() else {
+        return None;
+    };
+    let lo: f64 = lo.parse().ok()?;
+    let hi: f64 = hi.parse().ok()?;
+    (lo.is_finite() && hi.is_finite() && lo > 0.0 && hi > lo).then_some((lo, hi))
+}
+
+/// The batch column(s) a [`CheckError`] concerns.
+pub fn columns_of(e: &CheckError) -> String {
+    match e.part {
+        Part::Complex => complex_column(&e.error).to_string(),
+        Part::Evans => "evans_shift_ppm, evans_shift_hz, evans_conc, evans_temp".into(),
+        Part::Moment => "mu_eff, chi_m, chi_m_t, moment_temp".into(),
+        Part::Bands => "bands".into(),
+        Part::BondLength => "bond_length".into(),
+    }
+}
+
+fn complex_column(e: &Error) -> &'static str {
+    match e {
+        Error::Unknown { kind, .. } if kind.starts_with("metal") => "metal",
+        Error::Unknown { kind, .. } if kind.starts_with("ligand") => "ligands",
+        Error::InvalidParameter { name, .. } => {
+            let n = name.to_lowercase();
+            if n.starts_with("oxidation") {
+                "ox"
+            } else if n.starts_with("--delta") || n == "δ" {
+                "delta"
+            } else if n.starts_with("--b") || n == "b" {
+                "b"
+            } else if n.starts_with("--c") || n == "c" {
+                "c"
+            } else if n.contains("ligand") || n.contains("donor") {
+                "ligands"
+            } else if n.contains("geometry") {
+                "geometry"
+            } else {
+                "metal, ox, geometry, ligands"
+            }
+        }
+        _ => "metal, ox, geometry, ligands",
+    }
+}
+
+#[cfg(test)]
+mod tests {
+    use super::*;
+
+    const HEAD: &str = "name,metal,ox,geometry,ligands";
+
+    #[test]
+    fn good_and_bad_rows_are_kept_in_order() {
+        let text = format!(
+            "{HEAD},mu_eff,moment_temp,bond_length\nA,Fe,2,oct,NCS:2 py:4,5.3,298,2.18\nB,Fe,2,oct,py:6,abc,298,\nC,Co,2,oct,H2O:6,,,\n"
+        );
+        let rows = parse(&text).unwrap();
+        assert_eq!(rows.len(), 3);
+        let a = rows[0].as_ref().unwrap();
+        assert_eq!((a.row, a.name.as_str()), (2, "A"));
+        assert_eq!(a.input.complex.ligands.len(), 2);
+        assert!(a.input.moment.is_some() && a.input.bond_length.is_some());
+        let b = rows[1].as_ref().unwrap_err();
+        assert_eq!((b.row, b.column.as_str()), (3, "mu_eff"));
+        assert!(b.to_string().contains("row 3 (B), column mu_eff"), "{b}");
+        assert!(rows[2].is_ok());
+    }
+
+    #[test]
+    fn file_level_errors() {
+        assert!(parse("").unwrap_err().to_string().contains("empty"));
+        assert!(parse(&format!("{HEAD}\n"))
+            .unwrap_err()
+            .to_string()
+            .contains("without rows"));
+        let e = parse("name,metal,ox\nA,Fe,2\n").unwrap_err().to_string();
+        assert!(e.contains("missing column(s) geometry, ligands"), "{e}");
+        let e = parse(&format!("{HEAD},mu_ef\nA,Fe,2,oct,py:6,5\n"))
+            .unwrap_err()
+            .to_string();
+        assert!(e.contains("'mu_ef'") && e.contains("mu_eff"), "{e}");
+    }
+
+    #[test]
+    fn incomplete_measurements_name_the_missing_column() {
+        let e = |extra_head: &str, extra: &str| {
+            parse(&format!("{HEAD},{extra_head}\nA,Fe,2,oct,py:6,{extra}\n")).unwrap()[0]
+                .clone()
+                .unwrap_err()
+        };
+        assert_eq!(e("evans_shift_ppm", "0.4").column, "evans_conc");
+        assert_eq!(e("mu_eff", "5.2").column, "moment_temp");
+        assert_eq!(e("mu_eff,chi_m_t", "5.2,3.3").column, "mu_eff, chi_m_t");
+        assert_eq!(
+            e("bands,band_window", "11000,1100-350").column,
+            "band_window"
+        );
+        assert_eq!(e("structure_temp", "100").column, "structure_temp");
+        assert_eq!(e("dia", "0.001").column, "dia");
+        let short = parse(&format!("{HEAD}\nA,Fe,2,oct\n")).unwrap()[0]
+            .clone()
+            .unwrap_err();
+        assert!(short.message.contains("4 cells"), "{}", short.message);
+    }
+}

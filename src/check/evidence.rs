@@ -1,0 +1,664 @@
+//! One [`Evidence`] line per kind of information: the ligand-field prediction, an Evans or
+//! magnetometer moment, a band count and a bond length.
+
+use super::{
+    BandInput, BondLengthInput, Evidence, EvidenceKind, MomentInput, MomentQuantity, Strength,
+    Support,
+};
+use crate::complex::{Origin, ResolvedComplex};
+use crate::error::{Error, Result};
+use crate::magnetism::compare::{self, ComplexSpec as MomentSpec, SpinOrbit, StateExpectation};
+use crate::magnetism::evans::{self, EvansInput};
+use crate::magnetism::{Measured, MomentResult};
+use crate::predict::{Prediction, SpinState};
+use crate::spectra::count::{count_bands, CountRequest};
+use crate::spectra::SpinKind;
+use crate::tables::bond_lengths::{BondLengthTable, Reference};
+use crate::tables::moment_ranges::MomentRangeTable;
+use crate::units;
+
+/// The ligand-field prediction as evidence. It is weak (moderate with Δ and B measured), takes
+/// no side when borderline, and never decides against a measurement (see [`super::decide`]).
+pub fn prediction(p: &Prediction) -> Evidence {
+    let cx = &p.complex;
+    let x = cx.delta_over_b();
+    let given = cx.delta.origin == Origin::Given && cx.b.origin == Origin::Given;
+    let measured = if given {
+        format!(
+            "Δ {:.0}, B {:.0} cm⁻¹ given (measured)",
+            cx.delta.value, cx.b.value
+        )
+    } else if cx.delta.origin == Origin::Given {
+        format!(
+            "Δ {:.0} cm⁻¹ given, B {:.0} cm⁻¹ estimated",
+            cx.delta.value, cx.b.value
+        )
+    } else {
+        format!(
+            "Δ {:.0}, B {:.0} cm⁻¹ estimated (f·g, B₀β)",
+            cx.delta.value, cx.b.value
+        )
+    };
+    let (predicted, supports, strength, detail) = match (p.spin_state, p.margin) {
+        (SpinState::Fixed, _) | (_, None) => (
+            format!("one ground spin state only ({})", p.ground.label()),
+            Support::Only,
+            Strength::Weak,
+            format!(
+                "d{} {} has a single ground spin state: {} (S = {})",
+                cx.ion.dn,
+                cx.geometry.name(),
+                p.ground.label(),
+                p.spin
+            ),
+        ),
+        (state, Some(m)) => {
+            let xc = p.crossover.delta_over_b.unwrap_or(f64::NAN);
+            let predicted = format!(
+                "Δ/B {x:.1} against the crossover at {xc:.1} ({:+.0} %)",
+                m.percent
+            );
+            if m.borderline {
+                (
+                    predicted,
+                    Support::Both,
+                    Strength::None,
+                    format!(
+                        "within the assumed ±{:.0} % of the crossover: both spin states are candidates",
+                        m.uncertainty_percent
+                    ),
+                )
+            } else {
+                let side = if state == SpinState::Low {
+                    Support::Low
+                } else {
+                    Support::High
+                };
+                let mut detail = format!(
+                    "{} side of the crossover, outside the assumed ±{:.0} %; one geometry is assumed for both spin states",
+                    if side == Support::Low { "low-spin" } else { "high-spin" },
+                    m.uncertainty_percent
+                );
+                if cx.notes.iter().any(|n| n.contains("underestimate Δ")) {
+                    detail.push_str(
+                        "; f·g underestimates Δ for π-acceptor ligands on this ion, so low spin is likelier than it looks",
+                    );
+                }
+                (
+                    predicted,
+                    side,
+                    if given {
+                        Strength::Moderate
+                    } else {
+                        Strength::Weak
+                    },
+                    detail,
+                )
+            }
+        }
+    };
+    Evidence {
+        kind: EvidenceKind::Prediction,
+        predicted,
+        measured,
+        supports,
+        strength,
+        detail,
+        temperature: None,
+        high_spin_fraction: None,
+    }
+}
+
+/// The expectations of both spin states for the complex at temperature `t` (K), filled from the
+/// complex as `spinstate moment --metal …` does: Dq, B and ζ of the complex.
+fn expectations(
+    complex: &ResolvedComplex,
+    t: f64,
+    ranges: &MomentRangeTable,
+) -> Result<Vec<StateExpectation>> {
+    let dq = complex.dq();
+    let spec = MomentSpec {
+        dq: (dq > 0.0).then_some(dq),
+        spin_orbit: complex.ion.zeta.map(SpinOrbit::Zeta),
+        b: Some(complex.b.value),
+        temperature: Some(t),
+        ..MomentSpec::new(complex.ion.dn, complex.geometry)
+    };
+    compare::expectations(&spec, ranges)
+}
+
+/// A moment between the windows whose two-state high-spin fraction is below this (or above one
+/// minus this) is read as the nearer pure state with a residue, not as a mixture (a rule of this
+/// tool).
+pub const NEAR_PURE: f64 = 0.10;
+
+/// χ_M·T (cm³ K mol⁻¹) of a reference moment: the middle of the typical range, or spin-only.
+fn reference_chi_t(s: &StateExpectation) -> f64 {
+    let mu = s.range.map_or(s.spin_only, |(a, b)| 0.5 * (a + b));
+    units::chi_t_from_mu_eff(mu, units::SusceptibilityUnits::Cgs)
+}
+
+/// Moment evidence from a [`MomentResult`] (Evans or magnetometer).
+fn from_moment(
+    kind: EvidenceKind,
+    r: &MomentResult,
+    complex: &ResolvedComplex,
+    ranges: &MomentRangeTable,
+) -> Result<Evidence> {
+    let t = r.temperature.value;
+    let states = expectations(complex, t, ranges)?;
+    let predicted = states
+        .iter()
+        .map(|s| {
+            format!(
+                "{} {} {:.2}–{:.2} μB",
+                s.state, s.ground_term, s.window.0, s.window.1
+            )
+        })
+        .collect::<Vec<_>>()
+        .join("; ");
+    let mu = r.mu_eff;
+    let measured = if mu.err > 0.0 {
+        format!(
+            "μ_eff {:.2} ± {:.2} μB at {t:.0} K (χ_M·T {:.3} cm³ K/mol)",
+            mu.value, mu.err, r.chi_m_t.value
+        )
+    } else {
+        format!(
+            "μ_eff {:.2} μB at {t:.0} K (χ_M·T {:.3} cm³ K/mol)",
+            mu.value, r.chi_m_t.value
+        )
+    };
+    let cmp = compare::compare(mu, states);
+    let mut fraction = None;
+    let (supports, strength) = match cmp.verdict {
+        compare::Verdict::Supports(i) => match cmp.states[i].state.as_str() {
+            "high spin" => (Support::High, Strength::Strong),
+            "low spin" => (Support::Low, Strength::Strong),
+            _ => (Support::Only, Strength::Strong),
+        },
+        compare::Verdict::Ambiguous => (Support::Both, Strength::None),
+        compare::Verdict::Between => {
+            // Two-state mixture: χ_M·T is linear in the high-spin fraction (P. Gütlich,
+            // H. A. Goodwin, Top. Curr. Chem. 2004, 233, 1; from memory).
+            let hs = reference_chi_t(&cmp.states[0]);
+            let ls = cmp.states.get(1).map_or(0.0, reference_chi_t);
+            let g = (hs > ls).then(|| ((r.chi_m_t.value - ls) / (hs - ls)).clamp(0.0, 1.0));
+            fraction = g;
+            match g {
+                Some(g) if g < NEAR_PURE => (Support::Low, Strength::Moderate),
+                Some(g) if g > 1.0 - NEAR_PURE => (Support::High, Strength::Moderate),
+                _ => (Support::Mixture, Strength::Moderate),
+            }
+        }
+        compare::Verdict::Outside => (Support::Neither, Strength::Moderate),
+    };
+    let mut detail = cmp.message.clone();
+    if let Some(g) = fraction {
+        detail.push_str(&format!(
+            "; as a two-state mixture about {:.0} % high spin at {t:.0} K",
+            100.0 * g
+        ));
+        if supports != Support::Mixture {
+            detail.push_str(&format!(
+                ", close enough to the {} state (within {:.0} %) to be read as that state with a residue (TIP, a trace of the other state or an impurity)",
+                if supports == Support::Low { "low-spin" } else { "high-spin" },
+                100.0 * NEAR_PURE
+            ));
+        }
+    }
+    if kind == EvidenceKind::Evans {
+        detail.push_str(" (in solution)");
+    }
+    Ok(Evidence {
+        kind,
+        predicted,
+        measured,
+        supports,
+        strength,
+        detail,
+        temperature: Some(t),
+        high_spin_fraction: fraction,
+    })
+}
+
+/// Evidence from an Evans-method measurement.
+pub fn evans(
+    input: &EvansInput,
+    complex: &ResolvedComplex,
+    ranges: &MomentRangeTable,
+) -> Result<Evidence> {
+    let r = evans::evans(input)?;
+    from_moment(EvidenceKind::Evans, &r.moment, complex, ranges)
+}
+
+/// Evidence from χ_M, χ_M·T or μ_eff at a temperature.
+pub fn moment(
+    input: &MomentInput,
+    complex: &ResolvedComplex,
+    ranges: &MomentRangeTable,
+) -> Result<Evidence> {
+    let t = Measured::new("temperature", input.temperature, 0.0)?;
+    let r = match input.quantity {
+        MomentQuantity::ChiM => MomentResult::from_chi(input.value, input.dia, t)?,
+        MomentQuantity::ChiMT => MomentResult::from_chi_t(input.value, input.dia, t)?,
+        MomentQuantity::MuEff => MomentResult::from_mu_eff(input.value, input.dia, t)?,
+    };
+    from_moment(EvidenceKind::Moment, &r, complex, ranges)
+}
+
+/// Evidence from observed band maxima: their number inside the window against the bands each
+/// spin state puts there ([`crate::spectra::count`], at the complex's Δ, B and C). A count that
+/// fits one state only is moderate evidence; band positions are shown but not weighed, because
+/// both states are computed at one field.
+pub fn bands(input: &BandInput, complex: &ResolvedComplex) -> Result<Evidence> {
+    if input.maxima.is_empty() {
+        return Err(Error::invalid(
+            "bands",
+            "none",
+            "one or more band maxima in cm⁻¹, e.g. \"11800 17200\"",
+        ));
+    }
+    for &m in &input.maxima {
+        if !m.is_finite() || m <= 0.0 {
+            return Err(Error::invalid("band maximum", m, "a wavenumber > 0 cm⁻¹"));
+        }
+    }
+    let window_cm = (1e7 / input.window_nm.1, 1e7 / input.window_nm.0);
+    let inside = input
+        .maxima
+        .iter()
+        .filter(|&&m| (window_cm.0..=window_cm.1).contains(&m))
+        .count();
+    let count = count_bands(&CountRequest {
+        dn: complex.ion.dn,
+        geometry: complex.geometry,
+        dq: complex.dq(),
+        b: complex.b.value,
+        c: complex.c.value,
+        window_nm: input.window_nm,
+        resolution: input.resolution,
+        observed: Some(inside),
+    })?;
+    let predicted = count
+        .spin_states
+        .iter()
+        .map(|s| {
+            let at: Vec<String> = s
+                .merged
+                .iter()
+                .map(|g| format!("{:.0}", g.position))
+                .collect();
+            format!(
+                "{}: {}–{} band(s) ({})",
+                s.state.describe(),
+                s.min_expected,
+                s.max_expected,
+                if at.is_empty() {
+                    "none in the window".to_string()
+                } else {
+                    at.join(", ")
+                }
+            )
+        })
+        .collect::<Vec<_>>()
+        .join("; ");
+    let list: Vec<String> = input.maxima.iter().map(|m| format!("{m:.0}")).collect();
+    let measured = format!(
+        "{inside} band(s) in {:.0}–{:.0} nm: {} cm⁻¹",
+        input.window_nm.0,
+        input.window_nm.1,
+        list.join(", ")
+    );
+    let supported = count
+        .verdict
+        .as_ref()
+        .map(|v| v.supported.clone())
+        .unwrap_or_default();
+    let has = |k: SpinKind| supported.iter().any(|s| s.kind == k);
+    let (supports, strength) = if supported.is_empty() {
+        (Support::Neither, Strength::Moderate)
+    } else if has(SpinKind::Only) {
+        (Support::Only, Strength::Moderate)
+    } else if supported.len() == 1 && has(SpinKind::High) {
+        (Support::High, Strength::Moderate)
+    } else if supported.len() == 1 && has(SpinKind::Low) {
+        (Support::Low, Strength::Moderate)
+    } else {
+        (Support::Both, Strength::None)
+    };
+    let mut detail = match supports {
+        Support::Neither => format!(
+            "{inside} band(s) fit no spin state's expected count at Δ {:.0} cm⁻¹",
+            complex.delta.value
+        ),
+        Support::Both => format!("{inside} band(s) fit more than one spin state's count"),
+        _ => format!(
+            "{inside} band(s) fit the count of {} only",
+            supported[0].describe()
+        ),
+    };
+    if inside < input.maxima.len() {
+        detail.push_str(&format!(
+            "; {} maximum/maxima outside the window not counted",
+            input.maxima.len() - inside
+        ));
+    }
+    detail.push_str("; positions are not weighed (both states are computed at one Δ)");
+    Ok(Evidence {
+        kind: EvidenceKind::Bands,
+        predicted,
+        measured,
+        supports,
+        strength,
+        detail,
+        temperature: input.temperature,
+        high_spin_fraction: None,
+    })
+}
+
+/// Tolerance (Å) added around the reference ranges for their rounding (common practice).
+pub const BOND_TOLERANCE: f64 = 0.01;
+/// Beyond this distance (Å) outside every reference range a bond length fits neither state.
+pub const BOND_FAR: f64 = 0.10;
+
+/// Evidence from the mean metal–donor bond length, against the published ranges of
+/// data/bond_lengths.csv for the complex's metal, oxidation state and (single) donor element.
+pub fn bond_length(
+    input: &BondLengthInput,
+    complex: &ResolvedComplex,
+    table: &BondLengthTable,
+) -> Result<Evidence> {
+    let x = input.mean.value;
+    let u = input.mean.err;
+    let (lo, hi) = super::super::tables::bond_lengths::SENSIBLE_A;
+    if !x.is_finite() || !(lo..=hi).contains(&x) {
+        return Err(Error::invalid(
+            "bond length",
+            format!("{x} Å"),
+            format!("a mean metal–donor distance in {lo}..={hi} Å"),
+        ));
+    }
+    if !u.is_finite() || u < 0.0 {
+        return Err(Error::invalid(
+            "uncertainty of the bond length",
+            format!("{u} Å"),
+            "a value ≥ 0 Å",
+        ));
+    }
+    let ion = &complex.ion;
+    let mut donors: Vec<String> = Vec::new();
+    for b in &complex.ligands {
+        for d in &b.ligand.donors {
+            if !donors.contains(d) {
+                donors.push(d.clone());
+            }
+        }
+    }
+    let measured = match input.temperature {
+        Some(t) => format!("mean M–L {x:.3} Å at {t:.0} K"),
+        None => format!("mean M–L {x:.3} Å"),
+    };
+    let none = |predicted: String, detail: String| Evidence {
+        kind: EvidenceKind::BondLength,
+        predicted,
+        measured: measured.clone(),
+        supports: Support::Nothing,
+        strength: Strength::None,
+        detail,
+        temperature: input.temperature,
+        high_spin_fraction: None,
+    };
+    let [donor] = donors.as_slice() else {
+        return Ok(none(
+            "no reference range".into(),
+            format!(
+                "the donor set is mixed ({}); the table has ranges for one donor element at a time",
+                donors.join(", ")
+            ),
+        ));
+    };
+    let Some(reference) = table.reference(&ion.symbol, ion.oxidation_state, donor) else {
+        let others = table.rows_for(&ion.symbol, ion.oxidation_state, donor);
+        let detail = if others.is_empty() {
+            format!(
+                "data/bond_lengths.csv has no row for {}–{donor}",
+                ion.name()
+            )
+        } else {
+            let what: Vec<String> = others
+                .iter()
+                .map(|r| match (r.low_spin, r.delta_r) {
+                    (Some(ls), _) => format!(
+                        "{}–{donor}({}) {:.2}–{:.2} Å LS",
+                        ion.name(),
+                        r.donor_class,
+                        ls.0,
+                        ls.1
+                    ),
+                    (None, Some(d)) => format!(
+                        "only the change on going high spin, {d:+.2} Å ({})",
+                        r.source
+                    ),
+                    (None, None) => r.what.clone(),
+                })
+                .collect();
+            format!(
+                "no range for a mean over {donor} donors of {}: {}",
+                ion.name(),
+                what.join("; ")
+            )
+        };
+        return Ok(none("no reference range".into(), detail));
+    };
+    Ok(classify(
+        x,
+        u,
+        &reference,
+        input,
+        measured,
+        ion.name(),
+        donor,
+    ))
+}
+
+fn classify(
+    x: f64,
+    u: f64,
+    r: &Reference,
+    input: &BondLengthInput,
+    measured: String,
+    ion: String,
+    donor: &str,
+) -> Evidence {
+    let ls = r.low_spin;
+    let hs = r.high_spin;
+    let predicted = format!(
+        "{ion}–{donor}: low spin {:.3}–{:.3} Å, high spin {:.3}–{:.3} Å",
+        ls.0, ls.1, hs.0, hs.1
+    );
+    let sources: Vec<&str> = r.rows.iter().map(|r| r.source.as_str()).collect();
+    let reach = u + BOND_TOLERANCE;
+    let touches = |range: (f64, f64)| x + reach >= range.0 && x - reach <= range.1;
+    let (in_ls, in_hs) = (touches(ls), touches(hs));
+    let mid = |r: (f64, f64)| 0.5 * (r.0 + r.1);
+    let (m_ls, m_hs) = (mid(ls), mid(hs));
+    // The range with the shorter bonds comes first (low spin for every row in the table).
+    let (short, long, short_side, long_side) = if m_ls <= m_hs {
+        (ls, hs, Support::Low, Support::High)
+    } else {
+        (hs, ls, Support::High, Support::Low)
+    };
+    let mut fraction = None;
+    let (supports, strength, why) = if in_ls && in_hs {
+        (
+            Support::Both,
+            Strength::None,
+            "the length with its uncertainty reaches both ranges".to_string(),
+        )
+    } else if in_ls || in_hs {
+        let side = if in_ls { Support::Low } else { Support::High };
+        (
+            side,
+            Strength::Strong,
+            "inside the reference range".to_string(),
+        )
+    } else if x < short.0 - BOND_FAR || x > long.1 + BOND_FAR {
+        (
+            Support::Neither,
+            Strength::Moderate,
+            format!("more than {BOND_FAR} Å outside every reference range"),
+        )
+    } else if x < short.0 {
+        (
+            short_side,
+            Strength::Moderate,
+            "shorter than the reference ranges, nearest the short-bond state".to_string(),
+        )
+    } else if x > long.1 {
+        (
+            long_side,
+            Strength::Moderate,
+            "longer than the reference ranges, nearest the long-bond state".to_string(),
+        )
+    } else {
+        let p = (x - short.1) / (long.0 - short.1);
+        if p < 1.0 / 3.0 {
+            (
+                short_side,
+                Strength::Moderate,
+                "between the ranges, nearer the short-bond state".to_string(),
+            )
+        } else if p > 2.0 / 3.0 {
+            (
+                long_side,
+                Strength::Moderate,
+                "between the ranges, nearer the long-bond state".to_string(),
+            )
+        } else {
+            // The mean length of a two-state mixture is linear in the fractions.
+            let g = ((x - m_ls) / (m_hs - m_ls)).clamp(0.0, 1.0);
+            fraction = Some(g);
+            (
+                Support::Mixture,
+                Strength::Moderate,
+                format!(
+                    "midway between the ranges: both states in the crystal (about {:.0} % high spin) or a disordered structure",
+                    100.0 * g
+                ),
+            )
+        }
+    };
+    Evidence {
+        kind: EvidenceKind::BondLength,
+        predicted,
+        measured,
+        supports,
+        strength,
+        detail: format!("{why} (sources: {})", sources.join("; ")),
+        temperature: input.temperature,
+        high_spin_fraction: fraction,
+    }
+}
+
+#[cfg(test)]
+mod tests {
+    use super::*;
+    use crate::complex::{ComplexSpec, Overrides};
+    use crate::tables::Tables;
+
+    fn complex(metal: &str, ox: i32, ligands: &[&str]) -> ResolvedComplex {
+        ComplexSpec {
+            metal: metal.into(),
+            oxidation_state: ox,
+            geometry: "oct".parse().unwrap(),
+            ligands: ligands.iter().map(|l| l.parse().unwrap()).collect(),
+            overrides: Overrides::default(),
+        }
+        .resolve(Tables::bundled().unwrap())
+        .unwrap()
+    }
+
+    fn bond(x: f64, err: f64) -> BondLengthInput {
+        BondLengthInput {
+            mean: Measured { value: x, err },
+            temperature: None,
+        }
+    }
+
+    /// Fe–N 2.032 Å is low spin and 2.199 Å high spin: [Fe(2-pic)3]Cl2·EtOH at 115 K and 227 K
+    /// (IUPAC Gold Book, "spin crossover"; Pure Appl. Chem. 1999, 71, 1963). 1.97 and 2.18 Å lie
+    /// in the typical FeN6 ranges (Gütlich & Goodwin 2004; Guionneau 2004; from memory).
+    #[test]
+    fn iron_ii_nitrogen_bond_lengths() {
+        let t = BondLengthTable::bundled().unwrap();
+        let cx = complex("Fe", 2, &["py:4", "NCS:2"]);
+        for (x, s) in [
+            (2.032, Support::Low),
+            (2.199, Support::High),
+            (1.97, Support::Low),
+            (2.18, Support::High),
+        ] {
+            let e = bond_length(&bond(x, 0.003), &cx, &t).unwrap();
+            assert_eq!((e.supports, e.strength), (s, Strength::Strong), "{x}");
+        }
+        // Midway (2.09 Å): a mixture, with the high-spin fraction from the range midpoints
+        // (1.991, 2.175): (2.09 − 1.991)/(2.175 − 1.991) = 0.54.
+        let e = bond_length(&bond(2.09, 0.003), &cx, &t).unwrap();
+        assert_eq!(e.supports, Support::Mixture);
+        approx::assert_abs_diff_eq!(e.high_spin_fraction.unwrap(), 0.538, epsilon = 0.01);
+        // Far outside: neither.
+        let e = bond_length(&bond(2.45, 0.003), &cx, &t).unwrap();
+        assert_eq!(e.supports, Support::Neither);
+        // A large uncertainty reaches both ranges.
+        let e = bond_length(&bond(2.08, 0.09), &cx, &t).unwrap();
+        assert_eq!(e.supports, Support::Both);
+    }
+
+    #[test]
+    fn no_reference_range() {
+        let t = BondLengthTable::bundled().unwrap();
+        // Co(II)–N: only the change (Crystals 2018, 8, 155).
+        let e = bond_length(&bond(2.05, 0.0), &complex("Co", 2, &["terpy:2"]), &t).unwrap();
+        assert_eq!(e.supports, Support::Nothing);
+        assert!(e.detail.contains("only the change"), "{}", e.detail);
+        // Mixed donors.
+        let e = bond_length(&bond(2.05, 0.0), &complex("Fe", 2, &["H2O:2", "py:4"]), &t).unwrap();
+        assert!(e.detail.contains("mixed"), "{}", e.detail);
+        // Bad input.
+        assert!(bond_length(&bond(20.5, 0.0), &complex("Fe", 2, &["py:6"]), &t).is_err());
+    }
+
+    /// Spin-only μ_eff: S = 2 gives 4.90 μB, S = 0 gives 0 (Bain & Berry 2008, eq 3a); the
+    /// d6 windows come from data/moment_ranges.csv.
+    #[test]
+    fn moments_support_the_matching_state() {
+        let ranges = MomentRangeTable::bundled().unwrap();
+        let cx = complex("Fe", 2, &["py:4", "NCS:2"]);
+        let m = |mu: f64| MomentInput {
+            quantity: MomentQuantity::MuEff,
+            value: Measured {
+                value: mu,
+                err: 0.05,
+            },
+            temperature: 298.0,
+            dia: Measured::exact(0.0),
+        };
+        assert_eq!(
+            moment(&m(5.3), &cx, &ranges).unwrap().supports,
+            Support::High
+        );
+        assert_eq!(
+            moment(&m(0.05), &cx, &ranges).unwrap().supports,
+            Support::Low
+        );
+        let e = moment(&m(3.5), &cx, &ranges).unwrap();
+        assert_eq!(e.supports, Support::Mixture);
+        // χT = 3.5²/8 ≈ 1.53 against (5.4²/8 = 3.65) and 0: about 42 % high spin.
+        approx::assert_abs_diff_eq!(e.high_spin_fraction.unwrap(), 0.42, epsilon = 0.01);
+        assert_eq!(
+            moment(&m(7.5), &cx, &ranges).unwrap().supports,
+            Support::Neither
+        );
+    }
+}

@@ -1,0 +1,291 @@
+//! `spinstate check`: one verdict on the spin state from all the evidence, for one complex given
+//! by options or for every row of a CSV file (`--input`).
+
+use super::common::{load_tables, Format};
+use super::{Failure, Output};
+use indicatif::{ProgressBar, ProgressStyle};
+use spinstate::check::batch::{self, RowError, Sample};
+use spinstate::check::{check, CheckTables};
+use spinstate::report::check::{BatchReport, CheckReport, RowErrorRow, SAFETY};
+use spinstate::report::to_json;
+use spinstate::tables::bond_lengths::BondLengthTable;
+use spinstate::tables::moment_ranges::MomentRangeTable;
+use std::io::IsTerminal;
+use std::path::{Path, PathBuf};
+
+/// Batches at least this long show a progress bar (when stdout is a terminal).
+const PROGRESS_FROM: usize = 20;
+
+#[derive(Debug, clap::Args)]
+#[command(after_help = SAFETY)]
+pub struct Args {
+    /// CSV file with one sample per row (columns: see the README or `data/demo/samples.csv`).
+    #[arg(long, value_name = "FILE", conflicts_with_all = ["metal", "ligands"])]
+    pub input: Option<PathBuf>,
+    /// Metal element symbol, e.g. Fe.
+    #[arg(long, value_name = "SYMBOL", required_unless_present = "input", requires_all = ["ox", "geometry", "ligands"])]
+    pub metal: Option<String>,
+    /// Oxidation state of the metal.
+    #[arg(long, value_name = "N", allow_negative_numbers = true)]
+    pub ox: Option<i32>,
+    /// Geometry: oct, tet or sqpl.
+    #[arg(long, value_name = "G")]
+    pub geometry: Option<String>,
+    /// A ligand, NAME[:COUNT] (repeatable), as in `predict`.
+    #[arg(long = "ligand", value_name = "NAME[:COUNT]")]
+    pub ligands: Vec<String>,
+    /// Measured Δ in cm⁻¹ (instead of the f·g estimate).
+    #[arg(long, value_name = "CM-1", allow_negative_numbers = true)]
+    pub delta: Option<f64>,
+    /// Measured Racah B in cm⁻¹.
+    #[arg(long, value_name = "CM-1", allow_negative_numbers = true)]
+    pub b: Option<f64>,
+    /// Measured Racah C in cm⁻¹.
+    #[arg(long, value_name = "CM-1", allow_negative_numbers = true)]
+    pub c: Option<f64>,
+    /// Evans shift of the reference line, solution minus insert, in ppm.
+    #[arg(long, value_name = "PPM", allow_negative_numbers = true)]
+    pub evans_shift_ppm: Option<f64>,
+    /// The same shift in Hz (with --evans-freq-mhz).
+    #[arg(long, value_name = "HZ", allow_negative_numbers = true)]
+    pub evans_shift_hz: Option<f64>,
+    /// Spectrometer frequency in MHz.
+    #[arg(long, value_name = "MHZ", allow_negative_numbers = true)]
+    pub evans_freq_mhz: Option<f64>,
+    /// Uncertainty of the Evans shift (ppm or Hz, as given).
+    #[arg(long, value_name = "PPM|HZ")]
+    pub evans_shift_err: Option<f64>,
+    /// Concentration of the paramagnet in mol/L.
+    #[arg(long, value_name = "MOL/L", allow_negative_numbers = true)]
+    pub evans_conc: Option<f64>,
+    /// Uncertainty of --evans-conc in mol/L.
+    #[arg(long, value_name = "MOL/L")]
+    pub evans_conc_err: Option<f64>,
+    /// Probe temperature of the Evans measurement in K.
+    #[arg(long, value_name = "K", allow_negative_numbers = true)]
+    pub evans_temp: Option<f64>,
+    /// Magnet geometry: solenoid (default) or transverse.
+    #[arg(long, value_name = "GEOMETRY")]
+    pub evans_magnet: Option<String>,
+    /// Effective moment in μB (magnetometer, corrected).
+    #[arg(
+        long,
+        value_name = "MUB",
+        allow_negative_numbers = true,
+        group = "magnetometer"
+    )]
+    pub mu_eff: Option<f64>,
+    /// Molar susceptibility as measured, in cm³/mol (before the diamagnetic correction).
+    #[arg(
+        long,
+        value_name = "CM3/MOL",
+        allow_negative_numbers = true,
+        group = "magnetometer"
+    )]
+    pub chi_m: Option<f64>,
+    /// Corrected χ_M·T in cm³ K/mol.
+    #[arg(
+        long,
+        value_name = "CM3 K/MOL",
+        allow_negative_numbers = true,
+        group = "magnetometer"
+    )]
+    pub chi_m_t: Option<f64>,
+    /// Uncertainty of the magnetometer value (same unit).
+    #[arg(long, value_name = "X")]
+    pub moment_err: Option<f64>,
+    /// Temperature of the magnetometer value in K.
+    #[arg(long, value_name = "K", allow_negative_numbers = true)]
+    pub moment_temp: Option<f64>,
+    /// Diamagnetic correction χ_D in cm³/mol (≤ 0) for the Evans and magnetometer values.
+    #[arg(long, value_name = "CM3/MOL", allow_negative_numbers = true)]
+    pub dia: Option<f64>,
+    /// Observed d–d band maxima in cm⁻¹, e.g. "9400 20100".
+    #[arg(long, value_name = "CM-1 …")]
+    pub bands: Option<String>,
+    /// Spectrometer window in nm, shortest-longest (default 200-1100).
+    #[arg(long, value_name = "NM-NM")]
+    pub band_window: Option<String>,
+    /// Bands closer than this (cm⁻¹) count as one (default 1500).
+    #[arg(long, value_name = "CM-1", allow_negative_numbers = true)]
+    pub band_resolution: Option<f64>,
+    /// Temperature of the spectrum in K.
+    #[arg(long, value_name = "K", allow_negative_numbers = true)]
+    pub band_temp: Option<f64>,
+    /// Mean metal–donor bond length of a crystal structure, in Å.
+    #[arg(long, value_name = "ANGSTROM", allow_negative_numbers = true)]
+    pub bond_length: Option<f64>,
+    /// Uncertainty of --bond-length in Å.
+    #[arg(long, value_name = "ANGSTROM")]
+    pub bond_length_err: Option<f64>,
+    /// Temperature of the structure in K.
+    #[arg(long, value_name = "K", allow_negative_numbers = true)]
+    pub structure_temp: Option<f64>,
+    /// Also write the verdicts as CSV to FILE.
+    #[arg(long, value_name = "FILE")]
+    pub csv: Option<PathBuf>,
+    #[command(flatten)]
+    pub format: Format,
+}
+
+/// The command-line option that sets a batch column ("evans_conc" → "--evans-conc").
+fn option_of(column: &str) -> String {
+    match column {
+        "ligands" => "--ligand".into(),
+        "(whole row)" => "options".into(),
+        c => c
+            .split(", ")
+            .map(|c| format!("--{}", c.replace('_', "-")))
+            .collect::<Vec<_>>()
+            .join(", "),
+    }
+}
+
+impl Args {
+    /// The options as (column, value) pairs of the batch layout.
+    fn fields(&self) -> Vec<(&'static str, String)> {
+        let mut f: Vec<(&'static str, String)> = vec![
+            ("name", "command line".into()),
+            ("metal", self.metal.clone().unwrap_or_default()),
+            ("ox", self.ox.map(|o| o.to_string()).unwrap_or_default()),
+            ("geometry", self.geometry.clone().unwrap_or_default()),
+            ("ligands", self.ligands.join(" ")),
+        ];
+        let num = |x: Option<f64>| x.map(|v| v.to_string());
+        let optional: [(&'static str, Option<String>); 25] = [
+            ("delta", num(self.delta)),
+            ("b", num(self.b)),
+            ("c", num(self.c)),
+            ("evans_shift_ppm", num(self.evans_shift_ppm)),
+            ("evans_shift_hz", num(self.evans_shift_hz)),
+            ("evans_freq_mhz", num(self.evans_freq_mhz)),
+            ("evans_shift_err", num(self.evans_shift_err)),
+            ("evans_conc", num(self.evans_conc)),
+            ("evans_conc_err", num(self.evans_conc_err)),
+            ("evans_temp", num(self.evans_temp)),
+            ("evans_magnet", self.evans_magnet.clone()),
+            ("mu_eff", num(self.mu_eff)),
+            ("chi_m", num(self.chi_m)),
+            ("chi_m_t", num(self.chi_m_t)),
+            ("moment_err", num(self.moment_err)),
+            ("moment_temp", num(self.moment_temp)),
+            ("dia", num(self.dia)),
+            ("bands", self.bands.clone()),
+            ("band_window", self.band_window.clone()),
+            ("band_resolution", num(self.band_resolution)),
+            ("band_temp", num(self.band_temp)),
+            ("bond_length", num(self.bond_length)),
+            ("bond_length_err", num(self.bond_length_err)),
+            ("structure_temp", num(self.structure_temp)),
+            ("note", None),
+        ];
+        f.extend(optional.into_iter().filter_map(|(c, v)| v.map(|v| (c, v))));
+        f
+    }
+}
+
+/// The tables `check` needs, from the bundled copies or `--data DIR`.
+struct Loaded {
+    chemistry: std::borrow::Cow<'static, spinstate::tables::Tables>,
+    ranges: MomentRangeTable,
+    bonds: BondLengthTable,
+}
+
+impl Loaded {
+    fn new(data: Option<&Path>) -> Result<Self, Failure> {
+        Ok(Loaded {
+            chemistry: load_tables(data)?,
+            ranges: MomentRangeTable::load(data)?,
+            bonds: BondLengthTable::load(data)?,
+        })
+    }
+
+    fn tables(&self) -> CheckTables<'_> {
+        CheckTables {
+            chemistry: &self.chemistry,
+            moment_ranges: &self.ranges,
+            bond_lengths: &self.bonds,
+        }
+    }
+}
+
+/// Checks every row of a batch text: the report, and the bad rows (already in the report).
+pub fn run_batch(text: &str, data: Option<&Path>) -> Result<(BatchReport, Vec<RowError>), Failure> {
+    let rows = batch::parse(text).map_err(|e| Failure::usage(format!("--input: {e}")))?;
+    let loaded = Loaded::new(data)?;
+    let bar = if rows.len() >= PROGRESS_FROM && std::io::stdout().is_terminal() {
+        let bar = ProgressBar::new(rows.len() as u64);
+        if let Ok(style) = ProgressStyle::with_template("checking {pos}/{len} samples {bar:30}") {
+            bar.set_style(style);
+        }
+        bar
+    } else {
+        ProgressBar::hidden()
+    };
+    let mut samples = Vec::new();
+    let mut bad: Vec<RowError> = Vec::new();
+    for row in rows {
+        match row {
+            Ok(Sample { row, name, input }) => match check(&input, loaded.tables()) {
+                Ok(result) => samples.push(CheckReport::new(&result, Some(name), Some(row))),
+                Err(e) => bad.push(RowError {
+                    row,
+                    name: Some(name),
+                    column: batch::columns_of(&e),
+                    message: e.to_string(),
+                }),
+            },
+            Err(e) => bad.push(e),
+        }
+        bar.inc(1);
+    }
+    bar.finish_and_clear();
+    let errors = bad.iter().map(RowErrorRow::from).collect();
+    Ok((BatchReport::new(samples, errors), bad))
+}
+
+fn write_csv(path: &Path, text: &str) -> Result<(), Failure> {
+    std::fs::write(path, text)
+        .map_err(|e| Failure::usage(format!("--csv: cannot write {}: {e}", path.display())))
+}
+
+pub fn run(args: &Args, data: Option<&Path>) -> Result<Output, Failure> {
+    if let Some(path) = &args.input {
+        let text = std::fs::read_to_string(path)
+            .map_err(|e| Failure::usage(format!("--input: cannot read {}: {e}", path.display())))?;
+        let (report, bad) = run_batch(&text, data)?;
+        if let Some(csv) = &args.csv {
+            write_csv(csv, &report.to_csv())?;
+        }
+        let stdout = if args.format.json {
+            to_json(&report)
+        } else {
+            format!("{}{}\n", report.to_table(), SAFETY)
+        };
+        return Ok(Output {
+            stdout,
+            warnings: bad
+                .iter()
+                .map(|e| format!("error: {}: {e}", path.display()))
+                .collect(),
+            code: if bad.is_empty() { 0 } else { 2 },
+        });
+    }
+    let sample = batch::from_fields(&args.fields())
+        .map_err(|e| Failure::usage(format!("{}: {}", option_of(&e.column), e.message)))?;
+    let loaded = Loaded::new(data)?;
+    let result = check(&sample.input, loaded.tables()).map_err(|e| Failure {
+        code: e.error.exit_code(),
+        message: format!("{}: {}", option_of(&batch::columns_of(&e)), e.error),
+    })?;
+    let report = CheckReport::new(&result, None, None).with_safety();
+    if let Some(csv) = &args.csv {
+        let one = BatchReport::new(vec![report.clone()], Vec::new());
+        write_csv(csv, &one.to_csv())?;
+    }
+    Ok(Output::text(if args.format.json {
+        to_json(&report)
+    } else {
+        report.to_table()
+    }))
+}
