@@ -202,7 +202,7 @@ impl Row<'_> {
 
     fn text(&self, column: &str) -> std::result::Result<&str, RowError> {
         self.cell(column)
-            .ok_or_else(|| self.error(column, "is empty; a value is required"))
+            .ok_or_else(|| self.error(column, "is missing; a value is required"))
     }
 
     fn number(&self, column: &str, unit: &str) -> std::result::Result<Option<f64>, RowError> {
@@ -233,7 +233,7 @@ impl Row<'_> {
 
     fn needs(&self, column: &str, by: &str, unit: &str) -> std::result::Result<f64, RowError> {
         self.positive(column, unit)?
-            .ok_or_else(|| self.error(column, format!("is empty; {by} needs it ({unit})")))
+            .ok_or_else(|| self.error(column, format!("is missing; {by} needs it ({unit})")))
     }
 }
 
@@ -248,6 +248,7 @@ fn parse_row(
         header,
         record,
     };
+    r.name = r.cell("name").map(str::to_string);
     if record.len() != header.len() {
         return Err(r.error(
             "(whole row)",
@@ -259,7 +260,6 @@ fn parse_row(
         ));
     }
     let name = r.text("name")?.to_string();
-    r.name = Some(name.clone());
     let metal = r.text("metal")?.to_string();
     let ox_text = r.text("ox")?;
     let oxidation_state: i32 = ox_text.parse().map_err(|_| {
@@ -511,10 +511,26 @@ pub fn parse_window(s: &str) -> Option<(f64, f64)> {
 pub fn columns_of(e: &CheckError) -> String {
     match e.part {
         Part::Complex => complex_column(&e.error).to_string(),
-        Part::Evans => "evans_shift_ppm, evans_shift_hz, evans_conc, evans_temp".into(),
-        Part::Moment => "mu_eff, chi_m, chi_m_t, moment_temp".into(),
+        Part::Evans => match parameter_name(&e.error).as_str() {
+            "shift" => "evans_shift_ppm, evans_shift_hz".into(),
+            "spectrometer frequency" => "evans_freq_mhz".into(),
+            "concentration" => "evans_conc".into(),
+            "temperature" => "evans_temp".into(),
+            _ => "evans_shift_ppm, evans_shift_hz, evans_conc, evans_temp".into(),
+        },
+        Part::Moment => match parameter_name(&e.error).as_str() {
+            "temperature" => "moment_temp".into(),
+            _ => "mu_eff, chi_m, chi_m_t".into(),
+        },
         Part::Bands => "bands".into(),
         Part::BondLength => "bond_length".into(),
+    }
+}
+
+fn parameter_name(e: &Error) -> String {
+    match e {
+        Error::InvalidParameter { name, .. } => name.to_lowercase(),
+        _ => String::new(),
     }
 }
 

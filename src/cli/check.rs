@@ -232,7 +232,7 @@ pub fn run_batch(text: &str, data: Option<&Path>) -> Result<(BatchReport, Vec<Ro
                     row,
                     name: Some(name),
                     column: batch::columns_of(&e),
-                    message: e.to_string(),
+                    message: e.to_string().replace("--magnet", "evans_magnet"),
                 }),
             },
             Err(e) => bad.push(e),
@@ -276,7 +276,11 @@ pub fn run(args: &Args, data: Option<&Path>) -> Result<Output, Failure> {
     let loaded = Loaded::new(data)?;
     let result = check(&sample.input, loaded.tables()).map_err(|e| Failure {
         code: e.error.exit_code(),
-        message: format!("{}: {}", option_of(&batch::columns_of(&e)), e.error),
+        message: format!(
+            "{}: {}",
+            option_of(&batch::columns_of(&e)),
+            e.error.to_string().replace("--magnet", "--evans-magnet")
+        ),
     })?;
     let report = CheckReport::new(&result, None, None).with_safety();
     if let Some(csv) = &args.csv {
