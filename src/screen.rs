@@ -369,6 +369,9 @@ impl Sphere {
     }
 }
 
+/// (table or pool index, count) pairs in index order.
+type Runs = Vec<(usize, usize)>;
+
 /// Sums over a sphere that the estimate needs, accumulated run by run in pool order.
 #[derive(Debug, Clone, Copy)]
 struct Sums {
@@ -1041,7 +1044,7 @@ impl Screen {
         };
         let name_col = col("name");
         let mut errors: Vec<RowError> = Vec::new();
-        let mut rows: Vec<(Vec<(usize, usize)>, Option<String>)> = Vec::new();
+        let mut rows: Vec<(Runs, Option<String>)> = Vec::new();
         let cn = geometry.coordination_number();
         for (i, rec) in reader.records().enumerate() {
             let row = i + 1;
