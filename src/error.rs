@@ -79,6 +79,15 @@ impl Error {
 /// Result with the library's error type.
 pub type Result<T> = std::result::Result<T, Error>;
 
+/// A number for a message: plain for ordinary magnitudes, scientific notation for extreme ones.
+pub fn num(x: f64) -> String {
+    if x == 0.0 || !x.is_finite() || (1e-4..1e7).contains(&x.abs()) {
+        format!("{x}")
+    } else {
+        format!("{x:e}")
+    }
+}
+
 /// Rejects NaN and infinities with a one-line message naming the parameter.
 pub fn require_finite(name: &str, value: f64) -> Result<f64> {
     if value.is_finite() {

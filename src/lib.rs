@@ -8,6 +8,7 @@ pub mod formula;
 pub mod magnetism;
 pub mod predict;
 pub mod report;
+pub mod screen;
 pub mod spectra;
 pub mod susceptibility;
 pub mod tables;

@@ -15,7 +15,7 @@
 use crate::engine::basis::all_determinants;
 use crate::engine::operators::{angular_momentum, one_body_complex, Axis, DetList};
 use crate::engine::{Calculation, SpinOrbitSolution};
-use crate::error::{require_finite, Error, Result};
+use crate::error::{num, require_finite, Error, Result};
 use crate::units;
 use nalgebra::{Complex, DMatrix, SymmetricEigen};
 use std::sync::OnceLock;
@@ -268,8 +268,12 @@ impl ZeemanLevels {
     /// χ, χT and μ_eff at temperature `t` (K > 0).
     pub fn at(&self, t: f64) -> Result<SusceptibilityPoint> {
         require_finite("temperature", t)?;
-        if t <= 0.0 {
-            return Err(Error::invalid("temperature", t, "T > 0 K"));
+        if !(MIN_TEMPERATURE..=MAX_TEMPERATURE).contains(&t) {
+            return Err(Error::invalid(
+                "temperature",
+                format!("{} K", num(t)),
+                format!("{MIN_TEMPERATURE} K ≤ T ≤ {MAX_TEMPERATURE} K"),
+            ));
         }
         let kt = boltzmann_cm() * t; // cm⁻¹
         let c0 = curie_prefactor(); // cm³ K mol⁻¹ per μB²
@@ -312,15 +316,20 @@ impl ZeemanLevels {
     }
 }
 
+/// Lowest temperature accepted (K): below it Boltzmann factors underflow for ordinary splittings.
+pub const MIN_TEMPERATURE: f64 = 0.01;
+/// Highest temperature accepted (K).
+pub const MAX_TEMPERATURE: f64 = 1.0e5;
+
 /// `points` temperatures evenly spaced from `tmin` to `tmax`, both included.
 pub fn temperature_grid(tmin: f64, tmax: f64, points: usize) -> Result<Vec<f64>> {
     require_finite("tmin", tmin)?;
     require_finite("tmax", tmax)?;
-    if tmin <= 0.0 || tmax < tmin {
+    if tmin < MIN_TEMPERATURE || tmax < tmin || tmax > MAX_TEMPERATURE {
         return Err(Error::invalid(
             "temperature range",
-            format!("{tmin}..{tmax} K"),
-            "0 < tmin ≤ tmax",
+            format!("{}..{} K", num(tmin), num(tmax)),
+            format!("0 < tmin ≤ tmax with {MIN_TEMPERATURE} K ≤ T ≤ {MAX_TEMPERATURE} K"),
         ));
     }
     if points == 0 || (points == 1 && tmax != tmin) {

@@ -1,6 +1,6 @@
 //! `spinstate bands`: which spin-allowed bands each spin state puts in a spectrometer window.
 
-use super::common::{parse_geometry, Format};
+use super::common::{parse_geometry, ComplexArgs, Format};
 use super::fit_bands::SAFETY;
 use super::{Failure, Output};
 use spinstate::report::bands::BandsReport;
@@ -14,21 +14,8 @@ pub struct Args {
     /// Number of d electrons, 1..=9 (or give --metal, --ox and --ligand).
     #[arg(long, value_name = "N", conflicts_with = "metal")]
     pub dn: Option<usize>,
-    /// Metal of the complex (with --ox and --ligand): d^n, Δ, B and C come from the data tables
-    /// unless given, as in `predict`.
-    #[arg(long, value_name = "SYMBOL", requires_all = ["ox", "ligands"])]
-    pub metal: Option<String>,
-    /// Oxidation state of the metal.
-    #[arg(
-        long,
-        value_name = "N",
-        allow_negative_numbers = true,
-        requires = "metal"
-    )]
-    pub ox: Option<i32>,
-    /// A ligand, NAME[:COUNT] (repeatable), as in `predict`.
-    #[arg(long = "ligand", value_name = "NAME[:COUNT]", requires = "metal")]
-    pub ligands: Vec<String>,
+    #[command(flatten)]
+    pub complex: ComplexArgs,
     /// Geometry: oct, tet, sqpl or tetragonal.
     #[arg(long, value_name = "G")]
     pub geometry: String,
@@ -93,16 +80,7 @@ fn parse_window(s: &str) -> Result<(f64, f64), Failure> {
 pub fn run(args: &Args, data: Option<&std::path::Path>) -> Result<Output, Failure> {
     let geometry = parse_geometry(&args.geometry)?;
     // From a complex: d^n and estimates of Δ, B, C (each replaced by a value given here).
-    let complex = match &args.metal {
-        Some(metal) => Some(super::common::resolve_complex(
-            metal,
-            args.ox.unwrap_or_default(),
-            geometry,
-            &args.ligands,
-            data,
-        )?),
-        None => None,
-    };
+    let complex = args.complex.resolve(geometry, data)?;
     let dn = match (&complex, args.dn) {
         (Some(cx), _) => cx.ion.dn,
         (None, Some(n)) => n,

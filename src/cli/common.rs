@@ -85,6 +85,76 @@ pub fn load_tables(data: Option<&Path>) -> Result<Cow<'static, Tables>, Failure>
     })
 }
 
+/// A complex named by metal, oxidation state and ligands (all optional: commands that also take
+/// d^n and field parameters directly flatten this in).
+#[derive(Debug, Clone, clap::Args)]
+pub struct ComplexArgs {
+    /// Metal of the complex (with --ox and --ligand): d^n, Δ, B, C and ζ come from the data
+    /// tables unless given, as in `predict`.
+    #[arg(long, value_name = "SYMBOL", requires_all = ["ox", "ligands"])]
+    pub metal: Option<String>,
+    /// Oxidation state of the metal.
+    #[arg(
+        long,
+        value_name = "N",
+        allow_negative_numbers = true,
+        requires = "metal"
+    )]
+    pub ox: Option<i32>,
+    /// A ligand, NAME[:COUNT] (repeatable; e.g. --ligand NCS:2 --ligand py:4).
+    #[arg(long = "ligand", value_name = "NAME[:COUNT]", requires = "metal")]
+    pub ligands: Vec<String>,
+}
+
+impl ComplexArgs {
+    /// The resolved complex when --metal was given.
+    pub fn resolve(
+        &self,
+        geometry: Geometry,
+        data: Option<&Path>,
+    ) -> Result<Option<spinstate::complex::ResolvedComplex>, Failure> {
+        match &self.metal {
+            Some(metal) => Ok(Some(resolve_complex(
+                metal,
+                self.ox.unwrap_or_default(),
+                geometry,
+                &self.ligands,
+                data,
+            )?)),
+            None => Ok(None),
+        }
+    }
+}
+
+/// Writes a report's CSV (to a file, or marks it for stdout with '-') and SVG files, noting
+/// each file written in the output's messages. Returns whether the CSV goes to stdout.
+pub fn write_files(
+    out: &mut super::Output,
+    csv: Option<&Path>,
+    svg: Option<&Path>,
+    to_csv: impl Fn() -> String,
+    to_svg: impl Fn() -> Result<String, String>,
+) -> Result<bool, Failure> {
+    let mut csv_to_stdout = false;
+    if let Some(path) = csv {
+        if path.as_os_str() == "-" {
+            csv_to_stdout = true;
+        } else {
+            std::fs::write(path, to_csv()).map_err(|e| {
+                Failure::usage(format!("--csv: cannot write {}: {e}", path.display()))
+            })?;
+            out.warnings.push(format!("wrote {}", path.display()));
+        }
+    }
+    if let Some(path) = svg {
+        let text = to_svg().map_err(|e| Failure::usage(format!("--svg: drawing failed: {e}")))?;
+        std::fs::write(path, text)
+            .map_err(|e| Failure::usage(format!("--svg: cannot write {}: {e}", path.display())))?;
+        out.warnings.push(format!("wrote {}", path.display()));
+    }
+    Ok(csv_to_stdout)
+}
+
 /// Resolves a complex given as metal, oxidation state, geometry and NAME[:COUNT] ligands, with
 /// Δ, B and C estimated from the tables.
 pub fn resolve_complex(

@@ -1,6 +1,6 @@
 //! `spinstate diagram`: E/B of every level against Δ/B.
 
-use super::common::{parse_geometry, Format};
+use super::common::{parse_geometry, write_files, Format};
 use super::{Failure, Output};
 use spinstate::engine::diagram;
 use spinstate::report::diagram::{DiagramReport, SeriesRow};
@@ -87,25 +87,13 @@ pub fn run(args: &Args) -> Result<Output, Failure> {
         series,
     };
     let mut out = Output::default();
-    let mut csv_to_stdout = false;
-    if let Some(path) = &args.csv {
-        if path.as_os_str() == "-" {
-            csv_to_stdout = true;
-        } else {
-            std::fs::write(path, report.to_csv()).map_err(|e| {
-                Failure::usage(format!("--csv: cannot write {}: {e}", path.display()))
-            })?;
-            out.warnings.push(format!("wrote {}", path.display()));
-        }
-    }
-    if let Some(path) = &args.svg {
-        let svg = report
-            .to_svg()
-            .map_err(|e| Failure::usage(format!("--svg: drawing failed: {e}")))?;
-        std::fs::write(path, svg)
-            .map_err(|e| Failure::usage(format!("--svg: cannot write {}: {e}", path.display())))?;
-        out.warnings.push(format!("wrote {}", path.display()));
-    }
+    let csv_to_stdout = write_files(
+        &mut out,
+        args.csv.as_deref(),
+        args.svg.as_deref(),
+        || report.to_csv(),
+        || report.to_svg(),
+    )?;
     out.stdout = if csv_to_stdout {
         report.to_csv()
     } else if args.format.json {

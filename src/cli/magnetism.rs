@@ -1,6 +1,6 @@
 //! `spinstate magnetism`: χ(T), χT and μ_eff from the full ligand field with spin–orbit coupling.
 
-use super::common::{FieldArgs, Format};
+use super::common::{write_files, ComplexArgs, FieldArgs, Format};
 use super::{Failure, Output};
 use spinstate::report::magnetism::{MagnetismPoint, MagnetismReport};
 use spinstate::report::to_json;
@@ -46,20 +46,8 @@ pub struct Args {
     /// the ion table).
     #[arg(long, value_name = "CM-1", allow_negative_numbers = true)]
     pub zeta: Option<f64>,
-    /// Metal (with --ox and --ligand): d^n, Δ, B, C and ζ from the data tables.
-    #[arg(long, value_name = "SYMBOL", requires_all = ["ox", "ligands"])]
-    pub metal: Option<String>,
-    /// Oxidation state of the metal.
-    #[arg(
-        long,
-        value_name = "N",
-        allow_negative_numbers = true,
-        requires = "metal"
-    )]
-    pub ox: Option<i32>,
-    /// A ligand, NAME[:COUNT] (repeatable), as in `predict`.
-    #[arg(long = "ligand", value_name = "NAME[:COUNT]", requires = "metal")]
-    pub ligands: Vec<String>,
+    #[command(flatten)]
+    pub complex: ComplexArgs,
     /// Orbital reduction factor κ (0..=1) on L in the Zeeman term.
     #[arg(
         long,
@@ -105,16 +93,9 @@ pub struct Args {
 
 pub fn run(args: &Args, data: Option<&Path>) -> Result<Output, Failure> {
     let mut notes = Vec::new();
-    let field = match (&args.metal, args.dn) {
-        (Some(metal), _) => {
-            let geometry = super::common::parse_geometry(&args.geometry)?;
-            let complex = super::common::resolve_complex(
-                metal,
-                args.ox.unwrap_or_default(),
-                geometry,
-                &args.ligands,
-                data,
-            )?;
+    let geometry = super::common::parse_geometry(&args.geometry)?;
+    let field = match (args.complex.resolve(geometry, data)?, args.dn) {
+        (Some(complex), _) => {
             let zeta = match (args.zeta, complex.ion.zeta) {
                 (Some(z), _) => z,
                 (None, Some(z)) => {
@@ -220,25 +201,13 @@ pub fn run(args: &Args, data: Option<&Path>) -> Result<Output, Failure> {
         notes,
     };
     let mut out = Output::default();
-    let mut csv_stdout = false;
-    if let Some(path) = &args.csv {
-        if path.as_os_str() == "-" {
-            csv_stdout = true;
-        } else {
-            std::fs::write(path, report.to_csv()).map_err(|e| {
-                Failure::usage(format!("--csv: cannot write {}: {e}", path.display()))
-            })?;
-            out.warnings.push(format!("wrote {}", path.display()));
-        }
-    }
-    if let Some(path) = &args.svg {
-        let svg = report
-            .to_svg()
-            .map_err(|e| Failure::usage(format!("--svg: drawing failed: {e}")))?;
-        std::fs::write(path, svg)
-            .map_err(|e| Failure::usage(format!("--svg: cannot write {}: {e}", path.display())))?;
-        out.warnings.push(format!("wrote {}", path.display()));
-    }
+    let csv_stdout = write_files(
+        &mut out,
+        args.csv.as_deref(),
+        args.svg.as_deref(),
+        || report.to_csv(),
+        || report.to_svg(),
+    )?;
     out.stdout = if csv_stdout {
         report.to_csv()
     } else if args.format.json {

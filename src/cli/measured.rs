@@ -118,7 +118,12 @@ impl UnitArgs {
 #[derive(Debug, Clone, clap::Args)]
 pub struct CompareArgs {
     /// Number of d electrons (0..=10): compare μ_eff with the spin states of d^N.
-    #[arg(long, value_name = "N", requires = "geometry")]
+    #[arg(
+        long,
+        value_name = "N",
+        requires = "geometry",
+        conflicts_with = "metal"
+    )]
     pub dn: Option<usize>,
     /// Geometry for the comparison: oct, tet, sqpl or tetragonal.
     #[arg(long, value_name = "G", requires = "dn")]
@@ -148,21 +153,8 @@ pub struct CompareArgs {
         allow_negative_numbers = true
     )]
     pub lambda: Option<f64>,
-    /// Metal of the complex (with --ox, --geometry and --ligand): d^n, Dq, B and ζ then come
-    /// from the data tables unless given.
-    #[arg(long, value_name = "SYMBOL", requires_all = ["ox", "geometry", "ligands"], conflicts_with = "dn")]
-    pub metal: Option<String>,
-    /// Oxidation state of the metal.
-    #[arg(
-        long,
-        value_name = "N",
-        allow_negative_numbers = true,
-        requires = "metal"
-    )]
-    pub ox: Option<i32>,
-    /// A ligand of the complex, NAME[:COUNT] (repeatable), as in `predict`.
-    #[arg(long = "ligand", value_name = "NAME[:COUNT]", requires = "metal")]
-    pub ligands: Vec<String>,
+    #[command(flatten)]
+    pub complex: super::common::ComplexArgs,
 }
 
 impl CompareArgs {
@@ -175,21 +167,19 @@ impl CompareArgs {
         temperature: Option<f64>,
     ) -> Result<Option<(Comparison, usize, String)>, Failure> {
         let Some(g) = &self.geometry else {
+            if self.complex.metal.is_some() {
+                return Err(Failure::usage(
+                    "--metal needs --geometry (oct, tet or sqpl) for the comparison",
+                ));
+            }
             return Ok(None);
         };
         let geometry: Geometry = super::common::parse_geometry(g)?;
         let mut zeta = self.zeta;
         let mut dq = self.dq;
         let mut b = None;
-        let dn = match (&self.metal, self.dn) {
-            (Some(metal), _) => {
-                let complex = super::common::resolve_complex(
-                    metal,
-                    self.ox.unwrap_or_default(),
-                    geometry,
-                    &self.ligands,
-                    data,
-                )?;
+        let dn = match (self.complex.resolve(geometry, data)?, self.dn) {
+            (Some(complex), _) => {
                 if zeta.is_none() && self.lambda.is_none() {
                     zeta = complex.ion.zeta;
                 }

@@ -14,6 +14,7 @@ pub mod magnetism;
 pub mod measured;
 pub mod moment;
 pub mod predict;
+pub mod screen;
 
 use clap::{Parser, Subcommand};
 use std::path::PathBuf;
@@ -47,6 +48,9 @@ pub enum Command {
     /// Spin state, ground term, moments and bands of a complex from metal, oxidation state,
     /// geometry and ligands (Δ, B, C estimated or given).
     Predict(predict::Args),
+    /// Rank candidate coordination spheres (from a ligand pool or a CSV file) by their distance
+    /// to the spin crossover, for SCO design or to stay safely high- or low-spin.
+    Screen(screen::Args),
     /// List the chemistry data tables (ions, ligands) with their sources.
     Data(data::Args),
     /// Fit 10Dq and Racah B (and C) to observed d–d band maxima, with band assignment.
@@ -113,6 +117,7 @@ pub fn run(cli: Cli) -> Result<Output, Failure> {
         Command::Moment(a) => moment::run(&a, cli.data.as_deref()),
         Command::Magnetism(a) => magnetism::run(&a, cli.data.as_deref()),
         Command::Predict(a) => predict::run(&a, cli.data.as_deref()),
+        Command::Screen(a) => screen::run(&a, cli.data.as_deref()),
         Command::Data(a) => data::run(&a, cli.data.as_deref()),
         Command::FitBands(a) => fit_bands::run(&a, cli.data.as_deref()),
         Command::Bands(a) => bands::run(&a, cli.data.as_deref()),

@@ -7,7 +7,7 @@
 use super::field::LigandField;
 use super::shell::{shell, Shell, SpinBlock};
 use super::symmetry::{Characters, PointGroup};
-use crate::error::{require_finite, Error, Result};
+use crate::error::{num, require_finite, Error, Result};
 use nalgebra::{Complex, DMatrix, SMatrix, SymmetricEigen};
 
 type C64 = Complex<f64>;
@@ -119,6 +119,21 @@ impl Calculation {
         }
         if c < 0.0 {
             return Err(Error::invalid("C", c, "a Racah C ≥ 0 cm⁻¹"));
+        }
+        // Energies beyond 10⁹ cm⁻¹ are far outside any ligand field (the strong-field limit is
+        // probed internally at ≈ 10⁷–10⁸); rejecting them keeps every later sum finite.
+        const LIMIT: f64 = 1e9;
+        if b > LIMIT || c > LIMIT || field.magnitude() > LIMIT {
+            return Err(Error::invalid(
+                "B, C or field",
+                format!(
+                    "B = {}, C = {}, largest field element {}",
+                    num(b),
+                    num(c),
+                    num(field.magnitude())
+                ),
+                "values up to 10⁹ cm⁻¹ (ligand-field energies are 10²–10⁵ cm⁻¹)",
+            ));
         }
         if field.matrix.iter().any(|x| !x.is_finite()) {
             return Err(Error::invalid(

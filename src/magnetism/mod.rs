@@ -124,7 +124,7 @@ impl MomentResult {
             value: corrected.value * temperature.value,
             err: (temperature.value * corrected.err).hypot(corrected.value * temperature.err),
         };
-        Ok(Self::finish(chi_m, dia, corrected, chi_t, temperature))
+        Self::finish(chi_m, dia, corrected, chi_t, temperature)
     }
 
     /// From a corrected (paramagnetic) χ_M·T (cm³ K mol⁻¹) at a temperature; `dia` is only
@@ -141,7 +141,7 @@ impl MomentResult {
             value: corrected.value + dia.value,
             err: corrected.err.hypot(dia.err),
         };
-        Ok(Self::finish(chi_m, dia, corrected, chi_t, temperature))
+        Self::finish(chi_m, dia, corrected, chi_t, temperature)
     }
 
     /// From μ_eff (μB) at a temperature: χ_M·T = (μ_eff / 2.828)².
@@ -164,7 +164,20 @@ impl MomentResult {
         corrected: Measured,
         chi_t: Measured,
         temperature: Measured,
-    ) -> Self {
+    ) -> Result<Self> {
+        for (name, m) in [
+            ("χ_M", chi_m),
+            ("χ_M corrected", corrected),
+            ("χ_M·T", chi_t),
+        ] {
+            if !(m.value.is_finite() && m.err.is_finite()) {
+                return Err(Error::invalid(
+                    name,
+                    m.value,
+                    "a finite value: check the magnitudes and units of the inputs",
+                ));
+            }
+        }
         let f = units::moment_factor_cgs();
         let mut notes = Vec::new();
         let (mu, mu_err) = if chi_t.value > 0.0 {
@@ -182,7 +195,7 @@ impl MomentResult {
         } else {
             units::unpaired_from_moment(mu_err)
         };
-        MomentResult {
+        Ok(MomentResult {
             temperature,
             chi_m,
             dia,
@@ -198,7 +211,7 @@ impl MomentResult {
             },
             unpaired_nearest: n.round().max(0.0) as u32,
             notes,
-        }
+        })
     }
 }
 

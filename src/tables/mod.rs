@@ -95,6 +95,23 @@ fn in_dir(e: Error, dir: &Path, file: &str) -> Error {
     }
 }
 
+/// The text of DIR/`file` when a `--data` directory is given and holds that file.
+pub(crate) fn read_override(data_dir: Option<&Path>, file: &str) -> Result<Option<String>> {
+    let Some(dir) = data_dir else {
+        return Ok(None);
+    };
+    let path = dir.join(file);
+    if !path.is_file() {
+        return Ok(None);
+    }
+    std::fs::read_to_string(&path)
+        .map(Some)
+        .map_err(|e| Error::Data {
+            table: path.display().to_string(),
+            message: format!("cannot be read: {e}"),
+        })
+}
+
 /// Reads the records of a CSV text with a header row, checking the header against `expected`
 /// (same names, same order). Returns the records with their 1-based line numbers.
 pub(crate) fn records(
