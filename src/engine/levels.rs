@@ -120,9 +120,9 @@ impl Calculation {
         if c < 0.0 {
             return Err(Error::invalid("C", c, "a Racah C ≥ 0 cm⁻¹"));
         }
-        // Energies beyond 10⁹ cm⁻¹ are far outside any ligand field (the strong-field limit is
-        // probed internally at ≈ 10⁷–10⁸); rejecting them keeps every later sum finite.
-        const LIMIT: f64 = 1e9;
+        // Energies beyond 10¹² cm⁻¹ are far outside any ligand field (the strong-field limit and
+        // trial points of fits reach ≈ 10⁷–10¹¹); rejecting them keeps every later sum finite.
+        const LIMIT: f64 = 1e12;
         if b > LIMIT || c > LIMIT || field.magnitude() > LIMIT {
             return Err(Error::invalid(
                 "B, C or field",
@@ -132,7 +132,7 @@ impl Calculation {
                     num(c),
                     num(field.magnitude())
                 ),
-                "values up to 10⁹ cm⁻¹ (ligand-field energies are 10²–10⁵ cm⁻¹)",
+                "values up to 10¹² cm⁻¹ (ligand-field energies are 10²–10⁵ cm⁻¹)",
             ));
         }
         if field.matrix.iter().any(|x| !x.is_finite()) {
