@@ -371,7 +371,7 @@ pub fn bond_length(
 ) -> Result<Evidence> {
     let x = input.mean.value;
     let u = input.mean.err;
-    let (lo, hi) = super::super::tables::bond_lengths::SENSIBLE_A;
+    let (lo, hi) = crate::tables::bond_lengths::SENSIBLE_A;
     if !x.is_finite() || !(lo..=hi).contains(&x) {
         return Err(Error::invalid(
             "bond length",
