@@ -20,35 +20,35 @@ pub struct Args {
     #[arg(long, value_name = "G")]
     pub geometry: String,
     /// Racah B in cm⁻¹ (required without --metal).
-    #[arg(long, value_name = "CM-1", allow_negative_numbers = true)]
+    #[arg(long, value_name = "CM-1", allow_hyphen_values = true)]
     pub b: Option<f64>,
     /// Racah C in cm⁻¹ (default: C/B × B).
     #[arg(
         long,
         value_name = "CM-1",
         conflicts_with = "c_over_b",
-        allow_negative_numbers = true
+        allow_hyphen_values = true
     )]
     pub c: Option<f64>,
     /// C/B ratio (default: the Tanabe–Sugano ratio for d2–d8).
-    #[arg(long, value_name = "R", allow_negative_numbers = true)]
+    #[arg(long, value_name = "R", allow_hyphen_values = true)]
     pub c_over_b: Option<f64>,
     /// Dq in cm⁻¹ (for tet the positive Δt/10).
     #[arg(
         long,
         value_name = "CM-1",
         conflicts_with = "delta",
-        allow_negative_numbers = true
+        allow_hyphen_values = true
     )]
     pub dq: Option<f64>,
     /// Δ = 10Dq in cm⁻¹.
-    #[arg(long, value_name = "CM-1", allow_negative_numbers = true)]
+    #[arg(long, value_name = "CM-1", allow_hyphen_values = true)]
     pub delta: Option<f64>,
     /// Spectrometer window in nm, shortest-longest (e.g. 200-1100).
     #[arg(long, value_name = "NM-NM", default_value = "200-1100")]
     pub window: String,
     /// Bands closer than this (cm⁻¹) count as one unresolved band.
-    #[arg(long, value_name = "CM-1", default_value_t = DEFAULT_RESOLUTION, allow_negative_numbers = true)]
+    #[arg(long, value_name = "CM-1", default_value_t = DEFAULT_RESOLUTION, allow_hyphen_values = true)]
     pub resolution: f64,
     /// Number of d–d bands observed: says whether it supports high spin, low spin, both or
     /// neither.

@@ -26,7 +26,7 @@ pub struct Args {
     #[arg(long, value_name = "SYMBOL", required_unless_present = "input", requires_all = ["ox", "geometry", "ligands"])]
     pub metal: Option<String>,
     /// Oxidation state of the metal.
-    #[arg(long, value_name = "N", allow_negative_numbers = true)]
+    #[arg(long, value_name = "N", allow_hyphen_values = true)]
     pub ox: Option<i32>,
     /// Geometry: oct, tet or sqpl.
     #[arg(long, value_name = "G")]
@@ -35,34 +35,34 @@ pub struct Args {
     #[arg(long = "ligand", value_name = "NAME[:COUNT]")]
     pub ligands: Vec<String>,
     /// Measured Δ in cm⁻¹ (instead of the f·g estimate).
-    #[arg(long, value_name = "CM-1", allow_negative_numbers = true)]
+    #[arg(long, value_name = "CM-1", allow_hyphen_values = true)]
     pub delta: Option<f64>,
     /// Measured Racah B in cm⁻¹.
-    #[arg(long, value_name = "CM-1", allow_negative_numbers = true)]
+    #[arg(long, value_name = "CM-1", allow_hyphen_values = true)]
     pub b: Option<f64>,
     /// Measured Racah C in cm⁻¹.
-    #[arg(long, value_name = "CM-1", allow_negative_numbers = true)]
+    #[arg(long, value_name = "CM-1", allow_hyphen_values = true)]
     pub c: Option<f64>,
     /// Evans shift of the reference line, solution minus insert, in ppm.
-    #[arg(long, value_name = "PPM", allow_negative_numbers = true)]
+    #[arg(long, value_name = "PPM", allow_hyphen_values = true)]
     pub evans_shift_ppm: Option<f64>,
     /// The same shift in Hz (with --evans-freq-mhz).
-    #[arg(long, value_name = "HZ", allow_negative_numbers = true)]
+    #[arg(long, value_name = "HZ", allow_hyphen_values = true)]
     pub evans_shift_hz: Option<f64>,
     /// Spectrometer frequency in MHz.
-    #[arg(long, value_name = "MHZ", allow_negative_numbers = true)]
+    #[arg(long, value_name = "MHZ", allow_hyphen_values = true)]
     pub evans_freq_mhz: Option<f64>,
     /// Uncertainty of the Evans shift (ppm or Hz, as given).
     #[arg(long, value_name = "PPM|HZ")]
     pub evans_shift_err: Option<f64>,
     /// Concentration of the paramagnet in mol/L.
-    #[arg(long, value_name = "MOL/L", allow_negative_numbers = true)]
+    #[arg(long, value_name = "MOL/L", allow_hyphen_values = true)]
     pub evans_conc: Option<f64>,
     /// Uncertainty of --evans-conc in mol/L.
     #[arg(long, value_name = "MOL/L")]
     pub evans_conc_err: Option<f64>,
     /// Probe temperature of the Evans measurement in K.
-    #[arg(long, value_name = "K", allow_negative_numbers = true)]
+    #[arg(long, value_name = "K", allow_hyphen_values = true)]
     pub evans_temp: Option<f64>,
     /// Magnet geometry: solenoid (default) or transverse.
     #[arg(long, value_name = "GEOMETRY")]
@@ -71,7 +71,7 @@ pub struct Args {
     #[arg(
         long,
         value_name = "MUB",
-        allow_negative_numbers = true,
+        allow_hyphen_values = true,
         group = "magnetometer"
     )]
     pub mu_eff: Option<f64>,
@@ -79,7 +79,7 @@ pub struct Args {
     #[arg(
         long,
         value_name = "CM3/MOL",
-        allow_negative_numbers = true,
+        allow_hyphen_values = true,
         group = "magnetometer"
     )]
     pub chi_m: Option<f64>,
@@ -87,7 +87,7 @@ pub struct Args {
     #[arg(
         long,
         value_name = "CM3 K/MOL",
-        allow_negative_numbers = true,
+        allow_hyphen_values = true,
         group = "magnetometer"
     )]
     pub chi_m_t: Option<f64>,
@@ -95,10 +95,10 @@ pub struct Args {
     #[arg(long, value_name = "X")]
     pub moment_err: Option<f64>,
     /// Temperature of the magnetometer value in K.
-    #[arg(long, value_name = "K", allow_negative_numbers = true)]
+    #[arg(long, value_name = "K", allow_hyphen_values = true)]
     pub moment_temp: Option<f64>,
     /// Diamagnetic correction χ_D in cm³/mol (≤ 0) for the Evans and magnetometer values.
-    #[arg(long, value_name = "CM3/MOL", allow_negative_numbers = true)]
+    #[arg(long, value_name = "CM3/MOL", allow_hyphen_values = true)]
     pub dia: Option<f64>,
     /// Observed d–d band maxima in cm⁻¹, e.g. "9400 20100".
     #[arg(long, value_name = "CM-1 …")]
@@ -107,19 +107,19 @@ pub struct Args {
     #[arg(long, value_name = "NM-NM")]
     pub band_window: Option<String>,
     /// Bands closer than this (cm⁻¹) count as one (default 1500).
-    #[arg(long, value_name = "CM-1", allow_negative_numbers = true)]
+    #[arg(long, value_name = "CM-1", allow_hyphen_values = true)]
     pub band_resolution: Option<f64>,
     /// Temperature of the spectrum in K.
-    #[arg(long, value_name = "K", allow_negative_numbers = true)]
+    #[arg(long, value_name = "K", allow_hyphen_values = true)]
     pub band_temp: Option<f64>,
     /// Mean metal–donor bond length of a crystal structure, in Å.
-    #[arg(long, value_name = "ANGSTROM", allow_negative_numbers = true)]
+    #[arg(long, value_name = "ANGSTROM", allow_hyphen_values = true)]
     pub bond_length: Option<f64>,
     /// Uncertainty of --bond-length in Å.
     #[arg(long, value_name = "ANGSTROM")]
     pub bond_length_err: Option<f64>,
     /// Temperature of the structure in K.
-    #[arg(long, value_name = "K", allow_negative_numbers = true)]
+    #[arg(long, value_name = "K", allow_hyphen_values = true)]
     pub structure_temp: Option<f64>,
     /// Also write the verdicts as CSV to FILE.
     #[arg(long, value_name = "FILE")]

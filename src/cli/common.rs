@@ -24,26 +24,26 @@ pub struct FieldArgs {
     #[arg(long, value_name = "G")]
     pub geometry: String,
     /// Racah B in cm⁻¹ (needs --c).
-    #[arg(long, value_name = "CM-1", allow_negative_numbers = true)]
+    #[arg(long, value_name = "CM-1", allow_hyphen_values = true)]
     pub b: Option<f64>,
     /// Racah C in cm⁻¹ (needs --b).
-    #[arg(long, value_name = "CM-1", allow_negative_numbers = true)]
+    #[arg(long, value_name = "CM-1", allow_hyphen_values = true)]
     pub c: Option<f64>,
     /// Dq in cm⁻¹ (Δ = 10Dq; for tet the positive Δt/10).
-    #[arg(long, value_name = "CM-1", allow_negative_numbers = true)]
+    #[arg(long, value_name = "CM-1", allow_hyphen_values = true)]
     pub dq: Option<f64>,
     /// C/B ratio (energies are then in units of B; use with --delta-over-b).
-    #[arg(long, value_name = "R", allow_negative_numbers = true)]
+    #[arg(long, value_name = "R", allow_hyphen_values = true)]
     pub c_over_b: Option<f64>,
     /// Δ/B = 10Dq/B (ratio mode).
-    #[arg(long, value_name = "X", allow_negative_numbers = true)]
+    #[arg(long, value_name = "X", allow_hyphen_values = true)]
     pub delta_over_b: Option<f64>,
     /// Tetragonal parameter Ds in cm⁻¹ (or units of B in ratio mode).
     #[arg(
         long,
         value_name = "CM-1",
         default_value_t = 0.0,
-        allow_negative_numbers = true
+        allow_hyphen_values = true
     )]
     pub ds: f64,
     /// Tetragonal parameter Dt in cm⁻¹ (or units of B in ratio mode).
@@ -51,7 +51,7 @@ pub struct FieldArgs {
         long,
         value_name = "CM-1",
         default_value_t = 0.0,
-        allow_negative_numbers = true
+        allow_hyphen_values = true
     )]
     pub dt: f64,
     /// One-electron spin–orbit constant ζ in cm⁻¹ (or units of B in ratio mode); 0 = off.
@@ -59,7 +59,7 @@ pub struct FieldArgs {
         long,
         value_name = "CM-1",
         default_value_t = 0.0,
-        allow_negative_numbers = true
+        allow_hyphen_values = true
     )]
     pub zeta: f64,
 }
@@ -97,7 +97,7 @@ pub struct ComplexArgs {
     #[arg(
         long,
         value_name = "N",
-        allow_negative_numbers = true,
+        allow_hyphen_values = true,
         requires = "metal"
     )]
     pub ox: Option<i32>,

@@ -15,7 +15,7 @@ pub struct Args {
     #[arg(long, value_name = "G", default_value = "oct")]
     pub geometry: String,
     /// C/B ratio; default: the ratio of the original Tanabe–Sugano diagram for each d^n.
-    #[arg(long, value_name = "R", allow_negative_numbers = true)]
+    #[arg(long, value_name = "R", allow_hyphen_values = true)]
     pub c_over_b: Option<f64>,
     #[command(flatten)]
     pub format: Format,

@@ -16,14 +16,14 @@ pub struct Args {
     #[arg(long, value_name = "G")]
     pub geometry: String,
     /// C/B ratio (e.g. 4.8 for d6 as in the original diagrams).
-    #[arg(long, value_name = "R", allow_negative_numbers = true)]
+    #[arg(long, value_name = "R", allow_hyphen_values = true)]
     pub c_over_b: f64,
     /// Largest Δ/B.
     #[arg(
         long,
         value_name = "X",
         default_value_t = 40.0,
-        allow_negative_numbers = true
+        allow_hyphen_values = true
     )]
     pub max: f64,
     /// Number of Δ/B values from 0 to --max, both included.

@@ -17,19 +17,19 @@ use std::path::Path;
 pub struct Args {
     /// Shift of the reference line, solution line minus pure-solvent (insert) line, in Hz;
     /// positive for a paramagnet in a solenoid, negative across the field.
-    #[arg(long, value_name = "HZ", allow_negative_numbers = true)]
+    #[arg(long, value_name = "HZ", allow_hyphen_values = true)]
     pub shift_hz: Option<f64>,
     /// The same shift in ppm (no --freq-mhz needed).
-    #[arg(long, value_name = "PPM", allow_negative_numbers = true)]
+    #[arg(long, value_name = "PPM", allow_hyphen_values = true)]
     pub shift_ppm: Option<f64>,
     /// Uncertainty of the shift, in the unit of the shift given.
     #[arg(long, value_name = "HZ|PPM", default_value_t = 0.0)]
     pub shift_err: f64,
     /// Spectrometer frequency of the observed nucleus in MHz (e.g. 400 for ¹H at 9.4 T).
-    #[arg(long, value_name = "MHZ", allow_negative_numbers = true)]
+    #[arg(long, value_name = "MHZ", allow_hyphen_values = true)]
     pub freq_mhz: Option<f64>,
     /// Concentration of the paramagnet in mol/L.
-    #[arg(long, value_name = "MOL/L", allow_negative_numbers = true)]
+    #[arg(long, value_name = "MOL/L", allow_hyphen_values = true)]
     pub conc: Option<f64>,
     /// Uncertainty of --conc in mol/L.
     #[arg(long, value_name = "MOL/L", default_value_t = 0.0)]
@@ -39,7 +39,7 @@ pub struct Args {
         long,
         value_name = "MG",
         requires = "volume",
-        allow_negative_numbers = true
+        allow_hyphen_values = true
     )]
     pub mass: Option<f64>,
     /// Uncertainty of --mass in mg.
@@ -50,14 +50,14 @@ pub struct Args {
         long,
         value_name = "ML",
         requires = "mass",
-        allow_negative_numbers = true
+        allow_hyphen_values = true
     )]
     pub volume: Option<f64>,
     /// Uncertainty of --volume in mL.
     #[arg(long, value_name = "ML", default_value_t = 0.0)]
     pub volume_err: f64,
     /// Sample (probe) temperature in K.
-    #[arg(long, value_name = "K", allow_negative_numbers = true)]
+    #[arg(long, value_name = "K", allow_hyphen_values = true)]
     pub temp: f64,
     /// Uncertainty of --temp in K.
     #[arg(long, value_name = "K", default_value_t = 0.0)]
@@ -68,7 +68,7 @@ pub struct Args {
     pub magnet: String,
     /// Add the solvent term χ₀·MW with this solvent mass susceptibility χ₀ in cm³/g (off by
     /// default; its use is disputed).
-    #[arg(long, value_name = "CM3/G", allow_negative_numbers = true)]
+    #[arg(long, value_name = "CM3/G", allow_hyphen_values = true)]
     pub solvent_chi: Option<f64>,
     /// Density of the pure solvent in g/mL (with --solution-density and --solvent-chi: adds the
     /// density term).

@@ -26,7 +26,7 @@ pub struct Args {
         long,
         value_name = "N",
         requires = "metal",
-        allow_negative_numbers = true
+        allow_hyphen_values = true
     )]
     pub ox: Option<i32>,
     /// Geometry: oct, tet, sqpl or tetragonal (no distortion parameters here).
@@ -46,7 +46,7 @@ pub struct Args {
         long,
         value_name = "R",
         conflicts_with = "fit_c",
-        allow_negative_numbers = true
+        allow_hyphen_values = true
     )]
     pub c_over_b: Option<f64>,
     /// Fit C as a third free parameter (needs as many bands as free parameters, and C must
@@ -54,11 +54,11 @@ pub struct Args {
     #[arg(long)]
     pub fit_c: bool,
     /// Hold Racah B at this value (cm⁻¹) and fit Dq only (e.g. with a single band).
-    #[arg(long, value_name = "CM-1", allow_negative_numbers = true)]
+    #[arg(long, value_name = "CM-1", allow_hyphen_values = true)]
     pub b: Option<f64>,
     /// Free-ion Racah B0 (cm⁻¹) for the nephelauxetic ratio β = B/B0 (overrides the ions.csv
     /// value of --metal/--ox).
-    #[arg(long, value_name = "CM-1", allow_negative_numbers = true)]
+    #[arg(long, value_name = "CM-1", allow_hyphen_values = true)]
     pub b0: Option<f64>,
     /// Cap on model evaluations per tried assignment, as a multiple of (free parameters + 1).
     #[arg(long, value_name = "K", default_value_t = spinstate::spectra::fit::DEFAULT_PATIENCE)]

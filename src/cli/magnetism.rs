@@ -18,20 +18,20 @@ pub struct Args {
     #[arg(long, value_name = "G")]
     pub geometry: String,
     /// Racah B in cm⁻¹ (with --metal: replaces the estimate).
-    #[arg(long, value_name = "CM-1", allow_negative_numbers = true)]
+    #[arg(long, value_name = "CM-1", allow_hyphen_values = true)]
     pub b: Option<f64>,
     /// Racah C in cm⁻¹ (with --metal: replaces the estimate).
-    #[arg(long, value_name = "CM-1", allow_negative_numbers = true)]
+    #[arg(long, value_name = "CM-1", allow_hyphen_values = true)]
     pub c: Option<f64>,
     /// Dq in cm⁻¹ (with --metal: replaces the estimate Δ/10).
-    #[arg(long, value_name = "CM-1", allow_negative_numbers = true)]
+    #[arg(long, value_name = "CM-1", allow_hyphen_values = true)]
     pub dq: Option<f64>,
     /// Tetragonal Ds in cm⁻¹.
     #[arg(
         long,
         value_name = "CM-1",
         default_value_t = 0.0,
-        allow_negative_numbers = true
+        allow_hyphen_values = true
     )]
     pub ds: f64,
     /// Tetragonal Dt in cm⁻¹.
@@ -39,12 +39,12 @@ pub struct Args {
         long,
         value_name = "CM-1",
         default_value_t = 0.0,
-        allow_negative_numbers = true
+        allow_hyphen_values = true
     )]
     pub dt: f64,
     /// One-electron spin–orbit constant ζ in cm⁻¹ (with --metal: default the free-ion value of
     /// the ion table).
-    #[arg(long, value_name = "CM-1", allow_negative_numbers = true)]
+    #[arg(long, value_name = "CM-1", allow_hyphen_values = true)]
     pub zeta: Option<f64>,
     #[command(flatten)]
     pub complex: ComplexArgs,
@@ -53,21 +53,21 @@ pub struct Args {
         long,
         value_name = "K",
         default_value_t = 1.0,
-        allow_negative_numbers = true
+        allow_hyphen_values = true
     )]
     pub kappa: f64,
     /// Multiply ζ by κ as well (covalency reduces spin–orbit coupling too).
     #[arg(long)]
     pub reduce_zeta: bool,
     /// Spin g value in the Zeeman term (default: free electron, 2.0023).
-    #[arg(long, value_name = "G", default_value_t = G_ELECTRON, allow_negative_numbers = true)]
+    #[arg(long, value_name = "G", default_value_t = G_ELECTRON, allow_hyphen_values = true)]
     pub g: f64,
     /// Lowest temperature (K).
     #[arg(
         long,
         value_name = "K",
         default_value_t = 2.0,
-        allow_negative_numbers = true
+        allow_hyphen_values = true
     )]
     pub tmin: f64,
     /// Highest temperature (K).
@@ -75,7 +75,7 @@ pub struct Args {
         long,
         value_name = "K",
         default_value_t = 300.0,
-        allow_negative_numbers = true
+        allow_hyphen_values = true
     )]
     pub tmax: f64,
     /// Number of temperatures from tmin to tmax, both included.

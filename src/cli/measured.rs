@@ -17,7 +17,7 @@ use std::path::Path;
 pub struct DiaArgs {
     /// Diamagnetic correction χ_D in cm³/mol, always cgs (the unit of Pascal's tables), ≤ 0,
     /// e.g. -2.5e-4. Without it, --formula gives a Pascal sum.
-    #[arg(long, value_name = "CM3/MOL", allow_negative_numbers = true)]
+    #[arg(long, value_name = "CM3/MOL", allow_hyphen_values = true)]
     pub dia: Option<f64>,
     /// Uncertainty of χ_D in cm³/mol.
     #[arg(long, value_name = "CM3/MOL", default_value_t = 0.0)]
@@ -31,7 +31,7 @@ pub struct DiaArgs {
     #[arg(long, value_name = "FORMULA")]
     pub formula: Option<String>,
     /// Molar mass in g/mol (overrides the one from --formula).
-    #[arg(long, value_name = "G/MOL", allow_negative_numbers = true)]
+    #[arg(long, value_name = "G/MOL", allow_hyphen_values = true)]
     pub molar_mass: Option<f64>,
 }
 
@@ -133,7 +133,7 @@ pub struct CompareArgs {
         long,
         value_name = "CM-1",
         requires = "dn",
-        allow_negative_numbers = true
+        allow_hyphen_values = true
     )]
     pub dq: Option<f64>,
     /// One-electron spin–orbit constant ζ in cm⁻¹ (> 0).
@@ -142,7 +142,7 @@ pub struct CompareArgs {
         value_name = "CM-1",
         requires = "dn",
         conflicts_with = "lambda",
-        allow_negative_numbers = true
+        allow_hyphen_values = true
     )]
     pub zeta: Option<f64>,
     /// Many-electron λ of the high-spin ground term in cm⁻¹ (e.g. -324 for Ni²⁺, 91 for Cr³⁺).
@@ -150,7 +150,7 @@ pub struct CompareArgs {
         long,
         value_name = "CM-1",
         requires = "dn",
-        allow_negative_numbers = true
+        allow_hyphen_values = true
     )]
     pub lambda: Option<f64>,
     #[command(flatten)]

@@ -19,26 +19,26 @@ use std::path::Path;
 pub struct Args {
     /// Measured molar susceptibility χ_M (before the diamagnetic correction), in cm³/mol, or
     /// m³/mol with --units si.
-    #[arg(long, value_name = "CHI", allow_negative_numbers = true)]
+    #[arg(long, value_name = "CHI", allow_hyphen_values = true)]
     pub chi: Option<f64>,
     /// Uncertainty of --chi (same unit).
     #[arg(long, value_name = "CHI", default_value_t = 0.0)]
     pub chi_err: f64,
     /// Corrected χ_M·T in cm³ K/mol (m³ K/mol with --units si).
-    #[arg(long, value_name = "CHI-T", allow_negative_numbers = true)]
+    #[arg(long, value_name = "CHI-T", allow_hyphen_values = true)]
     pub chi_t: Option<f64>,
     /// Uncertainty of --chi-t (same unit).
     #[arg(long, value_name = "CHI-T", default_value_t = 0.0)]
     pub chi_t_err: f64,
     /// Effective moment in μB (already corrected).
-    #[arg(long, value_name = "MUB", allow_negative_numbers = true)]
+    #[arg(long, value_name = "MUB", allow_hyphen_values = true)]
     pub mu_eff: Option<f64>,
     /// Uncertainty of --mu-eff in μB.
     #[arg(long, value_name = "MUB", default_value_t = 0.0)]
     pub mu_eff_err: f64,
     /// Magnetometer (SQUID/VSM) sample moment: emu (cgs) or A·m² (--units si). Needs --field,
     /// --sample-mass and --formula or --molar-mass.
-    #[arg(long, value_name = "M", allow_negative_numbers = true, requires_all = ["field", "sample_mass"])]
+    #[arg(long, value_name = "M", allow_hyphen_values = true, requires_all = ["field", "sample_mass"])]
     pub magnetisation: Option<f64>,
     /// Uncertainty of --magnetisation (same unit).
     #[arg(long, value_name = "M", default_value_t = 0.0)]
@@ -48,20 +48,20 @@ pub struct Args {
         long,
         value_name = "M",
         default_value_t = 0.0,
-        allow_negative_numbers = true
+        allow_hyphen_values = true
     )]
     pub background: f64,
     /// Applied field: Oe (cgs) or T (--units si).
-    #[arg(long, value_name = "H", allow_negative_numbers = true)]
+    #[arg(long, value_name = "H", allow_hyphen_values = true)]
     pub field: Option<f64>,
     /// Sample mass in mg.
-    #[arg(long, value_name = "MG", allow_negative_numbers = true)]
+    #[arg(long, value_name = "MG", allow_hyphen_values = true)]
     pub sample_mass: Option<f64>,
     /// Uncertainty of --sample-mass in mg.
     #[arg(long, value_name = "MG", default_value_t = 0.0)]
     pub sample_mass_err: f64,
     /// Temperature of the measurement in K.
-    #[arg(long, value_name = "K", allow_negative_numbers = true)]
+    #[arg(long, value_name = "K", allow_hyphen_values = true)]
     pub temp: f64,
     /// Uncertainty of --temp in K.
     #[arg(long, value_name = "K", default_value_t = 0.0)]

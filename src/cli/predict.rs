@@ -15,7 +15,7 @@ pub struct Args {
     #[arg(long, value_name = "SYMBOL")]
     pub metal: String,
     /// Oxidation state of the metal, e.g. 2.
-    #[arg(long, value_name = "N", allow_negative_numbers = true)]
+    #[arg(long, value_name = "N", allow_hyphen_values = true)]
     pub ox: i32,
     /// Geometry: oct, tet or sqpl.
     #[arg(long, value_name = "G")]
@@ -26,13 +26,13 @@ pub struct Args {
     pub ligands: Vec<String>,
     /// Measured Δ in cm⁻¹ to use instead of the estimate (Δo for oct, Δt for tet, the
     /// octahedral 10Dq of the same ligands for sqpl).
-    #[arg(long, value_name = "CM-1", allow_negative_numbers = true)]
+    #[arg(long, value_name = "CM-1", allow_hyphen_values = true)]
     pub delta: Option<f64>,
     /// Measured Racah B in cm⁻¹ to use instead of the estimate.
-    #[arg(long, value_name = "CM-1", allow_negative_numbers = true)]
+    #[arg(long, value_name = "CM-1", allow_hyphen_values = true)]
     pub b: Option<f64>,
     /// Measured Racah C in cm⁻¹ to use instead of the estimate.
-    #[arg(long, value_name = "CM-1", allow_negative_numbers = true)]
+    #[arg(long, value_name = "CM-1", allow_hyphen_values = true)]
     pub c: Option<f64>,
     #[command(flatten)]
     pub format: Format,

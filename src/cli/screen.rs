@@ -18,7 +18,7 @@ pub struct Args {
     #[arg(long, value_name = "LIST", value_delimiter = ',', required = true)]
     pub metal: Vec<String>,
     /// Oxidation state for the metals given without :OX.
-    #[arg(long, value_name = "N", allow_negative_numbers = true)]
+    #[arg(long, value_name = "N", allow_hyphen_values = true)]
     pub ox: Option<i32>,
     /// Geometry: oct, tet or sqpl.
     #[arg(long, value_name = "G")]
@@ -48,7 +48,7 @@ pub struct Args {
     pub forbid: Vec<String>,
     /// Largest |charge| of the complex (oxidation state plus ligand charges), e.g. 0 for
     /// neutral complexes only.
-    #[arg(long, value_name = "Q", allow_negative_numbers = true)]
+    #[arg(long, value_name = "Q", allow_hyphen_values = true)]
     pub max_charge: Option<i32>,
     /// Exact donor-atom set, e.g. N6 or N4O2.
     #[arg(long, value_name = "SET")]
