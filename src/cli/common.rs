@@ -94,12 +94,7 @@ pub struct ComplexArgs {
     #[arg(long, value_name = "SYMBOL", requires_all = ["ox", "ligands"])]
     pub metal: Option<String>,
     /// Oxidation state of the metal.
-    #[arg(
-        long,
-        value_name = "N",
-        allow_hyphen_values = true,
-        requires = "metal"
-    )]
+    #[arg(long, value_name = "N", allow_hyphen_values = true, requires = "metal")]
     pub ox: Option<i32>,
     /// A ligand, NAME[:COUNT] (repeatable; e.g. --ligand NCS:2 --ligand py:4).
     #[arg(long = "ligand", value_name = "NAME[:COUNT]", requires = "metal")]

@@ -46,12 +46,7 @@ pub struct Args {
     #[arg(long, value_name = "MG", default_value_t = 0.0)]
     pub mass_err: f64,
     /// Volume of the solution in mL.
-    #[arg(
-        long,
-        value_name = "ML",
-        requires = "mass",
-        allow_hyphen_values = true
-    )]
+    #[arg(long, value_name = "ML", requires = "mass", allow_hyphen_values = true)]
     pub volume: Option<f64>,
     /// Uncertainty of --volume in mL.
     #[arg(long, value_name = "ML", default_value_t = 0.0)]

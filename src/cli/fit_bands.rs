@@ -22,12 +22,7 @@ pub struct Args {
     #[arg(long, value_name = "SYMBOL", requires = "ox")]
     pub metal: Option<String>,
     /// Oxidation state of --metal.
-    #[arg(
-        long,
-        value_name = "N",
-        requires = "metal",
-        allow_hyphen_values = true
-    )]
+    #[arg(long, value_name = "N", requires = "metal", allow_hyphen_values = true)]
     pub ox: Option<i32>,
     /// Geometry: oct, tet, sqpl or tetragonal (no distortion parameters here).
     #[arg(long, value_name = "G")]

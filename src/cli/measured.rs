@@ -126,32 +126,22 @@ pub struct CompareArgs {
     )]
     pub dn: Option<usize>,
     /// Geometry for the comparison: oct, tet, sqpl or tetragonal.
-    #[arg(long, value_name = "G", requires = "dn")]
+    #[arg(long, value_name = "G", requires = "geometry")]
     pub geometry: Option<String>,
     /// Dq in cm⁻¹ (Δ = 10Dq; Δt/10 for tet), for the A/E-term spin–orbit correction.
-    #[arg(
-        long,
-        value_name = "CM-1",
-        requires = "dn",
-        allow_hyphen_values = true
-    )]
+    #[arg(long, value_name = "CM-1", requires = "geometry", allow_hyphen_values = true)]
     pub dq: Option<f64>,
     /// One-electron spin–orbit constant ζ in cm⁻¹ (> 0).
     #[arg(
         long,
         value_name = "CM-1",
-        requires = "dn",
+        requires = "geometry",
         conflicts_with = "lambda",
         allow_hyphen_values = true
     )]
     pub zeta: Option<f64>,
     /// Many-electron λ of the high-spin ground term in cm⁻¹ (e.g. -324 for Ni²⁺, 91 for Cr³⁺).
-    #[arg(
-        long,
-        value_name = "CM-1",
-        requires = "dn",
-        allow_hyphen_values = true
-    )]
+    #[arg(long, value_name = "CM-1", requires = "geometry", allow_hyphen_values = true)]
     pub lambda: Option<f64>,
     #[command(flatten)]
     pub complex: super::common::ComplexArgs,
