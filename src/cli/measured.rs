@@ -126,10 +126,15 @@ pub struct CompareArgs {
     )]
     pub dn: Option<usize>,
     /// Geometry for the comparison: oct, tet, sqpl or tetragonal.
-    #[arg(long, value_name = "G", requires = "geometry")]
+    #[arg(long, value_name = "G")]
     pub geometry: Option<String>,
     /// Dq in cm⁻¹ (Δ = 10Dq; Δt/10 for tet), for the A/E-term spin–orbit correction.
-    #[arg(long, value_name = "CM-1", requires = "geometry", allow_hyphen_values = true)]
+    #[arg(
+        long,
+        value_name = "CM-1",
+        requires = "geometry",
+        allow_hyphen_values = true
+    )]
     pub dq: Option<f64>,
     /// One-electron spin–orbit constant ζ in cm⁻¹ (> 0).
     #[arg(
@@ -141,7 +146,12 @@ pub struct CompareArgs {
     )]
     pub zeta: Option<f64>,
     /// Many-electron λ of the high-spin ground term in cm⁻¹ (e.g. -324 for Ni²⁺, 91 for Cr³⁺).
-    #[arg(long, value_name = "CM-1", requires = "geometry", allow_hyphen_values = true)]
+    #[arg(
+        long,
+        value_name = "CM-1",
+        requires = "geometry",
+        allow_hyphen_values = true
+    )]
     pub lambda: Option<f64>,
     #[command(flatten)]
     pub complex: super::common::ComplexArgs,
@@ -178,7 +188,11 @@ impl CompareArgs {
                 complex.ion.dn
             }
             (None, Some(dn)) => dn,
-            (None, None) => return Ok(None),
+            (None, None) => {
+                return Err(Failure::usage(
+                    "--geometry for the comparison needs --dn N or --metal/--ox/--ligand",
+                ))
+            }
         };
         if dn > 10 {
             return Err(Failure::usage(format!("--dn {dn} is outside 0..=10")));
