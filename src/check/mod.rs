@@ -19,8 +19,13 @@
 //!   verdict is `crossover-or-mixture`. The temperatures must differ by at least [`MIN_GAP_K`].
 //! - A measurement between the two states (a moment between their windows, a bond length between
 //!   their ranges) gives `crossover-or-mixture`.
-//! - A complex whose d^n and geometry allow one ground spin only gets `single-spin-state` when the
-//!   measurements agree with it.
+//! - A complex whose d^n and geometry allow one ground spin only (always the high-spin, Hund
+//!   ground state: the ground spin never changes with the field) gets `high-spin` when the
+//!   measurements agree with it, with a reason saying it is the only spin state.
+//! - When nothing decides: a borderline prediction with no measurement gives
+//!   `crossover-or-mixture` with confidence `none` (the field is within the estimate's error of
+//!   the crossover), and weak measurements pulling different ways give `inconsistent` with what
+//!   to re-check. The verdict is always one of the four names above.
 
 pub mod batch;
 pub mod demo;
@@ -177,23 +182,16 @@ pub enum Verdict {
     CrossoverOrMixture,
     /// The evidence disagrees; see the re-check list.
     Inconsistent,
-    /// The d^n and geometry allow one ground spin only, and the evidence agrees with it.
-    SingleSpinState,
-    /// Nothing decides (no measurement and a borderline prediction, or evidence fitting both).
-    Undecided,
 }
 
 impl Verdict {
-    /// "high-spin", "low-spin", "crossover-or-mixture", "inconsistent", "single-spin-state" or
-    /// "undecided".
+    /// "high-spin", "low-spin", "crossover-or-mixture" or "inconsistent".
     pub fn name(self) -> &'static str {
         match self {
             Verdict::HighSpin => "high-spin",
             Verdict::LowSpin => "low-spin",
             Verdict::CrossoverOrMixture => "crossover-or-mixture",
             Verdict::Inconsistent => "inconsistent",
-            Verdict::SingleSpinState => "single-spin-state",
-            Verdict::Undecided => "undecided",
         }
     }
 }
@@ -436,16 +434,16 @@ pub fn decide(evidence: &[Evidence], single: bool) -> Decision {
         let agreeing: Vec<&Evidence> = with(Support::Only);
         if agreeing.is_empty() {
             reasons.push(
-                "this d^n and geometry allow one ground spin state only; no measurement was given to confirm it".into(),
+                "this d^n and geometry allow one ground spin state only (the high-spin one); no measurement was given to confirm it".into(),
             );
         } else {
             reasons.push(format!(
-                "this d^n and geometry allow one ground spin state only, and {} agree with it",
+                "this d^n and geometry allow one ground spin state only (the high-spin one), and {} agree with it",
                 list(&agreeing)
             ));
         }
         return Decision {
-            verdict: Verdict::SingleSpinState,
+            verdict: Verdict::HighSpin,
             confidence: if agreeing.is_empty() {
                 Strength::Weak
             } else {
@@ -578,19 +576,20 @@ pub fn decide(evidence: &[Evidence], single: bool) -> Decision {
                 list(&weak),
                 verdict.name()
             ));
-        } else {
-            verdict = Verdict::Undecided;
+        } else if measured.is_empty() {
+            verdict = Verdict::CrossoverOrMixture;
             confidence = Strength::None;
-            if measured.is_empty() {
-                reasons.push(
-                    "nothing was measured and the prediction is borderline: measure the moment (Evans or magnetometer), the bands or a structure".into(),
-                );
-            } else {
-                reasons.push(format!(
-                    "no evidence decides ({}); measure the moment over temperature or add a structure",
-                    list(&measured)
-                ));
-            }
+            reasons.push(
+                "nothing was measured and the predicted field lies within the estimate's error of the crossover: either spin state or a crossover is possible; measure the moment (Evans or magnetometer), the bands or a structure".into(),
+            );
+        } else {
+            verdict = Verdict::Inconsistent;
+            confidence = Strength::Weak;
+            reasons.push(format!(
+                "no evidence decides and the weak evidence pulls different ways ({}); measure the moment over temperature or add a structure",
+                list(&measured)
+            ));
+            recheck.extend(recheck_of(&measured));
         }
     }
 
@@ -745,8 +744,11 @@ mod tests {
         let d = decide(&[ev(K::Prediction, S::High, St::Weak, None)], false);
         assert_eq!((d.verdict, d.confidence), (Verdict::HighSpin, St::Weak));
         let d = decide(&[ev(K::Prediction, S::Both, St::None, None)], false);
-        assert_eq!(d.verdict, Verdict::Undecided);
-        // A weak measurement against the prediction: undecided.
+        assert_eq!(
+            (d.verdict, d.confidence),
+            (Verdict::CrossoverOrMixture, St::None)
+        );
+        // A weak measurement against the prediction: inconsistent, with what to re-check.
         let d = decide(
             &[
                 ev(K::Prediction, S::High, St::Weak, None),
@@ -754,7 +756,8 @@ mod tests {
             ],
             false,
         );
-        assert_eq!(d.verdict, Verdict::Undecided);
+        assert_eq!(d.verdict, Verdict::Inconsistent);
+        assert!(!d.recheck.is_empty());
     }
 
     #[test]
@@ -766,8 +769,9 @@ mod tests {
             ],
             true,
         );
-        assert_eq!(d.verdict, Verdict::SingleSpinState);
+        assert_eq!(d.verdict, Verdict::HighSpin);
         assert_eq!(d.confidence, St::Strong);
+        assert!(d.reasons[0].contains("one ground spin state only"));
         let d = decide(
             &[ev(K::Moment, S::Neither, St::Moderate, Some(298.0))],
             true,

@@ -62,8 +62,7 @@ pub struct CheckReport {
     pub borderline: bool,
     /// "high", "low" or "fixed", from the ligand-field prediction.
     pub predicted_spin_state: String,
-    /// "high-spin", "low-spin", "crossover-or-mixture", "inconsistent", "single-spin-state" or
-    /// "undecided".
+    /// "high-spin", "low-spin", "crossover-or-mixture" or "inconsistent".
     pub verdict: String,
     /// "strong", "moderate", "weak" or "none".
     pub confidence: String,
