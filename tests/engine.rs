@@ -241,6 +241,26 @@ fn spin_orbit_levels_of_odd_dn_are_kramers_degenerate() {
     assert!(lv.iter().take(4).all(|l| l.parent_level == "4T1g"));
 }
 
+#[test]
+fn spin_orbit_labels_of_the_d1_t2g_term() {
+    // ²T₂g of t₂g¹ splits into Γ8 (four states) below Γ7 (two) by 3ζ/2 in the strong-field
+    // limit (effective l = 1 with λ = −ζ; Figgis & Hitchman, Ligand Field Theory, 2000; from
+    // memory).
+    let zeta = 154.0;
+    let calc = Calculation::new(
+        1,
+        700.0,
+        3000.0,
+        LigandField::octahedral(1.0e5),
+        PointGroup::Oh,
+    )
+    .unwrap();
+    let lv = calc.spin_orbit_levels(zeta).unwrap();
+    assert_eq!((lv[0].irrep.as_str(), lv[0].degeneracy), ("Γ8g", 4));
+    assert_eq!((lv[1].irrep.as_str(), lv[1].degeneracy), ("Γ7g", 2));
+    assert!((lv[1].energy - 1.5 * zeta).abs() < 0.01 * zeta);
+}
+
 fn state_count(s: &Spectrum) -> usize {
     s.levels
         .iter()
@@ -288,6 +308,34 @@ proptest! {
             prop_assert_eq!(state_count(&s), binomial(10, dn));
             prop_assert!(s.levels.iter().all(|l| l.irrep != "?"));
             prop_assert!(s.levels.windows(2).all(|w| w[0].energy <= w[1].energy));
+        }
+    }
+
+    #[test]
+    fn spin_orbit_levels_carry_double_group_labels(dn in 1usize..=9, b in 500.0f64..1100.0,
+                                                   dq in 100.0f64..2500.0, zeta in 50.0f64..800.0,
+                                                   which in 0usize..3) {
+        // Every level decomposes into irreps of O′ or D₄′ whose dimensions add up to its
+        // degeneracy (Bethe 1929; common practice): checks the spinor and orbital conventions.
+        let (field, group) = match which {
+            0 => (LigandField::octahedral(dq), PointGroup::Oh),
+            1 => (LigandField::tetrahedral(dq / 2.0), PointGroup::Td),
+            _ => (LigandField::tetragonal(dq, 0.2 * dq, 0.05 * dq), PointGroup::D4h),
+        };
+        let calc = Calculation::new(dn, b, 4.5 * b, field, group).unwrap();
+        let lv = calc.spin_orbit_levels(zeta).unwrap();
+        for l in &lv {
+            prop_assert!(!l.irrep.contains('?'), "d{} {}: {:?}", dn, l.energy, l.irrep);
+            let dims: usize = l.irrep.split('+').map(|n| match n.trim_end_matches('g') {
+                "Γ1" | "Γ2" => 1,
+                "Γ3" if group != PointGroup::D4h => 2,
+                "Γ3" | "Γ4" if group == PointGroup::D4h => 1,
+                "Γ4" | "Γ5" if group != PointGroup::D4h => 3,
+                "Γ5" | "Γ6" | "Γ7" => 2,
+                "Γ8" => 4,
+                other => panic!("unexpected label {other}"),
+            }).sum();
+            prop_assert_eq!(dims, l.degeneracy);
         }
     }
 

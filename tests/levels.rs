@@ -100,8 +100,17 @@ fn spin_orbit_levels_are_reported() {
         "--json",
     ]);
     let levels = v["levels"].as_array().unwrap();
-    assert_eq!(levels[0]["label"], "4T1g");
+    // 4T1g of octahedral Co(II) splits into Γ6 + Γ8 + Γ8 + Γ7 with the Kramers doublet Γ6
+    // lowest (Abragam & Bleaney, Electron Paramagnetic Resonance of Transition Ions, 1970;
+    // from memory).
+    assert_eq!(levels[0]["label"], "Γ6g");
+    assert_eq!(levels[0]["from_level"], "4T1g");
     assert_eq!(levels[0]["degeneracy"], 2);
+    let firsts: Vec<&str> = levels[..4]
+        .iter()
+        .map(|l| l["label"].as_str().unwrap())
+        .collect();
+    assert_eq!(firsts, ["Γ6g", "Γ8g", "Γ8g", "Γ7g"]);
     assert!(levels[0]["s_squared"].as_f64().unwrap() > 3.5);
 }
 

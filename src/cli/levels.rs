@@ -24,17 +24,18 @@ pub fn run(args: &Args) -> Result<Output, Failure> {
                 energy: l.energy,
                 multiplicity: l.multiplicity(),
                 spin: (l.multiplicity() - 1) as f64 / 2.0,
-                label: l.parent_level.clone(),
+                label: l.irrep.clone(),
                 degeneracy: l.degeneracy,
                 parent: l.parent_term.clone(),
                 spin_allowed: l.multiplicity() == g,
                 s_squared: Some(l.s_squared),
+                from_level: Some(l.parent_level.clone()),
                 weight: Some(l.weight),
             })
             .collect();
         let ground = format!(
-            "{} states from {} ({})",
-            so[0].degeneracy, so[0].parent_level, so[0].parent_term
+            "{} ({} states) from {} ({})",
+            so[0].irrep, so[0].degeneracy, so[0].parent_level, so[0].parent_term
         );
         (rows, ground)
     } else {
@@ -52,6 +53,7 @@ pub fn run(args: &Args) -> Result<Output, Failure> {
                 parent: l.parent.clone(),
                 spin_allowed: l.two_s == ground.two_s,
                 s_squared: None,
+                from_level: None,
                 weight: None,
             })
             .collect();

@@ -5,7 +5,7 @@
 
 use super::basis::{all_determinants, m_of, total_ml, total_two_ms, two_ms_of, Determinant};
 use super::operators::{l_dot_s, one_body, two_body, DetList, Slater};
-use super::symmetry::{rotation_matrix, Rotation};
+use super::symmetry::{rotation_matrix, spin_orbit_rotation_matrix, Rotation};
 use nalgebra::{Complex, DMatrix, SymmetricEigen};
 use std::sync::OnceLock;
 
@@ -72,6 +72,7 @@ pub struct Shell {
     l_raise: OnceLock<Vec<(i32, DetList, DMatrix<f64>)>>,
     so_with_classes: OnceLock<Vec<SpinOrbitBlock>>,
     so_without_classes: OnceLock<Vec<SpinOrbitBlock>>,
+    so_rotations: OnceLock<Vec<Vec<DMatrix<C64>>>>,
 }
 
 static SHELLS: [OnceLock<Shell>; 11] = [const { OnceLock::new() }; 11];
@@ -86,6 +87,7 @@ pub fn shell(n: usize) -> &'static Shell {
         l_raise: OnceLock::new(),
         so_with_classes: OnceLock::new(),
         so_without_classes: OnceLock::new(),
+        so_rotations: OnceLock::new(),
     })
 }
 
@@ -115,6 +117,23 @@ impl Shell {
             self.so_without_classes
                 .get_or_init(|| self.build_so_blocks(false))
         }
+    }
+
+    /// For each 2M_J-mod-8 block of [`Shell::spin_orbit_blocks`]`(true)`, the diagonal blocks of
+    /// the rotations of [`Rotation::ALL`] acting on space and spin together (for double-group
+    /// labels).
+    pub fn spin_orbit_rotations(&self) -> &[Vec<DMatrix<C64>>] {
+        self.so_rotations.get_or_init(|| {
+            self.spin_orbit_blocks(true)
+                .iter()
+                .map(|b| {
+                    Rotation::ALL
+                        .iter()
+                        .map(|&r| spin_orbit_rotation_matrix(r, &b.dets, &b.dets))
+                        .collect()
+                })
+                .collect()
+        })
     }
 
     fn build_so_blocks(&self, fourfold: bool) -> Vec<SpinOrbitBlock> {

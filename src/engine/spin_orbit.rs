@@ -3,12 +3,14 @@
 //! classes of 2M_J mod 8 when the field has a fourfold axis along z (the field conserves M_L mod
 //! 4, spin–orbit coupling conserves M_J), otherwise one block of all determinants.
 //!
-//! Levels are named after the spin-free level that carries the largest weight of their states
-//! (the spin-free eigenstates are computed in the same blocks), with ⟨S²⟩ reported as computed.
+//! Levels carry double-group (Bethe) labels computed from the characters of their states under
+//! rotations acting on space and spin together, and the name of the spin-free level that carries
+//! the largest weight of their states (the spin-free eigenstates are computed in the same
+//! blocks), with ⟨S²⟩ reported as computed.
 
 use super::levels::Calculation;
 use super::shell::{shell, SpinOrbitBlock};
-use super::symmetry::PointGroup;
+use super::symmetry::{double_group_labels, Characters, PointGroup, Rotation};
 use crate::error::{require_finite, Error, Result};
 use nalgebra::{Complex, DMatrix, SymmetricEigen};
 
@@ -56,6 +58,9 @@ pub struct SpinOrbitLevel {
     pub degeneracy: usize,
     /// ⟨S²⟩ averaged over the states (spin is not a good quantum number with ζ ≠ 0).
     pub s_squared: f64,
+    /// Double-group (Bethe) label from the characters of the states, e.g. "Γ8g"; "Γ6g+Γ7g" for
+    /// an accidental degeneracy, "?" when the group is C1.
+    pub irrep: String,
     /// Spin-free level with the largest weight, e.g. "4T1g".
     pub parent_level: String,
     /// Free-ion term of that spin-free level, e.g. "4F".
@@ -139,6 +144,53 @@ fn eigen(re: DMatrix<f64>, im: Option<DMatrix<f64>>) -> Result<(Vec<f64>, DMatri
 }
 
 impl Calculation {
+    /// Bethe label of a group of degenerate states from their characters (C₄ and C₂ about z
+    /// from the 2M_J class, the others from the cached rotation blocks).
+    fn double_group_label(
+        &self,
+        solution: &SpinOrbitSolution,
+        members: &[(f64, f64, usize, f64, usize, usize)],
+    ) -> String {
+        let fourfold = self.group != PointGroup::C1 && self.field.has_fourfold_z_axis();
+        if !fourfold {
+            return "?".into();
+        }
+        let rotations = shell(self.dn).spin_orbit_rotations();
+        let mut ch = Characters::default();
+        let mut c4 = C64::new(0.0, 0.0);
+        let mut c2 = C64::new(0.0, 0.0);
+        for &(_, _, _, _, bi, k) in members {
+            let st = &solution.blocks[bi];
+            let Some(class) = st.block.class else {
+                return "?".into();
+            };
+            ch.e += 1.0;
+            // exp(−iπ/2·M_J) with 2M_J ≡ class (mod 8).
+            let a = -std::f64::consts::PI * class as f64 / 4.0;
+            c4 += C64::new(a.cos(), a.sin());
+            c2 += C64::new((2.0 * a).cos(), (2.0 * a).sin());
+            let col = st.vectors.column(k);
+            for (ri, rot) in Rotation::ALL.iter().enumerate() {
+                let v = (col.adjoint() * &rotations[bi][ri] * col)[(0, 0)].re;
+                match rot {
+                    Rotation::C3Diagonal => ch.c3 += v,
+                    Rotation::C2Face => ch.c2_face += v,
+                    Rotation::C2X => ch.c2_x += v,
+                }
+            }
+        }
+        ch.c4z = c4.re;
+        ch.c2z = c2.re;
+        match double_group_labels(self.group, self.dn % 2 == 1, &ch) {
+            Some(parts) => parts
+                .iter()
+                .map(|(n, _)| n.as_str())
+                .collect::<Vec<_>>()
+                .join("+"),
+            None => "?".into(),
+        }
+    }
+
     fn spin_orbit_blocks(&self) -> &'static [SpinOrbitBlock] {
         let fourfold = self.group != PointGroup::C1 && self.field.has_fourfold_z_axis();
         shell(self.dn).spin_orbit_blocks(fourfold)
@@ -176,9 +228,9 @@ impl Calculation {
         let solution = self.spin_orbit(zeta)?;
         let spin_free = self.levels()?;
         let tol = 1e-6 * (self.b + self.c + 10.0 * self.field.magnitude()).max(1.0);
-        // (energy, s², parent index, weight)
-        let mut states: Vec<(f64, f64, usize, f64)> = Vec::new();
-        for st in &solution.blocks {
+        // (energy, s², parent index, weight, block, column)
+        let mut states: Vec<(f64, f64, usize, f64, usize, usize)> = Vec::new();
+        for (bi, st) in solution.blocks.iter().enumerate() {
             let (re0, im0) = hamiltonian(self, st.block, 0.0);
             let (e0, v0) = eigen(re0, im0)?;
             // Spin-free level of each zero-ζ eigenvector, matched by energy.
@@ -213,7 +265,7 @@ impl Calculation {
                     .unwrap_or((0, 0.0));
                 let col = st.vectors.column(k);
                 let s_sq = (col.adjoint() * &s2 * col)[(0, 0)].re;
-                states.push((e, s_sq, best, w));
+                states.push((e, s_sq, best, w, bi, k));
             }
         }
         states.sort_by(|a, b| a.0.total_cmp(&b.0));
@@ -240,9 +292,11 @@ impl Calculation {
                 .max_by(|a, b| a.1.total_cmp(&b.1))
                 .unwrap_or((0, 0.0));
             let pl = &spin_free.levels[parent];
+            let irrep = self.double_group_label(&solution, group);
             levels.push(SpinOrbitLevel {
                 energy: group.iter().map(|s| s.0).sum::<f64>() / n - ground,
                 degeneracy: group.len(),
+                irrep,
                 s_squared: group.iter().map(|s| s.1).sum::<f64>() / n,
                 parent_level: pl.label(),
                 parent_term: pl.parent.clone(),

@@ -8,7 +8,7 @@
 use super::basis::{Determinant, SPIN_ORBITALS};
 use super::field::complex_orbital_form;
 use super::operators::DetList;
-use nalgebra::{Complex, DMatrix, Matrix3};
+use nalgebra::{Complex, DMatrix, Matrix3, Vector3};
 
 type C64 = Complex<f64>;
 
@@ -46,6 +46,28 @@ impl Rotation {
             // (x, y, z) → (x, −y, −z)
             Rotation::C2X => Matrix3::new(1.0, 0.0, 0.0, 0.0, -1.0, 0.0, 0.0, 0.0, -1.0),
         }
+    }
+
+    /// Unit axis n and angle θ of the rotation (θ in (0, π]); `matrix()` is the active rotation
+    /// by θ about n.
+    pub fn axis_angle(self) -> (Vector3<f64>, f64) {
+        use std::f64::consts::PI;
+        match self {
+            Rotation::C3Diagonal => (Vector3::new(1.0, 1.0, 1.0).normalize(), 2.0 * PI / 3.0),
+            Rotation::C2Face => (Vector3::new(1.0, 1.0, 0.0).normalize(), PI),
+            Rotation::C2X => (Vector3::x(), PI),
+        }
+    }
+
+    /// The spinor rotation exp(−iθ n·σ/2) in the basis (m_s = +½, −½): the unbarred element of
+    /// the double group (rotation by θ, not θ + 2π).
+    pub fn spinor_matrix(self) -> [[C64; 2]; 2] {
+        let (n, theta) = self.axis_angle();
+        let (c, s) = ((theta / 2.0).cos(), (theta / 2.0).sin());
+        [
+            [C64::new(c, -s * n.z), C64::new(-s * n.y, -s * n.x)],
+            [C64::new(s * n.y, -s * n.x), C64::new(c, s * n.z)],
+        ]
     }
 
     /// Representation on the complex d orbitals: D[m′][m] = ⟨Y_{2m′}| O_R |Y_{2m}⟩ with
@@ -130,6 +152,110 @@ pub fn rotation_matrix(rot: Rotation, from: &DetList, to: &DetList) -> DMatrix<C
         }
     }
     m
+}
+
+/// The many-electron matrix ⟨to|R|from⟩ of a rotation acting on space and spin together
+/// (orbital matrix ⊗ spinor matrix on each spin-orbital): each element is the determinant of the
+/// minor of the 10×10 spin-orbital matrix over the occupied spin-orbitals.
+pub fn spin_orbit_rotation_matrix(rot: Rotation, from: &DetList, to: &DetList) -> DMatrix<C64> {
+    let d = rot.orbital_matrix();
+    let u = rot.spinor_matrix();
+    let full = |p: usize, q: usize| d[p % 5][q % 5] * u[p / 5][q / 5];
+    let occupied = |det: Determinant| -> Vec<usize> {
+        (0..SPIN_ORBITALS)
+            .filter(|&p| det & (1 << p) != 0)
+            .collect()
+    };
+    let mut m = DMatrix::from_element(to.len(), from.len(), C64::new(0.0, 0.0));
+    for (j, &df) in from.dets.iter().enumerate() {
+        let src = occupied(df);
+        for (i, &dt) in to.dets.iter().enumerate() {
+            let tgt = occupied(dt);
+            m[(i, j)] = if src.is_empty() {
+                C64::new(1.0, 0.0)
+            } else {
+                small_det(
+                    tgt.iter()
+                        .map(|&a| src.iter().map(|&b| full(a, b)).collect())
+                        .collect(),
+                )
+            };
+        }
+    }
+    m
+}
+
+/// Bethe label of a level with spin–orbit coupling from its characters under the rotations of
+/// the double group (unbarred elements): E, C₄(z), C₂(z), C₃[111], C₂[110], C₂(x). For an even
+/// number of electrons the single-valued irreps Γ1–Γ5 (O: A1, A2, E, T1, T2; D4: A1, A2, B1, B2,
+/// E); for an odd number Γ6, Γ7 (both groups) and Γ8 (O only) with characters at (E, C₃, C₄) of
+/// (2, 1, √2), (2, 1, −√2), (4, −1, 0) in O′ and at (E, C₄) of (2, √2), (2, −√2) in D₄′
+/// (H. A. Bethe, *Ann. Phys.* 3, 133, 1929; tables as in Koster et al., *Properties of the
+/// Thirty-Two Point Groups*, 1963; from memory). Characters of barred elements are (−1)^n times
+/// these, so sums over the unbarred classes suffice. Returns the labels with their dimensions.
+pub fn double_group_labels(
+    group: PointGroup,
+    odd_electrons: bool,
+    ch: &Characters,
+) -> Option<Vec<(String, usize)>> {
+    let r2 = std::f64::consts::SQRT_2;
+    type Row = (&'static str, usize, [f64; 5]);
+    let (sizes, chi, table, suffix): (&[f64], [f64; 5], Vec<Row>, &str) = match group {
+        PointGroup::Oh | PointGroup::Td => {
+            let sfx = if group == PointGroup::Oh { "g" } else { "" };
+            let chi = [ch.e, ch.c3, ch.c4z, ch.c2z, ch.c2_face];
+            let table = if odd_electrons {
+                vec![
+                    ("Γ6", 2, [2.0, 1.0, r2, 0.0, 0.0]),
+                    ("Γ7", 2, [2.0, 1.0, -r2, 0.0, 0.0]),
+                    ("Γ8", 4, [4.0, -1.0, 0.0, 0.0, 0.0]),
+                ]
+            } else {
+                vec![
+                    ("Γ1", 1, [1.0, 1.0, 1.0, 1.0, 1.0]),
+                    ("Γ2", 1, [1.0, 1.0, -1.0, 1.0, -1.0]),
+                    ("Γ3", 2, [2.0, -1.0, 0.0, 2.0, 0.0]),
+                    ("Γ4", 3, [3.0, 0.0, 1.0, -1.0, -1.0]),
+                    ("Γ5", 3, [3.0, 0.0, -1.0, -1.0, 1.0]),
+                ]
+            };
+            (&[1.0, 8.0, 6.0, 3.0, 6.0], chi, table, sfx)
+        }
+        PointGroup::D4h => {
+            let chi = [ch.e, ch.c4z, ch.c2z, ch.c2_x, ch.c2_face];
+            let table = if odd_electrons {
+                vec![
+                    ("Γ6", 2, [2.0, r2, 0.0, 0.0, 0.0]),
+                    ("Γ7", 2, [2.0, -r2, 0.0, 0.0, 0.0]),
+                ]
+            } else {
+                vec![
+                    ("Γ1", 1, [1.0, 1.0, 1.0, 1.0, 1.0]),
+                    ("Γ2", 1, [1.0, 1.0, 1.0, -1.0, -1.0]),
+                    ("Γ3", 1, [1.0, -1.0, 1.0, 1.0, -1.0]),
+                    ("Γ4", 1, [1.0, -1.0, 1.0, -1.0, 1.0]),
+                    ("Γ5", 2, [2.0, 0.0, -2.0, 0.0, 0.0]),
+                ]
+            };
+            (&[1.0, 2.0, 1.0, 2.0, 2.0], chi, table, "g")
+        }
+        PointGroup::C1 => return None,
+    };
+    let order: f64 = sizes.iter().sum();
+    let mut out = Vec::new();
+    let mut dim = 0.0;
+    for (name, d, chars) in table {
+        let n: f64 = (0..5).map(|k| sizes[k] * chars[k] * chi[k]).sum::<f64>() / order;
+        let k = n.round();
+        if (n - k).abs() > 1e-4 || k < 0.0 {
+            return None;
+        }
+        for _ in 0..k as usize {
+            out.push((format!("{name}{suffix}"), d));
+            dim += d as f64;
+        }
+    }
+    ((dim - ch.e).abs() < 1e-6 && !out.is_empty()).then_some(out)
 }
 
 /// Classes used for characters: identity, C₄(z), C₂(z), and the three rotations of [`Rotation`].

@@ -12,7 +12,8 @@ pub struct LevelRow {
     pub multiplicity: i32,
     /// Total spin S.
     pub spin: f64,
-    /// Mulliken label with multiplicity, e.g. "4T1g"; for a free ion the term symbol.
+    /// Mulliken label with multiplicity, e.g. "4T1g"; for a free ion the term symbol; with
+    /// spin–orbit coupling the double-group (Bethe) label, e.g. "Γ8g".
     pub label: String,
     /// Orbital degeneracy of a spin-free level; with spin–orbit coupling, the number of states.
     pub degeneracy: usize,
@@ -24,7 +25,10 @@ pub struct LevelRow {
     /// With spin–orbit coupling only: ⟨S²⟩ of the level (S(S+1) for a pure spin).
     #[serde(skip_serializing_if = "Option::is_none")]
     pub s_squared: Option<f64>,
-    /// With spin–orbit coupling only: weight (0..1) of the spin-free level named in `label`.
+    /// With spin–orbit coupling only: the spin-free level with the largest weight, e.g. "4T1g".
+    #[serde(skip_serializing_if = "Option::is_none")]
+    pub from_level: Option<String>,
+    /// With spin–orbit coupling only: weight (0..1) of that spin-free level.
     #[serde(skip_serializing_if = "Option::is_none")]
     pub weight: Option<f64>,
 }
@@ -72,8 +76,8 @@ impl LevelsReport {
             "spin-allowed",
         ];
         if so {
-            header[2] = "from level";
             header[3] = "states";
+            header.push("from level");
             header.push("⟨S²⟩");
             header.push("weight");
         }
@@ -88,6 +92,7 @@ impl LevelsReport {
                 if l.spin_allowed { "yes" } else { "no" }.to_string(),
             ];
             if so {
+                row.push(l.from_level.clone().unwrap_or_default());
                 row.push(fmt_num(l.s_squared.unwrap_or(f64::NAN), 3));
                 row.push(fmt_num(l.weight.unwrap_or(f64::NAN), 3));
             }
