@@ -559,7 +559,10 @@ impl Calculation {
     /// All spin-free levels, lowest first, labelled and with their free-ion parents.
     pub fn levels(&self) -> Result<Spectrum> {
         let parents = self.parent_table()?;
-        self.levels_with(&parents, true)
+        // d⁰ and d¹⁰ have one state, the totally symmetric one in any group: label it by the
+        // group (¹A₁g, ¹A₁) rather than as a free-ion ¹S even when no field is given.
+        let single_state = self.dn == 0 || self.dn == 10;
+        self.levels_with(&parents, !(single_state && self.group != PointGroup::C1))
     }
 
     /// Levels with a parent table computed once elsewhere (e.g. once for a whole diagram along
@@ -589,7 +592,8 @@ impl Calculation {
             small.field = self.field.scaled(1e-4 * self.b / mag);
             small.l_squared_shift = 1e-2 * self.b;
         }
-        let raw = small.grouped(true, true)?;
+        let single_state = self.dn == 0 || self.dn == 10;
+        let raw = small.grouped(true, !(single_state && self.group != PointGroup::C1))?;
         let mut table: ParentTable = Vec::new();
         for r in raw {
             let l = l_from_l_squared(r.l_sq.unwrap_or(0.0));
