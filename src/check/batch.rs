@@ -14,6 +14,7 @@
 //! - structure: `bond_length` (mean metal–donor distance, Å), `bond_length_err` (Å),
 //!   `structure_temp` (K);
 //! - `note`: free text, not used.
+//! - `source`: where the row's data come from (free text, not used).
 //!
 //! Any other column is an error (a misspelt column must not be dropped silently).
 
@@ -30,7 +31,7 @@ use crate::spectra::count::{DEFAULT_RESOLUTION, DEFAULT_WINDOW_NM};
 /// Columns every file needs.
 pub const REQUIRED: [&str; 5] = ["name", "metal", "ox", "geometry", "ligands"];
 /// Columns a file may have.
-pub const OPTIONAL: [&str; 25] = [
+pub const OPTIONAL: [&str; 26] = [
     "delta",
     "b",
     "c",
@@ -56,6 +57,7 @@ pub const OPTIONAL: [&str; 25] = [
     "bond_length_err",
     "structure_temp",
     "note",
+    "source",
 ];
 
 /// One good row.
