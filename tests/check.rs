@@ -392,3 +392,45 @@ fn data_override_of_the_bond_length_table() {
     args.extend(["--bond-length", "2.11"]);
     expect_usage_error(&args, "bond_lengths.csv");
 }
+
+#[test]
+fn band_positions_decide_when_the_count_fits_both_states() {
+    // [Co(NH3)6]3+: 21 000 and 29 500 cm⁻¹ (Lever 1984, from memory). Two bands fit the count of
+    // both spin states of d6, but only a low-spin field reproduces their positions (¹T1g, ¹T2g).
+    let out = assert_cmd::Command::cargo_bin("spinstate")
+        .unwrap()
+        .args([
+            "check",
+            "--metal",
+            "Co",
+            "--ox",
+            "3",
+            "--geometry",
+            "oct",
+            "--ligand",
+            "NH3:6",
+            "--bands",
+            "21000 29500",
+            "--json",
+        ])
+        .output()
+        .unwrap();
+    assert!(
+        out.status.success(),
+        "{}",
+        String::from_utf8_lossy(&out.stderr)
+    );
+    let v: serde_json::Value = serde_json::from_slice(&out.stdout).unwrap();
+    let bands = v["evidence"]
+        .as_array()
+        .unwrap()
+        .iter()
+        .find(|e| e["kind"] == "bands")
+        .unwrap();
+    assert_eq!(bands["supports"], "low-spin");
+    assert!(bands["detail"]
+        .as_str()
+        .unwrap()
+        .contains("positions fit the low-spin state only"));
+    assert_eq!(v["verdict"], "low-spin");
+}

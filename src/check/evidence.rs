@@ -12,6 +12,8 @@ use crate::magnetism::evans::{self, EvansInput};
 use crate::magnetism::{Measured, MomentResult};
 use crate::predict::{Prediction, SpinState};
 use crate::spectra::count::{count_bands, CountRequest};
+use crate::spectra::fit::{fit_bands, FitRequest};
+use crate::spectra::transitions::SpinChoice;
 use crate::spectra::SpinKind;
 use crate::tables::bond_lengths::{BondLengthTable, Reference};
 use crate::tables::moment_ranges::MomentRangeTable;
@@ -249,8 +251,9 @@ pub fn moment(
 
 /// Evidence from observed band maxima: their number inside the window against the bands each
 /// spin state puts there ([`crate::spectra::count`], at the complex's Δ, B and C). A count that
-/// fits one state only is moderate evidence; band positions are shown but not weighed, because
-/// both states are computed at one field.
+/// fits one state only is moderate evidence. When the count fits both states, Δ and B are fitted
+/// to the positions under each spin assumption ([`crate::spectra::fit`]); a state that alone
+/// reproduces them and stays the ground state at the fitted field gets weak support.
 pub fn bands(input: &BandInput, complex: &ResolvedComplex) -> Result<Evidence> {
     if input.maxima.is_empty() {
         return Err(Error::invalid(
@@ -327,12 +330,62 @@ pub fn bands(input: &BandInput, complex: &ResolvedComplex) -> Result<Evidence> {
     } else {
         (Support::Both, Strength::None)
     };
+    // When the count fits both states, the positions may still tell: fit Δ and B to the bands
+    // under each spin assumption and keep the states whose fit reproduces them and leaves that
+    // state the ground state at the fitted field.
+    let inside_bands: Vec<f64> = input
+        .maxima
+        .iter()
+        .copied()
+        .filter(|m| (window_cm.0..=window_cm.1).contains(m))
+        .collect();
+    let mut position_note =
+        String::from("; positions are not weighed (too few bands to fit Δ and B)");
+    let (supports, strength) = if supports == Support::Both && inside_bands.len() >= 2 {
+        let verdicts: Vec<(SpinChoice, &str, std::result::Result<f64, String>)> = [
+            (SpinChoice::High, "high-spin"),
+            (SpinChoice::Low, "low-spin"),
+        ]
+        .into_iter()
+        .map(|(choice, name)| (choice, name, position_fit(complex, &inside_bands, choice)))
+        .collect();
+        let ok: Vec<&str> = verdicts
+            .iter()
+            .filter(|v| v.2.is_ok())
+            .map(|v| v.1)
+            .collect();
+        position_note = format!(
+            "; positions fitted under each spin state: {}",
+            verdicts
+                .iter()
+                .map(|(_, name, r)| match r {
+                    Ok(rms) => format!("{name} reproduces them (rms {rms:.0} cm⁻¹)"),
+                    Err(why) => format!("{name} does not ({why})"),
+                })
+                .collect::<Vec<_>>()
+                .join("; ")
+        );
+        match ok.as_slice() {
+            ["high-spin"] => (Support::High, Strength::Weak),
+            ["low-spin"] => (Support::Low, Strength::Weak),
+            _ => (supports, strength),
+        }
+    } else {
+        if supports != Support::Both {
+            position_note = String::from("; positions are not weighed (the count decides)");
+        }
+        (supports, strength)
+    };
     let mut detail = match supports {
         Support::Neither => format!(
             "{inside} band(s) fit no spin state's expected count at Δ {:.0} cm⁻¹",
             complex.delta.value
         ),
         Support::Both => format!("{inside} band(s) fit more than one spin state's count"),
+        Support::High | Support::Low if strength == Strength::Weak => format!(
+            "{inside} band(s) fit the count of both spin states; their positions fit the {} state only",
+            if supports == Support::High { "high-spin" } else { "low-spin" }
+        ),
         _ => format!(
             "{inside} band(s) fit the count of {} only",
             supported[0].describe()
@@ -344,7 +397,7 @@ pub fn bands(input: &BandInput, complex: &ResolvedComplex) -> Result<Evidence> {
             input.maxima.len() - inside
         ));
     }
-    detail.push_str("; positions are not weighed (both states are computed at one Δ)");
+    detail.push_str(&position_note);
     Ok(Evidence {
         kind: EvidenceKind::Bands,
         predicted,
@@ -355,6 +408,42 @@ pub fn bands(input: &BandInput, complex: &ResolvedComplex) -> Result<Evidence> {
         temperature: input.temperature,
         high_spin_fraction: None,
     })
+}
+
+/// Largest rms residual (cm⁻¹) for a position fit to count as reproducing the bands: the usual
+/// spread of band maxima read from broad d–d bands (common practice).
+pub const POSITION_RMS_LIMIT: f64 = 500.0;
+
+/// Fits Δ and B (C/B fixed) to the bands assuming one spin state; Ok(rms) when the fit
+/// converges within [`POSITION_RMS_LIMIT`] and leaves that state the ground state.
+fn position_fit(
+    complex: &ResolvedComplex,
+    bands: &[f64],
+    spin: SpinChoice,
+) -> std::result::Result<f64, String> {
+    let req = FitRequest {
+        dn: complex.ion.dn,
+        geometry: complex.geometry,
+        bands: bands.to_vec(),
+        spin,
+        c_over_b: None,
+        fit_c: false,
+        fixed_b: None,
+        patience: None,
+    };
+    match fit_bands(&req) {
+        Ok(outcome) => {
+            let best = outcome.best;
+            if !best.consistent() {
+                Err("the fitted field makes the other spin state the ground state".into())
+            } else if best.rms > POSITION_RMS_LIMIT {
+                Err(format!("rms {:.0} cm⁻¹", best.rms))
+            } else {
+                Ok(best.rms)
+            }
+        }
+        Err(_) => Err("no field reproduces them".into()),
+    }
 }
 
 /// Tolerance (Å) added around the reference ranges for their rounding (common practice).
