@@ -4,9 +4,8 @@ use super::common::{write_files, ComplexArgs, FieldArgs, Format};
 use super::{Failure, Output};
 use spinstate::report::magnetism::{MagnetismPoint, MagnetismReport};
 use spinstate::report::to_json;
-use spinstate::susceptibility::{
-    curie_prefactor, temperature_grid, MagneticModel, ZeemanLevels, G_ELECTRON,
-};
+use spinstate::susceptibility::{temperature_grid, MagneticModel, ZeemanLevels, G_ELECTRON};
+use spinstate::units;
 use std::path::{Path, PathBuf};
 
 #[derive(Debug, clap::Args)]
@@ -172,7 +171,7 @@ pub fn run(args: &Args, data: Option<&Path>) -> Result<Output, Failure> {
     let curve = levels.curve(&temps)?;
     let spin_free = r.calc.levels()?;
     let ground = spin_free.ground();
-    let s = ground.spin();
+    let unpaired = f64::from(ground.two_s);
     if r.zeta == 0.0 {
         notes.push("ζ = 0: no spin–orbit coupling, so orbital contributions to the moment are missing (give --zeta, e.g. the free-ion value)".into());
     }
@@ -186,8 +185,8 @@ pub fn run(args: &Args, data: Option<&Path>) -> Result<Output, Failure> {
         kappa: model.kappa,
         ground_level: format!("{} ({})", ground.label(), ground.parent),
         orbital_triplet_ground: ground.degeneracy == 3,
-        spin_only_moment: 2.0 * (s * (s + 1.0)).sqrt(),
-        spin_only_chi_t: curie_prefactor() / 3.0 * 4.0 * s * (s + 1.0),
+        spin_only_moment: units::spin_only_moment(unpaired),
+        spin_only_chi_t: units::spin_only_chi_t_cgs(unpaired),
         points: curve
             .iter()
             .map(|p| MagnetismPoint {
