@@ -104,7 +104,32 @@ fn bad_tables_and_options_fail_with_exit_code_2() {
         .stderr(contains("--data"));
     Command::cargo_bin("spinstate")
         .unwrap()
-        .args(["data", "pascal"])
+        .args(["data", "metals"])
         .assert()
         .code(2);
+}
+
+#[test]
+fn every_table_lists_with_a_source_on_every_row() {
+    for (table, key) in [
+        ("pascal", "entries"),
+        ("moment-ranges", "ranges"),
+        ("bond-lengths", "rows"),
+    ] {
+        let out = assert_cmd::Command::cargo_bin("spinstate")
+            .unwrap()
+            .args(["data", table, "--json"])
+            .output()
+            .unwrap();
+        assert!(out.status.success(), "{table}");
+        let v: serde_json::Value = serde_json::from_slice(&out.stdout).unwrap();
+        let rows = v[key].as_array().unwrap();
+        assert!(!rows.is_empty(), "{table}");
+        for r in rows {
+            assert!(
+                !r["source"].as_str().unwrap().trim().is_empty(),
+                "{table}: {r}"
+            );
+        }
+    }
 }

@@ -3,8 +3,14 @@
 
 use super::common::{load_tables, Format};
 use super::{Failure, Output};
-use spinstate::report::data::{IonsReport, LigandsReport};
+use spinstate::report::data::{
+    BondLengthDataRow, BondLengthsReport, IonsReport, LigandsReport, MomentRangeRow,
+    MomentRangesReport, PascalReport, PascalRow,
+};
 use spinstate::report::to_json;
+use spinstate::tables::bond_lengths::BondLengthTable;
+use spinstate::tables::moment_ranges::MomentRangeTable;
+use spinstate::tables::pascal::PascalTable;
 use std::path::Path;
 
 /// Which table to list.
@@ -14,6 +20,12 @@ pub enum Table {
     Ions,
     /// Ligands: aliases, donor atoms, charge, Jørgensen f and h, π character.
     Ligands,
+    /// Pascal's increments for diamagnetic corrections (10⁻⁶ cm³/mol).
+    Pascal,
+    /// Typical room-temperature μ_eff ranges by d^n, geometry and spin.
+    MomentRanges,
+    /// Metal–donor bond lengths of low- and high-spin states (Å).
+    BondLengths,
 }
 
 #[derive(Debug, clap::Args)]
@@ -44,6 +56,78 @@ pub fn run(args: &Args, data: Option<&Path>) -> Result<Output, Failure> {
             let r = LigandsReport {
                 origin,
                 ligands: tables.ligands.rows.iter().map(Into::into).collect(),
+            };
+            if args.format.json {
+                to_json(&r)
+            } else {
+                r.to_table()
+            }
+        }
+        Table::Pascal => {
+            let table = PascalTable::load(data)?;
+            let r = PascalReport {
+                origin,
+                entries: table
+                    .entries()
+                    .iter()
+                    .map(|e| PascalRow {
+                        kind: e.kind.name().to_string(),
+                        name: e.name.clone(),
+                        value_1e6_cm3_per_mol: e.value * 1e6,
+                        source: e.source.clone(),
+                    })
+                    .collect(),
+            };
+            if args.format.json {
+                to_json(&r)
+            } else {
+                r.to_table()
+            }
+        }
+        Table::MomentRanges => {
+            let table = MomentRangeTable::load(data)?;
+            let r = MomentRangesReport {
+                origin,
+                ranges: table
+                    .rows()
+                    .iter()
+                    .map(|m| MomentRangeRow {
+                        dn: m.dn,
+                        geometry: m.geometry.clone(),
+                        multiplicity: m.multiplicity,
+                        ground_term: m.ground_term.clone(),
+                        mu_min: m.mu_min,
+                        mu_max: m.mu_max,
+                        examples: m.examples.clone(),
+                        source: m.source.clone(),
+                    })
+                    .collect(),
+            };
+            if args.format.json {
+                to_json(&r)
+            } else {
+                r.to_table()
+            }
+        }
+        Table::BondLengths => {
+            let table = BondLengthTable::load(data)?;
+            let r = BondLengthsReport {
+                origin,
+                rows: table
+                    .rows()
+                    .iter()
+                    .map(|b| BondLengthDataRow {
+                        metal: b.metal.clone(),
+                        oxidation_state: b.oxidation_state,
+                        donor: b.donor.clone(),
+                        donor_class: b.donor_class.clone(),
+                        low_spin: b.low_spin,
+                        high_spin: b.high_spin,
+                        delta_r: b.delta_r,
+                        what: b.what.clone(),
+                        source: b.source.clone(),
+                    })
+                    .collect(),
             };
             if args.format.json {
                 to_json(&r)

@@ -170,3 +170,130 @@ impl LigandsReport {
         format!("{} ligands ({})\n{t}\n", self.ligands.len(), self.origin)
     }
 }
+
+/// One row of `spinstate data pascal` (χ in 10⁻⁶ cm³ mol⁻¹, cgs).
+#[derive(Debug, Clone, Serialize)]
+pub struct PascalRow {
+    /// "atom", "cation", "anion", "ligand", "solvent" or "bond" (constitutive correction).
+    pub kind: String,
+    pub name: String,
+    /// Increment in 10⁻⁶ cm³ mol⁻¹.
+    pub value_1e6_cm3_per_mol: f64,
+    pub source: String,
+}
+
+/// `spinstate data pascal`.
+#[derive(Debug, Clone, Serialize)]
+pub struct PascalReport {
+    pub origin: String,
+    pub entries: Vec<PascalRow>,
+}
+
+impl PascalReport {
+    pub fn to_table(&self) -> String {
+        let mut t = new_table(["kind", "entry", "χ (10⁻⁶ cm³/mol)", "source"]);
+        for r in &self.entries {
+            t.add_row(vec![
+                r.kind.clone(),
+                r.name.clone(),
+                fmt_num(r.value_1e6_cm3_per_mol, 2),
+                r.source.clone(),
+            ]);
+        }
+        format!("Pascal increments ({}):\n{t}\n", self.origin)
+    }
+}
+
+/// One row of `spinstate data moment-ranges`.
+#[derive(Debug, Clone, Serialize)]
+pub struct MomentRangeRow {
+    pub dn: usize,
+    pub geometry: String,
+    /// Spin multiplicity 2S+1 of the state.
+    pub multiplicity: i32,
+    pub ground_term: String,
+    /// Typical μ_eff at room temperature (μB).
+    pub mu_min: f64,
+    pub mu_max: f64,
+    pub examples: String,
+    pub source: String,
+}
+
+/// `spinstate data moment-ranges`.
+#[derive(Debug, Clone, Serialize)]
+pub struct MomentRangesReport {
+    pub origin: String,
+    pub ranges: Vec<MomentRangeRow>,
+}
+
+impl MomentRangesReport {
+    pub fn to_table(&self) -> String {
+        let mut t = new_table([
+            "d^n",
+            "geometry",
+            "2S+1",
+            "ground term",
+            "μ_eff (μB)",
+            "examples",
+            "source",
+        ]);
+        for r in &self.ranges {
+            t.add_row(vec![
+                format!("d{}", r.dn),
+                r.geometry.clone(),
+                r.multiplicity.to_string(),
+                r.ground_term.clone(),
+                format!("{:.1}–{:.1}", r.mu_min, r.mu_max),
+                r.examples.clone(),
+                r.source.clone(),
+            ]);
+        }
+        format!("Typical room-temperature moments ({}):\n{t}\n", self.origin)
+    }
+}
+
+/// One row of `spinstate data bond-lengths` (Å).
+#[derive(Debug, Clone, Serialize)]
+pub struct BondLengthDataRow {
+    pub metal: String,
+    pub oxidation_state: i32,
+    pub donor: String,
+    pub donor_class: String,
+    /// Low-spin range (Å), if tabulated.
+    pub low_spin: Option<(f64, f64)>,
+    /// High-spin range (Å), if tabulated.
+    pub high_spin: Option<(f64, f64)>,
+    /// Published change LS → HS (Å), if tabulated.
+    pub delta_r: Option<f64>,
+    pub what: String,
+    pub source: String,
+}
+
+/// `spinstate data bond-lengths`.
+#[derive(Debug, Clone, Serialize)]
+pub struct BondLengthsReport {
+    pub origin: String,
+    pub rows: Vec<BondLengthDataRow>,
+}
+
+impl BondLengthsReport {
+    pub fn to_table(&self) -> String {
+        let range =
+            |r: Option<(f64, f64)>| r.map_or(String::new(), |(a, b)| format!("{a:.3}–{b:.3}"));
+        let mut t = new_table([
+            "ion", "donor", "LS (Å)", "HS (Å)", "Δr (Å)", "what", "source",
+        ]);
+        for r in &self.rows {
+            t.add_row(vec![
+                format!("{}({})", r.metal, r.oxidation_state),
+                format!("{} {}", r.donor, r.donor_class),
+                range(r.low_spin),
+                range(r.high_spin),
+                opt(r.delta_r, 2),
+                r.what.clone(),
+                r.source.clone(),
+            ]);
+        }
+        format!("Metal–donor bond lengths ({}):\n{t}\n", self.origin)
+    }
+}
