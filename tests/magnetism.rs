@@ -159,3 +159,40 @@ fn from_a_complex_uses_the_tables() {
     assert!(high > low + 0.8, "{low} → {high}");
     assert!(high > v["spin_only_moment"].as_f64().unwrap() + 1.0);
 }
+
+#[test]
+fn si_units_on_request() {
+    // χ(SI, m³ mol⁻¹) = 4π×10⁻⁶ χ(cgs, cm³ mol⁻¹) (CRC Handbook of Chemistry and Physics,
+    // "multiply by 4π for SI"); μ_eff does not depend on the unit system.
+    let args = |units: &'static str| {
+        vec![
+            "magnetism",
+            "--dn",
+            "7",
+            "--geometry",
+            "oct",
+            "--b",
+            "800",
+            "--c",
+            "3700",
+            "--dq",
+            "920",
+            "--zeta",
+            "533",
+            "--points",
+            "2",
+            "--units",
+            units,
+            "--json",
+        ]
+    };
+    let cgs = run_json(&args("cgs"));
+    let si = run_json(&args("si"));
+    assert_eq!(si["units"], "si");
+    let (a, b) = (
+        cgs["points"][1]["chi"].as_f64().unwrap(),
+        si["points"][1]["chi"].as_f64().unwrap(),
+    );
+    assert!((b / a - 4.0 * std::f64::consts::PI * 1e-6).abs() < 1e-15);
+    assert_eq!(cgs["points"][1]["mu_eff"], si["points"][1]["mu_eff"]);
+}

@@ -80,6 +80,9 @@ pub struct Args {
     /// Number of temperatures from tmin to tmax, both included.
     #[arg(long, value_name = "P", default_value_t = 150)]
     pub points: usize,
+    /// Unit system of χ and χT: cgs (cm³/mol, default) or si (m³/mol).
+    #[arg(long, value_name = "SYSTEM", default_value = "cgs", value_parser = ["cgs", "si"])]
+    pub units: String,
     /// Write every point as CSV to FILE ('-' for stdout).
     #[arg(long, value_name = "FILE")]
     pub csv: Option<PathBuf>,
@@ -175,7 +178,12 @@ pub fn run(args: &Args, data: Option<&Path>) -> Result<Output, Failure> {
     if r.zeta == 0.0 {
         notes.push("ζ = 0: no spin–orbit coupling, so orbital contributions to the moment are missing (give --zeta, e.g. the free-ion value)".into());
     }
+    let units: units::SusceptibilityUnits = args
+        .units
+        .parse()
+        .map_err(|e| Failure::usage(format!("--units: {e}")))?;
     let report = MagnetismReport {
+        units: units.name().to_string(),
         dn: r.calc.dn,
         geometry: r.geometry.name().into(),
         b: r.calc.b,
@@ -186,15 +194,15 @@ pub fn run(args: &Args, data: Option<&Path>) -> Result<Output, Failure> {
         ground_level: format!("{} ({})", ground.label(), ground.parent),
         orbital_triplet_ground: ground.degeneracy == 3,
         spin_only_moment: units::spin_only_moment(unpaired),
-        spin_only_chi_t: units::spin_only_chi_t_cgs(unpaired),
+        spin_only_chi_t: units.from_cgs(units::spin_only_chi_t_cgs(unpaired)),
         points: curve
             .iter()
             .map(|p| MagnetismPoint {
                 t: p.t,
-                chi: p.chi,
-                chi_t: p.chi_t,
+                chi: units.from_cgs(p.chi),
+                chi_t: units.from_cgs(p.chi_t),
                 mu_eff: p.mu_eff,
-                chi_axes: p.chi_axes,
+                chi_axes: p.chi_axes.map(|x| units.from_cgs(x)),
             })
             .collect(),
         notes,

@@ -4,24 +4,26 @@ use super::{fmt_num, new_table};
 use plotters::prelude::*;
 use serde::Serialize;
 
-/// One temperature point (cgs-emu units).
+/// One temperature point (cgs-emu units unless the report's `units` is "si").
 #[derive(Debug, Clone, Serialize)]
 pub struct MagnetismPoint {
     /// Temperature (K).
     pub t: f64,
-    /// Powder-averaged molar susceptibility χ_M (cm³ mol⁻¹).
+    /// Powder-averaged molar susceptibility χ_M (cm³ mol⁻¹; m³ mol⁻¹ in SI).
     pub chi: f64,
-    /// χ_M·T (cm³ K mol⁻¹).
+    /// χ_M·T (cm³ K mol⁻¹; m³ K mol⁻¹ in SI).
     pub chi_t: f64,
     /// Effective moment μ_eff = 2.828 √(χT) (μB).
     pub mu_eff: f64,
-    /// χ along x, y, z (cm³ mol⁻¹).
+    /// χ along x, y, z (cm³ mol⁻¹; m³ mol⁻¹ in SI).
     pub chi_axes: [f64; 3],
 }
 
 /// The whole `magnetism` report.
 #[derive(Debug, Clone, Serialize)]
 pub struct MagnetismReport {
+    /// Unit system of χ and χT: "cgs" (cm³ mol⁻¹, default) or "si" (m³ mol⁻¹).
+    pub units: String,
     pub dn: usize,
     pub geometry: String,
     /// Racah B, C and Dq (cm⁻¹).
@@ -38,7 +40,8 @@ pub struct MagnetismReport {
     pub orbital_triplet_ground: bool,
     /// Spin-only moment 2√(S(S+1)) of the spin-free ground level (μB), for reference.
     pub spin_only_moment: f64,
-    /// Spin-only χT = 0.125049·g²·S(S+1) with g = 2 (cm³ K mol⁻¹), for reference.
+    /// Spin-only χT = 0.125049·g²·S(S+1) with g = 2 (cm³ K mol⁻¹; m³ K mol⁻¹ in SI), for
+    /// reference.
     pub spin_only_chi_t: f64,
     /// χ(T) points, evenly spaced from tmin to tmax.
     pub points: Vec<MagnetismPoint>,
@@ -49,7 +52,17 @@ pub struct MagnetismReport {
 impl MagnetismReport {
     /// A human table of at most `rows` evenly spaced points.
     pub fn to_table(&self, rows: usize) -> String {
-        let mut t = new_table(["T (K)", "χ_M (cm³/mol)", "χ_M·T (cm³ K/mol)", "μ_eff (μB)"]);
+        let (chi_unit, chi_t_unit) = if self.units == "si" {
+            ("m³/mol", "m³ K/mol")
+        } else {
+            ("cm³/mol", "cm³ K/mol")
+        };
+        let mut t = new_table([
+            "T (K)".to_string(),
+            format!("χ_M ({chi_unit})"),
+            format!("χ_M·T ({chi_t_unit})"),
+            "μ_eff (μB)".to_string(),
+        ]);
         let n = self.points.len();
         let step = n.div_ceil(rows.max(1)).max(1);
         let mut idx: Vec<usize> = (0..n).step_by(step).collect();
@@ -61,13 +74,17 @@ impl MagnetismReport {
             t.add_row(vec![
                 fmt_num(p.t, 1),
                 format!("{:.4e}", p.chi),
-                fmt_num(p.chi_t, 4),
+                if self.units == "si" {
+                    format!("{:.4e}", p.chi_t)
+                } else {
+                    fmt_num(p.chi_t, 4)
+                },
                 fmt_num(p.mu_eff, 3),
             ]);
         }
         let mut s = format!(
             "d{} {}: B = {}, C = {}, Δ = 10Dq = {} cm⁻¹, ζ = {} cm⁻¹, κ = {}\n\
-             spin-free ground level {}{}; spin-only reference {} μB (χT {} cm³ K/mol)\n{}\n",
+             spin-free ground level {}{}; spin-only reference {} μB (χT {:.4e} {})\n{}\n",
             self.dn,
             self.geometry,
             fmt_num(self.b, 1),
@@ -82,7 +99,8 @@ impl MagnetismReport {
                 ""
             },
             fmt_num(self.spin_only_moment, 3),
-            fmt_num(self.spin_only_chi_t, 3),
+            self.spin_only_chi_t,
+            chi_t_unit,
             t
         );
         for n in &self.notes {
@@ -94,10 +112,19 @@ impl MagnetismReport {
     /// CSV of every point (full precision).
     pub fn to_csv(&self) -> String {
         let mut w = csv::Writer::from_writer(Vec::new());
+        let si = self.units == "si";
         w.write_record([
             "t_k",
-            "chi_cm3_per_mol",
-            "chi_t_cm3_k_per_mol",
+            if si {
+                "chi_m3_per_mol"
+            } else {
+                "chi_cm3_per_mol"
+            },
+            if si {
+                "chi_t_m3_k_per_mol"
+            } else {
+                "chi_t_cm3_k_per_mol"
+            },
             "mu_eff_bohr",
             "chi_x",
             "chi_y",
