@@ -84,7 +84,7 @@ impl MagnetismReport {
         }
         let mut s = format!(
             "d{} {}: B = {}, C = {}, Δ = 10Dq = {} cm⁻¹, ζ = {} cm⁻¹, κ = {}\n\
-             spin-free ground level {}{}; spin-only reference {} μB (χT {:.4e} {})\n{}\n",
+             spin-free ground level {}{}; spin-only reference {} μB (χT {} {})\n{}\n",
             self.dn,
             self.geometry,
             fmt_num(self.b, 1),
@@ -99,7 +99,11 @@ impl MagnetismReport {
                 ""
             },
             fmt_num(self.spin_only_moment, 3),
-            self.spin_only_chi_t,
+            if self.units == "si" {
+                format!("{:.4e}", self.spin_only_chi_t)
+            } else {
+                fmt_num(self.spin_only_chi_t, 3)
+            },
             chi_t_unit,
             t
         );
