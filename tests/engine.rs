@@ -376,3 +376,45 @@ fn cached_unit_matrices_are_symmetric() {
         }
     }
 }
+
+#[test]
+fn angular_overlap_octahedron_matches_the_cubic_field() {
+    // Six ligands on ±x, ±y, ±z with e_σ, e_π give Δo = 3e_σ − 4e_π (Schäffer & Jørgensen 1965;
+    // Larsen & La Mar, J. Chem. Educ. 1974). Computed without symmetry (C1, one block per M_S)
+    // the energies must equal the Oh calculation with the same Δ: checks the unblocked path.
+    use nalgebra::Vector3;
+    let (es, ep) = (7000.0, 900.0);
+    let dirs = [
+        Vector3::x(),
+        -Vector3::x(),
+        Vector3::y(),
+        -Vector3::y(),
+        Vector3::z(),
+        -Vector3::z(),
+    ];
+    let ligs: Vec<_> = dirs.iter().map(|d| (*d, es, ep)).collect();
+    let aom = LigandField::angular_overlap(&ligs).barycentred();
+    let dq = (3.0 * es - 4.0 * ep) / 10.0;
+    for dn in [2usize, 5, 6, 7] {
+        let general = Calculation::new(dn, 800.0, 3600.0, aom, PointGroup::C1)
+            .unwrap()
+            .levels()
+            .unwrap();
+        let cubic = oct(dn, 800.0, 3600.0, dq);
+        let expand = |s: &Spectrum| -> Vec<f64> {
+            let mut v: Vec<f64> = s
+                .levels
+                .iter()
+                .flat_map(|l| std::iter::repeat_n(l.energy, l.degeneracy))
+                .collect();
+            v.sort_by(f64::total_cmp);
+            v
+        };
+        let (a, b) = (expand(&general), expand(&cubic));
+        assert_eq!(a.len(), b.len());
+        for (x, y) in a.iter().zip(&b) {
+            assert!((x - y).abs() < 1e-6, "d{dn}: {x} vs {y}");
+        }
+        assert!(general.levels.iter().all(|l| l.irrep == "A"));
+    }
+}
