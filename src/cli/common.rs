@@ -17,9 +17,9 @@ pub struct Format {
 /// The parameters of one ligand-field calculation: absolute (cm⁻¹) or as ratios to B.
 #[derive(Debug, Clone, clap::Args)]
 pub struct FieldArgs {
-    /// Number of d electrons, 0..=10.
+    /// Number of d electrons, 0..=10 (required unless the command takes --metal instead).
     #[arg(long, value_name = "N")]
-    pub dn: usize,
+    pub dn: Option<usize>,
     /// Geometry: oct, tet, sqpl or tetragonal.
     #[arg(long, value_name = "G")]
     pub geometry: String,
@@ -54,14 +54,10 @@ pub struct FieldArgs {
         allow_hyphen_values = true
     )]
     pub dt: f64,
-    /// One-electron spin–orbit constant ζ in cm⁻¹ (or units of B in ratio mode); 0 = off.
-    #[arg(
-        long,
-        value_name = "CM-1",
-        default_value_t = 0.0,
-        allow_hyphen_values = true
-    )]
-    pub zeta: f64,
+    /// One-electron spin–orbit constant ζ in cm⁻¹ (or units of B in ratio mode); default off
+    /// (with --metal, where a command takes it: the free-ion value of the ion table).
+    #[arg(long, value_name = "CM-1", allow_hyphen_values = true)]
+    pub zeta: Option<f64>,
 }
 
 /// Resolved parameters in the unit of the calculation.
@@ -185,15 +181,80 @@ pub fn parse_geometry(s: &str) -> Result<Geometry, Failure> {
 }
 
 impl FieldArgs {
+    /// These options with what they leave open filled from a complex resolved from the tables:
+    /// d^n, and B, C, Dq and ζ where not given (estimates; ζ the free-ion value). Returns the
+    /// options and a note saying which values were given and which estimated.
+    pub fn completed_by(
+        &self,
+        complex: &spinstate::complex::ResolvedComplex,
+    ) -> Result<(FieldArgs, Vec<String>), Failure> {
+        if self.dn.is_some() {
+            return Err(Failure::usage(
+                "give either --dn or --metal/--ox/--ligand, not both (--metal fixes d^n)",
+            ));
+        }
+        if self.c_over_b.is_some() || self.delta_over_b.is_some() {
+            return Err(Failure::usage(
+                "with --metal give --b, --c, --dq in cm⁻¹ (ratios need --dn)",
+            ));
+        }
+        let ion = &complex.ion;
+        let mut notes = Vec::new();
+        let zeta = match (self.zeta, ion.zeta) {
+            (Some(z), _) => z,
+            (None, Some(z)) => {
+                notes.push(format!(
+                    "ζ = {z} cm⁻¹: free-ion value of {}({}) from the ion table",
+                    ion.symbol, ion.oxidation_state
+                ));
+                z
+            }
+            (None, None) => {
+                return Err(Failure::usage(format!(
+                    "no ζ for {}({}) in the ion table: give --zeta in cm⁻¹",
+                    ion.symbol, ion.oxidation_state
+                )))
+            }
+        };
+        let described: Vec<String> = [
+            ("Δ", self.dq.map(|d| 10.0 * d), complex.delta.value),
+            ("B", self.b, complex.b.value),
+            ("C", self.c, complex.c.value),
+        ]
+        .iter()
+        .map(|(n, given, est)| match given {
+            Some(g) => format!("{n} {g:.0} given"),
+            None => format!("{n} {est:.0} estimated"),
+        })
+        .collect();
+        notes.push(format!(
+            "Δ, B, C for {}: {} (see `spinstate predict` for how they were estimated)",
+            complex.formula(),
+            described.join(", ")
+        ));
+        let filled = FieldArgs {
+            dn: Some(ion.dn),
+            b: Some(self.b.unwrap_or(complex.b.value)),
+            c: Some(self.c.unwrap_or(complex.c.value)),
+            dq: Some(self.dq.unwrap_or(complex.dq())),
+            zeta: Some(zeta),
+            ..self.clone()
+        };
+        Ok((filled, notes))
+    }
+
     /// Checks the combination of options and builds the calculation.
     pub fn resolve(&self) -> Result<Resolved, Failure> {
         let geometry = parse_geometry(&self.geometry)?;
-        if self.dn > 10 {
-            return Err(Failure::usage(format!(
-                "--dn {} is outside 0..=10",
-                self.dn
-            )));
+        let Some(dn) = self.dn else {
+            return Err(Failure::usage(
+                "give --dn N (0..=10), the number of d electrons",
+            ));
+        };
+        if dn > 10 {
+            return Err(Failure::usage(format!("--dn {dn} is outside 0..=10")));
         }
+        let zeta = self.zeta.unwrap_or(0.0);
         let absolute = self.b.is_some() || self.c.is_some() || self.dq.is_some();
         let ratio = self.c_over_b.is_some() || self.delta_over_b.is_some();
         let (b, c, dq, ratio_mode) = match (absolute, ratio) {
@@ -228,7 +289,7 @@ impl FieldArgs {
             ("--dq (or --delta-over-b)", dq),
             ("--ds", self.ds),
             ("--dt", self.dt),
-            ("--zeta", self.zeta),
+            ("--zeta", zeta),
         ] {
             if !v.is_finite() {
                 return Err(Failure::usage(format!("{name} {v} is not a finite number")));
@@ -247,22 +308,21 @@ impl FieldArgs {
                 "Dq {dq} must be ≥ 0 (for tet give the positive Δt/10; the sign convention is built in)"
             )));
         }
-        if self.zeta < 0.0 {
+        if zeta < 0.0 {
             return Err(Failure::usage(format!(
-                "--zeta {} must be ≥ 0 cm⁻¹ (the one-electron constant ζ is positive)",
-                self.zeta
+                "--zeta {zeta} must be ≥ 0 cm⁻¹ (the one-electron constant ζ is positive)"
             )));
         }
         let field = geometry.field(dq, self.ds, self.dt)?;
         let group = geometry.point_group(self.ds, self.dt);
-        let calc = Calculation::new(self.dn, b, c, field, group)?;
+        let calc = Calculation::new(dn, b, c, field, group)?;
         Ok(Resolved {
             geometry,
             calc,
             dq,
             ds: self.ds,
             dt: self.dt,
-            zeta: self.zeta,
+            zeta,
             ratio_mode,
         })
     }

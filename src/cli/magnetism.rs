@@ -10,41 +10,8 @@ use std::path::{Path, PathBuf};
 
 #[derive(Debug, clap::Args)]
 pub struct Args {
-    /// Number of d electrons (with --b, --c, --dq, --zeta); or give --metal instead.
-    #[arg(long, value_name = "N", conflicts_with = "metal")]
-    pub dn: Option<usize>,
-    /// Geometry: oct, tet, sqpl or tetragonal.
-    #[arg(long, value_name = "G")]
-    pub geometry: String,
-    /// Racah B in cm⁻¹ (with --metal: replaces the estimate).
-    #[arg(long, value_name = "CM-1", allow_hyphen_values = true)]
-    pub b: Option<f64>,
-    /// Racah C in cm⁻¹ (with --metal: replaces the estimate).
-    #[arg(long, value_name = "CM-1", allow_hyphen_values = true)]
-    pub c: Option<f64>,
-    /// Dq in cm⁻¹ (with --metal: replaces the estimate Δ/10).
-    #[arg(long, value_name = "CM-1", allow_hyphen_values = true)]
-    pub dq: Option<f64>,
-    /// Tetragonal Ds in cm⁻¹.
-    #[arg(
-        long,
-        value_name = "CM-1",
-        default_value_t = 0.0,
-        allow_hyphen_values = true
-    )]
-    pub ds: f64,
-    /// Tetragonal Dt in cm⁻¹.
-    #[arg(
-        long,
-        value_name = "CM-1",
-        default_value_t = 0.0,
-        allow_hyphen_values = true
-    )]
-    pub dt: f64,
-    /// One-electron spin–orbit constant ζ in cm⁻¹ (with --metal: default the free-ion value of
-    /// the ion table).
-    #[arg(long, value_name = "CM-1", allow_hyphen_values = true)]
-    pub zeta: Option<f64>,
+    #[command(flatten)]
+    pub field: FieldArgs,
     #[command(flatten)]
     pub complex: ComplexArgs,
     /// Orbital reduction factor κ (0..=1) on L in the Zeeman term.
@@ -95,73 +62,26 @@ pub struct Args {
 
 pub fn run(args: &Args, data: Option<&Path>) -> Result<Output, Failure> {
     let mut notes = Vec::new();
-    let geometry = super::common::parse_geometry(&args.geometry)?;
-    let field = match (args.complex.resolve(geometry, data)?, args.dn) {
-        (Some(complex), _) => {
-            let zeta = match (args.zeta, complex.ion.zeta) {
-                (Some(z), _) => z,
-                (None, Some(z)) => {
-                    notes.push(format!(
-                        "ζ = {z} cm⁻¹: free-ion value of {}({}) from the ion table",
-                        complex.ion.symbol, complex.ion.oxidation_state
-                    ));
-                    z
-                }
-                (None, None) => {
-                    return Err(Failure::usage(format!(
-                        "no ζ for {}({}) in the ion table: give --zeta in cm⁻¹",
-                        complex.ion.symbol, complex.ion.oxidation_state
-                    )))
-                }
-            };
-            notes.push(format!(
-                "Δ, B, C for {}: {} (see `spinstate predict` for how they were estimated)",
-                complex.formula(),
-                [
-                    ("Δ", args.dq.map(|d| 10.0 * d), complex.delta.value),
-                    ("B", args.b, complex.b.value),
-                    ("C", args.c, complex.c.value),
-                ]
-                .iter()
-                .map(|(n, given, est)| match given {
-                    Some(g) => format!("{n} {g:.0} given"),
-                    None => format!("{n} {est:.0} estimated"),
-                })
-                .collect::<Vec<_>>()
-                .join(", ")
-            ));
-            FieldArgs {
-                dn: complex.ion.dn,
-                geometry: args.geometry.clone(),
-                b: Some(args.b.unwrap_or(complex.b.value)),
-                c: Some(args.c.unwrap_or(complex.c.value)),
-                dq: Some(args.dq.unwrap_or(complex.dq())),
-                c_over_b: None,
-                delta_over_b: None,
-                ds: args.ds,
-                dt: args.dt,
-                zeta,
-            }
+    let geometry = super::common::parse_geometry(&args.field.geometry)?;
+    let field = match args.complex.resolve(geometry, data)? {
+        Some(complex) => {
+            let (field, complex_notes) = args.field.completed_by(&complex)?;
+            notes.extend(complex_notes);
+            field
         }
-        (None, Some(dn)) => FieldArgs {
-            dn,
-            geometry: args.geometry.clone(),
-            b: args.b,
-            c: args.c,
-            dq: args.dq,
-            c_over_b: None,
-            delta_over_b: None,
-            ds: args.ds,
-            dt: args.dt,
-            zeta: args.zeta.unwrap_or(0.0),
-        },
-        (None, None) => {
+        None if args.field.dn.is_none() => {
             return Err(Failure::usage(
                 "give --dn with --b, --c, --dq and --zeta, or --metal, --ox and --ligand",
             ))
         }
+        None => args.field.clone(),
     };
     let r = field.resolve()?;
+    if r.ratio_mode {
+        return Err(Failure::usage(
+            "magnetism needs energies in cm⁻¹ (they are compared with kT): give --b, --c, --dq and --zeta",
+        ));
+    }
     let model = MagneticModel {
         zeta: r.zeta,
         kappa: args.kappa,
