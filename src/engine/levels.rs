@@ -5,10 +5,11 @@
 //! energies in cm⁻¹. Racah A only shifts every level of d^n equally and is left out.
 
 use super::field::LigandField;
+use super::hermitian::{add_field, add_scaled, eigen, eigenvalues};
 use super::shell::{shell, Shell, SpinBlock};
 use super::symmetry::{Characters, PointGroup};
 use crate::error::{num, require_finite, Error, Result};
-use nalgebra::{Complex, DMatrix, SMatrix, SymmetricEigen};
+use nalgebra::{Complex, DMatrix, SMatrix};
 
 type C64 = Complex<f64>;
 
@@ -175,21 +176,7 @@ impl Calculation {
             add_scaled(&mut re, self.l_squared_shift, &block.l_squared);
         }
         let mut im: Option<DMatrix<f64>> = None;
-        for i in 0..5 {
-            for j in 0..5 {
-                let Some(e) = &block.excitations[i * 5 + j] else {
-                    continue;
-                };
-                let h = v[(i, j)];
-                if h.re != 0.0 {
-                    add_scaled(&mut re, h.re, e);
-                }
-                if h.im.abs() > 1e-14 * (1.0 + h.re.abs()) {
-                    let m = im.get_or_insert_with(|| DMatrix::zeros(e.nrows(), e.ncols()));
-                    add_scaled(m, h.im, e);
-                }
-            }
-        }
+        add_field(&mut re, &mut im, &block.excitations, v);
         (re, im)
     }
 
@@ -201,54 +188,13 @@ impl Calculation {
     ) -> Result<BlockStates<'a>> {
         let (re, im) = self.block_matrix(block, v);
         if !with_vectors {
-            let values: Vec<f64> = match im {
-                None => re.symmetric_eigenvalues().iter().copied().collect(),
-                Some(im) => DMatrix::from_fn(re.nrows(), re.ncols(), |i, j| {
-                    C64::new(re[(i, j)], im[(i, j)])
-                })
-                .symmetric_eigenvalues()
-                .iter()
-                .copied()
-                .collect(),
-            };
-            if values.iter().any(|x| !x.is_finite()) {
-                return Err(Error::Computation("eigenvalues are not finite".into()));
-            }
             return Ok(BlockStates {
                 block,
-                values,
+                values: eigenvalues(re, im)?,
                 vectors: None,
             });
         }
-        let fail = || {
-            Error::Computation(format!(
-                "eigen-decomposition of a {}×{} block did not converge",
-                block.dim(),
-                block.dim()
-            ))
-        };
-        let (values, vectors) = match im {
-            None => {
-                let e = SymmetricEigen::try_new(re, 1e-14, 100_000).ok_or_else(fail)?;
-                (
-                    e.eigenvalues.iter().copied().collect::<Vec<_>>(),
-                    e.eigenvectors.map(|x| C64::new(x, 0.0)),
-                )
-            }
-            Some(im) => {
-                let h = DMatrix::from_fn(re.nrows(), re.ncols(), |i, j| {
-                    C64::new(re[(i, j)], im[(i, j)])
-                });
-                let e = SymmetricEigen::try_new(h, 1e-14, 100_000).ok_or_else(fail)?;
-                (
-                    e.eigenvalues.iter().copied().collect::<Vec<_>>(),
-                    e.eigenvectors,
-                )
-            }
-        };
-        if values.iter().any(|x| !x.is_finite()) {
-            return Err(fail());
-        }
+        let (values, vectors) = eigen(re, im)?;
         Ok(BlockStates {
             block,
             values,
@@ -278,14 +224,9 @@ impl Calculation {
                 continue;
             }
             let (re, im) = self.block_matrix(block, &v);
-            let low = match im {
-                None => re.symmetric_eigenvalues().min(),
-                Some(im) => DMatrix::from_fn(re.nrows(), re.ncols(), |i, j| {
-                    C64::new(re[(i, j)], im[(i, j)])
-                })
-                .symmetric_eigenvalues()
-                .min(),
-            };
+            let low = eigenvalues(re, im)?
+                .into_iter()
+                .fold(f64::INFINITY, f64::min);
             if !low.is_finite() {
                 return Err(Error::Computation("eigenvalues are not finite".into()));
             }
@@ -619,13 +560,6 @@ fn expectation(block: &SpinBlock, vecs: &DMatrix<C64>, k: usize, ri: usize) -> f
         v.dot(&(&block.rotations_re[ri] * &v))
     } else {
         (col.adjoint() * &block.rotations[ri] * col)[(0, 0)].re
-    }
-}
-
-/// dst += a · src, in place.
-fn add_scaled(dst: &mut DMatrix<f64>, a: f64, src: &DMatrix<f64>) {
-    for (d, s) in dst.as_mut_slice().iter_mut().zip(src.as_slice()) {
-        *d += a * s;
     }
 }
 

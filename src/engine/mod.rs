@@ -9,6 +9,7 @@ pub mod crossover;
 pub mod diagram;
 pub mod field;
 pub mod geometry;
+pub mod hermitian;
 pub mod levels;
 pub mod operators;
 pub mod shell;

@@ -8,11 +8,12 @@
 //! the largest weight of their states (the spin-free eigenstates are computed in the same
 //! blocks), with ⟨S²⟩ reported as computed.
 
+use super::hermitian::{add_field, add_scaled, eigen};
 use super::levels::Calculation;
 use super::shell::{shell, SpinOrbitBlock};
 use super::symmetry::{double_group_labels, Characters, PointGroup, Rotation};
 use crate::error::{require_finite, Error, Result};
-use nalgebra::{Complex, DMatrix, SymmetricEigen};
+use nalgebra::{Complex, DMatrix};
 
 type C64 = Complex<f64>;
 
@@ -82,65 +83,19 @@ fn hamiltonian(
     block: &SpinOrbitBlock,
     zeta: f64,
 ) -> (DMatrix<f64>, Option<DMatrix<f64>>) {
-    let v = calc.field.complex_matrix();
-    let mut re = &block.rep_b * calc.b + &block.rep_c * calc.c;
+    let mut re = &block.rep_b * calc.b;
+    add_scaled(&mut re, calc.c, &block.rep_c);
     if zeta != 0.0 {
-        re += &block.spin_orbit * zeta;
+        add_scaled(&mut re, zeta, &block.spin_orbit);
     }
-    let mut im: Option<DMatrix<f64>> = None;
-    for i in 0..5 {
-        for j in 0..5 {
-            let Some(e) = &block.excitations[i * 5 + j] else {
-                continue;
-            };
-            let h = v[(i, j)];
-            if h.re != 0.0 {
-                re += e * h.re;
-            }
-            if h.im.abs() > 1e-14 * (1.0 + h.re.abs()) {
-                let m = im.get_or_insert_with(|| DMatrix::zeros(e.nrows(), e.ncols()));
-                *m += e * h.im;
-            }
-        }
-    }
-    (re, im)
-}
-
-fn eigen(re: DMatrix<f64>, im: Option<DMatrix<f64>>) -> Result<(Vec<f64>, DMatrix<C64>)> {
-    let n = re.nrows();
-    let fail = || {
-        Error::Computation(format!(
-            "eigen-decomposition of a {n}×{n} spin–orbit block did not converge"
-        ))
-    };
-    let (values, vectors) = match im {
-        None => {
-            let e = SymmetricEigen::try_new(re, 1e-14, 100_000).ok_or_else(fail)?;
-            (
-                e.eigenvalues.iter().copied().collect::<Vec<_>>(),
-                e.eigenvectors.map(|x| C64::new(x, 0.0)),
-            )
-        }
-        Some(im) => {
-            let h = DMatrix::from_fn(n, n, |i, j| C64::new(re[(i, j)], im[(i, j)]));
-            let e = SymmetricEigen::try_new(h, 1e-14, 100_000).ok_or_else(fail)?;
-            (e.eigenvalues.iter().copied().collect(), e.eigenvectors)
-        }
-    };
-    if values.iter().any(|x| !x.is_finite()) {
-        return Err(fail());
-    }
-    // Sort ascending (the solver returns eigenvalues unsorted).
-    let mut order: Vec<usize> = (0..values.len()).collect();
-    order.sort_by(|&a, &b| values[a].total_cmp(&values[b]));
-    let sorted_values = order.iter().map(|&i| values[i]).collect();
-    let sorted_vectors = DMatrix::from_columns(
-        &order
-            .iter()
-            .map(|&i| vectors.column(i).into_owned())
-            .collect::<Vec<_>>(),
+    let mut im = None;
+    add_field(
+        &mut re,
+        &mut im,
+        &block.excitations,
+        &calc.field.complex_matrix(),
     );
-    Ok((sorted_values, sorted_vectors))
+    (re, im)
 }
 
 impl Calculation {
