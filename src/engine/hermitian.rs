@@ -49,6 +49,24 @@ fn complex_of(re: &DMatrix<f64>, im: &DMatrix<f64>) -> DMatrix<C64> {
 /// is no imaginary part. Fails with a computation error after 100 000 QR iterations or on a
 /// non-finite result.
 pub fn eigen(re: DMatrix<f64>, im: Option<DMatrix<f64>>) -> Result<(Vec<f64>, DMatrix<C64>)> {
+    let (values, vectors) = eigen_unsorted(re, im)?;
+    let mut order: Vec<usize> = (0..values.len()).collect();
+    order.sort_by(|&a, &b| values[a].total_cmp(&values[b]));
+    let sorted_values = order.iter().map(|&i| values[i]).collect();
+    let sorted_vectors = DMatrix::from_columns(
+        &order
+            .iter()
+            .map(|&i| vectors.column(i).into_owned())
+            .collect::<Vec<_>>(),
+    );
+    Ok((sorted_values, sorted_vectors))
+}
+
+/// As [`eigen`] but in the solver's order (unsorted), for callers that sort states themselves.
+pub fn eigen_unsorted(
+    re: DMatrix<f64>,
+    im: Option<DMatrix<f64>>,
+) -> Result<(Vec<f64>, DMatrix<C64>)> {
     let n = re.nrows();
     let fail = || {
         Error::Computation(format!(
@@ -72,17 +90,7 @@ pub fn eigen(re: DMatrix<f64>, im: Option<DMatrix<f64>>) -> Result<(Vec<f64>, DM
     if values.iter().any(|x| !x.is_finite()) {
         return Err(fail());
     }
-    // The solver returns eigenvalues unsorted.
-    let mut order: Vec<usize> = (0..values.len()).collect();
-    order.sort_by(|&a, &b| values[a].total_cmp(&values[b]));
-    let sorted_values = order.iter().map(|&i| values[i]).collect();
-    let sorted_vectors = DMatrix::from_columns(
-        &order
-            .iter()
-            .map(|&i| vectors.column(i).into_owned())
-            .collect::<Vec<_>>(),
-    );
-    Ok((sorted_values, sorted_vectors))
+    Ok((values, vectors))
 }
 
 /// Eigenvalues only (unsorted) of re + i·im.

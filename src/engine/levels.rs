@@ -5,7 +5,7 @@
 //! energies in cm⁻¹. Racah A only shifts every level of d^n equally and is left out.
 
 use super::field::LigandField;
-use super::hermitian::{add_field, add_scaled, eigen, eigenvalues};
+use super::hermitian::{add_field, add_scaled, eigen_unsorted, eigenvalues};
 use super::shell::{shell, Shell, SpinBlock};
 use super::symmetry::{Characters, PointGroup};
 use crate::error::{num, require_finite, Error, Result};
@@ -194,7 +194,7 @@ impl Calculation {
                 vectors: None,
             });
         }
-        let (values, vectors) = eigen(re, im)?;
+        let (values, vectors) = eigen_unsorted(re, im)?;
         Ok(BlockStates {
             block,
             values,
