@@ -1,34 +1,15 @@
 //! Integration tests of `spinstate evans`, running the real binary.
 
+mod common;
+
 use approx::assert_relative_eq;
-use assert_cmd::Command;
+use common::{command_json, number as f, spinstate};
 use predicates::prelude::*;
 use serde_json::Value;
 use std::f64::consts::PI;
 
-fn spinstate() -> Command {
-    Command::cargo_bin("spinstate").unwrap()
-}
-
 fn json(args: &[&str]) -> Value {
-    let out = spinstate()
-        .arg("evans")
-        .args(args)
-        .arg("--json")
-        .output()
-        .unwrap();
-    assert!(
-        out.status.success(),
-        "{}",
-        String::from_utf8_lossy(&out.stderr)
-    );
-    serde_json::from_slice(&out.stdout).unwrap()
-}
-
-fn f(v: &Value, key: &str) -> f64 {
-    v[key]
-        .as_f64()
-        .unwrap_or_else(|| panic!("{key} missing in {v}"))
+    command_json("evans", args)
 }
 
 // Worked example [C] from the solenoid equation χ_M = 3Δf/(4π f c′) (Live & Chan, Anal. Chem.

@@ -34,3 +34,26 @@ pub fn expect_usage_error(args: &[&str], needle: &str) {
     assert!(err.contains(needle), "stderr {err:?} lacks {needle:?}");
     assert!(!err.contains("panicked"), "{err}");
 }
+
+/// Runs `spinstate <command> <args> --json`, expects success and parses the JSON.
+pub fn command_json(command: &str, args: &[&str]) -> serde_json::Value {
+    let out = spinstate()
+        .arg(command)
+        .args(args)
+        .arg("--json")
+        .output()
+        .expect("binary runs");
+    assert!(
+        out.status.success(),
+        "{}",
+        String::from_utf8_lossy(&out.stderr)
+    );
+    serde_json::from_slice(&out.stdout).expect("JSON output")
+}
+
+/// A number field of a JSON object, with a message naming it when missing.
+pub fn number(v: &serde_json::Value, key: &str) -> f64 {
+    v[key]
+        .as_f64()
+        .unwrap_or_else(|| panic!("{key} missing in {v}"))
+}
