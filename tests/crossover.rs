@@ -23,6 +23,8 @@ fn all_octahedral_dn_in_json() {
 
 #[test]
 fn one_dn_at_a_chosen_ratio() {
+    // Tetrahedral d^n has the term types of octahedral d^(10−n) without g: d5 6A1 / 2T2
+    // (common practice; octahedral terms from Pollock et al., J. Am. Chem. Soc. 2014, Table 2).
     let v = run_json(&[
         "crossover",
         "--dn",

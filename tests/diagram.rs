@@ -48,6 +48,8 @@ fn csv_has_one_column_per_level_and_ground_at_zero() {
 
 #[test]
 fn json_series() {
+    // Octahedral d3: 4A2g ground at every Δ and no spin change (Pollock et al., J. Am. Chem. Soc.
+    // 2014, 136, 9453, Table 2; common practice).
     let v = run_json(&[
         "diagram",
         "--dn",

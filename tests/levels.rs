@@ -45,6 +45,8 @@ fn json_has_the_contract_fields() {
 
 #[test]
 fn ratio_mode_reports_energies_in_units_of_b() {
+    // Δ/B = 25 lies above the d6 crossover (≈ 20 at C/B 4.8; Tanabe & Sugano 1954, from memory):
+    // 1A1g ground.
     let v = run_json(&[
         "levels",
         "--dn",
@@ -63,6 +65,7 @@ fn ratio_mode_reports_energies_in_units_of_b() {
 
 #[test]
 fn table_output_names_the_unit() {
+    // Tetrahedral d2: 3A2 ground (the octahedral d8 term type without g; common practice).
     let (code, out, _) = run(&[
         "levels",
         "--dn",
