@@ -10,6 +10,8 @@ use super::shell::{shell, Shell, SpinBlock};
 use super::symmetry::{Characters, PointGroup};
 use crate::error::{num, require_finite, Error, Result};
 use nalgebra::{Complex, DMatrix, SMatrix};
+use std::collections::HashMap;
+use std::sync::{Mutex, OnceLock};
 
 type C64 = Complex<f64>;
 
@@ -526,7 +528,39 @@ impl Calculation {
     /// are exactly degenerate (²P and ²H of d³ and d⁷), a small η·L² term orders them by L, so the
     /// lower of the two correlating levels is given the term of lower L (a convention: the field
     /// mixes such terms).
+    ///
+    /// The table depends only on d^n, the group, C/B and the direction of the field, so it is
+    /// cached under those (the field direction rounded to 10⁻⁹ of its largest element, C/B to
+    /// 10⁻⁹): repeated calculations along one field direction, as in a fit or a diagram, find
+    /// the same levels at vanishing field only once.
     pub fn parent_table(&self) -> Result<ParentTable> {
+        type Key = (usize, PointGroup, i64, [i64; 25]);
+        static CACHE: OnceLock<Mutex<HashMap<Key, ParentTable>>> = OnceLock::new();
+        const KEEP: usize = 4096;
+        let mag = self.field.magnitude();
+        let quantise = |x: f64| (x * 1e9).round() as i64;
+        let mut direction = [0i64; 25];
+        if mag > 0.0 {
+            for (d, x) in direction.iter_mut().zip(self.field.matrix.iter()) {
+                *d = quantise(x / mag);
+            }
+        }
+        let key = (self.dn, self.group, quantise(self.c / self.b), direction);
+        let cache = CACHE.get_or_init(|| Mutex::new(HashMap::new()));
+        if let Some(hit) = cache.lock().ok().and_then(|c| c.get(&key).cloned()) {
+            return Ok(hit);
+        }
+        let table = self.compute_parent_table()?;
+        if let Ok(mut c) = cache.lock() {
+            if c.len() >= KEEP {
+                c.clear();
+            }
+            c.insert(key, table.clone());
+        }
+        Ok(table)
+    }
+
+    fn compute_parent_table(&self) -> Result<ParentTable> {
         let mag = self.field.magnitude();
         let mut small = self.clone();
         if mag > 0.0 {
