@@ -164,11 +164,21 @@ impl ZeemanLevels {
         Self::from_solution(calc, &solution, model)
     }
 
-    fn from_solution(
+    /// The Zeeman sums for eigenstates already computed with ζ = `model.effective_zeta()`
+    /// (lets several κ or g values share one diagonalisation).
+    pub fn from_solution(
         calc: &Calculation,
         solution: &SpinOrbitSolution,
         model: &MagneticModel,
     ) -> Result<Self> {
+        model.check()?;
+        if (solution.zeta - model.effective_zeta()).abs() > 1e-12 * (1.0 + solution.zeta.abs()) {
+            return Err(Error::invalid(
+                "ζ of the eigenstates",
+                solution.zeta,
+                format!("the model's ζ = {}", model.effective_zeta()),
+            ));
+        }
         let mm = moment_matrices(calc.dn);
         // Global state list: (energy, block, column), sorted.
         let mut states: Vec<(f64, usize, usize)> = Vec::new();

@@ -273,6 +273,8 @@ fn full_moment(spec: &ComplexSpec, two_s: i32, zeta: f64, t: f64) -> Result<(f64
         spec.geometry.field(x * b / 10.0, 0.0, 0.0)?,
         spec.geometry.point_group(0.0, 0.0),
     )?;
+    // κ enters only the Zeeman term, so both ends share one diagonalisation.
+    let solution = calc.spin_orbit(zeta)?;
     let mut mus = [0.0; 2];
     for (i, kappa) in [KAPPA_RANGE.0, KAPPA_RANGE.1].into_iter().enumerate() {
         let model = MagneticModel {
@@ -281,7 +283,9 @@ fn full_moment(spec: &ComplexSpec, two_s: i32, zeta: f64, t: f64) -> Result<(f64
             reduce_zeta: false,
             g_spin: crate::units::G_ELECTRON,
         };
-        mus[i] = ZeemanLevels::compute(&calc, &model)?.at(t)?.mu_eff;
+        mus[i] = ZeemanLevels::from_solution(&calc, &solution, &model)?
+            .at(t)?
+            .mu_eff;
     }
     Ok((mus[0], mus[1], x))
 }
