@@ -117,33 +117,60 @@ impl ComplexArgs {
     }
 }
 
-/// Writes a report's CSV (to a file, or marks it for stdout with '-') and SVG files, noting
-/// each file written in the output's messages. Returns whether the CSV goes to stdout.
-pub fn write_files(
-    out: &mut super::Output,
+/// How a report that also has CSV and SVG forms renders itself.
+pub struct Renderings<C, S, J, T>
+where
+    C: Fn() -> String,
+    S: Fn() -> Result<String, String>,
+    J: Fn() -> String,
+    T: Fn() -> String,
+{
+    pub csv: C,
+    pub svg: S,
+    pub json: J,
+    pub table: T,
+}
+
+/// Writes the CSV (to a file, or to stdout with '-') and SVG files asked for, noting each file
+/// written, and puts the CSV, the JSON or the table on stdout.
+pub fn emit<C, S, J, T>(
     csv: Option<&Path>,
     svg: Option<&Path>,
-    to_csv: impl Fn() -> String,
-    to_svg: impl Fn() -> Result<String, String>,
-) -> Result<bool, Failure> {
+    json: bool,
+    r: Renderings<C, S, J, T>,
+) -> Result<super::Output, Failure>
+where
+    C: Fn() -> String,
+    S: Fn() -> Result<String, String>,
+    J: Fn() -> String,
+    T: Fn() -> String,
+{
+    let mut out = super::Output::default();
     let mut csv_to_stdout = false;
     if let Some(path) = csv {
         if path.as_os_str() == "-" {
             csv_to_stdout = true;
         } else {
-            std::fs::write(path, to_csv()).map_err(|e| {
+            std::fs::write(path, (r.csv)()).map_err(|e| {
                 Failure::usage(format!("--csv: cannot write {}: {e}", path.display()))
             })?;
             out.warnings.push(format!("wrote {}", path.display()));
         }
     }
     if let Some(path) = svg {
-        let text = to_svg().map_err(|e| Failure::usage(format!("--svg: drawing failed: {e}")))?;
+        let text = (r.svg)().map_err(|e| Failure::usage(format!("--svg: drawing failed: {e}")))?;
         std::fs::write(path, text)
             .map_err(|e| Failure::usage(format!("--svg: cannot write {}: {e}", path.display())))?;
         out.warnings.push(format!("wrote {}", path.display()));
     }
-    Ok(csv_to_stdout)
+    out.stdout = if csv_to_stdout {
+        (r.csv)()
+    } else if json {
+        (r.json)()
+    } else {
+        (r.table)()
+    };
+    Ok(out)
 }
 
 /// Resolves a complex given as metal, oxidation state, geometry and NAME[:COUNT] ligands, with

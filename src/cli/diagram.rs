@@ -1,6 +1,6 @@
 //! `spinstate diagram`: E/B of every level against Δ/B.
 
-use super::common::{parse_geometry, write_files, Format};
+use super::common::{emit, parse_geometry, Format, Renderings};
 use super::{Failure, Output};
 use spinstate::engine::diagram;
 use spinstate::report::diagram::{DiagramReport, SeriesRow};
@@ -86,20 +86,15 @@ pub fn run(args: &Args) -> Result<Output, Failure> {
         crossover_delta_over_b: d.crossover.delta_over_b,
         series,
     };
-    let mut out = Output::default();
-    let csv_to_stdout = write_files(
-        &mut out,
+    emit(
         args.csv.as_deref(),
         args.svg.as_deref(),
-        || report.to_csv(),
-        || report.to_svg(),
-    )?;
-    out.stdout = if csv_to_stdout {
-        report.to_csv()
-    } else if args.format.json {
-        to_json(&report)
-    } else {
-        report.to_table()
-    };
-    Ok(out)
+        args.format.json,
+        Renderings {
+            csv: || report.to_csv(),
+            svg: || report.to_svg(),
+            json: || to_json(&report),
+            table: || report.to_table(),
+        },
+    )
 }

@@ -1,6 +1,6 @@
 //! `spinstate magnetism`: χ(T), χT and μ_eff from the full ligand field with spin–orbit coupling.
 
-use super::common::{write_files, ComplexArgs, FieldArgs, Format};
+use super::common::{emit, ComplexArgs, FieldArgs, Format, Renderings};
 use super::{Failure, Output};
 use spinstate::report::magnetism::{MagnetismPoint, MagnetismReport};
 use spinstate::report::to_json;
@@ -127,20 +127,15 @@ pub fn run(args: &Args, data: Option<&Path>) -> Result<Output, Failure> {
             .collect(),
         notes,
     };
-    let mut out = Output::default();
-    let csv_stdout = write_files(
-        &mut out,
+    emit(
         args.csv.as_deref(),
         args.svg.as_deref(),
-        || report.to_csv(),
-        || report.to_svg(),
-    )?;
-    out.stdout = if csv_stdout {
-        report.to_csv()
-    } else if args.format.json {
-        to_json(&report)
-    } else {
-        report.to_table(16)
-    };
-    Ok(out)
+        args.format.json,
+        Renderings {
+            csv: || report.to_csv(),
+            svg: || report.to_svg(),
+            json: || to_json(&report),
+            table: || report.to_table(16),
+        },
+    )
 }
