@@ -7,40 +7,22 @@
 //! composition (predict, moment comparison, screening) should all go through `resolve`.
 //!
 //! # The estimate
-//! - **Δ.** Jørgensen's factor rule Δo = f·g (C. K. Jørgensen, *Absorption Spectra and Chemical
-//!   Bonding in Complexes*, 1962; *Modern Aspects of Ligand Field Theory*, 1971). For a mixed
-//!   ligand set the rule of average environment is applied per donor atom: f̄ = Σ nᵢ dᵢ fᵢ / Σ nᵢ dᵢ
-//!   with nᵢ the number of ligands and dᵢ their denticity, so a bidentate ligand weighs twice.
-//!   - `oct`: Δ = Δo = f̄·g.
-//!   - `tet`: Δ = Δt = (4/9) f̄·g, the angular overlap ratio for the same ligands (Δt =
-//!     (4/9)(3e_σ − 4e_π) against Δo = 3e_σ − 4e_π).
-//!   - `sqpl`: Δ is the octahedral 10Dq = f̄·g of the same ligands, read as 3e_σ of a σ-only
-//!     angular overlap model (e_π = 0, so e_σ = f̄·g/3 for every donor). The four donors on ±x, ±y
-//!     then give x²−y² = 3e_σ, z² = e_σ and xz, yz, xy = 0 (C. E. Schäffer, C. K. Jørgensen,
-//!     *Mol. Phys.* 1965; E. Larsen, G. N. La Mar, *J. Chem. Educ.* 1974), built with [`LigandField::angular_overlap`]. All donors get the averaged e_σ, so the
-//!     field keeps its fourfold axis and D4h labels; cis/trans isomers are not told apart.
-//! - **B.** B = B₀ β with β = 1 − h̄ k (Jørgensen), h̄ averaged over donor atoms like f̄. A ligand
-//!   with no published h takes the mean h of the ligands in the table with the same (first) donor
-//!   atom, or of all ligands if none shares it; an ion with no k keeps B = B₀ (β = 1, an upper
-//!   bound on B, so Δ/B is then a lower bound). Each such default is reported in the notes.
-//! - **C.** C = C₀ β (scaled by the same ratio as B). When the table has no C₀, C = r·B with r the
-//!   C/B ratio of the Tanabe–Sugano diagram for that d^n (Y. Tanabe, S. Sugano, *J. Phys. Soc.
-//!   Jpn.* 1954; values from memory).
-//!
-//! # Uncertainty assumed for the spin-state margin
-//! The relative uncertainties are judged from how well the factor rules reproduce spectra
-//! (Δo within about 3 % for the Cr(III), Ni(II) and Co(III) aqua and ammine ions, but 18 % off for
-//! [Fe(H₂O)₆]²⁺ with Jørgensen's printed g; B within 0.5–15 %; see data/README.md):
-//! - Δ estimated: 10 %; 25 % when a (strong) π-acceptor ligand is bound to an ion in oxidation
-//!   state ≤ 2, where f·g is known to underestimate Δ; 50 % for square planar, where the σ-only
-//!   model built from octahedral data leaves out d–s mixing and the shorter planar bonds.
-//!   Δ given: 5 % (reading a broad d–d band maximum).
-//! - B estimated: 10 %; 15 % when an h or k had to be defaulted; 25 % for 4d/5d ions, whose B₀
-//!   is an assumed value. B given: 5 %.
+//! The policy lives in [`crate::estimate`] (the one estimator every command uses): Δ of each
+//! spin state at its own bond length from Jørgensen's factors with a back-bonding term, B from
+//! the nephelauxetic factors, the spin state from the engine's crossover and slope, and the
+//! uncertainties in [`Reliability`]. This module checks the composition against the tables,
+//! fills defaults (an h missing from the table takes the mean h of the ligands with the same
+//! donor atom; a missing C₀ takes the Tanabe–Sugano C/B), applies the values a user gives in
+//! place of the estimates, and records every such choice in `notes`.
 
-use crate::engine::{Calculation, Geometry, LigandField, PointGroup};
+use crate::engine::{crossover, Calculation, Crossover, Geometry, LigandField, PointGroup};
 use crate::error::{Error, Result};
-use crate::tables::{Ion, Ligand, PiRole, Tables, TransitionSeries};
+use crate::estimate::{
+    self, BondChange, Calibration, Reliability, SpinChoice, SpinGeometry, CALIBRATION,
+};
+use crate::tables::{
+    FieldBasis, Ion, Ligand, Provenance, ReferenceState, Tables, TransitionSeries,
+};
 use nalgebra::Vector3;
 use std::str::FromStr;
 
@@ -235,19 +217,35 @@ pub struct ResolvedComplex {
     pub charge: i32,
     /// Number of donor atoms (equals the geometry's coordination number).
     pub donor_count: usize,
-    /// Donor-averaged Jørgensen f, when every ligand has one.
+    /// Donor-averaged Jørgensen f.
     pub mean_f: Option<f64>,
     /// Donor-averaged Jørgensen h (with defaults for missing h).
     pub mean_h: Option<f64>,
     /// Nephelauxetic ratio β = 1 − h̄k used for the estimate (1 when k is unknown).
     pub beta: Option<f64>,
-    /// Ligand-field splitting in the geometry's convention (cm⁻¹): Δo (oct), Δt (tet), or the
-    /// octahedral 10Dq of the same ligands (sqpl).
+    /// Donor-averaged π-acceptor term π̄ = −4ē_π/g(Cr³⁺) (0 without π acceptors).
+    pub mean_pi: f64,
+    /// Ligand-field splitting in the geometry's convention (cm⁻¹): Δo (oct), Δt (tet), or 3e_σ
+    /// (sqpl), of the predicted ground state: Δ_LS when the low-spin state is the ground state
+    /// at low temperature, Δ_HS otherwise.
     pub delta: Parameter,
+    /// Δ of the high-spin state at its own bond length (cm⁻¹).
+    pub delta_high_spin: Parameter,
+    /// Δ of the low-spin state at its own bond length (cm⁻¹); equal to `delta_high_spin` when
+    /// the spin cannot change or Δ was given.
+    pub delta_low_spin: Parameter,
     /// Racah B (cm⁻¹).
     pub b: Parameter,
     /// Racah C (cm⁻¹).
     pub c: Parameter,
+    /// The engine's crossover for this d^n, geometry and C/B.
+    pub crossover: Crossover,
+    /// How the two spin states differ in bond length and field.
+    pub spin_geometry: SpinGeometry,
+    /// The spin state the two fields imply; None when the spin cannot change (or Δ is nominal).
+    pub spin_choice: Option<SpinChoice>,
+    /// The model constants used.
+    pub calibration: Calibration,
     /// How defaults were filled in and where the estimate is weak, one sentence each.
     pub notes: Vec<String>,
     /// Handling cautions for the metal and ligands (empty when none apply).
@@ -263,6 +261,11 @@ impl ComplexSpec {
     /// a non-finite or non-positive override, or a parameter that can be neither estimated nor
     /// was given.
     pub fn resolve(&self, tables: &Tables) -> Result<ResolvedComplex> {
+        self.resolve_with(tables, &CALIBRATION)
+    }
+
+    /// [`ComplexSpec::resolve`] with other model constants (used by the calibration fit).
+    pub fn resolve_with(&self, tables: &Tables, cal: &Calibration) -> Result<ResolvedComplex> {
         let ion = tables.ions.find(&self.metal, self.oxidation_state)?.clone();
         let geometry = self.geometry;
         if geometry == Geometry::Tetragonal {
@@ -340,65 +343,49 @@ impl ComplexSpec {
                 }
             }
         }
-        let missing_f: Vec<&str> = bound
-            .iter()
-            .filter(|b| b.ligand.f.is_none())
-            .map(|b| b.ligand.name.as_str())
-            .collect();
-        let mean_f = missing_f
-            .is_empty()
-            .then(|| per_donor(&bound, |b| b.ligand.f.unwrap_or(0.0)));
-        let delta_o = match (mean_f, ion.g) {
-            (Some(f), Some(g)) => Some(f * g),
-            _ => None,
-        };
-        let delta_estimate = delta_o.map(|d| match geometry {
-            Geometry::Tetrahedral => 4.0 / 9.0 * d,
-            _ => d,
+        let mean_f = per_donor(&bound, |b| b.ligand.f);
+        let mean_pi = per_donor(&bound, |b| estimate::ligand_terms(&b.ligand).1);
+        let back_bonding = mean_pi > 0.0 && estimate::back_bonding_steps(ion.oxidation_state) > 0.0;
+        let delta_reference = ion.g.map(|g| {
+            estimate::reference_delta(mean_f, mean_pi, g, ion.oxidation_state, geometry, cal)
         });
-        let low_valent_acceptor =
-            ion.oxidation_state <= 2 && bound.iter().any(|b| b.ligand.pi == PiRole::Acceptor);
-        let delta_uncertainty = if geometry == Geometry::SquarePlanar {
-            0.5
-        } else if low_valent_acceptor {
-            0.25
-        } else {
-            0.10
-        };
-        let delta = match Parameter::choose(delta_estimate, self.overrides.delta, delta_uncertainty)
+        let worst_f = bound.iter().fold(FieldBasis::Printed, |w, b| {
+            estimate::worse(w, b.ligand.f_from)
+        });
+        if delta_reference.is_none()
+            && self.overrides.delta.is_none()
+            && ion.dn != 0
+            && ion.dn != 10
         {
-            Some(p) => p,
-            None if ion.dn == 0 || ion.dn == 10 => Parameter::nominal(0.0),
-            None => {
-                let why = if !missing_f.is_empty() {
-                    format!("no Jørgensen f for {} in ligands.csv", missing_f.join(", "))
-                } else {
-                    format!("no Jørgensen g for {} in ions.csv", ion.name())
-                };
-                return Err(Error::invalid(
-                    "Δ",
-                    format!("unknown ({why})"),
-                    "a measured value: give --delta in cm⁻¹ (e.g. from a band fit)",
-                ));
-            }
-        };
-        if low_valent_acceptor && delta.origin == Origin::Estimated {
+            return Err(Error::invalid(
+                "Δ",
+                format!("unknown (no Jørgensen g for {} in ions.csv)", ion.name()),
+                "a measured value: give --delta in cm⁻¹ (e.g. from a band fit), or add g to ions.csv with --data",
+            ));
+        }
+        if back_bonding && self.overrides.delta.is_none() {
             let acceptors: Vec<&str> = bound
                 .iter()
-                .filter(|b| b.ligand.pi == PiRole::Acceptor)
+                .filter(|b| estimate::ligand_terms(&b.ligand).1 > 0.0)
                 .map(|b| b.ligand.name.as_str())
                 .collect();
             notes.push(format!(
-                "f·g is known to underestimate Δ for π-acceptor ligands ({}) on ions in oxidation state ≤ 2: the real Δ is likely larger and a low-spin state more likely than predicted; give --delta from a spectrum",
-                acceptors.join(", ")
+                "back-bonding: the π acceptors ({}) on a {} ion add {:.2} to f̄ ({:.1} × {} step(s) below +3 × π̄ = {:.3}, π = −4e_π/g(Cr³⁺))",
+                acceptors.join(", "),
+                ion.name(),
+                cal.back_bonding * estimate::back_bonding_steps(ion.oxidation_state) * mean_pi,
+                cal.back_bonding,
+                estimate::back_bonding_steps(ion.oxidation_state),
+                mean_pi
             ));
         }
-
-        if geometry == Geometry::SquarePlanar && delta.origin == Origin::Estimated {
-            notes.push(
-                "square planar: Δ is the octahedral f·g of the same ligands in a σ-only angular overlap model; this underestimates the planar splitting (planar bonds are shorter and d–s mixing lowers z², both left out), so the estimate leans to high spin; planar d8 complexes are low-spin in practice (a high-spin four-coordinate d8 ion usually goes tetrahedral); give --delta from a spectrum"
-                    .to_string(),
-            );
+        for b in &bound {
+            if b.ligand.f_from == FieldBasis::Series {
+                notes.push(format!(
+                    "f of {} is placed by its position in the spectrochemical series (no published Δ): wider uncertainty",
+                    b.ligand.name
+                ));
+            }
         }
 
         // B and C
@@ -430,39 +417,52 @@ impl ComplexSpec {
             .iter()
             .all(|b| b.h_used.is_some())
             .then(|| per_donor(&bound, |b| b.h_used.unwrap_or(0.0)));
-        let beta = match (ion.k, mean_h) {
-            (Some(k), Some(h)) => Some(1.0 - h * k),
-            (None, _) => {
-                if ion.b0.is_some() && self.overrides.b.is_none() && !one_electron(ion.dn) {
+        let k_used = match ion.k {
+            Some(k) => Some(k),
+            None => {
+                let d = estimate::default_k(&tables.ions, ion.series);
+                if let Some((k, from)) = &d {
+                    if ion.b0.is_some() && self.overrides.b.is_none() && !one_electron(ion.dn) {
+                        notes.push(format!(
+                            "no Jørgensen k for {}: k = {k:.2}, the mean printed k of {} ions ({})",
+                            ion.name(),
+                            ion.series.name(),
+                            from.join(", ")
+                        ));
+                    }
+                }
+                d.map(|(k, _)| k)
+            }
+        };
+        let beta = match (k_used, mean_h) {
+            (Some(k), Some(h)) => {
+                let (beta, floored) = estimate::nephelauxetic_ratio(h, k);
+                if floored && self.overrides.b.is_none() {
                     notes.push(format!(
-                        "no Jørgensen k for {}: B is taken as the free-ion B0 (β = 1, an upper bound on B), so Δ/B is a lower bound",
-                        ion.name()
+                        "β = 1 − h̄k = {:.2} (h̄ = {h:.2}, k = {k:.2}) is below the range of the factor rule: β = {} is used (the most covalent measured complexes)",
+                        1.0 - h * k,
+                        estimate::BETA_FLOOR
                     ));
                 }
-                Some(1.0)
+                Some(beta)
             }
+            (None, _) => Some(1.0),
             (Some(_), None) => None,
         };
-        if let Some(beta) = beta {
-            if beta <= 0.0 {
-                return Err(Error::invalid(
-                    "β = 1 − h·k",
-                    format!("{beta:.3} (h̄ = {:.2}, k = {:.2})", mean_h.unwrap_or(0.0), ion.k.unwrap_or(0.0)),
-                    "a ratio above 0; the factor rule fails for this ion and ligand set, so give a measured --b in cm⁻¹",
-                ));
-            }
-        }
         let b_estimate = match (ion.b0, beta) {
             (Some(b0), Some(beta)) => Some(b0 * beta),
             _ => None,
         };
-        let b_uncertainty = if ion.series != TransitionSeries::ThreeD {
-            0.25
-        } else if h_defaulted || ion.k.is_none() {
-            0.15
-        } else {
-            0.10
+        let reliability = Reliability {
+            worst_f,
+            g: ion.provenance_of("g"),
+            b0: ion.provenance_of("b0"),
+            back_bonding,
+            b_defaulted: h_defaulted || ion.k.is_none(),
+            heavy: ion.series != TransitionSeries::ThreeD,
+            geometry,
         };
+        let b_uncertainty = reliability.b();
         let b = match Parameter::choose(b_estimate, self.overrides.b, b_uncertainty) {
             Some(p) => p,
             None if one_electron(ion.dn) || ion.dn == 0 || ion.dn == 10 => {
@@ -498,13 +498,94 @@ impl ComplexSpec {
         let c = Parameter::choose(c_estimate, self.overrides.c, b.relative_uncertainty)
             .unwrap_or_else(|| Parameter::nominal(c_over_b * NOMINAL_B));
 
-        if ion.series != TransitionSeries::ThreeD {
+        if matches!(
+            ion.provenance_of("b0"),
+            Provenance::Assumed | Provenance::Rule
+        ) && self.overrides.b.is_none()
+        {
             notes.push(format!(
-                "{} ions are low-spin in practice: Δ is about 1.4–1.5 times larger for 4d than for 3d ions of the same charge and about 1.2 times larger again for 5d, while B is smaller (more diffuse d orbitals); the free-ion B0 of {} in ions.csv is an assumed typical value",
-                ion.series.name(),
-                ion.name()
+                "the free-ion B0 of {} in ions.csv is an assumed typical value (no published free-ion fit): B ±{:.0} %",
+                ion.name(),
+                100.0 * b_uncertainty
             ));
         }
+
+        // Each spin state at its own bond length, and the spin state they imply.
+        // The C/B that set C (exactly the screen's per-ion value) unless C itself was given.
+        let cross_c_over_b = match c.origin {
+            Origin::Given => c.value / b.value,
+            Origin::Estimated | Origin::Nominal => c_over_b,
+        };
+        let cross = crossover(ion.dn, geometry, cross_c_over_b)?;
+        let spin_geometry = SpinGeometry::new(&ion, geometry, &cross, cal);
+        let delta_uncertainty = reliability.delta();
+        let (delta_high_spin, delta_low_spin) = match (self.overrides.delta, delta_reference) {
+            (Some(_), _) => {
+                if cross.low_spin.is_some() {
+                    notes.push(
+                        "a measured Δ belongs to the geometry of the spin state the complex is in: both spin states are compared at it (one geometry)"
+                            .to_string(),
+                    );
+                }
+                let p = Parameter::choose(delta_reference, self.overrides.delta, delta_uncertainty)
+                    .unwrap_or_else(|| Parameter::nominal(0.0));
+                (p.clone(), p)
+            }
+            (None, Some(d)) => (
+                Parameter::choose(
+                    Some(d * spin_geometry.high_spin_factor),
+                    None,
+                    delta_uncertainty,
+                )
+                .unwrap_or_else(|| Parameter::nominal(0.0)),
+                Parameter::choose(
+                    Some(d * spin_geometry.low_spin_factor),
+                    None,
+                    delta_uncertainty,
+                )
+                .unwrap_or_else(|| Parameter::nominal(0.0)),
+            ),
+            (None, None) => (Parameter::nominal(0.0), Parameter::nominal(0.0)),
+        };
+        let spin_choice = if delta_high_spin.origin == Origin::Nominal {
+            None
+        } else {
+            estimate::choose_spin(
+                delta_high_spin.value / b.value,
+                delta_low_spin.value / b.value,
+                b.value,
+                &cross,
+                cal,
+            )
+        };
+        if cross.low_spin.is_some() && self.overrides.delta.is_none() {
+            if let Some(d) = delta_reference {
+                notes.push(format!(
+                    "spin-state geometries: Δ_ref = {d:.0} cm⁻¹ belongs to the {} state (g of {} measured on {} complexes); Δr = {:.3} Å ({}) and Δ ∝ r^-{} give Δ_LS/Δ_HS = {:.2}",
+                    match spin_geometry.reference {
+                        ReferenceState::LowSpin => "low-spin",
+                        ReferenceState::HighSpin | ReferenceState::Any => "high-spin",
+                    },
+                    ion.name(),
+                    match spin_geometry.reference {
+                        ReferenceState::LowSpin => "low-spin",
+                        ReferenceState::HighSpin => "high-spin",
+                        ReferenceState::Any => "single-state",
+                    },
+                    spin_geometry.delta_r,
+                    match spin_geometry.delta_r_from {
+                        BondChange::Table => "ions.csv",
+                        BondChange::Rule | BondChange::None => "0.1 Å per e_g electron for M(I)/M(II), 0.075 Å above",
+                    },
+                    cal.distance_exponent,
+                    spin_geometry.ratio
+                ));
+            }
+        }
+        let delta = match spin_choice.map(|c| c.state) {
+            Some(s) if s.low_spin_ground() => delta_low_spin.clone(),
+            _ => delta_high_spin.clone(),
+        };
 
         let mut cautions: Vec<String> = Vec::new();
         if let Some(c) = &ion.caution {
@@ -522,12 +603,19 @@ impl ComplexSpec {
             ligands: bound,
             charge,
             donor_count,
-            mean_f,
+            mean_f: Some(mean_f),
+            mean_pi,
             mean_h,
             beta,
             delta,
+            delta_high_spin,
+            delta_low_spin,
             b,
             c,
+            crossover: cross,
+            spin_geometry,
+            spin_choice,
+            calibration: *cal,
             notes,
             cautions,
         })
@@ -581,12 +669,17 @@ impl ResolvedComplex {
             .hypot(self.b.relative_uncertainty)
     }
 
-    /// The one-electron field (cm⁻¹). Square planar is built from the angular overlap model with
-    /// four equal σ donors on ±x, ±y (see the module docs), the others from Dq.
+    /// The one-electron field (cm⁻¹) at the ground state's Δ. Square planar is built from the
+    /// angular overlap model with four equal σ donors on ±x, ±y, the others from Dq.
     pub fn field(&self) -> Result<LigandField> {
+        self.field_at(self.delta.value)
+    }
+
+    /// The one-electron field (cm⁻¹) at a given Δ in the geometry's convention.
+    pub fn field_at(&self, delta: f64) -> Result<LigandField> {
         match self.geometry {
             Geometry::SquarePlanar => {
-                let e_sigma = self.delta.value / 3.0;
+                let e_sigma = delta / 3.0;
                 let donors: Vec<(Vector3<f64>, f64, f64)> =
                     [Vector3::x(), Vector3::y(), -Vector3::x(), -Vector3::y()]
                         .into_iter()
@@ -594,7 +687,9 @@ impl ResolvedComplex {
                         .collect();
                 Ok(LigandField::angular_overlap(&donors).barycentred())
             }
-            g => g.field(self.dq(), 0.0, 0.0),
+            g @ (Geometry::Octahedral | Geometry::Tetrahedral | Geometry::Tetragonal) => {
+                g.field(delta / 10.0, 0.0, 0.0)
+            }
         }
     }
 
@@ -603,13 +698,18 @@ impl ResolvedComplex {
         self.geometry.point_group(0.0, 0.0)
     }
 
-    /// The engine calculation for this complex.
+    /// The engine calculation for this complex (at the ground state's Δ).
     pub fn calculation(&self) -> Result<Calculation> {
+        self.calculation_at(self.delta.value)
+    }
+
+    /// The engine calculation at a given Δ (cm⁻¹), e.g. one spin state's own Δ.
+    pub fn calculation_at(&self, delta: f64) -> Result<Calculation> {
         Calculation::new(
             self.ion.dn,
             self.b.value,
             self.c.value,
-            self.field()?,
+            self.field_at(delta)?,
             self.point_group(),
         )
     }
@@ -770,13 +870,12 @@ mod tests {
             e.contains("tridentate in a sqpl complex") && e.contains("oct"),
             "{e}"
         );
-        let e = resolve("Fe", 2, "oct", &["CO:6"]).unwrap_err().to_string();
-        assert!(
-            e.contains("no Jørgensen f for CO") && e.contains("--delta"),
-            "{e}"
-        );
-        let e = resolve("Mn", 4, "oct", &["F:6"]).unwrap_err().to_string();
-        assert!(e.contains("no free-ion B0") && e.contains("--b"), "{e}");
+        // A ligand in the table is never refused: CO has an f placed by the series.
+        let co = resolve("Fe", 2, "oct", &["CO:6"]).unwrap();
+        assert!(co
+            .notes
+            .iter()
+            .any(|n| n.contains("placed by its position")));
         let e = resolve("Fe", 2, "tetragonal", &["H2O:6"])
             .unwrap_err()
             .to_string();

@@ -1,9 +1,11 @@
 //! spinstate: spin states of d-block complexes from a full d^n ligand-field calculation.
 
+pub mod calibration;
 pub mod check;
 pub mod complex;
 pub mod engine;
 pub mod error;
+pub mod estimate;
 pub mod formula;
 pub mod magnetism;
 pub mod predict;

@@ -1,47 +1,25 @@
 //! Spin-state prediction for a resolved [`ResolvedComplex`]: which spin the ground state has, how far
 //! the complex sits from the crossover, its ground term, moments and spin-allowed bands.
 //!
-//! The spin state compares the complex's Δ/B with the engine's crossover Δ/B for the same d^n,
-//! geometry and C/B ([`crate::engine::crossover`]). The ground term, its free-ion parent and the
-//! bands come from a full d^n calculation at the complex's own Δ, B and C.
-//!
-//! The comparison uses one geometry for both spin states. In a real complex the high-spin state
-//! has longer metal–ligand bonds and a smaller Δ than the low-spin state (for Fe(II) about
-//! 1.75 times smaller: A. Hauser, *Top. Curr. Chem.* 233, 49, 2004), so near the crossover the
-//! prediction is a rough guide; the margin and its `borderline` flag say how rough.
+//! The spin state is the estimator's ([`crate::estimate`]): each spin state has its own Δ at its
+//! own bond length, and the energy gap E_HS − E_LS between them comes from the engine's exact
+//! crossover and slope for the same d^n, geometry and C/B. The margin is the mean field Δ̄/B
+//! minus the crossover Δ/B. The ground term and its parent come from a full d^n calculation at
+//! the ground state's Δ; the bands of each spin state from a calculation at that state's Δ.
 
 use crate::complex::{Origin, ResolvedComplex};
 use crate::engine::levels::L_LETTERS;
-use crate::engine::{crossover, Crossover, Level, PointGroup, Spectrum};
+use crate::engine::{Crossover, Level, PointGroup, Spectrum};
 use crate::error::{Error, Result};
+use crate::susceptibility::{MagneticModel, ZeemanLevels};
 
-/// Predicted ground-state spin.
-#[derive(Debug, Clone, Copy, PartialEq, Eq)]
-pub enum SpinState {
-    /// Below the crossover: the weak-field (high-spin) ground state.
-    High,
-    /// Above the crossover: the strong-field (low-spin) ground state.
-    Low,
-    /// The ground spin does not change with Δ for this d^n and geometry (up to the engine's
-    /// search limit).
-    Fixed,
-}
-
-impl SpinState {
-    /// "high", "low" or "fixed".
-    pub fn name(self) -> &'static str {
-        match self {
-            SpinState::High => "high",
-            SpinState::Low => "low",
-            SpinState::Fixed => "fixed",
-        }
-    }
-}
+pub use crate::estimate::SpinState;
 
 /// Distance of the complex from the crossover.
 #[derive(Debug, Clone, Copy, PartialEq)]
 pub struct Margin {
-    /// Δ/B of the complex minus the crossover Δ/B (dimensionless; negative = high-spin side).
+    /// Mean field Δ̄/B of the two spin states minus the crossover Δ/B (dimensionless; negative =
+    /// high-spin side).
     pub delta_over_b: f64,
     /// The same difference in percent of the crossover Δ/B.
     pub percent: f64,
@@ -76,6 +54,28 @@ pub struct SpinBands {
     /// Energy of that level above the ground level (cm⁻¹); 0 when it is the ground level.
     pub from_energy: f64,
     pub bands: Vec<Band>,
+    /// Δ at which these bands were computed (cm⁻¹): this spin state's own Δ.
+    pub delta: f64,
+    /// Bands above the window that were left out (0 with `all`).
+    pub omitted: usize,
+}
+
+/// Default upper end of the band list (cm⁻¹): the usual UV-Vis-NIR range; `--all` lifts it.
+pub const BAND_WINDOW: f64 = 50_000.0;
+
+/// Options of a prediction.
+#[derive(Debug, Clone, Copy, PartialEq)]
+pub struct PredictOptions {
+    /// List bands up to this energy (cm⁻¹); `f64::INFINITY` for all.
+    pub band_limit: f64,
+}
+
+impl Default for PredictOptions {
+    fn default() -> Self {
+        PredictOptions {
+            band_limit: BAND_WINDOW,
+        }
+    }
 }
 
 /// Everything `predict` says about a complex.
@@ -94,8 +94,15 @@ pub struct Prediction {
     pub unpaired: usize,
     /// Spin-only moment √(n(n+2)) (μB).
     pub spin_only_moment: f64,
-    /// Spin-plus-orbital moment of the free-ion parent term, √(4S(S+1) + L(L+1)) (μB).
-    pub orbital_moment: f64,
+    /// Spin-plus-orbital moment of the free-ion parent term, √(4S(S+1) + L(L+1)) (μB): the
+    /// upper limit of an unquenched orbital moment; only for ground terms with first-order
+    /// orbital angular momentum (T terms in O_h/T_d, E in D_4h), None otherwise.
+    pub orbital_moment: Option<f64>,
+    /// μ_eff at 300 K (μB) from the full ligand field with spin–orbit coupling (van Vleck, κ = 1)
+    /// at the ground state's Δ; None when ζ is unknown.
+    pub moment_300k: Option<f64>,
+    /// E_HS − E_LS (cm⁻¹), each state at its own geometry; None when the spin cannot change.
+    pub energy_gap: Option<f64>,
     /// Whether the ground term carries first-order orbital angular momentum (T terms of O_h and
     /// T_d, E terms of D_4h): moments then lie above spin-only and depend on temperature.
     pub first_order_orbital: bool,
@@ -128,12 +135,16 @@ pub fn term_l(term: &str) -> Option<usize> {
     L_LETTERS.iter().position(|&c| c == letter)
 }
 
-fn spin_bands(spectrum: &Spectrum, two_s: i32) -> Option<SpinBands> {
+fn spin_bands(spectrum: &Spectrum, two_s: i32, delta: f64, limit: f64) -> Option<SpinBands> {
     let lowest = spectrum.lowest_of_spin(two_s)?;
-    let bands = spectrum
+    let all: Vec<&Level> = spectrum
         .levels
         .iter()
         .filter(|l| l.two_s == two_s && l.energy > lowest.energy + 1e-6)
+        .collect();
+    let bands: Vec<Band> = all
+        .iter()
+        .filter(|l| l.energy - lowest.energy <= limit)
         .map(|l| {
             let energy = l.energy - lowest.energy;
             Band {
@@ -148,62 +159,77 @@ fn spin_bands(spectrum: &Spectrum, two_s: i32) -> Option<SpinBands> {
         two_s,
         from: lowest.label(),
         from_energy: lowest.energy,
+        omitted: all.len() - bands.len(),
         bands,
+        delta,
     })
 }
 
-/// Predicts the spin state of a resolved complex.
+/// Predicts the spin state of a resolved complex (bands up to [`BAND_WINDOW`]).
 pub fn predict(complex: &ResolvedComplex) -> Result<Prediction> {
+    predict_with(complex, PredictOptions::default())
+}
+
+/// Predicts the spin state of a resolved complex with options.
+pub fn predict_with(complex: &ResolvedComplex, options: PredictOptions) -> Result<Prediction> {
     let dn = complex.ion.dn;
-    let c_over_b = complex.c_over_b();
-    let cross = crossover(dn, complex.geometry, c_over_b)?;
-    let x = complex.delta_over_b();
+    let cross = complex.crossover.clone();
     let mut notes = complex.notes.clone();
-    let (spin_state, margin) = match cross.delta_over_b {
-        None => {
-            if x > cross.limit && complex.delta.origin != Origin::Nominal {
-                notes.push(format!(
-                    "Δ/B = {x:.1} lies above the searched range (Δ/B ≤ {}); no change of spin was found below it",
-                    cross.limit
-                ));
-            }
-            (SpinState::Fixed, None)
-        }
-        Some(xc) => {
+    let (spin_state, margin, energy_gap) = match (&complex.spin_choice, cross.delta_over_b) {
+        (Some(choice), Some(xc)) => {
+            let x = choice.delta_over_b_mean;
             let u = complex.delta_over_b_uncertainty();
             let diff = x - xc;
-            let state = if diff > 0.0 {
-                SpinState::Low
-            } else {
-                SpinState::High
-            };
             let margin = Margin {
                 delta_over_b: diff,
                 percent: 100.0 * diff / xc,
                 uncertainty_percent: 100.0 * u,
                 borderline: diff.abs() <= u * x,
             };
+            notes.push(format!(
+                "E_HS − E_LS = {:.0} cm⁻¹ with each state at its own Δ (high-spin below 0; spin crossover between 0 and the thermal window {:.0} cm⁻¹; low-spin above)",
+                choice.energy_gap, choice.window
+            ));
             if margin.borderline {
                 notes.push(format!(
-                    "borderline: Δ/B = {x:.1} is within the assumed ±{:.0} % of the crossover at {xc:.1}; both spin states are candidates (spin crossover possible for d4–d7)",
+                    "borderline: Δ̄/B = {x:.1} is within the assumed ±{:.0} % of the crossover at {xc:.1}; both spin states are candidates",
                     margin.uncertainty_percent
                 ));
             }
-            (state, Some(margin))
+            (choice.state, Some(margin), Some(choice.energy_gap))
+        }
+        _ => {
+            let x = complex.delta_over_b();
+            if cross.delta_over_b.is_none()
+                && x > cross.limit
+                && complex.delta.origin != Origin::Nominal
+            {
+                notes.push(format!(
+                    "Δ/B = {x:.1} lies above the searched range (Δ/B ≤ {}); no change of spin was found below it",
+                    cross.limit
+                ));
+            }
+            (SpinState::Fixed, None, None)
         }
     };
+    if spin_state == SpinState::Crossover {
+        notes.push(
+            "spin crossover expected: the low-spin state is the ground state at low temperature and the high-spin state lies within thermal reach; where T½ falls cannot be told from a composition alone"
+                .to_string(),
+        );
+    }
     let calc = complex.calculation()?;
     let spectrum = calc.levels()?;
     let ground = spectrum.ground().clone();
     let expected = match spin_state {
-        SpinState::Low => cross.low_spin.as_ref().map(|g| g.two_s),
-        _ => Some(cross.high_spin.two_s),
+        SpinState::Low | SpinState::Crossover => cross.low_spin.as_ref().map(|g| g.two_s),
+        SpinState::High | SpinState::Fixed => Some(cross.high_spin.two_s),
     };
     if expected.is_some_and(|s| s != ground.two_s) {
         notes.push(format!(
-            "the ground level at these parameters ({}) has a spin other than the {} state's; the complex lies at the crossover",
-            ground.label(),
-            spin_state.name()
+            "the ground level at the {} state's Δ ({}) has another spin: the complex lies at the crossover",
+            spin_state.name(),
+            ground.label()
         ));
     }
     let l = term_l(&ground.parent).ok_or_else(|| {
@@ -233,14 +259,44 @@ pub fn predict(complex: &ResolvedComplex) -> Result<Prediction> {
             ground.label()
         ));
     }
-    let bands_high_spin = spin_bands(&spectrum, cross.high_spin.two_s).ok_or_else(|| {
-        Error::Computation(format!(
-            "no level with 2S = {} in the d{dn} spectrum",
-            cross.high_spin.two_s
-        ))
-    })?;
+    let moment_300k = match complex.ion.zeta {
+        Some(zeta) if dn > 0 && dn < 10 => {
+            let z = ZeemanLevels::compute(&calc, &MagneticModel::new(zeta))?;
+            Some(z.at(300.0)?.mu_eff)
+        }
+        _ if dn == 0 || dn == 10 => Some(0.0),
+        _ => {
+            notes.push(format!(
+                "no ζ for {} in ions.csv: the 300 K moment with spin–orbit coupling is not computed",
+                complex.ion.name()
+            ));
+            None
+        }
+    };
+    let limit = options.band_limit;
+    let hs_delta = complex.delta_high_spin.value;
+    let hs_spectrum = if (hs_delta - complex.delta.value).abs() < 1e-9 {
+        spectrum.clone()
+    } else {
+        complex.calculation_at(hs_delta)?.levels()?
+    };
+    let bands_high_spin = spin_bands(&hs_spectrum, cross.high_spin.two_s, hs_delta, limit)
+        .ok_or_else(|| {
+            Error::Computation(format!(
+                "no level with 2S = {} in the d{dn} spectrum",
+                cross.high_spin.two_s
+            ))
+        })?;
     let bands_low_spin = match &cross.low_spin {
-        Some(ls) => spin_bands(&spectrum, ls.two_s),
+        Some(ls) => {
+            let ls_delta = complex.delta_low_spin.value;
+            let ls_spectrum = if (ls_delta - complex.delta.value).abs() < 1e-9 {
+                spectrum
+            } else {
+                complex.calculation_at(ls_delta)?.levels()?
+            };
+            spin_bands(&ls_spectrum, ls.two_s, ls_delta, limit)
+        }
         None => None,
     };
     Ok(Prediction {
@@ -251,7 +307,9 @@ pub fn predict(complex: &ResolvedComplex) -> Result<Prediction> {
         spin: ground.spin(),
         unpaired,
         spin_only_moment: spin_only_moment(unpaired),
-        orbital_moment: spin_orbital_moment(ground.two_s, l),
+        orbital_moment: first_order_orbital.then(|| spin_orbital_moment(ground.two_s, l)),
+        moment_300k,
+        energy_gap,
         first_order_orbital,
         jahn_teller,
         ground,
@@ -326,11 +384,8 @@ mod tests {
         let xc = p.crossover.delta_over_b.unwrap();
         assert_abs_diff_eq!(xc, 20.0, epsilon = 0.1);
         let m = p.margin.unwrap();
-        assert_abs_diff_eq!(
-            m.delta_over_b,
-            p.complex.delta_over_b() - xc,
-            epsilon = 1e-9
-        );
+        let mean = p.complex.spin_choice.unwrap().delta_over_b_mean;
+        assert_abs_diff_eq!(m.delta_over_b, mean - xc, epsilon = 1e-9);
         assert_abs_diff_eq!(m.percent, 100.0 * m.delta_over_b / xc, epsilon = 1e-9);
         assert_eq!(p.ground.label(), "1A1g");
         assert_eq!(p.unpaired, 0);

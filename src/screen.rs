@@ -42,8 +42,8 @@
 use crate::complex::default_c_over_b;
 use crate::engine::{crossover, Crossover, Geometry};
 use crate::error::{Error, Result};
-use crate::predict::SpinState;
-use crate::tables::{Ion, Ligand, PiRole, Tables, TransitionSeries};
+use crate::estimate::{self, Calibration, Reliability, SpinGeometry, SpinState, CALIBRATION};
+use crate::tables::{FieldBasis, Ion, Ligand, Tables, TransitionSeries};
 use mendeleev::Element;
 use std::cmp::Ordering;
 use std::collections::BinaryHeap;
@@ -303,10 +303,11 @@ pub struct PoolLigand {
     pub h: Option<f64>,
     /// True when `h` is a default.
     pub h_defaulted: bool,
-    /// π acceptor (raises the assumed uncertainty of Δ on ions in oxidation state ≤ 2).
-    pub acceptor: bool,
-    /// (c·d)·f and (c·d)·h for c = 0..=MAX_SITES, as `resolve` forms them.
+    /// π-acceptor term π = −4e_π/g(Cr³⁺) ([`estimate::ligand_terms`]).
+    pub pi: f64,
+    /// (c·d)·f, (c·d)·π and (c·d)·h for c = 0..=MAX_SITES, as `resolve` forms them.
     f_terms: [f64; MAX_SITES + 1],
+    pi_terms: [f64; MAX_SITES + 1],
     h_terms: [f64; MAX_SITES + 1],
     /// Donor atoms counted in 4-bit fields, one per element of the donor filter plus "other".
     donor_key: u32,
@@ -327,6 +328,10 @@ pub struct ScreenIon {
     pub crossover: Crossover,
     /// Crossover Δ/B (the engine found one; ions without one are rejected).
     pub crossover_delta_over_b: f64,
+    /// d(E_HS − E_LS)/dΔ at the crossover.
+    pub slope: f64,
+    /// How the two spin states' fields differ ([`SpinGeometry`]).
+    pub spin_geometry: SpinGeometry,
 }
 
 /// A coordination sphere: pool indices in non-decreasing order (a multiset), padded with 255.
@@ -376,22 +381,24 @@ type Runs = Vec<(usize, usize)>;
 #[derive(Debug, Clone, Copy)]
 struct Sums {
     f: f64,
+    pi: f64,
     h: f64,
     charge: i32,
     donor_key: u32,
-    acceptor: bool,
     h_defaulted: bool,
+    worst_f: FieldBasis,
     kinds: u8,
 }
 
 impl Sums {
     const ZERO: Sums = Sums {
         f: 0.0,
+        pi: 0.0,
         h: 0.0,
         charge: 0,
         donor_key: 0,
-        acceptor: false,
         h_defaulted: false,
+        worst_f: FieldBasis::Printed,
         kinds: 0,
     };
 
@@ -399,11 +406,12 @@ impl Sums {
     fn add_run(&self, l: &PoolLigand, count: usize) -> Sums {
         Sums {
             f: self.f + l.f_terms[count],
+            pi: self.pi + l.pi_terms[count],
             h: self.h + l.h_terms[count],
             charge: self.charge + count as i32 * l.ligand.charge,
             donor_key: self.donor_key + count as u32 * l.donor_key,
-            acceptor: self.acceptor || l.acceptor,
             h_defaulted: self.h_defaulted || l.h_defaulted,
+            worst_f: estimate::worse(self.worst_f, l.ligand.f_from),
             kinds: self.kinds + 1,
         }
     }
@@ -539,6 +547,8 @@ pub struct Screen {
     /// Pool ligands in table order.
     pub pool: Vec<PoolLigand>,
     pub filters: Filters,
+    /// Model constants (those `resolve` uses).
+    pub calibration: Calibration,
     source: Source,
     compiled: Compiled,
     notes: Vec<String>,
@@ -568,26 +578,41 @@ pub struct Candidate {
     pub name: Option<String>,
     /// Overall charge.
     pub charge: i32,
-    /// Δ in the geometry's convention (cm⁻¹).
+    /// Δ of the predicted ground state in the geometry's convention (cm⁻¹).
     pub delta: f64,
+    /// Δ of the high-spin state at its own bond length (cm⁻¹).
+    pub delta_high_spin: f64,
+    /// Δ of the low-spin state at its own bond length (cm⁻¹).
+    pub delta_low_spin: f64,
     /// Racah B (cm⁻¹).
     pub b: f64,
     /// Racah C (cm⁻¹).
     pub c: f64,
     pub c_over_b: f64,
+    /// Mean field Δ̄/B of the two spin states.
     pub delta_over_b: f64,
     pub crossover_delta_over_b: f64,
-    /// Δ/B − crossover Δ/B (negative on the high-spin side).
+    /// Δ̄/B − crossover Δ/B (negative on the high-spin side).
     pub margin: f64,
     /// Margin in percent of the crossover Δ/B.
     pub percent: f64,
+    /// E_HS − E_LS (cm⁻¹), each state at its own geometry.
+    pub energy_gap: f64,
     /// Assumed relative uncertainty of Δ/B (0.1 = 10 %), as in `predict`.
     pub uncertainty: f64,
     /// |margin| ≤ uncertainty · Δ/B, as in `predict`.
     pub borderline: bool,
-    /// High or Low (never Fixed: ions without a crossover are not screened).
+    /// High, Crossover or Low (never Fixed: ions without a crossover are not screened).
     pub spin_state: SpinState,
     pub score: f64,
+}
+
+/// Δ of both spin states and B of one candidate (cm⁻¹).
+#[derive(Debug, Clone, Copy, PartialEq)]
+struct Parameters {
+    delta_high_spin: f64,
+    delta_low_spin: f64,
+    b: f64,
 }
 
 /// Number of multisets of ligands with the given denticities whose sites sum to `sites`
@@ -613,7 +638,7 @@ fn prepare_ion(tables: &Tables, spec: &IonSpec, geometry: Geometry) -> Result<Sc
         _ => default_c_over_b(ion.dn),
     };
     let cross = crossover(ion.dn, geometry, c_over_b)?;
-    let Some(xc) = cross.delta_over_b else {
+    let (Some(xc), Some(slope)) = (cross.delta_over_b, cross.slope) else {
         return Err(Error::invalid(
             format!("metal {}", ion.name()),
             format!(
@@ -639,25 +664,25 @@ fn prepare_ion(tables: &Tables, spec: &IonSpec, geometry: Geometry) -> Result<Sc
             "an ion with B0 (`spinstate data ions` lists them), or a --data copy of ions.csv that adds it",
         )
     })?;
+    let spin_geometry = SpinGeometry::new(&ion, geometry, &cross, &CALIBRATION);
+    let k = ion
+        .k
+        .or_else(|| estimate::default_k(&tables.ions, ion.series).map(|(k, _)| k));
     Ok(ScreenIon {
         g,
         b0,
-        k: ion.k,
+        k,
         c_over_b,
         crossover: cross,
         crossover_delta_over_b: xc,
+        slope,
+        spin_geometry,
         ion,
     })
 }
 
 /// Why a ligand cannot take part in a screen of `geometry`, if it cannot.
 fn unusable(l: &Ligand, geometry: Geometry) -> Option<String> {
-    if l.f.is_none() {
-        return Some(format!(
-            "{} has no Jørgensen f in ligands.csv, so Δ cannot be estimated",
-            l.name
-        ));
-    }
     if !l.binds.contains(&geometry) {
         let can: Vec<&str> = l.binds.iter().map(|g| g.name()).collect();
         return Some(format!(
@@ -739,12 +764,14 @@ fn pool_ligand(
         ));
     }
     let d = l.denticity();
-    let f = l.f.unwrap_or(0.0);
+    let (f, pi) = estimate::ligand_terms(l);
     let mut f_terms = [0.0; MAX_SITES + 1];
+    let mut pi_terms = [0.0; MAX_SITES + 1];
     let mut h_terms = [0.0; MAX_SITES + 1];
     for c in 0..=MAX_SITES {
         // Exactly the product `per_donor` in complex.rs forms: (count·denticity) as f64 × value.
         f_terms[c] = (c * d) as f64 * f;
+        pi_terms[c] = (c * d) as f64 * pi;
         h_terms[c] = (c * d) as f64 * h.unwrap_or(0.0);
     }
     Ok(PoolLigand {
@@ -754,8 +781,9 @@ fn pool_ligand(
         f,
         h,
         h_defaulted,
-        acceptor: l.pi == PiRole::Acceptor,
+        pi,
         f_terms,
+        pi_terms,
         h_terms,
         donor_key: donor_key(&l.donors, slots),
     })
@@ -891,19 +919,20 @@ impl Screen {
         let acceptors: Vec<&str> = self
             .pool
             .iter()
-            .filter(|p| p.acceptor)
+            .filter(|p| p.pi > 0.0)
             .map(|p| p.ligand.name.as_str())
             .collect();
         if !acceptors.is_empty() && self.ions.iter().any(|i| i.ion.oxidation_state <= 2) {
             self.notes.push(format!(
-                "f·g underestimates Δ for π-acceptor ligands ({}) on ions in oxidation state ≤ 2: such spheres are likely further on the low-spin side than ranked",
+                "back-bonding of the π acceptors ({}) on ions below +3 is added to f̄, as in predict",
                 acceptors.join(", ")
             ));
         }
-        if self.geometry == Geometry::SquarePlanar {
-            self.notes.push("square planar: Δ is the octahedral f·g of the same ligands in a σ-only angular overlap model and leans to high spin, as in predict".into());
-        }
-        self.notes.push("one geometry is used for both spin states: a real high-spin complex has longer bonds and a smaller Δ (for Fe(II) about 1.75 times smaller; A. Hauser, Top. Curr. Chem. 233, 49, 2004), so treat the ranking as a guide for which spheres to try".into());
+        self.notes.push(format!(
+            "each spin state at its own bond length (Δ ∝ r^-{}), as in predict: spheres are ranked by the mean field Δ̄/B of the two states; the crossover target aims at E_HS − E_LS = {:.0} cm⁻¹, the middle of the thermal window",
+            self.calibration.distance_exponent,
+            0.5 * self.calibration.crossover_window
+        ));
     }
 
     /// A screen of every multiset of `pool` ligands that fills `geometry`.
@@ -972,6 +1001,7 @@ impl Screen {
             .map(|l| pool_ligand(tables, l, needs_h, &slots))
             .collect::<Result<Vec<_>>>()?;
         let mut screen = Screen {
+            calibration: CALIBRATION,
             geometry,
             target,
             ions: screen_ions,
@@ -1169,6 +1199,7 @@ impl Screen {
             .collect();
         spheres.sort();
         let mut screen = Screen {
+            calibration: CALIBRATION,
             geometry,
             target,
             ions: screen_ions,
@@ -1204,26 +1235,34 @@ impl Screen {
         matches!(self.source, Source::Pool)
     }
 
-    /// Δ, B and Δ/B of a sphere for one ion, exactly as `resolve` computes them; None when
+    /// Δ_ref, B, Δ_HS/B and Δ_LS/B of a sphere for one ion, with the functions `resolve`
+    /// calls ([`estimate::reference_delta`] and the ion's [`SpinGeometry`]); None when
     /// β = 1 − h̄k ≤ 0 (the factor rule fails).
     #[inline]
-    fn parameters(&self, ion: &ScreenIon, s: &Sums) -> Option<(f64, f64, f64)> {
+    fn parameters(&self, ion: &ScreenIon, s: &Sums) -> Option<Parameters> {
         let donors = self.geometry.coordination_number() as f64;
-        let d = s.f / donors * ion.g;
-        let delta = if self.geometry == Geometry::Tetrahedral {
-            4.0 / 9.0 * d
-        } else {
-            d
-        };
+        let delta_ref = estimate::reference_delta(
+            s.f / donors,
+            s.pi / donors,
+            ion.g,
+            ion.ion.oxidation_state,
+            self.geometry,
+            &self.calibration,
+        );
         let beta = match ion.k {
-            Some(k) => 1.0 - s.h / donors * k,
+            Some(k) => estimate::nephelauxetic_ratio(s.h / donors, k).0,
             None => 1.0,
         };
-        if beta <= 0.0 {
+        if !beta.is_finite() {
             return None;
         }
         let b = ion.b0 * beta;
-        Some((delta, b, delta / b))
+        let sg = &ion.spin_geometry;
+        Some(Parameters {
+            delta_high_spin: delta_ref * sg.high_spin_factor,
+            delta_low_spin: delta_ref * sg.low_spin_factor,
+            b,
+        })
     }
 
     #[inline]
@@ -1362,14 +1401,12 @@ impl Screen {
                 }
             }
             state.evaluated += 1;
-            let Some((_, _, x)) = self.parameters(ion, sums) else {
+            let Some(p) = self.parameters(ion, sums) else {
                 state.skipped += 1;
                 continue;
             };
-            let xc = ion.crossover_delta_over_b;
-            let percent = 100.0 * (x - xc) / xc;
             state.ranking.offer(Hit {
-                score: self.target.score(percent),
+                score: self.score(ion, &p),
                 ion: i as u16,
                 sphere: *sphere,
                 row,
@@ -1377,35 +1414,67 @@ impl Screen {
         }
     }
 
+    /// Score of one candidate for the target (see the module docs), from the mean field Δ̄/B
+    /// of the two spin states.
+    #[inline]
+    fn score(&self, ion: &ScreenIon, p: &Parameters) -> f64 {
+        let xc = ion.crossover_delta_over_b;
+        let mean = 0.5 * (p.delta_high_spin + p.delta_low_spin) / p.b;
+        match self.target {
+            Target::Crossover => {
+                let aim = estimate::crossover_target(
+                    &ion.crossover,
+                    &ion.spin_geometry,
+                    p.b,
+                    &self.calibration,
+                )
+                .unwrap_or(xc);
+                -100.0 * (mean - aim).abs() / xc
+            }
+            Target::High | Target::Low => self.target.score(100.0 * (mean - xc) / xc),
+        }
+    }
+
     /// The full evaluation of a ranked hit.
     pub fn candidate(&self, hit: &Hit) -> Candidate {
         let ion = &self.ions[hit.ion as usize];
         let sums = self.sums(&hit.sphere);
-        let (delta, b, x) = self
-            .parameters(ion, &sums)
-            .unwrap_or((f64::NAN, f64::NAN, f64::NAN));
+        let p = self.parameters(ion, &sums).unwrap_or(Parameters {
+            delta_high_spin: f64::NAN,
+            delta_low_spin: f64::NAN,
+            b: f64::NAN,
+        });
+        let choice = estimate::choose_spin(
+            p.delta_high_spin / p.b,
+            p.delta_low_spin / p.b,
+            p.b,
+            &ion.crossover,
+            &self.calibration,
+        );
         let xc = ion.crossover_delta_over_b;
+        let x = choice.map_or(f64::NAN, |c| c.delta_over_b_mean);
         let margin = x - xc;
         let percent = 100.0 * margin / xc;
-        // The relative uncertainties `resolve` assumes (see complex.rs).
-        let du: f64 = if self.geometry == Geometry::SquarePlanar {
-            0.5
-        } else if ion.ion.oxidation_state <= 2 && sums.acceptor {
-            0.25
-        } else {
-            0.10
+        let reliability = Reliability {
+            worst_f: sums.worst_f,
+            g: ion.ion.provenance_of("g"),
+            b0: ion.ion.provenance_of("b0"),
+            back_bonding: sums.pi > 0.0
+                && estimate::back_bonding_steps(ion.ion.oxidation_state) > 0.0,
+            b_defaulted: sums.h_defaulted || ion.ion.k.is_none(),
+            heavy: ion.ion.series != TransitionSeries::ThreeD,
+            geometry: self.geometry,
         };
-        let bu = if ion.ion.series != TransitionSeries::ThreeD {
-            0.25
-        } else if sums.h_defaulted || ion.k.is_none() {
-            0.15
-        } else {
-            0.10
-        };
-        let u = du.hypot(bu);
+        let u = reliability.delta().hypot(reliability.b());
         let name = match &self.source {
             Source::Rows(rows) => rows.get(hit.row as usize).and_then(|(_, n)| n.clone()),
             Source::Pool => None,
+        };
+        let state = choice.map_or(SpinState::High, |c| c.state);
+        let delta = if state.low_spin_ground() {
+            p.delta_low_spin
+        } else {
+            p.delta_high_spin
         };
         Candidate {
             ion: hit.ion as usize,
@@ -1414,21 +1483,20 @@ impl Screen {
             name,
             charge: ion.ion.oxidation_state + sums.charge,
             delta,
-            b,
-            c: ion.c_over_b * b,
+            delta_high_spin: p.delta_high_spin,
+            delta_low_spin: p.delta_low_spin,
+            b: p.b,
+            c: ion.c_over_b * p.b,
             c_over_b: ion.c_over_b,
             delta_over_b: x,
             crossover_delta_over_b: xc,
             margin,
             percent,
+            energy_gap: choice.map_or(f64::NAN, |c| c.energy_gap),
             uncertainty: u,
             borderline: margin.abs() <= u * x,
-            spin_state: if margin > 0.0 {
-                SpinState::Low
-            } else {
-                SpinState::High
-            },
-            score: self.target.score(percent),
+            spin_state: state,
+            score: self.score(ion, &p),
         }
     }
 
@@ -1500,7 +1568,7 @@ mod tests {
     use crate::predict::predict;
 
     const LIGAND_HEADER: &str =
-        "name,aliases,donors,denticity,charge,f,h,e_sigma,e_pi,pi,binds,caution,source";
+        "name,aliases,donors,denticity,charge,f,f_from,h,e_sigma,e_pi,pi,binds,caution,source";
 
     fn bundled() -> &'static Tables {
         Tables::bundled().unwrap()
@@ -1523,11 +1591,11 @@ mod tests {
         csv.push('\n');
         for i in 0..n {
             csv.push_str(&format!(
-                "SYN{i:02},,N,1,0,{:.3},1.0,,,none,oct tet sqpl,,synthetic test ligand (not a real ligand)\n",
+                "SYN{i:02},,N,1,0,{:.3},printed,1.0,,,none,oct tet sqpl,,synthetic test ligand (not a real ligand)\n",
                 0.7 + 0.03 * i as f64
             ));
         }
-        Tables::parse(include_str!("../data/ions.csv"), &csv).unwrap()
+        Tables::parse_chemistry(include_str!("../data/ions.csv"), &csv).unwrap()
     }
 
     fn binomial(n: u64, k: u64) -> u64 {
@@ -1737,9 +1805,14 @@ mod tests {
                     }
                 };
                 assert_eq!(c.delta, r.delta.value, "{spec:?}");
+                assert_eq!(c.delta_high_spin, r.delta_high_spin.value, "{spec:?}");
+                assert_eq!(c.delta_low_spin, r.delta_low_spin.value, "{spec:?}");
                 assert_eq!(c.b, r.b.value, "{spec:?}");
                 assert_eq!(c.c, r.c.value, "{spec:?}");
-                assert_eq!(c.delta_over_b, r.delta_over_b(), "{spec:?}");
+                let choice = r.spin_choice.unwrap();
+                assert_eq!(c.delta_over_b, choice.delta_over_b_mean, "{spec:?}");
+                assert_eq!(c.energy_gap, choice.energy_gap, "{spec:?}");
+                assert_eq!(c.spin_state, choice.state, "{spec:?}");
                 assert_eq!(c.uncertainty, r.delta_over_b_uncertainty(), "{spec:?}");
                 assert_eq!(c.charge, r.charge);
                 assert_eq!(s.formula(&c), r.formula());
@@ -1808,12 +1881,12 @@ mod tests {
                         swapped.sort();
                         let up = s.candidate(&hit_for(0, &swapped));
                         assert!(
-                            up.delta >= base.delta,
+                            up.delta_high_spin >= base.delta_high_spin,
                             "{} → {}: {} < {}",
                             w[0],
                             w[1],
-                            up.delta,
-                            base.delta
+                            up.delta_high_spin,
+                            base.delta_high_spin
                         );
                     }
                 }
@@ -1989,13 +2062,16 @@ mod tests {
             Filters::default(),
         );
         assert!(e.contains("cannot fill the 4 donor sites"), "{e}");
-        let e = err(
+        // Every ligand in the table has an f, so a π acceptor such as CO is screened.
+        assert!(Screen::from_pool(
+            t,
             &fe2(),
             Geometry::Octahedral,
-            &["CO", "H2O"],
-            Filters::default(),
-        );
-        assert!(e.contains("no Jørgensen f"), "{e}");
+            &names(&["CO", "H2O"]),
+            &Filters::default(),
+            Target::Crossover
+        )
+        .is_ok());
         let e = err(
             &fe2(),
             Geometry::Tetrahedral,
@@ -2053,7 +2129,7 @@ H,phen:2 NCS:2,
 
     #[test]
     fn candidate_files_report_bad_rows_and_rank_the_rest() {
-        let text = format!("{CANDIDATES}X1,pyy:6,\nX2,py:5,\nX3,,\nX4,CO:6,\n");
+        let text = format!("{CANDIDATES}X1,pyy:6,\nX2,py:5,\nX3,,\nX4,tacn:3,\n");
         let (s, errors) = Screen::from_candidates(
             bundled(),
             &fe2(),
@@ -2070,7 +2146,7 @@ H,phen:2 NCS:2,
         );
         assert!(errors[1].message.contains("5 donor atoms"), "{}", errors[1]);
         assert!(errors[2].message.contains("empty"));
-        assert!(errors[3].message.contains("no Jørgensen f"));
+        assert!(errors[3].message.contains("9 donor atoms"), "{}", errors[3]);
         let out = s.run(Keep::All, &mut |_| {});
         assert_eq!(out.candidates, 8);
         assert_eq!(out.hits.len(), 8);

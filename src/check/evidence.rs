@@ -23,7 +23,6 @@ use crate::units;
 /// no side when borderline, and never decides against a measurement (see [`super::decide`]).
 pub fn prediction(p: &Prediction) -> Evidence {
     let cx = &p.complex;
-    let x = cx.delta_over_b();
     let given = cx.delta.origin == Origin::Given && cx.b.origin == Origin::Given;
     let measured = if given {
         format!(
@@ -57,10 +56,21 @@ pub fn prediction(p: &Prediction) -> Evidence {
         (state, Some(m)) => {
             let xc = p.crossover.delta_over_b.unwrap_or(f64::NAN);
             let predicted = format!(
-                "Δ/B {x:.1} against the crossover at {xc:.1} ({:+.0} %)",
+                "mean Δ̄/B {:.1} of the two spin states against the crossover at {xc:.1} ({:+.0} %)",
+                xc + m.delta_over_b,
                 m.percent
             );
-            if m.borderline {
+            if state == SpinState::Crossover {
+                (
+                    predicted,
+                    Support::Both,
+                    Strength::None,
+                    format!(
+                        "spin crossover predicted: low spin at low temperature with the high-spin state {:.0} cm⁻¹ above, within thermal reach",
+                        p.energy_gap.unwrap_or(f64::NAN)
+                    ),
+                )
+            } else if m.borderline {
                 (
                     predicted,
                     Support::Both,
@@ -77,14 +87,12 @@ pub fn prediction(p: &Prediction) -> Evidence {
                     Support::High
                 };
                 let mut detail = format!(
-                    "{} side of the crossover, outside the assumed ±{:.0} %; one geometry is assumed for both spin states",
+                    "{} side of the crossover, outside the assumed ±{:.0} %; each spin state at its own bond length",
                     if side == Support::Low { "low-spin" } else { "high-spin" },
                     m.uncertainty_percent
                 );
-                if cx.notes.iter().any(|n| n.contains("underestimate Δ")) {
-                    detail.push_str(
-                        "; f·g underestimates Δ for π-acceptor ligands on this ion, so low spin is likelier than it looks",
-                    );
+                if cx.notes.iter().any(|n| n.starts_with("back-bonding")) {
+                    detail.push_str("; back-bonding of the π acceptors included");
                 }
                 (
                     predicted,

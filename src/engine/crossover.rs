@@ -56,6 +56,10 @@ pub struct Crossover {
     pub high_spin: SpinGround,
     /// Ground state above the crossover (the low-spin state), if the spin changes.
     pub low_spin: Option<SpinGround>,
+    /// d(E_HS − E_LS)/dΔ at the crossover (dimensionless, > 0): how fast the low-spin state
+    /// falls below the high-spin one as Δ grows (2 for d⁶ octahedral in the strong-field limit,
+    /// the number of electrons moved times one Δ each). None when the spin does not change.
+    pub slope: Option<f64>,
 }
 
 impl Crossover {
@@ -169,6 +173,7 @@ fn compute(dn: usize, geometry: Geometry, c_over_b: f64) -> Result<Crossover> {
             limit: DELTA_OVER_B_LIMIT,
             high_spin,
             low_spin: None,
+            slope: None,
         });
     };
     // Bisection on the spin until the bracket is narrow, then a smooth root of E_HS − E_new.
@@ -185,7 +190,9 @@ fn compute(dn: usize, geometry: Geometry, c_over_b: f64) -> Result<Crossover> {
         let l = lowest(dn, geometry, c_over_b, x)?;
         Ok(energy_of(&l, s_hs) - energy_of(&l, s_new))
     };
-    let root = illinois(g, a, b, 1e-9, 100)?;
+    let root = illinois(&g, a, b, 1e-9, 100)?;
+    const H: f64 = 1e-3;
+    let slope = (g(root + H)? - g(root - H)?) / (2.0 * H);
     let low_spin = ground_state(dn, geometry, c_over_b, (root + 0.05).min(b + 0.05))?;
     let high_spin = ground_state(dn, geometry, c_over_b, (root - 0.05).max(a - 0.05))
         .map(|g| {
@@ -204,6 +211,7 @@ fn compute(dn: usize, geometry: Geometry, c_over_b: f64) -> Result<Crossover> {
         limit: DELTA_OVER_B_LIMIT,
         high_spin,
         low_spin: Some(low_spin),
+        slope: Some(slope),
     })
 }
 

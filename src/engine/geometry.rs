@@ -70,6 +70,59 @@ impl Geometry {
         }
     }
 
+    /// Angular-overlap σ coefficients of the five d orbitals, lowest in energy first (units of
+    /// e_σ summed over the donors; C. E. Schäffer, C. K. Jørgensen, *Mol. Phys.* 1965; E. Larsen,
+    /// G. N. La Mar, *J. Chem. Educ.* 1974, 51, 633): octahedral t₂g 0 and e_g 3 each;
+    /// tetrahedral e 0 and t₂ 4/3 each; square planar xz, yz, xy 0, z² 1, x²−y² 3.
+    pub fn sigma_coefficients(self) -> [f64; 5] {
+        match self {
+            Geometry::Octahedral | Geometry::Tetragonal => [0.0, 0.0, 0.0, 3.0, 3.0],
+            Geometry::Tetrahedral => [0.0, 0.0, 4.0 / 3.0, 4.0 / 3.0, 4.0 / 3.0],
+            Geometry::SquarePlanar => [0.0, 0.0, 0.0, 1.0, 3.0],
+        }
+    }
+
+    /// σ-antibonding electrons per bond of the lowest configuration of d^n with 2S = `two_s`
+    /// (pairs in the lowest orbitals, then the unpaired electrons), in octahedral e_g-electron
+    /// equivalents: Σ nᵢ wᵢ · 6/(3N) with wᵢ the σ coefficients and N donors, so one e_g
+    /// electron of an octahedron counts 1. High-spin d⁶ octahedral has 2, low-spin 0. None when
+    /// d^n and 2S do not fit in five orbitals.
+    pub fn sigma_antibonding_per_bond(self, dn: usize, two_s: i32) -> Option<f64> {
+        let unpaired = usize::try_from(two_s).ok()?;
+        if dn > 10 || unpaired > dn || (dn - unpaired) % 2 != 0 {
+            return None;
+        }
+        let pairs = (dn - unpaired) / 2;
+        if pairs + unpaired > 5 {
+            return None;
+        }
+        let w = self.sigma_coefficients();
+        let occupied: f64 = w[..pairs].iter().map(|x| 2.0 * x).sum::<f64>()
+            + w[pairs..pairs + unpaired].iter().sum::<f64>();
+        Some(occupied * 6.0 / (3.0 * self.coordination_number() as f64))
+    }
+
+    /// Ratio of this geometry's Δ convention to the octahedral Δo of the same ligands at the same
+    /// bond length (angular overlap model, Larsen & La Mar 1974): 1 for oct and tetragonal,
+    /// 4/9 for tet (Δt = (4/9)(3e_σ − 4e_π)), 1 for sqpl, whose Δ is 3e_σ like Δo.
+    pub fn delta_ratio_to_octahedral(self) -> f64 {
+        match self {
+            Geometry::Octahedral | Geometry::Tetragonal | Geometry::SquarePlanar => 1.0,
+            Geometry::Tetrahedral => 4.0 / 9.0,
+        }
+    }
+
+    /// Whether a state with this ground term (a label such as "5Eg") is strongly Jahn–Teller
+    /// active: an orbital doublet of an octahedron, where the σ-antibonding e_g set is unevenly
+    /// filled (high-spin d⁴, low-spin d⁷, d⁹). Tetrahedral E terms couple weakly; planar and
+    /// tetragonal fields have already lifted the degeneracy.
+    pub fn jahn_teller_active(self, term: &str) -> bool {
+        match self {
+            Geometry::Octahedral => term.trim_start_matches(char::is_numeric).starts_with("Eg"),
+            Geometry::Tetrahedral | Geometry::SquarePlanar | Geometry::Tetragonal => false,
+        }
+    }
+
     /// The group whose Mulliken labels are used.
     pub fn point_group(self, ds: f64, dt: f64) -> PointGroup {
         match self {

@@ -12,7 +12,6 @@
 use super::{fmt_num, new_table};
 use crate::check::batch::RowError;
 use crate::check::{CheckResult, EvidenceKind};
-use crate::predict::SpinState;
 use serde::Serialize;
 
 /// Caution printed with every `check` and `demo` result.
@@ -91,12 +90,7 @@ impl CheckReport {
             crossover_delta_over_b: p.crossover.delta_over_b,
             margin_percent: p.margin.map(|m| m.percent),
             borderline: p.margin.is_some_and(|m| m.borderline),
-            predicted_spin_state: match p.spin_state {
-                SpinState::High => "high",
-                SpinState::Low => "low",
-                SpinState::Fixed => "fixed",
-            }
-            .to_string(),
+            predicted_spin_state: p.spin_state.name().to_string(),
             verdict: r.verdict.name().to_string(),
             confidence: r.confidence.name().to_string(),
             reasons: r.reasons.clone(),

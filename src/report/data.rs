@@ -58,7 +58,9 @@ pub struct LigandRow {
     pub denticity: usize,
     pub charge: i32,
     /// Jørgensen f (dimensionless).
-    pub f: Option<f64>,
+    pub f: f64,
+    /// How f was obtained: "printed", "derived" (from a named published Δ) or "series".
+    pub f_from: String,
     /// Jørgensen h (dimensionless).
     pub h: Option<f64>,
     /// Angular overlap e_σ for Cr(III) (cm⁻¹).
@@ -82,6 +84,7 @@ impl From<&Ligand> for LigandRow {
             denticity: l.denticity(),
             charge: l.charge,
             f: l.f,
+            f_from: l.f_from.name().to_string(),
             h: l.h,
             e_sigma: l.e_sigma,
             e_pi: l.e_pi,
@@ -160,7 +163,7 @@ impl LigandsReport {
                 r.aliases.join(", "),
                 r.donors.join(" "),
                 r.charge.to_string(),
-                opt(r.f, 2),
+                format!("{} ({})", super::fmt_num(r.f, 2), r.f_from),
                 opt(r.h, 1),
                 r.pi.clone(),
                 r.binds.join(" "),

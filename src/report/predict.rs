@@ -18,8 +18,12 @@ pub struct LigandRow {
     pub denticity: usize,
     /// Donor atoms (element symbols).
     pub donors: Vec<String>,
-    /// Jørgensen f (dimensionless), null when unpublished.
-    pub f: Option<f64>,
+    /// Jørgensen f (dimensionless).
+    pub f: f64,
+    /// How f was obtained: "printed", "derived" or "series".
+    pub f_from: String,
+    /// π-acceptor term π = −4e_π/g(Cr³⁺) (dimensionless; 0 when not a π acceptor).
+    pub pi: f64,
     /// Jørgensen h used (dimensionless): the published value or the donor-atom default.
     pub h: Option<f64>,
     /// True when `h` is a default, not the ligand's own published value.
@@ -111,8 +115,12 @@ pub struct BandSet {
     pub from: String,
     /// Energy of that level above the ground level (cm⁻¹).
     pub from_energy: f64,
-    /// Number of bands.
+    /// Δ at which the bands were computed: this state's own Δ (cm⁻¹).
+    pub delta: f64,
+    /// Number of bands listed.
     pub count: usize,
+    /// Bands above the window left out (0 with --all).
+    pub omitted: usize,
     pub bands: Vec<BandRow>,
 }
 
@@ -122,7 +130,9 @@ impl From<&SpinBands> for BandSet {
             spin: s.two_s as f64 / 2.0,
             from: s.from.clone(),
             from_energy: s.from_energy,
+            delta: s.delta,
             count: s.bands.len(),
+            omitted: s.omitted,
             bands: s
                 .bands
                 .iter()
@@ -135,6 +145,53 @@ impl From<&SpinBands> for BandSet {
                 .collect(),
         }
     }
+}
+
+/// The literature spin state of the complex, when it is in `reported_spin_states.csv`.
+#[derive(Debug, Clone, Serialize)]
+pub struct ReportedRow {
+    /// Label as in the table, e.g. "[Fe(bpy)3]2+".
+    pub complex: String,
+    /// "high", "low", "intermediate" or "crossover".
+    pub spin_state: String,
+    /// Unpaired electrons of the low-temperature ground state.
+    pub unpaired: usize,
+    /// Spin-crossover T½ (K), when reported.
+    pub t_half_k: Option<f64>,
+    pub source: String,
+}
+
+impl From<&crate::tables::ReportedComplex> for ReportedRow {
+    fn from(r: &crate::tables::ReportedComplex) -> Self {
+        ReportedRow {
+            complex: r.complex.clone(),
+            spin_state: r.spin_state.name().to_string(),
+            unpaired: r.unpaired,
+            t_half_k: r.t_half_k,
+            source: r.source.clone(),
+        }
+    }
+}
+
+/// The two spin states' own fields and the energy gap between them.
+#[derive(Debug, Clone, Serialize)]
+pub struct SpinGeometryRow {
+    /// Spin state whose geometry the ion's g refers to: "hs", "ls" or "any".
+    pub reference_state: String,
+    /// Bond lengthening r_HS − r_LS used (Å).
+    pub delta_r_angstrom: f64,
+    /// "table" (ions.csv) or "rule" (0.1 Å per e_g electron for M(I)/M(II), 0.075 Å above).
+    pub delta_r_from: String,
+    /// Δ_LS/Δ_HS = ((r + Δr)/r)ⁿ.
+    pub ratio: f64,
+    /// n in Δ ∝ r⁻ⁿ.
+    pub distance_exponent: f64,
+    /// Mean field Δ̄/B of the two states.
+    pub mean_delta_over_b: Option<f64>,
+    /// E_HS − E_LS (cm⁻¹), each state at its own geometry; > 0 when low spin is lower.
+    pub energy_gap: Option<f64>,
+    /// Upper end of E_HS − E_LS (cm⁻¹) for which `crossover` is predicted.
+    pub crossover_window: f64,
 }
 
 /// The whole `predict` report.
@@ -161,8 +218,17 @@ pub struct PredictReport {
     pub mean_h: Option<f64>,
     /// Nephelauxetic ratio β = 1 − h·k used in the estimate.
     pub beta: Option<f64>,
-    /// Δ used (cm⁻¹): Δo for oct, Δt for tet, the octahedral 10Dq of the same ligands for sqpl.
+    /// Donor-averaged π-acceptor term π̄ (dimensionless).
+    pub mean_pi: f64,
+    /// Δ of the predicted ground state (cm⁻¹): Δo for oct, Δt for tet, 3e_σ for sqpl.
     pub delta: Option<f64>,
+    /// Δ of the high-spin state at its own bond length (cm⁻¹).
+    pub delta_high_spin: Option<f64>,
+    /// Δ of the low-spin state at its own bond length (cm⁻¹); equals `delta_high_spin` when the
+    /// spin cannot change or Δ was given.
+    pub delta_low_spin: Option<f64>,
+    /// How the two spin states differ in field.
+    pub spin_geometry: SpinGeometryRow,
     /// Racah B used (cm⁻¹).
     pub b: Option<f64>,
     /// Racah C used (cm⁻¹).
@@ -177,7 +243,8 @@ pub struct PredictReport {
     pub crossover_delta_over_b: Option<f64>,
     /// Largest Δ/B searched for a crossover.
     pub crossover_limit: f64,
-    /// "high", "low" or "fixed".
+    /// "high", "crossover" (low spin at low temperature, high spin thermally reachable), "low"
+    /// or "fixed".
     pub spin_state: String,
     /// Distance from the crossover; null for "fixed".
     pub margin: Option<MarginRow>,
@@ -193,8 +260,12 @@ pub struct PredictReport {
     pub unpaired: usize,
     /// Spin-only moment √(n(n+2)) (μB).
     pub spin_only_moment: f64,
-    /// Spin-plus-orbital moment of the parent term √(4S(S+1)+L(L+1)) (μB).
-    pub orbital_moment: f64,
+    /// Spin-plus-orbital moment of the parent term √(4S(S+1)+L(L+1)) (μB), the unquenched
+    /// upper limit; null unless the ground term has first-order orbital angular momentum.
+    pub orbital_moment: Option<f64>,
+    /// μ_eff at 300 K (μB) from the ligand field with spin–orbit coupling (van Vleck, κ = 1) at
+    /// the ground state's Δ; null when ζ is unknown.
+    pub moment_300k: Option<f64>,
     /// Whether the ground term has first-order orbital angular momentum.
     pub first_order_orbital: bool,
     /// Whether the ground term is Jahn–Teller active (E in O_h or T_d).
@@ -207,6 +278,9 @@ pub struct PredictReport {
     pub bands_high_spin: BandSet,
     /// Spin-allowed bands of the low-spin state; null when the spin cannot change.
     pub bands_low_spin: Option<BandSet>,
+    /// What the literature reports for this complex (null when it is not in
+    /// reported_spin_states.csv); `spin_state` and `unpaired` above are always the model's own.
+    pub reported: Option<ReportedRow>,
     pub notes: Vec<String>,
     /// Handling cautions; the tool's output is never a safety approval.
     pub cautions: Vec<String>,
@@ -247,6 +321,8 @@ impl PredictReport {
                     denticity: b.ligand.denticity(),
                     donors: b.ligand.donors.clone(),
                     f: b.ligand.f,
+                    f_from: b.ligand.f_from.name().to_string(),
+                    pi: crate::estimate::ligand_terms(&b.ligand).1,
                     h: b.h_used,
                     h_defaulted: b.h_defaulted,
                 })
@@ -254,7 +330,25 @@ impl PredictReport {
             mean_f: c.mean_f,
             mean_h: c.mean_h,
             beta: c.beta,
+            mean_pi: c.mean_pi,
             delta: used(&c.delta),
+            delta_high_spin: used(&c.delta_high_spin),
+            delta_low_spin: used(&c.delta_low_spin),
+            spin_geometry: SpinGeometryRow {
+                reference_state: c.spin_geometry.reference.name().to_string(),
+                delta_r_angstrom: c.spin_geometry.delta_r,
+                delta_r_from: match c.spin_geometry.delta_r_from {
+                    crate::estimate::BondChange::Table => "table",
+                    crate::estimate::BondChange::Rule => "rule",
+                    crate::estimate::BondChange::None => "none",
+                }
+                .to_string(),
+                ratio: c.spin_geometry.ratio,
+                distance_exponent: c.calibration.distance_exponent,
+                mean_delta_over_b: c.spin_choice.map(|s| s.delta_over_b_mean),
+                energy_gap: p.energy_gap,
+                crossover_window: c.calibration.crossover_window,
+            },
             b: used(&c.b),
             c: used(&c.c),
             c_over_b: both(&c.c, &c.b),
@@ -280,15 +374,23 @@ impl PredictReport {
             unpaired: p.unpaired,
             spin_only_moment: p.spin_only_moment,
             orbital_moment: p.orbital_moment,
+            moment_300k: p.moment_300k,
             first_order_orbital: p.first_order_orbital,
             jahn_teller: p.jahn_teller,
             high_spin_state: state(&p.crossover.high_spin),
             low_spin_state: p.crossover.low_spin.as_ref().map(state),
             bands_high_spin: (&p.bands_high_spin).into(),
             bands_low_spin: p.bands_low_spin.as_ref().map(Into::into),
+            reported: None,
             notes: p.notes.clone(),
             cautions,
         }
+    }
+
+    /// Adds what the literature reports for this complex.
+    pub fn with_reported(mut self, r: Option<&crate::tables::ReportedComplex>) -> Self {
+        self.reported = r.map(Into::into);
+        self
     }
 
     /// Human-readable text with tables.
@@ -326,13 +428,27 @@ impl PredictReport {
         }
         out.push_str(&format!("{t}\n"));
         out.push_str(&format!(
-            "Δ/B = {}, C/B = {}; f̄ = {}, h̄ = {}, β = {}\n",
+            "Δ/B = {}, C/B = {}; f̄ = {}, π̄ = {}, h̄ = {}, β = {}\n",
             opt(self.delta_over_b, 2),
             opt(self.c_over_b, 3),
             opt(self.mean_f, 3),
+            fmt_num(self.mean_pi, 3),
             opt(self.mean_h, 3),
             opt(self.beta, 3)
         ));
+        if self.low_spin_state.is_some() {
+            let g = &self.spin_geometry;
+            out.push_str(&format!(
+                "each spin state at its own bond length: Δ_HS = {} cm⁻¹, Δ_LS = {} cm⁻¹ (Δr = {} Å, Δ_LS/Δ_HS = {}); mean Δ̄/B = {}; E_HS − E_LS = {} cm⁻¹ (crossover window 0–{} cm⁻¹)\n",
+                opt(self.delta_high_spin, 0),
+                opt(self.delta_low_spin, 0),
+                fmt_num(g.delta_r_angstrom, 3),
+                fmt_num(g.ratio, 2),
+                opt(g.mean_delta_over_b, 2),
+                opt(g.energy_gap, 0),
+                fmt_num(g.crossover_window, 0)
+            ));
+        }
         match (&self.crossover_delta_over_b, &self.low_spin_state) {
             (Some(x), Some(ls)) => out.push_str(&format!(
                 "crossover Δ/B = {} (d{}, {}, C/B {}): {} (S = {}) below, {} (S = {}) above\n",
@@ -350,10 +466,16 @@ impl PredictReport {
                 self.dn, self.geometry, self.crossover_limit
             )),
         }
+        let state_words = match self.spin_state.as_str() {
+            "crossover" => {
+                "spin crossover (low-spin ground state, high-spin thermally reachable)".to_string()
+            }
+            s => format!("{s}-spin"),
+        };
         match &self.margin {
             Some(m) => out.push_str(&format!(
-                "spin state: {}-spin, margin {} in Δ/B ({} % of the crossover; assumed uncertainty of Δ/B ±{} %, from the ± % column: the typical error of the factor rules against spectra, or of a measured band){}\n",
-                self.spin_state,
+                "spin state: {}, margin {} in Δ̄/B ({} % of the crossover; assumed uncertainty of Δ/B ±{} %, from the ± % column: the typical error of the factor rules against spectra, or of a measured band){}\n",
+                state_words,
                 fmt_num(m.delta_over_b, 2),
                 fmt_num(m.percent, 1),
                 fmt_num(m.uncertainty_percent, 0),
@@ -366,20 +488,47 @@ impl PredictReport {
             self.ground_term, self.parent_term, self.spin, self.unpaired
         ));
         out.push_str(&format!(
-            "moments: spin-only {} μB; spin + orbital of {} {} μB; first-order orbital momentum: {}\n",
+            "moments: spin-only {} μB; ligand field + spin–orbit at 300 K (κ = 1) {}; first-order orbital momentum: {}{}\n",
             fmt_num(self.spin_only_moment, 2),
-            self.parent_term,
-            fmt_num(self.orbital_moment, 2),
-            if self.first_order_orbital { "yes" } else { "no" }
+            self.moment_300k
+                .map_or("not computed (no ζ)".to_string(), |m| format!("{} μB", fmt_num(m, 2))),
+            if self.first_order_orbital { "yes" } else { "no" },
+            self.orbital_moment.map_or(String::new(), |m| format!(
+                " (unquenched limit of {}: {} μB)",
+                self.parent_term,
+                fmt_num(m, 2)
+            ))
         ));
+        if let Some(r) = &self.reported {
+            out.push_str(&format!(
+                "reported: {} is {}{} with {} unpaired electron(s) ({}); the prediction above is the model's own\n",
+                r.complex,
+                r.spin_state,
+                r.t_half_k.map_or(String::new(), |t| format!(" (T½ ≈ {} K)", fmt_num(t, 0))),
+                r.unpaired,
+                r.source
+            ));
+        }
         for (title, set) in [
             ("high-spin", Some(&self.bands_high_spin)),
             ("low-spin", self.bands_low_spin.as_ref()),
         ] {
             let Some(set) = set else { continue };
             out.push_str(&format!(
-                "spin-allowed bands of the {title} state (from {}, S = {}): {}\n",
-                set.from, set.spin, set.count
+                "spin-allowed bands of the {title} state (from {}, S = {}, at Δ = {} cm⁻¹): {}{}\n",
+                set.from,
+                set.spin,
+                fmt_num(set.delta, 0),
+                set.count,
+                if set.omitted > 0 {
+                    format!(
+                        " below {} cm⁻¹ ({} more above; --all lists them)",
+                        fmt_num(crate::predict::BAND_WINDOW, 0),
+                        set.omitted
+                    )
+                } else {
+                    String::new()
+                }
             ));
             if set.count > 0 {
                 let mut t = new_table(["to", "parent", "energy (cm⁻¹)", "λ (nm)"]);

@@ -3,7 +3,11 @@
 //! Columns (units in cm⁻¹ unless said): `symbol`, `oxidation_state`, `b0` and `c0` (free-ion
 //! Racah B and C), `zeta` (one-electron spin–orbit constant ζ), `g` (Jørgensen's metal factor,
 //! Δo = f·g), `k` (Jørgensen's nephelauxetic metal factor, dimensionless, β = 1 − h·k),
-//! `caution` (a short handling caution, may be empty) and `source`. Empty cells mean "no value".
+//! `g_state` (`hs`, `ls` or `any`: the spin state of the complexes g was measured on),
+//! `delta_r` (Å, the mean metal–donor bond lengthening from the low- to the high-spin state),
+//! `provenance` (space-separated `key=kind` items saying how b0, c0, g, zeta and k were
+//! obtained: `printed`, `derived`, `assumed`, `rule` or `none`), `caution` (a short handling
+//! caution, may be empty) and `source`. Empty cells mean "no value".
 //!
 //! The d-electron count is not stored: it is the element's group number minus the oxidation
 //! state (d block, groups 3–12), with the group taken from the `mendeleev` crate.
@@ -13,7 +17,7 @@ use crate::error::{closest_names, Error, Result};
 use mendeleev::Element;
 
 const TABLE: &str = "ions.csv";
-const HEADER: [&str; 9] = [
+const HEADER: [&str; 12] = [
     "symbol",
     "oxidation_state",
     "b0",
@@ -21,6 +25,9 @@ const HEADER: [&str; 9] = [
     "zeta",
     "g",
     "k",
+    "g_state",
+    "delta_r",
+    "provenance",
     "caution",
     "source",
 ];
@@ -47,6 +54,71 @@ impl TransitionSeries {
     }
 }
 
+/// The spin state of the complexes on which an ion's metal factor g was measured. The estimate
+/// takes g·f as the Δ of that state's geometry and scales it to the other state's bond length.
+#[derive(Debug, Clone, Copy, PartialEq, Eq, Hash)]
+pub enum ReferenceState {
+    /// g comes from high-spin complexes (e.g. Fe²⁺ from [Fe(H₂O)₆]²⁺).
+    HighSpin,
+    /// g comes from low-spin complexes (e.g. Co³⁺ from [Co(NH₃)₆]³⁺, 4d and 5d ions).
+    LowSpin,
+    /// The d^n has no spin choice in octahedra (d¹–d³, d⁸, d⁹), so the question does not arise.
+    Any,
+}
+
+impl ReferenceState {
+    /// The CSV spelling: "hs", "ls" or "any".
+    pub fn name(self) -> &'static str {
+        match self {
+            ReferenceState::HighSpin => "hs",
+            ReferenceState::LowSpin => "ls",
+            ReferenceState::Any => "any",
+        }
+    }
+}
+
+/// How one of an ion's parameters was obtained (the `provenance` column).
+#[derive(Debug, Clone, Copy, PartialEq, Eq, Hash)]
+pub enum Provenance {
+    /// Printed in the named table.
+    Printed,
+    /// Derived from a named published Δ, band fit or β.
+    Derived,
+    /// An assumed typical value (no published value for this ion).
+    Assumed,
+    /// From a stated rule (e.g. the 4d/3d ratio of Δ).
+    Rule,
+    /// No value.
+    None,
+}
+
+impl Provenance {
+    /// The CSV spelling.
+    pub fn name(self) -> &'static str {
+        match self {
+            Provenance::Printed => "printed",
+            Provenance::Derived => "derived",
+            Provenance::Assumed => "assumed",
+            Provenance::Rule => "rule",
+            Provenance::None => "none",
+        }
+    }
+
+    fn parse(s: &str) -> Option<Provenance> {
+        Some(match s {
+            "printed" => Provenance::Printed,
+            "derived" => Provenance::Derived,
+            "assumed" => Provenance::Assumed,
+            "rule" => Provenance::Rule,
+            "none" => Provenance::None,
+            _ => return None,
+        })
+    }
+}
+
+/// Keys of the `provenance` column.
+pub const PROVENANCE_KEYS: [&str; 5] = ["b0", "c0", "g", "zeta", "k"];
+
 /// One metal ion.
 #[derive(Debug, Clone, PartialEq)]
 pub struct Ion {
@@ -68,6 +140,12 @@ pub struct Ion {
     pub g: Option<f64>,
     /// Jørgensen's nephelauxetic metal factor k: β = 1 − h(ligand)·k(metal).
     pub k: Option<f64>,
+    /// Spin state of the complexes g was measured on.
+    pub g_state: ReferenceState,
+    /// Published mean M–L lengthening from the low- to the high-spin state (Å), if known.
+    pub delta_r: Option<f64>,
+    /// How each of b0, c0, g, zeta, k was obtained (keys of [`PROVENANCE_KEYS`]).
+    pub provenance: Vec<(String, Provenance)>,
     /// Handling caution for this metal (short; defer to local rules and the SDS).
     pub caution: Option<String>,
     /// Where the values come from, with their tags.
@@ -75,6 +153,27 @@ pub struct Ion {
 }
 
 impl Ion {
+    /// How the parameter `key` (one of [`PROVENANCE_KEYS`]) was obtained; `Printed` when the
+    /// row says nothing about a value it has, `None` when it has no value.
+    pub fn provenance_of(&self, key: &str) -> Provenance {
+        if let Some((_, p)) = self.provenance.iter().find(|(k, _)| k == key) {
+            return *p;
+        }
+        let present = match key {
+            "b0" => self.b0.is_some(),
+            "c0" => self.c0.is_some(),
+            "g" => self.g.is_some(),
+            "zeta" => self.zeta.is_some(),
+            "k" => self.k.is_some(),
+            _ => false,
+        };
+        if present {
+            Provenance::Printed
+        } else {
+            Provenance::None
+        }
+    }
+
     /// Name with the oxidation state in Roman numerals, e.g. "Fe(II)".
     pub fn name(&self) -> String {
         format!("{}({})", self.symbol, roman(self.oxidation_state))
@@ -163,6 +262,40 @@ impl IonTable {
                 zeta: cell("zeta").optional_number(10.0..=10000.0, " cm⁻¹")?,
                 g: cell("g").optional_number(1000.0..=60000.0, " cm⁻¹")?,
                 k: cell("k").optional_number(0.0..=1.0, "")?,
+                g_state: {
+                    let c = cell("g_state");
+                    match c.text()?.as_str() {
+                        "hs" => ReferenceState::HighSpin,
+                        "ls" => ReferenceState::LowSpin,
+                        "any" => ReferenceState::Any,
+                        other => {
+                            return Err(c.error(format!("'{other}' is not one of hs, ls, any")))
+                        }
+                    }
+                },
+                delta_r: cell("delta_r").optional_number(0.0..=0.4, " Å")?,
+                provenance: {
+                    let c = cell("provenance");
+                    let mut items = Vec::new();
+                    for item in c.text.split_whitespace() {
+                        let parsed = item.split_once('=').and_then(|(k, v)| {
+                            PROVENANCE_KEYS
+                                .contains(&k)
+                                .then_some(k)
+                                .zip(Provenance::parse(v))
+                        });
+                        match parsed {
+                            Some((k, p)) => items.push((k.to_string(), p)),
+                            None => {
+                                return Err(c.error(format!(
+                                    "'{item}' is not KEY=KIND with KEY one of {} and KIND one of printed, derived, assumed, rule, none",
+                                    PROVENANCE_KEYS.join(", ")
+                                )))
+                            }
+                        }
+                    }
+                    items
+                },
                 caution: cell("caution").optional_text(),
                 source: cell("source").text()?,
                 symbol,
@@ -285,7 +418,17 @@ mod tests {
                         "{}: B0 not from Jolly",
                         r.name()
                     );
-                    assert!((690.0..=1120.0).contains(&b0), "{}: B0 {b0}", r.name());
+                    match r.provenance_of("b0") {
+                        // Printed: inside Jolly's table.
+                        Provenance::Printed => {
+                            assert!((690.0..=1120.0).contains(&b0), "{}: B0 {b0}", r.name())
+                        }
+                        // Extrapolated in charge from it: a wider range, said so.
+                        _ => {
+                            assert!((400.0..=1350.0).contains(&b0), "{}: B0 {b0}", r.name());
+                            assert!(r.source.contains("rule"), "{}", r.name());
+                        }
+                    }
                 } else {
                     assert!(r.source.contains("assumed"), "{}", r.name());
                 }
@@ -335,14 +478,18 @@ mod tests {
     #[test]
     fn bad_rows_name_line_and_column() {
         let head = HEADER.join(",");
-        let e = IonTable::parse(&format!("{head}\nFe,2,5000,,,,,,x\n")).unwrap_err();
+        let e = IonTable::parse(&format!("{head}\nFe,2,5000,,,,,hs,,,,x\n")).unwrap_err();
         assert!(e.to_string().contains("line 2, column b0"), "{e}");
-        let e = IonTable::parse(&format!("{head}\nFe,2,917,,,,,,\n")).unwrap_err();
+        let e = IonTable::parse(&format!("{head}\nFe,2,917,,,,,hs,,,,\n")).unwrap_err();
         assert!(e.to_string().contains("column source"), "{e}");
-        let e = IonTable::parse(&format!("{head}\nFe,9,917,,,,,,x\n")).unwrap_err();
+        let e = IonTable::parse(&format!("{head}\nFe,9,917,,,,,hs,,,,x\n")).unwrap_err();
         assert!(e.to_string().contains("oxidation state of Fe"), "{e}");
-        let e = IonTable::parse(&format!("{head}\nNa,1,,,,,,,x\n")).unwrap_err();
+        let e = IonTable::parse(&format!("{head}\nNa,1,,,,,,any,,,,x\n")).unwrap_err();
         assert!(e.to_string().contains("d-block"), "{e}");
+        let e = IonTable::parse(&format!("{head}\nFe,2,917,,,,,high,,,,x\n")).unwrap_err();
+        assert!(e.to_string().contains("column g_state"), "{e}");
+        let e = IonTable::parse(&format!("{head}\nFe,2,917,,,,,hs,,g=guessed,,x\n")).unwrap_err();
+        assert!(e.to_string().contains("column provenance"), "{e}");
         let e = IonTable::parse("symbol,ox\nFe,2\n").unwrap_err();
         assert!(e.to_string().contains("header"), "{e}");
     }

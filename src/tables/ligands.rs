@@ -2,7 +2,9 @@
 //!
 //! Columns: `name` (the abbreviation used on the command line), `aliases` (`|`-separated),
 //! `donors` (space-separated element symbols of the bound atoms), `denticity` (must equal the
-//! number of donors), `charge`, `f` (Jørgensen's ligand factor, Δo = f·g), `h` (Jørgensen's
+//! number of donors), `charge`, `f` (Jørgensen's ligand factor, Δo = f·g), `f_from` (how f was
+//! obtained: `printed`, `derived` from a named published Δ, or placed in the spectrochemical
+//! `series`), `h` (Jørgensen's
 //! nephelauxetic ligand factor, β = 1 − h·k), `e_sigma` and `e_pi` (angular overlap parameters in
 //! cm⁻¹, published for Cr(III) only; informative, not used by the estimate), `pi`
 //! (`acceptor`, `weak-acceptor`, `donor` or `none`), `binds` (space-separated geometries the ligand can occupy:
@@ -14,13 +16,14 @@ use crate::error::{closest_names, Error, Result};
 use mendeleev::Element;
 
 const TABLE: &str = "ligands.csv";
-const HEADER: [&str; 13] = [
+const HEADER: [&str; 14] = [
     "name",
     "aliases",
     "donors",
     "denticity",
     "charge",
     "f",
+    "f_from",
     "h",
     "e_sigma",
     "e_pi",
@@ -55,6 +58,28 @@ impl PiRole {
     }
 }
 
+/// How a ligand's field factor f was obtained; it sets the uncertainty the estimate assumes.
+#[derive(Debug, Clone, Copy, PartialEq, Eq, Hash)]
+pub enum FieldBasis {
+    /// Printed in Jørgensen's table.
+    Printed,
+    /// Derived as Δo/g from a named published Δo of one complex.
+    Derived,
+    /// Placed between two ligands of known f by its position in the spectrochemical series.
+    Series,
+}
+
+impl FieldBasis {
+    /// The CSV spelling.
+    pub fn name(self) -> &'static str {
+        match self {
+            FieldBasis::Printed => "printed",
+            FieldBasis::Derived => "derived",
+            FieldBasis::Series => "series",
+        }
+    }
+}
+
 /// One ligand.
 #[derive(Debug, Clone, PartialEq)]
 pub struct Ligand {
@@ -66,8 +91,10 @@ pub struct Ligand {
     pub donors: Vec<String>,
     /// Charge of the free ligand.
     pub charge: i32,
-    /// Jørgensen's ligand factor f (Δo = f·g).
-    pub f: Option<f64>,
+    /// Jørgensen's ligand factor f (Δo = f·g); every ligand has one (see [`FieldBasis`]).
+    pub f: f64,
+    /// How f was obtained.
+    pub f_from: FieldBasis,
     /// Jørgensen's nephelauxetic ligand factor h (β = 1 − h·k).
     pub h: Option<f64>,
     /// Angular overlap e_σ for Cr(III) (cm⁻¹).
@@ -139,6 +166,16 @@ impl LigandTable {
                     )))
                 }
             };
+            let basis_cell = cell("f_from");
+            let f_from = match basis_cell.text()?.as_str() {
+                "printed" => FieldBasis::Printed,
+                "derived" => FieldBasis::Derived,
+                "series" => FieldBasis::Series,
+                other => {
+                    return Err(basis_cell
+                        .error(format!("'{other}' is not one of printed, derived, series")))
+                }
+            };
             let binds_cell = cell("binds");
             let mut binds = Vec::new();
             for g in binds_cell.text()?.split_whitespace() {
@@ -156,7 +193,8 @@ impl LigandTable {
                     .unwrap_or_default(),
                 donors,
                 charge: cell("charge").int(-4..=2)?,
-                f: cell("f").optional_number(0.3..=3.0, "")?,
+                f: cell("f").number(0.3..=3.0, "")?,
+                f_from,
                 h: cell("h").optional_number(0.0..=5.0, "")?,
                 e_sigma: cell("e_sigma").optional_number(0.0..=20000.0, " cm⁻¹")?,
                 e_pi: cell("e_pi").optional_number(-5000.0..=5000.0, " cm⁻¹")?,
@@ -242,7 +280,7 @@ mod tests {
         for r in &t.rows {
             assert!(r.source.len() > 10, "{}", r.name);
             assert!(!r.binds.is_empty(), "{}", r.name);
-            assert!(r.f.is_none() || r.source.contains("f"), "{}", r.name);
+            assert!(r.source.contains("f"), "{}", r.name);
         }
         for n in [
             "H2O", "aqua", "water", "NH3", "ammine", "en", "bpy", "phen", "terpy", "ox", "acac",
@@ -269,7 +307,8 @@ mod tests {
             ("NCS", 1.02, None),
         ] {
             let l = t.find(n).unwrap();
-            assert_eq!(l.f, Some(f), "{n}");
+            assert_eq!(l.f, f, "{n}");
+            assert_eq!(l.f_from, FieldBasis::Printed, "{n}");
             assert_eq!(l.h, h, "{n}");
         }
     }
@@ -283,10 +322,7 @@ mod tests {
             "Br", "SCN", "Cl", "N3", "F", "ox", "H2O", "NCS", "MeCN", "py", "NH3", "en", "bpy",
             "NO2", "CN",
         ];
-        let f: Vec<f64> = series
-            .iter()
-            .map(|n| t.find(n).unwrap().f.unwrap())
-            .collect();
+        let f: Vec<f64> = series.iter().map(|n| t.find(n).unwrap().f).collect();
         for w in f.windows(2) {
             assert!(w[0] <= w[1], "{f:?}");
         }
@@ -326,22 +362,28 @@ mod tests {
     #[test]
     fn bad_rows_are_rejected() {
         let head = HEADER.join(",");
-        let ok = "X1,,N,1,0,1.0,,,,none,oct,,src";
+        let ok = "X1,,N,1,0,1.0,printed,,,,none,oct,,src";
         assert!(LigandTable::parse(&format!("{head}\n{ok}\n")).is_ok());
-        let e =
-            LigandTable::parse(&format!("{head}\nX1,,N N,1,0,1.0,,,,none,oct,,src\n")).unwrap_err();
+        let e = LigandTable::parse(&format!(
+            "{head}\nX1,,N N,1,0,1.0,printed,,,,none,oct,,src\n"
+        ))
+        .unwrap_err();
         assert!(e.to_string().contains("denticity"), "{e}");
-        let e =
-            LigandTable::parse(&format!("{head}\nX1,,Q,1,0,1.0,,,,none,oct,,src\n")).unwrap_err();
-        assert!(e.to_string().contains("not an element"), "{e}");
-        let e =
-            LigandTable::parse(&format!("{head}\nX1,,N,1,0,9.0,,,,none,oct,,src\n")).unwrap_err();
-        assert!(e.to_string().contains("column f"), "{e}");
-        let e = LigandTable::parse(&format!("{head}\n{ok}\nX2,x1,N,1,0,1.0,,,,none,oct,,src\n"))
+        let e = LigandTable::parse(&format!("{head}\nX1,,Q,1,0,1.0,printed,,,,none,oct,,src\n"))
             .unwrap_err();
+        assert!(e.to_string().contains("not an element"), "{e}");
+        let e = LigandTable::parse(&format!("{head}\nX1,,N,1,0,9.0,printed,,,,none,oct,,src\n"))
+            .unwrap_err();
+        assert!(e.to_string().contains("column f"), "{e}");
+        let e = LigandTable::parse(&format!(
+            "{head}\n{ok}\nX2,x1,N,1,0,1.0,printed,,,,none,oct,,src\n"
+        ))
+        .unwrap_err();
         assert!(e.to_string().contains("already used"), "{e}");
-        let e =
-            LigandTable::parse(&format!("{head}\nX1,,N,1,0,1.0,,,,weird,oct,,src\n")).unwrap_err();
+        let e = LigandTable::parse(&format!(
+            "{head}\nX1,,N,1,0,1.0,printed,,,,weird,oct,,src\n"
+        ))
+        .unwrap_err();
         assert!(e.to_string().contains("acceptor"), "{e}");
     }
 }

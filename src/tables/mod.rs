@@ -13,9 +13,11 @@ pub mod ions;
 pub mod ligands;
 pub mod moment_ranges;
 pub mod pascal;
+pub mod reported;
 
-pub use ions::{Ion, IonTable, TransitionSeries};
-pub use ligands::{Ligand, LigandTable, PiRole};
+pub use ions::{Ion, IonTable, Provenance, ReferenceState, TransitionSeries};
+pub use ligands::{FieldBasis, Ligand, LigandTable, PiRole};
+pub use reported::{Category, ReportedComplex, ReportedSpin, ReportedTable};
 
 use crate::error::{Error, Result};
 use std::path::Path;
@@ -25,15 +27,20 @@ use std::sync::OnceLock;
 pub const IONS_FILE: &str = "ions.csv";
 /// File name of the ligand table inside `data/` or a `--data` directory.
 pub const LIGANDS_FILE: &str = "ligands.csv";
+/// File name of the reported-spin-state table inside `data/` or a `--data` directory.
+pub const REPORTED_FILE: &str = "reported_spin_states.csv";
 
 const BUNDLED_IONS: &str = include_str!("../../data/ions.csv");
 const BUNDLED_LIGANDS: &str = include_str!("../../data/ligands.csv");
+const BUNDLED_REPORTED: &str = include_str!("../../data/reported_spin_states.csv");
 
 /// All chemistry tables, parsed and validated.
 #[derive(Debug, Clone)]
 pub struct Tables {
     pub ions: IonTable,
     pub ligands: LigandTable,
+    /// Literature spin states (validated against the ligand table).
+    pub reported: ReportedTable,
 }
 
 impl Tables {
@@ -41,16 +48,28 @@ impl Tables {
     pub fn bundled() -> Result<&'static Tables> {
         static BUNDLED: OnceLock<Result<Tables>> = OnceLock::new();
         BUNDLED
-            .get_or_init(|| Tables::parse(BUNDLED_IONS, BUNDLED_LIGANDS))
+            .get_or_init(|| Tables::parse(BUNDLED_IONS, BUNDLED_LIGANDS, BUNDLED_REPORTED))
             .as_ref()
             .map_err(Clone::clone)
     }
 
-    /// Parses the tables from CSV text.
-    pub fn parse(ions_csv: &str, ligands_csv: &str) -> Result<Tables> {
+    /// Parses the ion and ligand tables from CSV text, with no reported spin states (for
+    /// synthetic tables in tests and benchmarks).
+    pub fn parse_chemistry(ions_csv: &str, ligands_csv: &str) -> Result<Tables> {
         Ok(Tables {
             ions: IonTable::parse(ions_csv)?,
             ligands: LigandTable::parse(ligands_csv)?,
+            reported: ReportedTable::default(),
+        })
+    }
+
+    /// Parses the tables from CSV text.
+    pub fn parse(ions_csv: &str, ligands_csv: &str, reported_csv: &str) -> Result<Tables> {
+        let ligands = LigandTable::parse(ligands_csv)?;
+        Ok(Tables {
+            ions: IonTable::parse(ions_csv)?,
+            reported: ReportedTable::parse(reported_csv, &ligands)?,
+            ligands,
         })
     }
 
@@ -77,9 +96,13 @@ impl Tables {
         };
         let ions = read(IONS_FILE, BUNDLED_IONS)?;
         let ligands = read(LIGANDS_FILE, BUNDLED_LIGANDS)?;
+        let reported = read(REPORTED_FILE, BUNDLED_REPORTED)?;
+        let ligands = LigandTable::parse(&ligands).map_err(|e| in_dir(e, dir, LIGANDS_FILE))?;
         Ok(Tables {
             ions: IonTable::parse(&ions).map_err(|e| in_dir(e, dir, IONS_FILE))?,
-            ligands: LigandTable::parse(&ligands).map_err(|e| in_dir(e, dir, LIGANDS_FILE))?,
+            reported: ReportedTable::parse(&reported, &ligands)
+                .map_err(|e| in_dir(e, dir, REPORTED_FILE))?,
+            ligands,
         })
     }
 }
@@ -220,6 +243,12 @@ impl<'a> Cell<'a> {
             )));
         }
         Ok(v)
+    }
+
+    /// A required number in `range`.
+    pub fn number(&self, range: std::ops::RangeInclusive<f64>, unit: &str) -> Result<f64> {
+        self.optional_number(range, unit)?
+            .ok_or_else(|| self.error("is empty; a value is required"))
     }
 
     /// An optional number in `range` (empty → None).

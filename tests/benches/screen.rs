@@ -36,13 +36,13 @@ fn tables_with_synthetic_ligands() -> (Tables, Vec<String>) {
         let name = format!("SYNTH-{n}");
         // SYNTHETIC test ligand: an invented N donor with f between those of H2O and NH3.
         csv.push_str(&format!(
-            "\n{name},,N,1,0,{:.3},1.2,,,none,oct tet sqpl,,SYNTHETIC benchmark ligand (not real chemistry data)",
+            "\n{name},,N,1,0,{:.3},printed,1.2,,,none,oct tet sqpl,,SYNTHETIC benchmark ligand (not real chemistry data)",
             1.0 + 0.02 * n as f64
         ));
         pool.push(name);
     }
     csv.push('\n');
-    let tables = Tables::parse(include_str!("../../data/ions.csv"), &csv).unwrap();
+    let tables = Tables::parse_chemistry(include_str!("../../data/ions.csv"), &csv).unwrap();
     (tables, pool)
 }
 
