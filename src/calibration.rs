@@ -19,16 +19,27 @@ use crate::engine::{Crossover, Geometry};
 use crate::estimate::{self, Calibration, SpinGeometry, SpinState, CALIBRATION};
 use crate::tables::{Category, Ion, ReportedComplex, ReportedSpin, Tables};
 
-/// The grid searched: (n, c_π, W in cm⁻¹, γ_sqpl).
-pub const GRID: ([f64; 9], [f64; 7], [f64; 8], [f64; 9], [f64; 6]) = (
-    [3.0, 3.5, 4.0, 4.5, 5.0, 5.5, 6.0, 6.5, 7.0],
-    [0.0, 0.5, 1.0, 1.5, 2.0, 2.5, 3.0],
-    [
+/// The values searched for each constant of [`Calibration`].
+#[derive(Debug, Clone, Copy)]
+pub struct Grid {
+    pub distance_exponent: &'static [f64],
+    pub back_bonding: &'static [f64],
+    /// cm⁻¹.
+    pub crossover_window: &'static [f64],
+    pub planar_factor: &'static [f64],
+    pub jahn_teller: &'static [f64],
+}
+
+/// The grid searched.
+pub const GRID: Grid = Grid {
+    distance_exponent: &[3.0, 3.5, 4.0, 4.5, 5.0, 5.5, 6.0, 6.5, 7.0],
+    back_bonding: &[0.0, 0.5, 1.0, 1.5, 2.0, 2.5, 3.0],
+    crossover_window: &[
         500.0, 1000.0, 1500.0, 2000.0, 2500.0, 3000.0, 4000.0, 5000.0,
     ],
-    [1.0, 1.25, 1.5, 1.75, 2.0, 2.5, 3.0, 3.5, 4.0],
-    [0.0, 0.05, 0.1, 0.15, 0.2, 0.3],
-);
+    planar_factor: &[1.0, 1.25, 1.5, 1.75, 2.0, 2.5, 3.0, 3.5, 4.0],
+    jahn_teller: &[0.0, 0.05, 0.1, 0.15, 0.2, 0.3],
+};
 
 /// One reported complex with the parts of its estimate that the constants do not change.
 #[derive(Debug, Clone)]
@@ -151,13 +162,13 @@ pub fn cases(tables: &Tables) -> Vec<Case> {
 
 /// Every calibration of the grid, in a fixed order.
 pub fn grid() -> Vec<Calibration> {
-    let (ns, cs, ws, ps, js) = GRID;
-    let mut out = Vec::with_capacity(ns.len() * cs.len() * ws.len() * ps.len() * js.len());
-    for &distance_exponent in &ns {
-        for &back_bonding in &cs {
-            for &crossover_window in &ws {
-                for &planar_factor in &ps {
-                    for &jahn_teller in &js {
+    let g = GRID;
+    let mut out = Vec::new();
+    for &distance_exponent in g.distance_exponent {
+        for &back_bonding in g.back_bonding {
+            for &crossover_window in g.crossover_window {
+                for &planar_factor in g.planar_factor {
+                    for &jahn_teller in g.jahn_teller {
                         out.push(Calibration {
                             distance_exponent,
                             back_bonding,

@@ -589,8 +589,10 @@ pub struct Candidate {
     /// Racah C (cm⁻¹).
     pub c: f64,
     pub c_over_b: f64,
-    /// Mean field Δ̄/B of the two spin states.
+    /// Δ/B of the predicted ground state.
     pub delta_over_b: f64,
+    /// Mean field Δ̄/B of the two spin states.
+    pub mean_delta_over_b: f64,
     pub crossover_delta_over_b: f64,
     /// Δ̄/B − crossover Δ/B (negative on the high-spin side).
     pub margin: f64,
@@ -1488,7 +1490,8 @@ impl Screen {
             b: p.b,
             c: ion.c_over_b * p.b,
             c_over_b: ion.c_over_b,
-            delta_over_b: x,
+            delta_over_b: delta / p.b,
+            mean_delta_over_b: x,
             crossover_delta_over_b: xc,
             margin,
             percent,
@@ -1810,7 +1813,8 @@ mod tests {
                 assert_eq!(c.b, r.b.value, "{spec:?}");
                 assert_eq!(c.c, r.c.value, "{spec:?}");
                 let choice = r.spin_choice.unwrap();
-                assert_eq!(c.delta_over_b, choice.delta_over_b_mean, "{spec:?}");
+                assert_eq!(c.mean_delta_over_b, choice.delta_over_b_mean, "{spec:?}");
+                assert_eq!(c.delta_over_b, r.delta_over_b(), "{spec:?}");
                 assert_eq!(c.energy_gap, choice.energy_gap, "{spec:?}");
                 assert_eq!(c.spin_state, choice.state, "{spec:?}");
                 assert_eq!(c.uncertainty, r.delta_over_b_uncertainty(), "{spec:?}");
@@ -1823,7 +1827,7 @@ mod tests {
                     let m = p.margin.unwrap();
                     approx::assert_abs_diff_eq!(c.margin, m.delta_over_b, epsilon = 1e-9);
                     approx::assert_abs_diff_eq!(c.percent, m.percent, epsilon = 1e-7);
-                    if (c.margin.abs() - c.uncertainty * c.delta_over_b).abs() > 1e-9 {
+                    if (c.margin.abs() - c.uncertainty * c.mean_delta_over_b).abs() > 1e-9 {
                         assert_eq!(c.borderline, m.borderline, "{spec:?}");
                     }
                     assert_eq!(c.spin_state, p.spin_state, "{spec:?}");

@@ -190,7 +190,7 @@ fn compute(dn: usize, geometry: Geometry, c_over_b: f64) -> Result<Crossover> {
         let l = lowest(dn, geometry, c_over_b, x)?;
         Ok(energy_of(&l, s_hs) - energy_of(&l, s_new))
     };
-    let root = illinois(&g, a, b, 1e-9, 100)?;
+    let root = illinois(g, a, b, 1e-9, 100)?;
     const H: f64 = 1e-3;
     let slope = (g(root + H)? - g(root - H)?) / (2.0 * H);
     let low_spin = ground_state(dn, geometry, c_over_b, (root + 0.05).min(b + 0.05))?;

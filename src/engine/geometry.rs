@@ -89,7 +89,7 @@ impl Geometry {
     /// d^n and 2S do not fit in five orbitals.
     pub fn sigma_antibonding_per_bond(self, dn: usize, two_s: i32) -> Option<f64> {
         let unpaired = usize::try_from(two_s).ok()?;
-        if dn > 10 || unpaired > dn || (dn - unpaired) % 2 != 0 {
+        if dn > 10 || unpaired > dn || !(dn - unpaired).is_multiple_of(2) {
             return None;
         }
         let pairs = (dn - unpaired) / 2;

@@ -68,22 +68,31 @@ pub struct ScreenRow {
     pub donors: String,
     /// Overall charge of the complex.
     pub charge: i32,
-    /// Δ (cm⁻¹): Δo for oct, Δt for tet, the octahedral 10Dq of the same ligands for sqpl.
+    /// Δ of the predicted ground state (cm⁻¹): Δo for oct, Δt for tet, 3e_σ for sqpl.
     pub delta: f64,
+    /// Δ of the high-spin state at its own bond length (cm⁻¹).
+    pub delta_high_spin: f64,
+    /// Δ of the low-spin state at its own bond length (cm⁻¹).
+    pub delta_low_spin: f64,
     /// Racah B (cm⁻¹).
     pub b: f64,
     /// Racah C (cm⁻¹).
     pub c: f64,
     pub c_over_b: f64,
+    /// Δ/B of the predicted ground state.
     pub delta_over_b: f64,
+    /// Mean field Δ̄/B of the two spin states (what the margin and score use).
+    pub mean_delta_over_b: f64,
     pub crossover_delta_over_b: f64,
-    /// Δ/B − crossover Δ/B (negative on the high-spin side).
+    /// E_HS − E_LS (cm⁻¹), each state at its own geometry (> 0: low spin lower).
+    pub energy_gap: f64,
+    /// Δ̄/B − crossover Δ/B (negative on the high-spin side).
     pub margin_delta_over_b: f64,
     /// The margin in percent of the crossover Δ/B.
     pub margin_percent: f64,
     /// Assumed uncertainty of Δ/B in percent (as in `predict`).
     pub uncertainty_percent: f64,
-    /// "high" or "low".
+    /// "high", "crossover" or "low".
     pub spin_state: String,
     /// True when the margin is within the assumed uncertainty (as in `predict`).
     pub borderline: bool,
@@ -107,11 +116,15 @@ impl ScreenRow {
             donors: screen.donor_set(c).to_string(),
             charge: c.charge,
             delta: c.delta,
+            delta_high_spin: c.delta_high_spin,
+            delta_low_spin: c.delta_low_spin,
             b: c.b,
             c: c.c,
             c_over_b: c.c_over_b,
             delta_over_b: c.delta_over_b,
+            mean_delta_over_b: c.mean_delta_over_b,
             crossover_delta_over_b: c.crossover_delta_over_b,
+            energy_gap: c.energy_gap,
             margin_delta_over_b: c.margin,
             margin_percent: c.percent,
             uncertainty_percent: 100.0 * c.uncertainty,
@@ -147,12 +160,16 @@ impl ScreenRow {
             self.spin_state.clone(),
             self.borderline.to_string(),
             self.score.to_string(),
+            self.delta_high_spin.to_string(),
+            self.delta_low_spin.to_string(),
+            self.mean_delta_over_b.to_string(),
+            self.energy_gap.to_string(),
         ]
     }
 }
 
 /// Columns of the CSV output (energies in cm⁻¹; `ligands` as `NAME:COUNT` items).
-pub const CSV_HEADER: [&str; 19] = [
+pub const CSV_HEADER: [&str; 23] = [
     "rank",
     "ion",
     "sphere",
@@ -172,6 +189,10 @@ pub const CSV_HEADER: [&str; 19] = [
     "spin_state",
     "borderline",
     "score",
+    "delta_high_spin_cm-1",
+    "delta_low_spin_cm-1",
+    "mean_delta_over_b",
+    "energy_gap_cm-1",
 ];
 
 /// Writes ranked hits as CSV, one candidate at a time (nothing but the hits is held).
@@ -340,10 +361,12 @@ impl ScreenReport {
         header.extend([
             "sphere",
             "donors",
-            "Δ (cm⁻¹)",
+            "Δ_HS (cm⁻¹)",
+            "Δ_LS (cm⁻¹)",
             "B (cm⁻¹)",
-            "Δ/B",
-            "margin (Δ/B)",
+            "Δ̄/B",
+            "E_HS − E_LS (cm⁻¹)",
+            "margin (Δ̄/B)",
             "margin (%)",
             "spin",
             "score (%)",
@@ -357,9 +380,11 @@ impl ScreenReport {
             row.extend([
                 r.sphere.clone(),
                 r.donors.clone(),
-                fmt_num(r.delta, 0),
+                fmt_num(r.delta_high_spin, 0),
+                fmt_num(r.delta_low_spin, 0),
                 fmt_num(r.b, 0),
-                fmt_num(r.delta_over_b, 2),
+                fmt_num(r.mean_delta_over_b, 2),
+                fmt_num(r.energy_gap, 0),
                 fmt_num(r.margin_delta_over_b, 2),
                 fmt_num(r.margin_percent, 1),
                 format!(
@@ -373,7 +398,7 @@ impl ScreenReport {
         }
         out.push_str(&format!("{t}\n"));
         out.push_str(&format!(
-            "showing {} of {} ranked; margin = Δ/B − crossover Δ/B; borderline = within the assumed uncertainty of Δ/B (as in predict)\n",
+            "showing {} of {} ranked; Δ̄ = mean of the two spin states' fields; margin = Δ̄/B − crossover Δ/B; borderline = within the assumed uncertainty of Δ/B (as in predict)\n",
             self.shown,
             self.evaluated - self.skipped
         ));
