@@ -647,6 +647,22 @@ fn denticity_word(l: &Ligand) -> &'static str {
 }
 
 impl ResolvedComplex {
+    /// The literature row for this complex in `reported_spin_states.csv`, if there is one
+    /// (same metal, oxidation state, geometry and ligands, in any order).
+    pub fn reported<'t>(&self, tables: &'t Tables) -> Option<&'t crate::tables::ReportedComplex> {
+        let ligands: Vec<(String, usize)> = self
+            .ligands
+            .iter()
+            .map(|b| (b.ligand.name.clone(), b.count))
+            .collect();
+        tables.reported.find(
+            &self.ion.symbol,
+            self.ion.oxidation_state,
+            self.geometry,
+            &ligands,
+        )
+    }
+
     /// Dq = Δ/10 in the geometry's convention (cm⁻¹).
     pub fn dq(&self) -> f64 {
         self.delta.value / 10.0
@@ -883,6 +899,37 @@ mod tests {
         assert!("py:0".parse::<LigandCount>().is_err());
         assert!("py:x".parse::<LigandCount>().is_err());
         assert_eq!("py".parse::<LigandCount>().unwrap().count, 1);
+    }
+
+    /// A ligand in the table is never refused: every ligand, in every geometry it binds in,
+    /// filled up with water (or taken alone when it fills the geometry), resolves for Fe(II)
+    /// and Ni(II).
+    #[test]
+    fn every_table_ligand_resolves() {
+        let t = Tables::bundled().unwrap();
+        let water = t.ligands.find("H2O").unwrap().binds.clone();
+        let mut checked = 0;
+        for l in &t.ligands.rows {
+            for &g in &l.binds {
+                let n = g.coordination_number();
+                if l.denticity() > n || !water.contains(&g) {
+                    continue;
+                }
+                let count = n / l.denticity();
+                let rest = n - count * l.denticity();
+                let mut ligands = vec![format!("{}:{count}", l.name)];
+                if rest > 0 {
+                    ligands.push(format!("H2O:{rest}"));
+                }
+                let refs: Vec<&str> = ligands.iter().map(String::as_str).collect();
+                for (m, ox) in [("Fe", 2), ("Ni", 2)] {
+                    let r = resolve(m, ox, g.name(), &refs);
+                    assert!(r.is_ok(), "{m}({ox}) {g:?} {refs:?}: {:?}", r.err());
+                    checked += 1;
+                }
+            }
+        }
+        assert!(checked >= 400, "{checked}");
     }
 
     #[test]

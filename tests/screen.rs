@@ -341,3 +341,38 @@ fn candidate_file_without_ligands_column_is_rejected() {
     let p = f.path().to_str().unwrap().to_string();
     expect_usage_error(&screen_args(&["--candidates", &p]), "'ligands' column");
 }
+
+/// `--target crossover` on an Fe(II) N6 pool ranks a known spin-crossover family above the
+/// low-spin tris-diimines and the high-spin hexaamines: [Fe(phen)2(NCS)2] (T½ ≈ 176 K; M. Sorai,
+/// S. Seki, J. Phys. Chem. Solids 1974, 35, 555) above [Fe(bpy)3]2+ and [Fe(phen)3]2+ (low-spin)
+/// and [Fe(NH3)6]2+ (high-spin) (F. A. Cotton, G. Wilkinson et al., Advanced Inorganic
+/// Chemistry, 1999; from memory).
+#[test]
+fn crossover_target_prefers_a_spin_crossover_family() {
+    let v = run_json(&screen_args(&[
+        "--pool",
+        "bpy,phen,NCS,NH3,en,py",
+        "--donors",
+        "N6",
+        "--json",
+    ]));
+    let rank = |want: &[(&str, u64)]| -> u64 {
+        results(&v)
+            .iter()
+            .find(|r| {
+                let l = r["ligands"].as_array().unwrap();
+                l.len() == want.len()
+                    && want.iter().all(|(n, c)| {
+                        l.iter()
+                            .any(|x| x["name"] == *n && x["count"].as_u64() == Some(*c))
+                    })
+            })
+            .unwrap_or_else(|| panic!("{want:?} not ranked"))["rank"]
+            .as_u64()
+            .unwrap()
+    };
+    let sco = rank(&[("phen", 2), ("NCS", 2)]);
+    for other in [&[("bpy", 3)][..], &[("phen", 3)][..], &[("NH3", 6)][..]] {
+        assert!(sco < rank(other), "{other:?}: {sco} vs {}", rank(other));
+    }
+}

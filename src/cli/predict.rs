@@ -4,7 +4,7 @@
 use super::common::{load_tables, parse_geometry, Format};
 use super::{Failure, Output};
 use spinstate::complex::{ComplexSpec, LigandCount, Overrides};
-use spinstate::predict::predict;
+use spinstate::predict::{predict_with, PredictOptions};
 use spinstate::report::predict::PredictReport;
 use spinstate::report::to_json;
 use std::path::Path;
@@ -34,6 +34,9 @@ pub struct Args {
     /// Measured Racah C in cm⁻¹ to use instead of the estimate.
     #[arg(long, value_name = "CM-1", allow_hyphen_values = true)]
     pub c: Option<f64>,
+    /// List every spin-allowed band, not only those below 50 000 cm⁻¹.
+    #[arg(long)]
+    pub all: bool,
     #[command(flatten)]
     pub format: Format,
 }
@@ -66,8 +69,15 @@ impl Args {
 pub fn run(args: &Args, data: Option<&Path>) -> Result<Output, Failure> {
     let tables = load_tables(data)?;
     let complex = args.spec()?.resolve(&tables)?;
-    let prediction = predict(&complex)?;
-    let report = PredictReport::new(&prediction);
+    let options = if args.all {
+        PredictOptions {
+            band_limit: f64::INFINITY,
+        }
+    } else {
+        PredictOptions::default()
+    };
+    let prediction = predict_with(&complex, options)?;
+    let report = PredictReport::new(&prediction).with_reported(complex.reported(&tables));
     Ok(Output::text(if args.format.json {
         to_json(&report)
     } else {

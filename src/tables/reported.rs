@@ -245,3 +245,78 @@ impl ReportedComplex {
             && self.ligands == other.ligands
     }
 }
+
+#[cfg(test)]
+mod tests {
+    use super::*;
+    use crate::tables::Tables;
+
+    /// Table self-test: at least 150 rows, each with a source naming a publication, every
+    /// category present, crossover rows with a T½ and the low-spin unpaired count, every d^n
+    /// with a spin choice in octahedra (d⁴–d⁷) covered.
+    #[test]
+    fn reported_table_is_sourced_and_covers_the_cases() {
+        let t = Tables::bundled().unwrap();
+        let rows = &t.reported.rows;
+        assert!(rows.len() >= 150, "{}", rows.len());
+        for r in rows {
+            assert!(r.source.len() > 15, "{}: {}", r.complex, r.source);
+            assert!(
+                r.source.chars().any(|c| c.is_ascii_digit()),
+                "{}: a source names its year",
+                r.complex
+            );
+            if r.spin_state == ReportedSpin::Crossover {
+                assert!(r.t_half_k.is_some_and(|t| (4.0..=600.0).contains(&t)));
+            }
+        }
+        for cat in Category::ALL {
+            assert!(
+                rows.iter().filter(|r| r.category == cat).count() >= 10,
+                "{}",
+                cat.name()
+            );
+        }
+        for dn in 4..=7 {
+            let n = rows
+                .iter()
+                .filter(|r| {
+                    r.geometry == Geometry::Octahedral
+                        && t.ions
+                            .find(&r.metal, r.oxidation_state)
+                            .is_ok_and(|i| i.dn == dn)
+                })
+                .count();
+            assert!(n >= 10, "d{dn}: {n}");
+        }
+        let found = t
+            .reported
+            .find("Fe", 2, Geometry::Octahedral, &[("bpy".to_string(), 3)])
+            .unwrap();
+        assert_eq!(found.spin_state, ReportedSpin::Low);
+    }
+
+    #[test]
+    fn bad_rows_are_rejected() {
+        let t = Tables::bundled().unwrap();
+        let head = HEADER.join(",");
+        let ok = "X,Fe,2,oct,H2O:6,high,4,,3d-homoleptic,src 2000";
+        assert!(ReportedTable::parse(&format!("{head}\n{ok}\n"), &t.ligands).is_ok());
+        for (bad, what) in [
+            ("X,Fe,2,oct,H2O:5,high,4,,mixed,src", "do not fill"),
+            ("X,Fe,2,oct,HHO:6,high,4,,mixed,src", "unknown ligand"),
+            ("X,Fe,2,oct,H2O:6,hot,4,,mixed,src", "spin_state"),
+            ("X,Fe,2,oct,H2O:6,crossover,0,,sco,src", "T½"),
+            ("X,Fe,2,oct,H2O:6,high,4,,other,src", "category"),
+        ] {
+            let e = ReportedTable::parse(&format!("{head}\n{bad}\n"), &t.ligands)
+                .unwrap_err()
+                .to_string();
+            assert!(e.contains(what), "{bad}: {e}");
+        }
+        let e = ReportedTable::parse(&format!("{head}\n{ok}\n{ok}\n"), &t.ligands)
+            .unwrap_err()
+            .to_string();
+        assert!(e.contains("twice"), "{e}");
+    }
+}
