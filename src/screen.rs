@@ -9,35 +9,39 @@
 //! [`CANDIDATE_COLUMNS`]).
 //!
 //! # The numbers
-//! Δ, B, C and Δ/B are those of [`ComplexSpec::resolve`](crate::complex::ComplexSpec::resolve)
-//! for the same sphere (Jørgensen's factor rules with the rule of average environment per donor
-//! atom, Δt = (4/9)Δo, B = B₀(1 − h̄k), C = B·C₀/B₀ or the Tanabe–Sugano C/B), and the spin
-//! state, margin and `borderline` flag are those of [`predict`](crate::predict::predict):
-//! `borderline` when |Δ/B − crossover| ≤ u·Δ/B with u the assumed relative uncertainty of Δ/B.
-//! The unit tests check that the values agree bit for bit with `resolve` for random spheres.
+//! Δ_HS, Δ_LS, B, C and the spin state are those of
+//! [`ComplexSpec::resolve`](crate::complex::ComplexSpec::resolve) for the same sphere: the
+//! screen calls the estimator's own functions ([`estimate::reference_delta`], the ion's
+//! [`SpinGeometry`], [`estimate::choose_spin`], [`Reliability`]) on sums it accumulates, so the
+//! numbers are the same by construction; the unit tests check them bit for bit against
+//! `resolve` for random spheres. `borderline` is |Δ̄/B − X| ≤ u·Δ̄/B, with Δ̄ the mean of the
+//! two states' fields and u the assumed relative uncertainty of Δ/B, as in `predict`.
 //!
 //! # Why it is fast
-//! `resolve` sums nᵢdᵢfᵢ and nᵢdᵢhᵢ over the ligands; a screen precomputes these terms for every
-//! pool ligand and count, and adds them while it walks the multisets depth first, so one
-//! candidate costs a handful of additions, two divisions and a comparison. The crossover Δ/B
-//! depends only on (d^n, geometry, C/B), which is fixed per ion, so it is computed once per ion
-//! ([`crate::engine::crossover`], itself cached) instead of once per candidate. When only the
-//! best N are wanted, a bounded heap keeps them and nothing else is stored.
+//! `resolve` sums nᵢdᵢfᵢ, nᵢdᵢπᵢ and nᵢdᵢhᵢ over the ligands; a screen precomputes these terms
+//! for every pool ligand and count, and adds them while it walks the multisets depth first, so
+//! one candidate costs a handful of additions, a few multiplications and divisions and a
+//! comparison. The crossover Δ/B, its slope and the ion's spin geometry depend only on the ion
+//! and geometry, so they are computed once per ion ([`crate::engine::crossover`], itself
+//! cached) instead of once per candidate. When only the best N are wanted, a bounded heap keeps
+//! them and nothing else is stored.
 //!
 //! # Scores
-//! `score` is larger for a better candidate, in percent of the crossover Δ/B:
-//! - `crossover`: −|Δ/B − X|/X · 100 (0 is a sphere exactly at the crossover X);
-//! - `high`: (X − Δ/B)/X · 100 (how far below the crossover);
-//! - `low`: (Δ/B − X)/X · 100 (how far above it).
+//! `score` is larger for a better candidate, in percent of the crossover Δ/B X:
+//! - `crossover`: −|Δ̄/B − A|/X · 100 with A the Δ̄/B at which E_HS − E_LS is the middle of the
+//!   thermal window ([`estimate::crossover_target`]): 0 is a sphere whose low-spin state lies
+//!   just below a thermally reachable high-spin state;
+//! - `high`: (X − Δ̄/B)/X · 100 (how far below the crossover);
+//! - `low`: (Δ̄/B − X)/X · 100 (how far above it).
 //!
 //! Ties are broken by ion (in the order given), then by the sphere (ligands in table order),
 //! then by candidate name, so the ranking never depends on the order of a candidates file.
 //!
 //! # Limits
-//! The comparison uses one geometry for both spin states (see [`crate::predict`]); for Fe(II)
-//! the low-spin field is about 1.75 times the high-spin field (A. Hauser, *Top. Curr. Chem.*
-//! 233, 49, 2004), so a sphere ranked "at the crossover" is a starting point for synthesis, not
-//! a prediction of a transition temperature.
+//! The estimate is that of [`crate::estimate`]: each spin state at its own bond length, with
+//! the calibrated constants. Its uncertainty (±15–25 % in Δ/B) is wide against the thermal
+//! window, so a sphere ranked "at the crossover" is a starting point for synthesis, not a
+//! prediction of a transition temperature.
 
 use crate::complex::default_c_over_b;
 use crate::engine::{crossover, Crossover, Geometry};

@@ -22,9 +22,9 @@ pub fn run(args: &Args, data: Option<&Path>) -> Result<Output, Failure> {
         to_json(&report)
     } else {
         format!(
-            "{INTRO}\n\n{}\nWhere each sample sits against the spin crossover (Δ/B of the complex, estimated or \
-measured, against the engine's crossover for its d^n and C/B; the same geometry is assumed for both spin states, \
-so near the crossover this is a rough guide):\n{}\n{SAFETY}\n",
+            "{INTRO}\n\n{}\nWhere each sample sits against the spin crossover (the mean Δ̄/B of its two spin states, \
+each at its own bond length, estimated or measured, against the engine's crossover for its d^n and C/B; \
+the estimate's uncertainty is wide, so near the crossover this is a guide):\n{}\n{SAFETY}\n",
             report.to_table(),
             report.crossover_table()
         )

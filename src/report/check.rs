@@ -51,8 +51,11 @@ pub struct CheckReport {
     pub dn: usize,
     /// oct, tet or sqpl.
     pub geometry: String,
-    /// Δ/B of the complex (dimensionless).
+    /// Δ/B of the complex's predicted ground state (dimensionless).
     pub delta_over_b: f64,
+    /// Mean Δ̄/B of the two spin states, each at its own bond length (what the margin uses);
+    /// null when the spin cannot change.
+    pub mean_delta_over_b: Option<f64>,
     /// Δ/B of the crossover; null when the ground spin cannot change.
     pub crossover_delta_over_b: Option<f64>,
     /// (Δ/B − crossover)/crossover in percent; null when there is no crossover.
@@ -87,6 +90,7 @@ impl CheckReport {
             dn: cx.ion.dn,
             geometry: cx.geometry.name().to_string(),
             delta_over_b: cx.delta_over_b(),
+            mean_delta_over_b: cx.spin_choice.map(|c| c.delta_over_b_mean),
             crossover_delta_over_b: p.crossover.delta_over_b,
             margin_percent: p.margin.map(|m| m.percent),
             borderline: p.margin.is_some_and(|m| m.borderline),
@@ -310,19 +314,20 @@ impl BatchReport {
         out
     }
 
-    /// Where each sample's Δ/B sits against its crossover.
+    /// Where each sample's mean Δ̄/B sits against its crossover.
     pub fn crossover_table(&self) -> String {
         let mut t = new_table([
             "sample",
-            "Δ/B",
+            "Δ̄/B",
             "crossover Δ/B",
             "margin %",
             "high spin ◂ Δ/B ▸ low spin",
         ]);
         for s in &self.samples {
+            let x = s.mean_delta_over_b.unwrap_or(s.delta_over_b);
             t.add_row(vec![
                 s.name.clone().unwrap_or_default(),
-                fmt_num(s.delta_over_b, 1),
+                fmt_num(x, 1),
                 s.crossover_delta_over_b
                     .map_or("none".to_string(), |x| fmt_num(x, 1)),
                 s.margin_percent.map_or("—".to_string(), |m| {
@@ -333,7 +338,7 @@ impl BatchReport {
                     )
                 }),
                 s.crossover_delta_over_b
-                    .map_or(String::new(), |x| strip(s.delta_over_b, x)),
+                    .map_or(String::new(), |xc| strip(x, xc)),
             ]);
         }
         format!("{t}\n")
