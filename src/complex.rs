@@ -268,7 +268,7 @@ impl ComplexSpec {
     pub fn resolve_with(&self, tables: &Tables, cal: &Calibration) -> Result<ResolvedComplex> {
         let ion = tables.ions.find(&self.metal, self.oxidation_state)?.clone();
         let geometry = self.geometry;
-        if geometry == Geometry::Tetragonal {
+        if !geometry.estimable() {
             return Err(Error::invalid(
                 "geometry",
                 "tetragonal",

@@ -808,7 +808,7 @@ impl Screen {
                 "at least one metal ion, e.g. Fe with oxidation state 2",
             ));
         }
-        if geometry == Geometry::Tetragonal {
+        if !geometry.estimable() {
             return Err(Error::invalid("geometry", "tetragonal", "oct, tet or sqpl"));
         }
         let mut out: Vec<ScreenIon> = Vec::new();

@@ -123,12 +123,22 @@ impl Geometry {
         }
     }
 
+    /// Whether a field can be estimated from a composition in this geometry (a ligand table's
+    /// `binds` column and a reported complex name only these). A tetragonal field needs Ds and
+    /// Dt, which no composition gives.
+    pub fn estimable(self) -> bool {
+        match self {
+            Geometry::Octahedral | Geometry::Tetrahedral | Geometry::SquarePlanar => true,
+            Geometry::Tetragonal => false,
+        }
+    }
+
     /// The group whose Mulliken labels are used.
     pub fn point_group(self, ds: f64, dt: f64) -> PointGroup {
         match self {
             Geometry::Octahedral if ds == 0.0 && dt == 0.0 => PointGroup::Oh,
+            Geometry::Octahedral | Geometry::Tetragonal | Geometry::SquarePlanar => PointGroup::D4h,
             Geometry::Tetrahedral => PointGroup::Td,
-            _ => PointGroup::D4h,
         }
     }
 }

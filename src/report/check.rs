@@ -181,7 +181,15 @@ impl CheckReport {
             .iter()
             .filter(|e| e.kind == kind.name())
             .map(|e| {
-                if e.strength == "none" {
+                // A prediction that supports both states is the estimate's borderline, or a
+                // predicted spin crossover: say which.
+                if kind == EvidenceKind::Prediction && e.supports == "both" {
+                    if self.predicted_spin_state == "crossover" {
+                        "crossover".to_string()
+                    } else {
+                        "borderline".to_string()
+                    }
+                } else if e.strength == "none" {
                     e.supports.clone()
                 } else {
                     format!("{} ({})", e.supports, e.strength)

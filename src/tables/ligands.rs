@@ -180,7 +180,7 @@ impl LigandTable {
             let mut binds = Vec::new();
             for g in binds_cell.text()?.split_whitespace() {
                 let geometry: Geometry = g.parse().map_err(|e| binds_cell.error(e))?;
-                if geometry == Geometry::Tetragonal {
+                if !geometry.estimable() {
                     return Err(binds_cell.error("use oct, tet or sqpl"));
                 }
                 binds.push(geometry);
@@ -230,7 +230,7 @@ impl LigandTable {
             .iter()
             .find(|r| r.is_called(name))
             .ok_or_else(|| Error::Unknown {
-                kind: "ligand (`spinstate data ligands` lists them)".into(),
+                kind: "ligand (`spinstate data ligands` lists them; to add one, copy data/ligands.csv, add a row with its f and source, and pass the directory with --data)".into(),
                 name: name.trim().to_string(),
                 suggestions: closest_names(name.trim(), self.all_names()),
             })

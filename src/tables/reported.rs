@@ -151,7 +151,7 @@ impl ReportedTable {
                 .text()?
                 .parse()
                 .map_err(|e| geometry_cell.error(e))?;
-            if geometry == Geometry::Tetragonal {
+            if !geometry.estimable() {
                 return Err(geometry_cell.error("use oct, tet or sqpl"));
             }
             let ligand_cell = cell("ligands");
