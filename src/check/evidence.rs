@@ -126,9 +126,11 @@ fn expectations(
     t: f64,
     ranges: &MomentRangeTable,
 ) -> Result<Vec<StateExpectation>> {
-    let dq = complex.dq();
+    let dq = complex.delta_high_spin.value / 10.0;
+    let dq_ls = complex.delta_low_spin.value / 10.0;
     let spec = MomentSpec {
         dq: (dq > 0.0).then_some(dq),
+        dq_low_spin: (dq_ls > 0.0).then_some(dq_ls),
         spin_orbit: complex.ion.zeta.map(SpinOrbit::Zeta),
         b: Some(complex.b.value),
         temperature: Some(t),

@@ -177,13 +177,18 @@ impl CompareArgs {
         let geometry: Geometry = super::common::parse_geometry(g)?;
         let mut zeta = self.zeta;
         let mut dq = self.dq;
+        let mut dq_low_spin = None;
         let mut b = None;
         let dn = match (self.complex.resolve(geometry, data)?, self.dn) {
             (Some(complex), _) => {
                 if zeta.is_none() && self.lambda.is_none() {
                     zeta = complex.ion.zeta;
                 }
-                dq = dq.or(Some(complex.dq()));
+                if dq.is_none() {
+                    // Each spin state at its own bond length, as the estimator has them.
+                    dq = Some(complex.delta_high_spin.value / 10.0);
+                    dq_low_spin = Some(complex.delta_low_spin.value / 10.0);
+                }
                 b = Some(complex.b.value);
                 complex.ion.dn
             }
@@ -204,6 +209,7 @@ impl CompareArgs {
         };
         let spec = ComplexSpec {
             dq,
+            dq_low_spin,
             spin_orbit,
             b,
             temperature,

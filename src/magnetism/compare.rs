@@ -48,8 +48,12 @@ pub enum SpinOrbit {
 pub struct ComplexSpec {
     pub dn: usize,
     pub geometry: Geometry,
-    /// Dq (cm⁻¹), i.e. Δ/10 (Δt/10 for tet); needed for the A/E-term correction.
+    /// Dq (cm⁻¹), i.e. Δ/10 (Δt/10 for tet), of the high-spin state (of both states when
+    /// `dq_low_spin` is None); needed for the A/E-term correction.
     pub dq: Option<f64>,
+    /// Dq (cm⁻¹) of the low-spin state at its own bond length, when it differs (the
+    /// estimator's Δ_LS/10).
+    pub dq_low_spin: Option<f64>,
     pub spin_orbit: Option<SpinOrbit>,
     /// Racah B (cm⁻¹) for the full ligand-field moment of T terms; default [`DEFAULT_B`].
     pub b: Option<f64>,
@@ -59,12 +63,22 @@ pub struct ComplexSpec {
 }
 
 impl ComplexSpec {
+    /// Dq of one state: the low-spin state's own when known, else the common one.
+    pub fn dq_of(&self, low_spin: bool) -> Option<f64> {
+        if low_spin {
+            self.dq_low_spin.or(self.dq)
+        } else {
+            self.dq
+        }
+    }
+
     /// d^n and geometry only.
     pub fn new(dn: usize, geometry: Geometry) -> Self {
         ComplexSpec {
             dn,
             geometry,
             dq: None,
+            dq_low_spin: None,
             spin_orbit: None,
             b: None,
             temperature: None,
@@ -258,7 +272,9 @@ fn full_moment(spec: &ComplexSpec, two_s: i32, zeta: f64, t: f64) -> Result<(f64
     let b = spec.b.unwrap_or(DEFAULT_B);
     let c_over_b = crate::engine::tanabe_sugano_c_over_b(spec.dn);
     let cross = crate::engine::crossover(spec.dn, spec.geometry, c_over_b)?;
-    let given = spec.dq.map(|dq| 10.0 * dq / b);
+    let given = spec
+        .dq_of(two_s != cross.high_spin.two_s)
+        .map(|dq| 10.0 * dq / b);
     let x = match (given, cross.delta_over_b) {
         (Some(x), Some(_)) if cross.two_s_at(x) == two_s => x,
         (Some(x), None) => x,
@@ -298,7 +314,7 @@ pub fn expectations(
     if spec.dn > 10 {
         return Err(Error::invalid("d-electron count", spec.dn, "0..=10"));
     }
-    if let Some(dq) = spec.dq {
+    for dq in [spec.dq, spec.dq_low_spin].into_iter().flatten() {
         if !dq.is_finite() || dq <= 0.0 {
             return Err(Error::invalid(
                 "Dq",
@@ -333,7 +349,7 @@ pub fn expectations(
             }
             _ => None,
         };
-        let spin_orbit_corrected = match (orbital, lambda, spec.dq) {
+        let spin_orbit_corrected = match (orbital, lambda, spec.dq_of(state == "low spin")) {
             (Orbital::SecondOrder { alpha }, Some(l), Some(dq)) => {
                 Some(spin_only * (1.0 - alpha * l / (10.0 * dq)))
             }
