@@ -10,6 +10,7 @@ pub mod formula;
 pub mod magnetism;
 pub mod predict;
 pub mod report;
+pub mod sco;
 pub mod screen;
 pub mod spectra;
 pub mod susceptibility;

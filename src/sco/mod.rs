@@ -1,0 +1,68 @@
+//! Spin-crossover curves: the transition models ([`model`]), reading χ_M·T(T) and
+//! variable-temperature Evans data ([`data`]), fitting them ([`fit`]), and the physically
+//! possible χ_M·T of each pure spin state ([`pure_state_ranges`]).
+
+pub mod data;
+pub mod fit;
+pub mod model;
+
+use crate::engine::{crossover, tanabe_sugano_c_over_b, Geometry};
+use crate::error::{Error, Result};
+use crate::magnetism::compare::{self, ComplexSpec as MomentSpec, SpinOrbit};
+use crate::tables::moment_ranges::MomentRangeTable;
+use crate::units::moment_factor_cgs;
+
+/// The χ_M·T range (cm³ K mol⁻¹) each pure state may have, with where it comes from.
+#[derive(Debug, Clone, PartialEq)]
+pub struct PureStateRanges {
+    /// 2S of the high- and low-spin states.
+    pub two_s: (i32, i32),
+    pub high_spin: (f64, f64),
+    pub low_spin: (f64, f64),
+    pub why: String,
+}
+
+/// The physically possible χ_M·T of the two states of d^n in `geometry` at room temperature:
+/// the moment windows of `spinstate moment` (spin-only, the spin–orbit corrected or full
+/// ligand-field + spin–orbit moment with ζ, and the typical published ranges of
+/// data/moment_ranges.csv), converted with χ_M·T = (μ_eff/2.828)².
+pub fn pure_state_ranges(
+    dn: usize,
+    geometry: Geometry,
+    zeta: Option<f64>,
+    ranges: &MomentRangeTable,
+) -> Result<PureStateRanges> {
+    let cross = crossover(dn, geometry, tanabe_sugano_c_over_b(dn))?;
+    if cross.low_spin.is_none() {
+        return Err(Error::invalid(
+            "d-electron count",
+            format!("d{dn} {}", geometry.name()),
+            "an ion with two spin states in this geometry (d4–d7 octahedral)",
+        ));
+    }
+    let spec = MomentSpec {
+        spin_orbit: zeta.map(SpinOrbit::Zeta),
+        temperature: Some(300.0),
+        ..MomentSpec::new(dn, geometry)
+    };
+    let states = compare::expectations(&spec, ranges)?;
+    let f = moment_factor_cgs();
+    let to_chi_t = |(lo, hi): (f64, f64)| ((lo / f).powi(2), (hi / f).powi(2));
+    let hs = states
+        .iter()
+        .find(|s| s.state == "high spin")
+        .ok_or_else(|| Error::Computation("no high-spin expectation".into()))?;
+    let ls = states
+        .iter()
+        .find(|s| s.state == "low spin")
+        .ok_or_else(|| Error::Computation("no low-spin expectation".into()))?;
+    Ok(PureStateRanges {
+        two_s: (hs.two_s, ls.two_s),
+        high_spin: to_chi_t(hs.window),
+        low_spin: to_chi_t(ls.window),
+        why: format!(
+            "d{dn} {}: the 300 K moment windows of the two states (spin-only, spin–orbit and typical ranges), as in `spinstate moment`",
+            geometry.name()
+        ),
+    })
+}
