@@ -13,6 +13,8 @@
 //!   `350-1100`; default 200-1100), `band_resolution` (cm⁻¹, default 1500), `band_temp` (K);
 //! - structure: `bond_length` (mean metal–donor distance, Å), `bond_length_err` (Å),
 //!   `structure_temp` (K);
+//! - `chit_file`: a χ_M·T(T) CSV file (the `sco-fit` layout), read by the caller relative to
+//!   the batch file ([`Sample::chit_file`]);
 //! - `note`: free text, not used.
 //! - `source`: where the row's data come from (free text, not used).
 //!
@@ -31,7 +33,7 @@ use crate::spectra::count::{DEFAULT_RESOLUTION, DEFAULT_WINDOW_NM};
 /// Columns every file needs.
 pub const REQUIRED: [&str; 5] = ["name", "metal", "ox", "geometry", "ligands"];
 /// Columns a file may have.
-pub const OPTIONAL: [&str; 26] = [
+pub const OPTIONAL: [&str; 27] = [
     "delta",
     "b",
     "c",
@@ -56,6 +58,7 @@ pub const OPTIONAL: [&str; 26] = [
     "bond_length",
     "bond_length_err",
     "structure_temp",
+    "chit_file",
     "note",
     "source",
 ];
@@ -67,6 +70,9 @@ pub struct Sample {
     pub row: usize,
     pub name: String,
     pub input: CheckInput,
+    /// The `chit_file` cell: a χ_M·T(T) file for the caller to read into `input.curve` (this
+    /// module does no IO).
+    pub chit_file: Option<String>,
 }
 
 /// A bad row: where, and what is wrong.
@@ -460,9 +466,11 @@ fn parse_row(
         }),
     };
 
+    let chit_file = r.cell("chit_file").map(str::to_string);
     Ok(Sample {
         row,
         name,
+        chit_file,
         input: CheckInput {
             complex: ComplexSpec {
                 metal,
@@ -475,6 +483,7 @@ fn parse_row(
             moment,
             bands,
             bond_length,
+            curve: None,
         },
     })
 }
@@ -526,6 +535,7 @@ pub fn columns_of(e: &CheckError) -> String {
         },
         Part::Bands => "bands".into(),
         Part::BondLength => "bond_length".into(),
+        Part::Curve => "chit_file".into(),
     }
 }
 

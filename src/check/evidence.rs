@@ -2,8 +2,8 @@
 //! magnetometer moment, a band count and a bond length.
 
 use super::{
-    BandInput, BondLengthInput, Evidence, EvidenceKind, MomentInput, MomentQuantity, Strength,
-    Support,
+    BandInput, BondLengthInput, CurveInput, Evidence, EvidenceKind, MomentInput, MomentQuantity,
+    Strength, Support,
 };
 use crate::complex::{Origin, ResolvedComplex};
 use crate::error::{Error, Result};
@@ -460,6 +460,153 @@ fn position_fit(
 pub const BOND_TOLERANCE: f64 = 0.01;
 /// Beyond this distance (Å) outside every reference range a bond length fits neither state.
 pub const BOND_FAR: f64 = 0.10;
+
+/// Evidence from a χ_M·T(T) curve: fitted with the ideal two-state model (the cooperative one
+/// when both branches are given) inside the ion's physical χ_M·T ranges. A curve that crosses
+/// between the pure states supports a crossover at its T½; a curve without a transition is read
+/// as a plateau against each state's range.
+pub fn curve(
+    input: &CurveInput,
+    complex: &ResolvedComplex,
+    ranges: &MomentRangeTable,
+) -> Result<Evidence> {
+    use crate::sco::fit::{fit, FitRequest, ModelKind, PureState};
+    use crate::sco::model::Branch;
+    let pts = &input.points;
+    if pts.len() < 2 {
+        return Err(Error::invalid(
+            "χ_M·T curve",
+            format!("{} point(s) in {}", pts.len(), input.source),
+            "at least two temperatures (for one, use --chi-m-t with --moment-temp)",
+        ));
+    }
+    let t_lo = pts.iter().map(|p| p.t).fold(f64::INFINITY, f64::min);
+    let t_hi = pts.iter().map(|p| p.t).fold(f64::NEG_INFINITY, f64::max);
+    let measured = format!(
+        "{} points, {t_lo:.0}–{t_hi:.0} K ({})",
+        pts.len(),
+        input.source
+    );
+    let base = |predicted: String, supports, strength, detail, temperature| Evidence {
+        kind: EvidenceKind::Curve,
+        predicted,
+        measured: measured.clone(),
+        supports,
+        strength,
+        detail,
+        temperature,
+        high_spin_fraction: None,
+    };
+    let r = match crate::sco::pure_state_ranges(
+        complex.ion.dn,
+        complex.geometry,
+        complex.ion.zeta,
+        ranges,
+    ) {
+        Ok(r) => r,
+        Err(_) => {
+            return Ok(base(
+                "one spin state only".into(),
+                Support::Nothing,
+                Strength::None,
+                format!(
+                    "d{} {} has one ground spin state: a χ_M·T curve cannot show a spin crossover",
+                    complex.ion.dn,
+                    complex.geometry.name()
+                ),
+                None,
+            ))
+        }
+    };
+    let predicted = format!(
+        "high spin {:.2}–{:.2}, low spin {:.2}–{:.2} cm³ K/mol",
+        r.high_spin.0, r.high_spin.1, r.low_spin.0, r.low_spin.1
+    );
+    let branches = pts.iter().any(|p| p.branch == Branch::Cooling)
+        && pts.iter().any(|p| p.branch == Branch::Heating);
+    let request = FitRequest {
+        points: pts.clone(),
+        model: if branches {
+            ModelKind::Cooperative
+        } else {
+            ModelKind::Ideal
+        },
+        chit_hs: PureState::Within {
+            lo: r.high_spin.0,
+            hi: r.high_spin.1,
+            why: r.why.clone(),
+        },
+        chit_ls: PureState::Within {
+            lo: r.low_spin.0,
+            hi: r.low_spin.1,
+            why: r.why.clone(),
+        },
+        residual: false,
+        two_s: Some(r.two_s),
+    };
+    match fit(&request) {
+        Ok(f) => {
+            let tr = f.transition;
+            let g_lo = tr.intrinsic_fraction(t_lo, Branch::Heating)?;
+            let g_hi = tr.intrinsic_fraction(t_hi, Branch::Cooling)?;
+            let span = g_hi - g_lo;
+            let inside = (t_lo..=t_hi).contains(&f.t_half.value);
+            let loop_text = match (f.t_down, f.t_up) {
+                (Some(d), Some(u)) => {
+                    format!(", hysteresis T↓ {:.0} K, T↑ {:.0} K", d.value, u.value)
+                }
+                _ => String::new(),
+            };
+            let detail = format!(
+                "χ_M·T(T) crosses between the spin states: T½ = {:.0} K, ΔH = {:.1} kJ/mol, ΔS = {:.0} J/mol/K ({} fit, rms {:.3} cm³ K/mol{loop_text}); high-spin fraction {:.0} % at {t_lo:.0} K and {:.0} % at {t_hi:.0} K",
+                f.t_half.value,
+                f.dh.value,
+                f.ds.value,
+                f.model.name(),
+                f.rms,
+                100.0 * g_lo,
+                100.0 * g_hi
+            );
+            let strength = if span >= 0.6 && inside {
+                Strength::Strong
+            } else {
+                Strength::Moderate
+            };
+            Ok(base(
+                predicted,
+                Support::Mixture,
+                strength,
+                detail,
+                Some(f.t_half.value),
+            ))
+        }
+        Err(e) if e.to_string().contains("no transition") => {
+            let mean = pts.iter().map(|p| p.chi_t).sum::<f64>() / pts.len() as f64;
+            let within = |(lo, hi): (f64, f64)| (lo - 0.05..=hi + 0.05).contains(&mean);
+            let (supports, temp, what) = if within(r.high_spin) {
+                (Support::High, t_lo, "the high-spin range")
+            } else if within(r.low_spin) {
+                (Support::Low, t_hi, "the low-spin range")
+            } else {
+                (Support::Neither, t_lo, "neither state's range")
+            };
+            Ok(base(
+                predicted,
+                supports,
+                if supports == Support::Neither {
+                    Strength::Moderate
+                } else {
+                    Strength::Strong
+                },
+                format!(
+                    "χ_M·T stays on one plateau (mean {mean:.2} cm³ K/mol over {t_lo:.0}–{t_hi:.0} K) inside {what}"
+                ),
+                Some(temp),
+            ))
+        }
+        Err(e) => Err(e),
+    }
+}
 
 /// Evidence from the mean metal–donor bond length, against the published ranges of
 /// data/bond_lengths.csv for the complex's metal, oxidation state and (single) donor element.

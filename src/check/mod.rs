@@ -53,6 +53,8 @@ pub enum EvidenceKind {
     Bands,
     /// Mean metal–donor bond length from a crystal structure.
     BondLength,
+    /// A χ_M·T(T) curve (magnetometer sweep or variable-temperature Evans series).
+    Curve,
 }
 
 impl EvidenceKind {
@@ -64,6 +66,7 @@ impl EvidenceKind {
             EvidenceKind::Moment => "moment",
             EvidenceKind::Bands => "bands",
             EvidenceKind::BondLength => "bond-length",
+            EvidenceKind::Curve => "chit-curve",
         }
     }
 
@@ -84,6 +87,9 @@ impl EvidenceKind {
             }
             EvidenceKind::BondLength => {
                 "the structure: its temperature, which donor atoms were averaged, and disorder; a structure at another temperature may show the other spin state"
+            }
+            EvidenceKind::Curve => {
+                "the χ_M·T(T) file: its units (χ_M or χ_M·T), the molar mass, the diamagnetic correction, and the temperature sensor; a sample can change on cycling"
             }
         }
     }
@@ -241,6 +247,14 @@ pub struct BondLengthInput {
     pub temperature: Option<f64>,
 }
 
+/// A χ_M·T(T) curve.
+#[derive(Debug, Clone, PartialEq)]
+pub struct CurveInput {
+    pub points: Vec<crate::sco::data::Point>,
+    /// Where it came from (a file name), for the report.
+    pub source: String,
+}
+
 /// Everything `check` can weigh.
 #[derive(Debug, Clone, PartialEq)]
 pub struct CheckInput {
@@ -249,6 +263,7 @@ pub struct CheckInput {
     pub moment: Option<MomentInput>,
     pub bands: Option<BandInput>,
     pub bond_length: Option<BondLengthInput>,
+    pub curve: Option<CurveInput>,
 }
 
 /// The data tables `check` uses.
@@ -267,6 +282,7 @@ pub enum Part {
     Moment,
     Bands,
     BondLength,
+    Curve,
 }
 
 /// An error of [`check`] with the part of the input it concerns.
@@ -330,6 +346,9 @@ pub fn check(
             evidence::bond_length(b, &complex, tables.bond_lengths)
                 .map_err(at(Part::BondLength))?,
         );
+    }
+    if let Some(c) = &input.curve {
+        evidence.push(evidence::curve(c, &complex, tables.moment_ranges).map_err(at(Part::Curve))?);
     }
     let single = prediction.spin_state == SpinState::Fixed;
     let decision = decide(&evidence, single);

@@ -5,7 +5,7 @@ use super::common::{load_tables, Format};
 use super::{Failure, Output};
 use indicatif::{ProgressBar, ProgressStyle};
 use spinstate::check::batch::{self, RowError, Sample};
-use spinstate::check::{check, CheckTables};
+use spinstate::check::{check, CheckTables, CurveInput};
 use spinstate::report::check::{BatchReport, CheckReport, RowErrorRow, SAFETY};
 use spinstate::report::to_json;
 use spinstate::tables::bond_lengths::BondLengthTable;
@@ -121,6 +121,10 @@ pub struct Args {
     /// Temperature of the structure in K.
     #[arg(long, value_name = "K", allow_hyphen_values = true)]
     pub structure_temp: Option<f64>,
+    /// A χ_M·T(T) CSV file (the `sco-fit` layout: T and one of chiT, chi_m, mu_eff, optional
+    /// direction), fitted and weighed as evidence.
+    #[arg(long, value_name = "FILE")]
+    pub chit_file: Option<PathBuf>,
     /// Also write the verdicts as CSV to FILE.
     #[arg(long, value_name = "FILE")]
     pub csv: Option<PathBuf>,
@@ -152,7 +156,7 @@ impl Args {
             ("ligands", self.ligands.join(" ")),
         ];
         let num = |x: Option<f64>| x.map(|v| v.to_string());
-        let optional: [(&'static str, Option<String>); 25] = [
+        let optional: [(&'static str, Option<String>); 26] = [
             ("delta", num(self.delta)),
             ("b", num(self.b)),
             ("c", num(self.c)),
@@ -177,6 +181,10 @@ impl Args {
             ("bond_length", num(self.bond_length)),
             ("bond_length_err", num(self.bond_length_err)),
             ("structure_temp", num(self.structure_temp)),
+            (
+                "chit_file",
+                self.chit_file.as_ref().map(|p| p.display().to_string()),
+            ),
             ("note", None),
         ];
         f.extend(optional.into_iter().filter_map(|(c, v)| v.map(|v| (c, v))));
@@ -209,8 +217,34 @@ impl Loaded {
     }
 }
 
+/// Reads a sample's `chit_file` (relative to `base`, the batch file's directory) into its
+/// curve input, with the diamagnetic correction of the sample.
+fn attach_curve(sample: &mut Sample, base: Option<&Path>) -> Result<(), String> {
+    let Some(name) = &sample.chit_file else {
+        return Ok(());
+    };
+    let path = match base {
+        Some(dir) if Path::new(name).is_relative() => dir.join(name),
+        _ => PathBuf::from(name),
+    };
+    let text = std::fs::read_to_string(&path)
+        .map_err(|e| format!("cannot read {}: {e}", path.display()))?;
+    let dia = sample.input.moment.map_or(0.0, |m| m.dia.value);
+    let curve = spinstate::sco::data::read_curve(&text, dia).map_err(|e| e.to_string())?;
+    sample.input.curve = Some(CurveInput {
+        points: curve.points,
+        source: path.display().to_string(),
+    });
+    Ok(())
+}
+
 /// Checks every row of a batch text: the report, and the bad rows (already in the report).
-pub fn run_batch(text: &str, data: Option<&Path>) -> Result<(BatchReport, Vec<RowError>), Failure> {
+/// `base` is the directory `chit_file` cells are relative to.
+pub fn run_batch(
+    text: &str,
+    base: Option<&Path>,
+    data: Option<&Path>,
+) -> Result<(BatchReport, Vec<RowError>), Failure> {
     let rows = batch::parse(text).map_err(|e| Failure::usage(format!("--input: {e}")))?;
     let loaded = Loaded::new(data)?;
     let bar = if rows.len() >= PROGRESS_FROM && std::io::stdout().is_terminal() {
@@ -226,15 +260,30 @@ pub fn run_batch(text: &str, data: Option<&Path>) -> Result<(BatchReport, Vec<Ro
     let mut bad: Vec<RowError> = Vec::new();
     for row in rows {
         match row {
-            Ok(Sample { row, name, input }) => match check(&input, loaded.tables()) {
-                Ok(result) => samples.push(CheckReport::new(&result, Some(name), Some(row))),
-                Err(e) => bad.push(RowError {
-                    row,
-                    name: Some(name),
-                    column: batch::columns_of(&e),
-                    message: e.to_string().replace("--magnet", "evans_magnet"),
-                }),
-            },
+            Ok(mut sample) => {
+                if let Err(message) = attach_curve(&mut sample, base) {
+                    bad.push(RowError {
+                        row: sample.row,
+                        name: Some(sample.name),
+                        column: "chit_file".into(),
+                        message,
+                    });
+                    bar.inc(1);
+                    continue;
+                }
+                let Sample {
+                    row, name, input, ..
+                } = sample;
+                match check(&input, loaded.tables()) {
+                    Ok(result) => samples.push(CheckReport::new(&result, Some(name), Some(row))),
+                    Err(e) => bad.push(RowError {
+                        row,
+                        name: Some(name),
+                        column: batch::columns_of(&e),
+                        message: e.to_string().replace("--magnet", "evans_magnet"),
+                    }),
+                }
+            }
             Err(e) => bad.push(e),
         }
         bar.inc(1);
@@ -253,7 +302,7 @@ pub fn run(args: &Args, data: Option<&Path>) -> Result<Output, Failure> {
     if let Some(path) = &args.input {
         let text = std::fs::read_to_string(path)
             .map_err(|e| Failure::usage(format!("--input: cannot read {}: {e}", path.display())))?;
-        let (report, bad) = run_batch(&text, data)?;
+        let (report, bad) = run_batch(&text, path.parent(), data)?;
         if let Some(csv) = &args.csv {
             write_csv(csv, &report.to_csv())?;
         }
@@ -271,8 +320,9 @@ pub fn run(args: &Args, data: Option<&Path>) -> Result<Output, Failure> {
             code: if bad.is_empty() { 0 } else { 2 },
         });
     }
-    let sample = batch::from_fields(&args.fields())
+    let mut sample = batch::from_fields(&args.fields())
         .map_err(|e| Failure::usage(format!("{}: {}", option_of(&e.column), e.message)))?;
+    attach_curve(&mut sample, None).map_err(|m| Failure::usage(format!("--chit-file: {m}")))?;
     let loaded = Loaded::new(data)?;
     let result = check(&sample.input, loaded.tables()).map_err(|e| Failure {
         code: e.error.exit_code(),

@@ -17,7 +17,7 @@ pub struct Args {
 }
 
 pub fn run(args: &Args, data: Option<&Path>) -> Result<Output, Failure> {
-    let (report, bad) = run_batch(SAMPLES, data)?;
+    let (report, bad) = run_batch(SAMPLES, None, data)?;
     let stdout = if args.format.json {
         to_json(&report)
     } else {

@@ -14,6 +14,8 @@ pub mod magnetism;
 pub mod measured;
 pub mod moment;
 pub mod predict;
+pub mod sco_curve;
+pub mod sco_fit;
 pub mod screen;
 
 use clap::{Parser, Subcommand};
@@ -62,6 +64,11 @@ pub enum Command {
     Check(check::Args),
     /// Run the invented screening scenario of data/demo end to end.
     Demo(demo::Args),
+    /// Fit a spin transition (T½, ΔH, ΔS, Γ, hysteresis) to χ_M·T(T) or variable-temperature
+    /// Evans data.
+    ScoFit(sco_fit::Args),
+    /// Simulate a spin transition: γ_HS(T) and χ_M·T(T) on both branches.
+    ScoCurve(sco_curve::Args),
 }
 
 /// A failure with its exit code (1: computation did not finish, 2: bad usage or input).
@@ -123,5 +130,7 @@ pub fn run(cli: Cli) -> Result<Output, Failure> {
         Command::Bands(a) => bands::run(&a, cli.data.as_deref()),
         Command::Check(a) => check::run(&a, cli.data.as_deref()),
         Command::Demo(a) => demo::run(&a, cli.data.as_deref()),
+        Command::ScoFit(a) => sco_fit::run(&a, cli.data.as_deref()),
+        Command::ScoCurve(a) => sco_curve::run(&a),
     }
 }

@@ -234,12 +234,13 @@ pub struct BatchReport {
     pub safety: String,
 }
 
-const KINDS: [EvidenceKind; 5] = [
+const KINDS: [EvidenceKind; 6] = [
     EvidenceKind::Prediction,
     EvidenceKind::Evans,
     EvidenceKind::Moment,
     EvidenceKind::Bands,
     EvidenceKind::BondLength,
+    EvidenceKind::Curve,
 ];
 
 impl BatchReport {
@@ -273,6 +274,7 @@ impl BatchReport {
             "moment",
             "bands",
             "bond length",
+            "χT(T) curve",
             "verdict",
         ]);
         for row in self.rows() {

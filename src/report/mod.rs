@@ -13,6 +13,7 @@ pub mod levels;
 pub mod magnetism;
 pub mod measured;
 pub mod predict;
+pub mod sco;
 pub mod screen;
 
 use comfy_table::{presets::UTF8_FULL_CONDENSED, ContentArrangement, Table};

@@ -487,7 +487,25 @@ pub fn fit(req: &FitRequest) -> Result<FitResult> {
         .ok_or_else(|| Error::Computation("Jacobian of the fit not finite".into()))?;
     let dof = (pts.len() - p) as f64;
     let s2 = if weighted { 1.0 } else { ssr / dof };
-    let cov_u = (j.transpose() * &j).try_inverse().map(|m| m * s2);
+    // A parameter pinned at the edge of its range has a (near) zero Jacobian column: it is
+    // treated as fixed there and the covariance is formed for the others.
+    let norms: Vec<f64> = (0..p).map(|k| j.column(k).norm()).collect();
+    let top = norms.iter().cloned().fold(0.0, f64::max);
+    let live: Vec<usize> = (0..p)
+        .filter(|&k| norms[k] > 1e-7 * top.max(1e-300))
+        .collect();
+    let cov_u = {
+        let js = j.select_columns(&live);
+        (js.transpose() * &js).try_inverse().map(|m| {
+            let mut full = DMatrix::zeros(p, p);
+            for (a, &ka) in live.iter().enumerate() {
+                for (b, &kb) in live.iter().enumerate() {
+                    full[(ka, kb)] = m[(a, b)] * s2;
+                }
+            }
+            full
+        })
+    };
     // Physical parameters as functions of u, for the delta method.
     let phys_vec = |u: &DVector<f64>| -> [f64; 8] {
         let q = layout.physical(u);
@@ -552,7 +570,14 @@ pub fn fit(req: &FitRequest) -> Result<FitResult> {
         Some(c) => (0..p)
             .map(|a| {
                 (0..p)
-                    .map(|b| c[(a, b)] / (c[(a, a)] * c[(b, b)]).sqrt())
+                    .map(|b| {
+                        let d = (c[(a, a)] * c[(b, b)]).sqrt();
+                        if d > 0.0 {
+                            c[(a, b)] / d
+                        } else {
+                            0.0
+                        }
+                    })
                     .collect()
             })
             .collect(),

@@ -10,7 +10,13 @@ use crate::engine::{crossover, tanabe_sugano_c_over_b, Geometry};
 use crate::error::{Error, Result};
 use crate::magnetism::compare::{self, ComplexSpec as MomentSpec, SpinOrbit};
 use crate::tables::moment_ranges::MomentRangeTable;
-use crate::units::moment_factor_cgs;
+use crate::units::{moment_factor_cgs, spin_only_chi_t_cgs};
+
+/// Allowance (cm³ K mol⁻¹) above the spin-only χ_M·T of the low-spin state: temperature-
+/// independent paramagnetism and the few per cent of high-spin sites a real low-spin solid
+/// keeps (iron(II) low-spin χ_M·T ≈ 0–0.2; P. Gütlich, H. A. Goodwin, Top. Curr. Chem. 2004,
+/// 233, 1; from memory).
+pub const LOW_SPIN_ALLOWANCE: f64 = 0.25;
 
 /// The χ_M·T range (cm³ K mol⁻¹) each pure state may have, with where it comes from.
 #[derive(Debug, Clone, PartialEq)]
@@ -56,12 +62,13 @@ pub fn pure_state_ranges(
         .iter()
         .find(|s| s.state == "low spin")
         .ok_or_else(|| Error::Computation("no low-spin expectation".into()))?;
+    let (ls_lo, ls_hi) = to_chi_t(ls.window);
     Ok(PureStateRanges {
         two_s: (hs.two_s, ls.two_s),
         high_spin: to_chi_t(hs.window),
-        low_spin: to_chi_t(ls.window),
+        low_spin: (ls_lo, ls_hi.max(spin_only_chi_t_cgs(f64::from(ls.two_s)) + LOW_SPIN_ALLOWANCE)),
         why: format!(
-            "d{dn} {}: the 300 K moment windows of the two states (spin-only, spin–orbit and typical ranges), as in `spinstate moment`",
+            "d{dn} {}: the 300 K moment windows of the two states (spin-only, spin–orbit and typical ranges, as in `spinstate moment`), the low-spin one widened by {LOW_SPIN_ALLOWANCE} cm³ K/mol",
             geometry.name()
         ),
     })

@@ -130,19 +130,36 @@ impl Transition {
         }
         let rt = GAS_CONSTANT * t;
         let span = (self.dh - t * self.ds).abs() / rt + self.gamma.abs() / rt + 5.0;
+        if self.gamma == 0.0 {
+            // The ideal model in closed form: u = −(ΔH − TΔS)/RT.
+            return Ok(vec![sigmoid(-(self.dh - t * self.ds) / rt)]);
+        }
+        // Newton's method on h(u) kept inside the bracket [a, b] (h(a) < 0 ≤ h(b)), with a
+        // bisection step whenever Newton would leave it.
         let root = |mut a: f64, mut b: f64| -> f64 {
-            for _ in 0..200 {
-                let m = 0.5 * (a + b);
-                if m <= a || m >= b {
+            let mut u = 0.5 * (a + b);
+            for _ in 0..100 {
+                let hu = self.h(t, u);
+                if hu < 0.0 {
+                    a = u;
+                } else {
+                    b = u;
+                }
+                let g = sigmoid(u);
+                let dh = rt - 2.0 * self.gamma * g * (1.0 - g);
+                let next = if dh > 0.0 { u - hu / dh } else { f64::NAN };
+                let next = if next > a && next < b {
+                    next
+                } else {
+                    0.5 * (a + b)
+                };
+                if (next - u).abs() <= 1e-13 * (1.0 + u.abs()) || b - a <= 1e-13 * (1.0 + u.abs()) {
+                    u = next;
                     break;
                 }
-                if self.h(t, m) < 0.0 {
-                    a = m;
-                } else {
-                    b = m;
-                }
+                u = next;
             }
-            sigmoid(0.5 * (a + b))
+            sigmoid(u)
         };
         if self.gamma <= 2.0 * rt {
             return Ok(vec![root(-span, span)]);

@@ -1,0 +1,107 @@
+//! `spinstate sco-curve`: simulate a spin transition, γ_HS(T) and χ_M·T(T) on both branches.
+
+use super::common::{emit, Format, Renderings};
+use super::{Failure, Output};
+use spinstate::report::sco::CurveReport;
+use spinstate::report::to_json;
+use spinstate::sco::model::Transition;
+use spinstate::susceptibility::temperature_grid;
+use std::path::PathBuf;
+
+#[derive(Debug, clap::Args)]
+pub struct Args {
+    /// ΔH = H_HS − H_LS (kJ/mol).
+    #[arg(long, value_name = "KJ/MOL", allow_hyphen_values = true)]
+    pub dh: f64,
+    /// ΔS = S_HS − S_LS (J/mol/K).
+    #[arg(long, value_name = "J/MOL/K", allow_hyphen_values = true)]
+    pub ds: f64,
+    /// Interaction parameter Γ (kJ/mol) of the Slichter–Drickamer model; 0 = ideal.
+    #[arg(
+        long,
+        value_name = "KJ/MOL",
+        default_value_t = 0.0,
+        allow_hyphen_values = true
+    )]
+    pub gamma: f64,
+    /// Trapped high-spin fraction (0 ≤ r < 1).
+    #[arg(
+        long,
+        value_name = "R",
+        default_value_t = 0.0,
+        allow_hyphen_values = true
+    )]
+    pub residual: f64,
+    /// χ_M·T of the pure high-spin state (cm³ K/mol; 3.0 is spin-only iron(II)).
+    #[arg(
+        long,
+        value_name = "X",
+        default_value_t = 3.0,
+        allow_hyphen_values = true
+    )]
+    pub chit_hs: f64,
+    /// χ_M·T of the pure low-spin state (cm³ K/mol).
+    #[arg(
+        long,
+        value_name = "Y",
+        default_value_t = 0.0,
+        allow_hyphen_values = true
+    )]
+    pub chit_ls: f64,
+    /// Lowest temperature (K).
+    #[arg(
+        long,
+        value_name = "K",
+        default_value_t = 50.0,
+        allow_hyphen_values = true
+    )]
+    pub tmin: f64,
+    /// Highest temperature (K).
+    #[arg(
+        long,
+        value_name = "K",
+        default_value_t = 350.0,
+        allow_hyphen_values = true
+    )]
+    pub tmax: f64,
+    /// Number of temperatures from tmin to tmax, both included.
+    #[arg(long, value_name = "P", default_value_t = 61)]
+    pub points: usize,
+    /// Write every point as CSV to FILE ('-' for stdout).
+    #[arg(long, value_name = "FILE")]
+    pub csv: Option<PathBuf>,
+    /// Write an SVG plot of χ_M·T (and γ_HS) against T to FILE.
+    #[arg(long, value_name = "FILE")]
+    pub svg: Option<PathBuf>,
+    #[command(flatten)]
+    pub format: Format,
+}
+
+pub fn run(args: &Args) -> Result<Output, Failure> {
+    let tr = Transition {
+        dh: args.dh * 1000.0,
+        ds: args.ds,
+        gamma: args.gamma * 1000.0,
+        residual: args.residual,
+    }
+    .checked()
+    .map_err(|e| Failure::usage(format!("sco-curve: {e}")))?;
+    for (name, v) in [("--chit-hs", args.chit_hs), ("--chit-ls", args.chit_ls)] {
+        if !v.is_finite() || v < 0.0 {
+            return Err(Failure::usage(format!("{name} {v}: a χ_M·T ≥ 0 cm³ K/mol")));
+        }
+    }
+    let temps = temperature_grid(args.tmin, args.tmax, args.points)?;
+    let report = CurveReport::new(&tr, &temps, args.chit_hs, args.chit_ls)?;
+    emit(
+        args.csv.as_deref(),
+        args.svg.as_deref(),
+        args.format.json,
+        Renderings {
+            csv: || report.to_csv(),
+            svg: || report.to_svg(),
+            json: || to_json(&report),
+            table: || report.to_table(),
+        },
+    )
+}
