@@ -111,6 +111,9 @@ pub fn run(args: &Args, data: Option<&Path>) -> Result<Output, Failure> {
         _ => (None, None),
     };
     let mut notes = curve.notes.clone();
+    if args.evans {
+        notes.push("safety: variable-temperature NMR needs a tube rated for the vapour pressure at the highest temperature and the solvent's liquid range; superconducting magnets pull ferromagnetic objects; follow your institution's rules".into());
+    }
     let ranges = match dn {
         Some(dn) => Some(pure_state_ranges(
             dn,
