@@ -7,6 +7,7 @@ pub mod engine;
 pub mod error;
 pub mod estimate;
 pub mod formula;
+pub mod least_squares;
 pub mod magnetism;
 pub mod predict;
 pub mod report;

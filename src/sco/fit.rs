@@ -13,8 +13,9 @@
 use super::data::Point;
 use super::model::{spin_entropy, Branch, Transition, GAS_CONSTANT};
 use crate::error::{Error, Result};
-use levenberg_marquardt::{LeastSquaresProblem, LevenbergMarquardt};
-use nalgebra::{storage::Owned, DMatrix, DVector, Dyn};
+use crate::least_squares::Residuals;
+use levenberg_marquardt::LevenbergMarquardt;
+use nalgebra::{DMatrix, DVector};
 
 /// Which model to fit.
 #[derive(Debug, Clone, Copy, PartialEq, Eq)]
@@ -215,71 +216,30 @@ fn calculated(p: &Physical, points: &[Point], model: ModelKind) -> Option<Vec<f6
         .collect()
 }
 
-struct Problem<'a> {
-    layout: &'a Layout,
-    points: &'a [Point],
+/// Weighted residuals (calculated − observed)/σ at `u`.
+fn weighted_residuals(
+    layout: &Layout,
+    points: &[Point],
     model: ModelKind,
-    weights: Vec<f64>,
-    u: DVector<f64>,
-    residuals: Option<DVector<f64>>,
-}
-
-impl Problem<'_> {
-    fn residuals_at(&self, u: &DVector<f64>) -> Option<DVector<f64>> {
-        let p = self.layout.physical(u);
-        if !(p.t_half.is_finite() && p.dh.is_finite() && p.t_half > 0.0) {
-            return None;
-        }
-        let c = calculated(&p, self.points, self.model)?;
-        Some(DVector::from_iterator(
-            c.len(),
-            c.iter()
-                .zip(self.points)
-                .zip(&self.weights)
-                .map(|((c, pt), w)| (c - pt.chi_t) * w),
-        ))
+    weights: &[f64],
+    u: &DVector<f64>,
+) -> Option<DVector<f64>> {
+    let p = layout.physical(u);
+    if !(p.t_half.is_finite() && p.dh.is_finite() && p.t_half > 0.0) {
+        return None;
     }
+    let c = calculated(&p, points, model)?;
+    Some(DVector::from_iterator(
+        c.len(),
+        c.iter()
+            .zip(points)
+            .zip(weights)
+            .map(|((c, pt), w)| (c - pt.chi_t) * w),
+    ))
 }
 
+/// Step of the central differences in the transformed parameters.
 const STEP: f64 = 1e-6;
-
-impl LeastSquaresProblem<f64, Dyn, Dyn> for Problem<'_> {
-    type ResidualStorage = Owned<f64, Dyn>;
-    type JacobianStorage = Owned<f64, Dyn, Dyn>;
-    type ParameterStorage = Owned<f64, Dyn>;
-
-    fn set_params(&mut self, u: &DVector<f64>) {
-        self.u.copy_from(u);
-        self.residuals = self.residuals_at(u);
-    }
-
-    fn params(&self) -> DVector<f64> {
-        self.u.clone()
-    }
-
-    fn residuals(&self) -> Option<DVector<f64>> {
-        self.residuals.clone()
-    }
-
-    fn jacobian(&self) -> Option<DMatrix<f64>> {
-        jacobian(self, &self.u)
-    }
-}
-
-fn jacobian(pr: &Problem, u: &DVector<f64>) -> Option<DMatrix<f64>> {
-    let n = pr.points.len();
-    let p = u.len();
-    let mut j = DMatrix::zeros(n, p);
-    for k in 0..p {
-        let mut up = u.clone();
-        let mut down = u.clone();
-        up[k] += STEP;
-        down[k] -= STEP;
-        let col = (pr.residuals_at(&up)? - pr.residuals_at(&down)?) / (2.0 * STEP);
-        j.set_column(k, &col);
-    }
-    Some(j)
-}
 
 /// The temperature where the curve crosses the middle of its range, and the slope of the
 /// normalised curve there (K⁻¹): starting values.
@@ -446,27 +406,24 @@ pub fn fit(req: &FitRequest) -> Result<FitResult> {
     seeds.truncate(3);
     let mut best: Option<(f64, DVector<f64>)> = None;
     for (_, u0) in seeds {
-        let mut problem = Problem {
-            layout: &layout,
-            points: pts,
-            model: req.model,
-            weights: weights.clone(),
-            u: u0.clone(),
-            residuals: None,
-        };
-        problem.set_params(&u0);
-        if problem.residuals.is_none() {
+        let problem = Residuals::new(
+            |u: &DVector<f64>| weighted_residuals(&layout, pts, req.model, &weights, u),
+            u0,
+            STEP,
+        );
+        if !problem.evaluates() {
             continue;
         }
-        let (solved, report) = LevenbergMarquardt::new()
-            .with_ftol(1e-12)
-            .with_xtol(1e-12)
-            .with_gtol(1e-12)
-            .with_patience(200)
-            .minimize(problem);
+        let (solved, report) = problem.minimize(
+            LevenbergMarquardt::new()
+                .with_ftol(1e-12)
+                .with_xtol(1e-12)
+                .with_gtol(1e-12)
+                .with_patience(200),
+        );
         let ssr = 2.0 * report.objective_function;
         if ssr.is_finite() && best.as_ref().is_none_or(|(b, _)| ssr < *b) {
-            best = Some((ssr, solved.u.clone()));
+            best = Some((ssr, solved));
         }
     }
     let Some((ssr, u)) = best else {
@@ -475,15 +432,13 @@ pub fn fit(req: &FitRequest) -> Result<FitResult> {
         ));
     };
     let phys = layout.physical(&u);
-    let problem = Problem {
-        layout: &layout,
-        points: pts,
-        model: req.model,
-        weights,
-        u: u.clone(),
-        residuals: None,
-    };
-    let j = jacobian(&problem, &u)
+    let problem = Residuals::new(
+        |u: &DVector<f64>| weighted_residuals(&layout, pts, req.model, &weights, u),
+        u.clone(),
+        STEP,
+    );
+    let j = problem
+        .jacobian_at(&u)
         .ok_or_else(|| Error::Computation("Jacobian of the fit not finite".into()))?;
     let dof = (pts.len() - p) as f64;
     let s2 = if weighted { 1.0 } else { ssr / dof };

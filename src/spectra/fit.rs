@@ -15,8 +15,9 @@ use super::transitions::{
 };
 use crate::engine::Geometry;
 use crate::error::{require_finite, Error, Result};
-use levenberg_marquardt::{LeastSquaresProblem, LevenbergMarquardt, TerminationReason};
-use nalgebra::{storage::Owned, DMatrix, DVector, Dyn};
+use crate::least_squares::Residuals;
+use levenberg_marquardt::{LevenbergMarquardt, TerminationReason};
+use nalgebra::{DMatrix, DVector};
 
 /// Range of Racah B (cm⁻¹) treated as plausible for a d-block complex; outside it an assignment
 /// is flagged (common practice: 3d complexes have B ≈ 400–1100, 4d/5d lower).
@@ -292,62 +293,23 @@ impl Model<'_> {
     }
 }
 
-/// The least-squares problem in log parameters for the `levenberg-marquardt` crate.
-struct Problem<'a> {
-    model: &'a Model<'a>,
-    spec: &'a Spec,
-    bands: &'a [f64],
-    u: DVector<f64>,
-    residuals: Option<DVector<f64>>,
-}
-
-impl Problem<'_> {
-    fn residuals_at(&self, u: &DVector<f64>) -> Option<DVector<f64>> {
-        let (dq, b, c) = self.spec.natural(u);
-        let e = self.model.energies(dq, b, c)?;
-        Some(DVector::from_iterator(
-            e.len(),
-            e.iter().zip(self.bands).map(|(calc, obs)| calc - obs),
-        ))
-    }
+/// Residuals calculated − observed of the assigned bands at log parameters `u`.
+fn band_residuals(
+    model: &Model,
+    spec: &Spec,
+    bands: &[f64],
+    u: &DVector<f64>,
+) -> Option<DVector<f64>> {
+    let (dq, b, c) = spec.natural(u);
+    let e = model.energies(dq, b, c)?;
+    Some(DVector::from_iterator(
+        e.len(),
+        e.iter().zip(bands).map(|(calc, obs)| calc - obs),
+    ))
 }
 
 /// Step of the central differences in log parameters.
 const LOG_STEP: f64 = 1e-6;
-
-impl LeastSquaresProblem<f64, Dyn, Dyn> for Problem<'_> {
-    type ResidualStorage = Owned<f64, Dyn>;
-    type JacobianStorage = Owned<f64, Dyn, Dyn>;
-    type ParameterStorage = Owned<f64, Dyn>;
-
-    fn set_params(&mut self, u: &DVector<f64>) {
-        self.u.copy_from(u);
-        self.residuals = self.residuals_at(u);
-    }
-
-    fn params(&self) -> DVector<f64> {
-        self.u.clone()
-    }
-
-    fn residuals(&self) -> Option<DVector<f64>> {
-        self.residuals.clone()
-    }
-
-    fn jacobian(&self) -> Option<DMatrix<f64>> {
-        let n = self.bands.len();
-        let p = self.u.len();
-        let mut j = DMatrix::zeros(n, p);
-        for k in 0..p {
-            let mut up = self.u.clone();
-            let mut down = self.u.clone();
-            up[k] += LOG_STEP;
-            down[k] -= LOG_STEP;
-            let col = (self.residuals_at(&up)? - self.residuals_at(&down)?) / (2.0 * LOG_STEP);
-            j.set_column(k, &col);
-        }
-        Some(j)
-    }
-}
 
 /// Whether the minimiser's stop counts as converged: its own success criteria, or tolerances
 /// already at machine precision.
@@ -876,25 +838,23 @@ fn refine(
         spec.b_fixed = 1000.0;
     }
     let u0 = spec.log_params(dq0, b0, seed.c_over_b * b0);
-    let mut problem = Problem {
-        model: &model,
-        spec: &spec,
-        bands,
-        u: u0.clone(),
-        residuals: None,
-    };
-    problem.set_params(&u0);
-    if problem.residuals.is_none() {
+    let problem = Residuals::new(
+        |u: &DVector<f64>| band_residuals(&model, &spec, bands, u),
+        u0,
+        LOG_STEP,
+    );
+    if !problem.evaluates() {
         return Ok(None);
     }
-    let (solved, report) = LevenbergMarquardt::new()
-        .with_ftol(1e-12)
-        .with_xtol(1e-12)
-        .with_gtol(1e-12)
-        .with_patience(req.patience.unwrap_or(DEFAULT_PATIENCE).max(1))
-        .minimize(problem);
+    let (solved, report) = problem.minimize(
+        LevenbergMarquardt::new()
+            .with_ftol(1e-12)
+            .with_xtol(1e-12)
+            .with_gtol(1e-12)
+            .with_patience(req.patience.unwrap_or(DEFAULT_PATIENCE).max(1)),
+    );
     let ok = converged(&report.termination) && report.objective_function.is_finite();
-    let (dq, b, c) = spec.natural(&solved.u);
+    let (dq, b, c) = spec.natural(&solved);
     let Some(m) = model.manifold(dq, b, c) else {
         return Ok(None);
     };
