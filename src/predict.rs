@@ -348,7 +348,7 @@ mod tests {
     }
 
     /// μ(S+L) = √(4S(S+1) + L(L+1)): for Co2+ (4F, S = 3/2, L = 3) √27 = 5.20 μB and for Cr3+
-    /// the same term; Fe2+ 5D gives √30 = 5.48 (common practice; the formula as in FACTS §3.1).
+    /// the same term; Fe2+ 5D gives √30 = 5.48 (common practice; the formula as in common practice).
     #[test]
     fn spin_plus_orbital_moments() {
         assert_abs_diff_eq!(spin_orbital_moment(3, 3), 27f64.sqrt(), epsilon = 1e-12);

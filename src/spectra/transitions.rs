@@ -10,7 +10,7 @@ use crate::engine::{Calculation, Geometry, Level, LigandField, Spectrum};
 use crate::error::{Error, Result};
 
 /// Source text for the Tanabe–Sugano C/B ratios of [`crate::engine::tanabe_sugano_c_over_b`]
-/// (FACTS.md §5.1 [M]).
+/// (Y. Tanabe, S. Sugano, J. Phys. Soc. Jpn. 1954, from memory [M]).
 pub const TANABE_SUGANO_SOURCE: &str =
     "Tanabe & Sugano, J. Phys. Soc. Jpn. 1954, 9, 753 and 766 (ratios of the original diagrams; from memory)";
 
@@ -422,7 +422,7 @@ pub struct Jump {
 /// Rule: a one-electron jump is strong. A two-electron jump whose upper level shares its irrep
 /// with a one-electron-jump level mixes with it and borrows intensity (the octahedral d³ and d⁸
 /// ν₃ bands, e.g. t₂g³ → t₂g¹e_g² for ⁴T₁g(P)), so it is not marked weak; one that has no such
-/// partner (the ³A₂g of d² and ⁴A₂g of d⁷, FACTS.md §5.4 [M]) is weak, as are jumps of three or
+/// partner (the ³A₂g of d² and ⁴A₂g of d⁷, A. B. P. Lever, Inorganic Electronic Spectroscopy, 2nd ed., 1984, from memory [M]) is weak, as are jumps of three or
 /// more electrons and transitions within one configuration. Common practice; the intensity borrowing is the usual
 /// configuration-interaction explanation, not computed here.
 pub fn jumps(dn: usize, geometry: Geometry, b: f64, c: f64, m: &Manifold) -> Result<Vec<Jump>> {
@@ -500,7 +500,7 @@ mod tests {
     #[test]
     fn d3_manifold_has_three_spin_allowed_bands() {
         // Octahedral d3 4A2g has three spin-allowed bands → 4T2g, 4T1g(F), 4T1g(P) (Lever,
-        // Inorganic Electronic Spectroscopy, 2nd ed., 1984; FACTS.md §5.4 [M]).
+        // Inorganic Electronic Spectroscopy, 2nd ed., 1984; A. B. P. Lever, Inorganic Electronic Spectroscopy, 2nd ed., 1984, from memory [M]).
         let calc = calculation(3, oct(), 1740.0, 728.6, 4.5 * 728.6).unwrap();
         let m = manifold(&calc.levels().unwrap(), 3).unwrap();
         let labels: Vec<&str> = m.transitions.iter().map(|t| t.label.as_str()).collect();
@@ -514,7 +514,7 @@ mod tests {
     fn configurations_of_octahedral_d3_and_d7() {
         // Strong-field parents (common practice): d3 4A2g t2g³, 4T2g and 4T1g(F) t2g²eg¹,
         // 4T1g(P) t2g¹eg²; d7 4T1g(F) t2g⁵eg², 4A2g t2g³eg⁴ — so d7 4T1g → 4A2g is a
-        // two-electron jump (Lever 1984; FACTS.md §5.4 [M]).
+        // two-electron jump (Lever 1984; A. B. P. Lever, Inorganic Electronic Spectroscopy, 2nd ed., 1984, from memory [M]).
         let calc = calculation(3, oct(), 1740.0, 700.0, 3150.0).unwrap();
         let m = manifold(&calc.levels().unwrap(), 3).unwrap();
         let mut keys = vec![m.reference.clone()];

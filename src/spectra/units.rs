@@ -124,7 +124,7 @@ mod tests {
 
     #[test]
     fn wavelength_and_wavenumber() {
-        // ν̃ (cm⁻¹) = 10⁷ / λ (nm) (FACTS.md §0, from memory): 470 nm ↔ 21 277 cm⁻¹, the
+        // ν̃ (cm⁻¹) = 10⁷ / λ (nm) (common practice, from memory): 470 nm ↔ 21 277 cm⁻¹, the
         // [Co(NH3)6]3+ band quoted at 470 nm and 21 280 cm⁻¹.
         let nu = EnergyUnit::Nanometre.to_wavenumber(470.0).unwrap();
         assert_relative_eq!(nu, 21_276.6, epsilon = 0.1);
@@ -132,7 +132,7 @@ mod tests {
 
     #[test]
     fn electronvolt() {
-        // 1 cm⁻¹ = 1.23984×10⁻⁴ eV (FACTS.md §0, from memory).
+        // 1 cm⁻¹ = 1.23984×10⁻⁴ eV (common practice, from memory).
         let nu = EnergyUnit::ElectronVolt.to_wavenumber(1.0).unwrap();
         assert_relative_eq!(1.0 / nu, 1.23984e-4, max_relative = 1e-5);
     }
