@@ -5,7 +5,7 @@
 //! bands to transitions and each grid point the best B follows in closed form (linear least
 //! squares), which ranks all assignments cheaply and gives starting points for the full fit.
 
-use super::transitions::{calculation_at, manifold, TransitionKey};
+use super::transitions::{band_manifold, calculation_at, TransitionKey};
 use crate::engine::Geometry;
 use crate::error::Result;
 
@@ -38,7 +38,7 @@ pub fn grid(dn: usize, geometry: Geometry, two_s: i32, c_over_b: f64) -> Result<
     let mut out = Vec::new();
     for x in grid_points() {
         let spectrum = calculation_at(dn, geometry, GRID_B, c_over_b, x)?.levels()?;
-        let Some(m) = manifold(&spectrum, two_s) else {
+        let Some(m) = band_manifold(&spectrum, two_s) else {
             continue;
         };
         out.push(GridPoint {

@@ -16,7 +16,7 @@
 //! and below 25 000 cm⁻¹; the most are all its merged bands inside the window plus one shoulder
 //! per band touching an E term.
 
-use super::transitions::{calculation, jumps, manifold, spin_states, SpinState, Transition};
+use super::transitions::{band_manifold, calculation, jumps, spin_states, SpinState, Transition};
 use crate::engine::{Geometry, PointGroup};
 use crate::error::{require_finite, Error, Result};
 
@@ -171,9 +171,10 @@ pub fn count_bands(req: &CountRequest) -> Result<BandCount> {
     let mut any_jt = false;
     let mut notes = Vec::new();
     for state in &states {
-        let Some(m) = manifold(&spectrum, state.two_s) else {
+        let Some(m) = band_manifold(&spectrum, state.two_s) else {
             continue;
         };
+        let forbidden = m.upper_two_s != m.two_s;
         let band_jumps = jumps(req.dn, req.geometry, req.b, req.c, &m)?;
         let ground_e = cubic && m.reference.irrep.starts_with('E');
         let mut bands: Vec<CountedBand> = m
@@ -184,7 +185,7 @@ pub fn count_bands(req: &CountRequest) -> Result<BandCount> {
                 transition: t.clone(),
                 electrons_moved: band_jumps[i].electrons,
                 in_window: (window_cm.0..=window_cm.1).contains(&t.energy),
-                weak: band_jumps[i].weak,
+                weak: band_jumps[i].weak || forbidden,
                 may_be_hidden: t.energy > CHARGE_TRANSFER_ONSET,
                 jahn_teller: ground_e || (cubic && t.key.irrep.starts_with('E')),
                 merged_into: None,
@@ -226,10 +227,11 @@ pub fn count_bands(req: &CountRequest) -> Result<BandCount> {
             .count();
         let max_expected = merged.len() + merged.iter().filter(|g| g.jahn_teller).count();
         any_jt |= merged.iter().any(|g| g.jahn_teller);
-        if m.transitions.is_empty() {
+        if forbidden {
             notes.push(format!(
-                "{} has no spin-allowed d–d bands: only very weak spin-forbidden bands (ε < 1) can be seen (Lever, Inorganic Electronic Spectroscopy, 1984; from memory)",
-                state.describe()
+                "{} has no spin-allowed d–d bands: its bands are the very weak spin-forbidden transitions to the {}-fold levels (ε < 1), counted as weak (Lever, Inorganic Electronic Spectroscopy, 1984; from memory)",
+                state.describe(),
+                m.upper_two_s + 1
             ));
         }
         out.push(SpinBands {

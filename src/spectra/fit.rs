@@ -10,7 +10,7 @@
 use super::assign::{self, BSeed, Seed, MAX_DELTA_OVER_B};
 use super::count::DEFAULT_WINDOW_NM;
 use super::transitions::{
-    calculation, default_c_over_b, jumps, manifold, select_spin, spin_states, Jump, Manifold,
+    band_manifold, calculation, default_c_over_b, jumps, select_spin, spin_states, Jump, Manifold,
     SpinChoice, SpinState, Transition, TransitionKey,
 };
 use crate::engine::Geometry;
@@ -281,7 +281,7 @@ impl Model<'_> {
             .ok()?
             .levels()
             .ok()?;
-        manifold(&spectrum, self.two_s)
+        band_manifold(&spectrum, self.two_s)
     }
 
     fn energies(&self, dq: f64, b: f64, c: f64) -> Option<Vec<f64>> {
@@ -355,7 +355,7 @@ fn natural_jacobian(model: &Model, spec: &Spec, dq: f64, b: f64, c: f64) -> Opti
 fn dependence(dn: usize, geometry: Geometry, two_s: i32, c_over_b: f64) -> Result<(bool, bool)> {
     let energies = |dq: f64, b: f64, c: f64| -> Result<Vec<(TransitionKey, f64)>> {
         let s = calculation(dn, geometry, dq, b, c)?.levels()?;
-        Ok(manifold(&s, two_s)
+        Ok(band_manifold(&s, two_s)
             .map(|m| {
                 m.transitions
                     .into_iter()
@@ -601,9 +601,27 @@ fn fit_one_spin(
 ) -> Result<(Vec<BandFit>, Vec<String>)> {
     let n = bands.len();
     let probe = calculation(req.dn, req.geometry, 1600.0, 800.0, 800.0 * c_over_b)?.levels()?;
-    let total = manifold(&probe, state.two_s)
+    let probe_manifold = band_manifold(&probe, state.two_s);
+    let total = probe_manifold
+        .as_ref()
         .map(|m| m.transitions.len())
         .unwrap_or(0);
+    let forbidden = probe_manifold
+        .as_ref()
+        .is_some_and(|m| m.upper_two_s != m.two_s);
+    let widened;
+    let req = if forbidden && n >= 3 && !req.fit_c && req.fixed_b.is_none() {
+        // The quartets of high-spin d⁵ pin B and C separately (⁴A₁g,⁴Eg(G) at 10B + 5C and
+        // ⁴Eg(D) at 17B + 5C in the weak-field limit; A. B. P. Lever, Inorganic Electronic
+        // Spectroscopy, 1984): fit C as well.
+        widened = FitRequest {
+            fit_c: true,
+            ..req.clone()
+        };
+        &widened
+    } else {
+        req
+    };
     if total == 0 {
         return Err(Error::invalid(
             "spin state",
@@ -627,6 +645,16 @@ fn fit_one_spin(
     let mut free = vec![Parameter::Dq];
     let mut fixed = Vec::new();
     let mut notes = Vec::new();
+    if forbidden {
+        notes.push(format!(
+            "{} of d{} {} has no spin-allowed d–d band: the bands are assigned to its spin-forbidden transitions to the {}-fold levels (weak, ε ≲ 1 M⁻¹ cm⁻¹){}",
+            state.describe(),
+            req.dn,
+            req.geometry,
+            state.two_s - 1,
+            if req.fit_c { "; Dq, B and C are all fitted" } else { "" }
+        ));
+    }
     if !b_enters {
         fixed.push(FixedParameter {
             name: "B".into(),
@@ -1155,12 +1183,56 @@ mod tests {
         assert_eq!(e.exit_code(), 2, "{e}");
     }
 
+    /// High-spin d⁵ has no spin-allowed band; its quartet bands are fitted instead, and one
+    /// band cannot fix Dq and B.
     #[test]
-    fn d5_high_spin_has_nothing_to_fit() {
+    fn d5_high_spin_needs_more_than_one_quartet_band() {
         let mut r = request(5, Geometry::Octahedral, vec![18_000.0]);
         r.spin = SpinChoice::High;
         let e = fit_bands(&r).unwrap_err();
-        assert!(e.to_string().contains("spin-forbidden"), "{e}");
+        assert!(e.to_string().contains("at least 2"), "{e}");
+    }
+
+    /// Round trip on the engine's own high-spin d⁵ quartet bands (⁶A₁g → ⁴T₁g(G), ⁴T₂g(G),
+    /// ⁴A₁g, ⁴Eg(D)): Dq, B and C come back, C fitted on its own.
+    #[test]
+    fn round_trip_d5_high_spin_quartets() {
+        let (dq, b, c) = (800.0, 700.0, 3300.0);
+        let bands = engine_bands(
+            5,
+            Geometry::Octahedral,
+            5,
+            (dq, b, c),
+            &["4T1g(G)", "4T2g(G)", "4A1g", "4Eg(D)"],
+        );
+        let mut req = request(5, Geometry::Octahedral, bands);
+        req.spin = SpinChoice::High;
+        let out = fit_bands(&req).unwrap();
+        assert_eq!(out.best.spin_state.two_s, 5);
+        assert_relative_eq!(out.best.dq, dq, max_relative = 1e-3);
+        assert_relative_eq!(out.best.b.unwrap(), b, max_relative = 1e-3);
+        assert_relative_eq!(out.best.c.unwrap(), c, max_relative = 1e-3);
+    }
+
+    /// [Mn(H₂O)₆]²⁺: bands at 18 900, 23 100, 24 900 and 28 000 cm⁻¹ (A. B. P. Lever, Inorganic
+    /// Electronic Spectroscopy, 2nd ed., 1984, from memory) are the quartets of a high-spin ion
+    /// with Dq ≈ 800, B ≈ 700 and C/B ≈ 4.5–5 (Lever 1984's fit, from memory, lies in the same
+    /// range), not a low-spin state with a field three times larger.
+    #[test]
+    fn aqua_manganese_ii_is_high_spin() {
+        let out = fit_bands(&request(
+            5,
+            Geometry::Octahedral,
+            vec![18_900.0, 23_100.0, 24_900.0, 28_000.0],
+        ))
+        .unwrap();
+        let f = &out.best;
+        assert_eq!(f.spin_state.two_s, 5, "{:?}", f.spin_state);
+        assert!((650.0..=950.0).contains(&f.dq), "{}", f.dq);
+        let b = f.b.unwrap();
+        assert!((600.0..=850.0).contains(&b), "{b}");
+        let r = f.c.unwrap() / b;
+        assert!((4.0..=5.5).contains(&r), "{r}");
     }
 
     /// Band positions computed by the engine for the named upper levels.
@@ -1175,7 +1247,7 @@ mod tests {
             .unwrap()
             .levels()
             .unwrap();
-        let m = manifold(&spectrum, two_s).unwrap();
+        let m = band_manifold(&spectrum, two_s).unwrap();
         labels
             .iter()
             .map(|l| {

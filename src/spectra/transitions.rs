@@ -221,6 +221,9 @@ pub struct Manifold {
     /// Energy of the lowest level of this spin above the ground level (cm⁻¹; 0 when this spin
     /// is the ground state).
     pub offset: f64,
+    /// 2S of the upper levels: `two_s` for spin-allowed bands, `two_s − 2` for the
+    /// spin-forbidden bands of a state that has no spin-allowed ones ([`band_manifold`]).
+    pub upper_two_s: i32,
     /// Transitions, lowest first.
     pub transitions: Vec<Transition>,
 }
@@ -271,17 +274,45 @@ fn unique_labels(levels: &[&Level]) -> Vec<String> {
 /// each carries its parent's letter ("4T1g(F)", "4T1g(P)"); otherwise the lowest is bare and the
 /// others carry their index ("1T2g", "1T2g[2]").
 pub fn manifold(spectrum: &Spectrum, two_s: i32) -> Option<Manifold> {
-    let levels: Vec<&Level> = spectrum
+    manifold_to(spectrum, two_s, two_s)
+}
+
+/// The bands a spin state shows: its spin-allowed transitions, or, for a state of spin S with
+/// none (the ⁶A₁ of high-spin d⁵ in O_h and T_d), the spin-forbidden transitions from its lowest
+/// level to the levels of spin S − 1 (the quartets), which are then all its spectrum has.
+pub fn band_manifold(spectrum: &Spectrum, two_s: i32) -> Option<Manifold> {
+    let allowed = manifold(spectrum, two_s)?;
+    if !allowed.transitions.is_empty() || two_s < 2 {
+        return Some(allowed);
+    }
+    manifold_to(spectrum, two_s, two_s - 2).filter(|m| !m.transitions.is_empty())
+}
+
+/// Transitions from the lowest level of spin `two_s` to every level of spin `upper` above it.
+fn manifold_to(spectrum: &Spectrum, two_s: i32, upper: i32) -> Option<Manifold> {
+    let own: Vec<&Level> = spectrum
         .levels
         .iter()
         .filter(|l| l.two_s == two_s)
         .collect();
-    let lowest = *levels.first()?;
-    let labels = unique_labels(&levels);
+    let lowest = *own.first()?;
+    let own_labels = unique_labels(&own);
+    let (levels, labels, skip): (Vec<&Level>, Vec<String>, usize) = if upper == two_s {
+        (own.clone(), own_labels.clone(), 1)
+    } else {
+        let up: Vec<&Level> = spectrum
+            .levels
+            .iter()
+            .filter(|l| l.two_s == upper)
+            .collect();
+        let labels = unique_labels(&up);
+        (up, labels, 0)
+    };
     let transitions = levels
         .iter()
         .zip(&labels)
-        .skip(1)
+        .skip(skip)
+        .filter(|(l, _)| l.energy > lowest.energy)
         .map(|(l, label)| Transition {
             key: TransitionKey::of(l),
             label: label.clone(),
@@ -293,9 +324,10 @@ pub fn manifold(spectrum: &Spectrum, two_s: i32) -> Option<Manifold> {
     Some(Manifold {
         two_s,
         reference: TransitionKey::of(lowest),
-        reference_label: labels[0].clone(),
+        reference_label: own_labels[0].clone(),
         reference_parent: lowest.parent.clone(),
         offset: lowest.energy,
+        upper_two_s: upper,
         transitions,
     })
 }
