@@ -125,7 +125,9 @@ fn high_spin_d5_has_no_spin_allowed_bands() {
     let listed = hs["bands"].as_array().unwrap();
     assert!(!listed.is_empty());
     assert!(listed.iter().all(|b| b["weak"] == true), "{listed:?}");
-    assert!(listed.iter().all(|b| b["label"].as_str().unwrap().starts_with('4')));
+    assert!(listed
+        .iter()
+        .all(|b| b["label"].as_str().unwrap().starts_with('4')));
     assert_eq!(hs["min_expected"], 0);
     assert_eq!(hs["supports_observed"], true);
     let notes: Vec<&str> = v["notes"]

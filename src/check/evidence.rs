@@ -440,6 +440,7 @@ fn position_fit(
         fit_c: false,
         fixed_b: None,
         patience: None,
+        b0: complex.ion.b0,
     };
     match fit_bands(&req) {
         Ok(outcome) => {

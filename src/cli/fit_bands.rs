@@ -116,6 +116,7 @@ pub fn run(args: &Args, data: Option<&Path>) -> Result<Output, Failure> {
         fit_c: args.fit_c,
         fixed_b: args.b,
         patience: Some(args.max_evaluations),
+        b0: args.b0.or(ion.and_then(|i| i.b0)),
     };
     if args.max_evaluations == 0 {
         return Err(Failure::usage("--max-evaluations 0 must be at least 1"));

@@ -157,8 +157,22 @@ pub struct FitBandsReport {
     pub alternatives: Vec<AlternativeRow>,
     /// Doubts about the best assignment.
     pub concerns: Vec<String>,
+    /// The usual published reading of octahedral d³ and d⁸ spectra: Δ = ν₁ and B from ν₂ or ν₃
+    /// (cm⁻¹; Lever 1984); null for other cases.
+    pub convention: Option<ConventionRow>,
     pub notes: Vec<String>,
     pub evaluations: usize,
+}
+
+/// Δ and B as published tables read them (cm⁻¹).
+#[derive(Debug, Clone, Serialize)]
+pub struct ConventionRow {
+    /// Δ = ν₁.
+    pub delta: f64,
+    /// B from ν₁ and ν₂.
+    pub b_from_nu2: Option<f64>,
+    /// B from ν₁ and ν₃.
+    pub b_from_nu3: Option<f64>,
 }
 
 /// Inputs of the report that are not part of the fit.
@@ -300,6 +314,11 @@ impl FitBandsReport {
                 .map(|(a, near)| alternative(a, *near))
                 .collect(),
             concerns: f.concerns.clone(),
+            convention: crate::spectra::fit::convention(f).map(|c| ConventionRow {
+                delta: c.delta,
+                b_from_nu2: c.b_from_nu2,
+                b_from_nu3: c.b_from_nu3,
+            }),
             notes: out.notes.clone(),
             evaluations: f.evaluations,
         })
@@ -340,6 +359,19 @@ impl FitBandsReport {
             s.push_str(&format!(" (C/B = {})", fmt_num(r, 3)));
         }
         s.push('\n');
+        if let Some(c) = &self.convention {
+            let mut parts = vec![format!("Δ = ν₁ = {} cm⁻¹", fmt_num(c.delta, 0))];
+            if let Some(b) = c.b_from_nu2 {
+                parts.push(format!("B from ν₂ = {} cm⁻¹", fmt_num(b, 1)));
+            }
+            if let Some(b) = c.b_from_nu3 {
+                parts.push(format!("B from ν₃ = {} cm⁻¹", fmt_num(b, 1)));
+            }
+            s.push_str(&format!(
+                "as published tables read it (Lever 1984): {}\n",
+                parts.join(", ")
+            ));
+        }
         if let Some(x) = self.delta_over_b {
             s.push_str(&format!(
                 "Δ/B = {}{}",

@@ -63,6 +63,9 @@ pub struct FitRequest {
     /// Cap on model evaluations per assignment, as a multiple of (free parameters + 1);
     /// None uses [`DEFAULT_PATIENCE`].
     pub patience: Option<usize>,
+    /// Free-ion B₀ (cm⁻¹), when known: a fit with B > B₀ (β > 1) is flagged as unphysical and is
+    /// never a near-equal alternative.
+    pub b0: Option<f64>,
 }
 
 /// Default cap on model evaluations per assignment, × (free parameters + 1).
@@ -182,6 +185,8 @@ pub struct BandFit {
     /// Unassigned bands expected to be strong that lie below the highest observed band, at any
     /// energy (tie-breaker between near-equal assignments).
     pub skipped_below: usize,
+    /// B above the free-ion B₀ (β > 1).
+    pub unphysical: bool,
 }
 
 impl BandFit {
@@ -540,7 +545,7 @@ pub fn fit_bands(req: &FitRequest) -> Result<FitOutcome> {
     let alternatives = fits
         .into_iter()
         .map(|f| {
-            let near = f.score <= best.score + near_equal_tolerance(best.rms);
+            let near = !f.unphysical && f.score <= best.score + near_equal_tolerance(best.rms);
             (f, near)
         })
         .collect();
@@ -549,6 +554,52 @@ pub fn fit_bands(req: &FitRequest) -> Result<FitOutcome> {
         alternatives,
         spin_states: states,
         notes,
+    })
+}
+
+/// The usual published reading of octahedral d³ and d⁸ spectra (A. B. P. Lever, Inorganic
+/// Electronic Spectroscopy, 2nd ed., 1984; J. Chem. Educ. 1968, 45, 711): Δ = ν₁ (the ⁴T₂g or
+/// ³T₂g band, exactly 10Dq in the cubic model) and B from ν₂ or ν₃ with Δ held at ν₁. Tables of
+/// Δ and B are mostly built this way, so it is reported beside the least-squares fit.
+#[derive(Debug, Clone, Copy, PartialEq)]
+pub struct Convention {
+    /// Δ = ν₁ (cm⁻¹).
+    pub delta: f64,
+    /// B from ν₁ and ν₂: (ν₂ − ν₁)(ν₂ − 2ν₁)/(15ν₂ − 27ν₁) (cm⁻¹).
+    pub b_from_nu2: Option<f64>,
+    /// B from ν₁ and ν₃: (x² − ν₁²/4)/(15x − 4.5ν₁) with x = ν₃ − 1.5ν₁ (cm⁻¹).
+    pub b_from_nu3: Option<f64>,
+}
+
+/// The published convention for a fit of octahedral d³ or d⁸ whose assignment includes ν₁;
+/// None for other cases.
+pub fn convention(f: &BandFit) -> Option<Convention> {
+    if !matches!(f.dn, 3 | 8) || f.geometry != Geometry::Octahedral {
+        return None;
+    }
+    let m = f.spin_state.multiplicity();
+    let find = |label: String| {
+        f.assigned
+            .iter()
+            .find(|a| a.transition.label == label)
+            .map(|a| a.observed)
+    };
+    let nu1 = find(format!("{m}T2g"))?;
+    let nu2 = find(format!("{m}T1g(F)"));
+    let nu3 = find(format!("{m}T1g(P)"));
+    let b2 = nu2
+        .map(|n2| (n2 - nu1) * (n2 - 2.0 * nu1) / (15.0 * n2 - 27.0 * nu1))
+        .filter(|b| b.is_finite() && *b > 0.0);
+    let b3 = nu3
+        .map(|n3| {
+            let x = n3 - 1.5 * nu1;
+            (x * x - 0.25 * nu1 * nu1) / (15.0 * x - 4.5 * nu1)
+        })
+        .filter(|b| b.is_finite() && *b > 0.0);
+    Some(Convention {
+        delta: nu1,
+        b_from_nu2: b2,
+        b_from_nu3: b3,
     })
 }
 
@@ -969,6 +1020,14 @@ fn refine(
             PLAUSIBLE_B.0, PLAUSIBLE_B.1
         ));
     }
+    let unphysical = b_enters && req.b0.is_some_and(|b0| b > b0);
+    if unphysical {
+        concerns.push(format!(
+            "B = {b:.0} cm⁻¹ is above the free-ion B₀ = {:.0} cm⁻¹ (β = {:.2} > 1): unphysical, since bonding only lowers B (the nephelauxetic effect; C. K. Jørgensen 1962)",
+            req.b0.unwrap_or(f64::NAN),
+            b / req.b0.unwrap_or(f64::NAN)
+        ));
+    }
     if spec.free.contains(&Parameter::C)
         && !(PLAUSIBLE_C_OVER_B.0..=PLAUSIBLE_C_OVER_B.1).contains(&(c / b))
     {
@@ -1027,6 +1086,7 @@ fn refine(
         concerns,
         score,
         skipped_below,
+        unphysical,
     }))
 }
 
@@ -1124,6 +1184,7 @@ mod tests {
             fit_c: false,
             fixed_b: None,
             patience: None,
+            b0: None,
         }
     }
 
@@ -1280,6 +1341,7 @@ mod tests {
             fit_c,
             fixed_b: None,
             patience: None,
+            b0: None,
         };
         let out = fit_bands(&req).unwrap();
         let f = &out.best;
@@ -1445,6 +1507,62 @@ mod tests {
             (nu[1] + nu[2] - 3.0 * nu[0]) / 15.0,
             max_relative = 1e-6
         );
+    }
+
+    /// The published convention (Lever 1984): Δ = ν₁, and B from ν₂ or from ν₃ with Δ held at
+    /// ν₁, both exact on the engine's own cubic bands; [Cr(H₂O)₆]³⁺ (17 400, 24 600 cm⁻¹) and
+    /// [Ni(H₂O)₆]²⁺ (8 500, 13 800, 25 300 cm⁻¹; Lever 1984, from memory) give Δ = ν₁.
+    #[test]
+    fn published_convention_for_d3_and_d8() {
+        for (dn, two_s, labels, r) in [
+            (3, 3, ["4T2g", "4T1g(F)", "4T1g(P)"], 4.5),
+            (8, 2, ["3T2g", "3T1g(F)", "3T1g(P)"], 4.709),
+        ] {
+            let (dq, b) = (1300.0, 780.0);
+            let nu = engine_bands(dn, Geometry::Octahedral, two_s, (dq, b, r * b), &labels);
+            let mut req = request(dn, Geometry::Octahedral, nu.clone());
+            req.c_over_b = Some(r);
+            let out = fit_bands(&req).unwrap();
+            let c = convention(&out.best).unwrap();
+            assert_relative_eq!(c.delta, 10.0 * dq, max_relative = 1e-9);
+            assert_relative_eq!(c.b_from_nu2.unwrap(), b, max_relative = 1e-9);
+            assert_relative_eq!(c.b_from_nu3.unwrap(), b, max_relative = 1e-9);
+        }
+        let out = fit_bands(&request(3, Geometry::Octahedral, vec![17_400.0, 24_600.0])).unwrap();
+        assert_eq!(convention(&out.best).unwrap().delta, 17_400.0);
+        let out = fit_bands(&request(
+            8,
+            Geometry::Octahedral,
+            vec![8_500.0, 13_800.0, 25_300.0],
+        ))
+        .unwrap();
+        let c = convention(&out.best).unwrap();
+        assert_eq!(c.delta, 8_500.0);
+        assert!(c.b_from_nu2.is_some() && c.b_from_nu3.is_some());
+        assert!(convention(
+            &fit_bands(&request(2, Geometry::Octahedral, vec![17_800.0, 25_700.0]))
+                .unwrap()
+                .best
+        )
+        .is_none());
+    }
+
+    /// A fitted B above the free-ion B₀ (β > 1) is unphysical (Jørgensen 1962): flagged, and
+    /// never offered as a near-equal alternative.
+    #[test]
+    fn beta_above_one_is_rejected() {
+        let mut req = request(8, Geometry::Octahedral, vec![8_500.0, 13_800.0, 25_300.0]);
+        // A B₀ below the fitted B of about 900 cm⁻¹.
+        req.b0 = Some(700.0);
+        let out = fit_bands(&req).unwrap();
+        assert!(out.best.unphysical);
+        assert!(out.best.concerns.iter().any(|c| c.contains("β")));
+        assert!(out
+            .alternatives
+            .iter()
+            .all(|(f, near)| !(*near && f.unphysical)));
+        req.b0 = Some(1030.0);
+        assert!(!fit_bands(&req).unwrap().best.unphysical);
     }
 
     #[test]
