@@ -15,7 +15,7 @@
 //! cannot be resolved counts as wrong.
 
 use crate::complex::{ComplexSpec, LigandCount, Overrides};
-use crate::engine::{Crossover, Geometry};
+use crate::engine::{ground_spin_map, spin_from_map, Crossover, Geometry};
 use crate::estimate::{self, Calibration, SpinGeometry, SpinState, CALIBRATION};
 use crate::tables::{Category, Ion, ReportedComplex, ReportedSpin, Tables};
 
@@ -37,8 +37,8 @@ pub const GRID: Grid = Grid {
     crossover_window: &[
         500.0, 1000.0, 1500.0, 2000.0, 2500.0, 3000.0, 4000.0, 5000.0,
     ],
-    planar_factor: &[1.0, 1.25, 1.5, 1.75, 2.0, 2.5, 3.0, 3.5, 4.0],
-    jahn_teller: &[0.0, 0.05, 0.1, 0.15, 0.2, 0.3],
+    planar_factor: &[1.0, 1.5, 2.0, 2.5, 3.0, 3.5, 4.0, 4.5, 5.0],
+    jahn_teller: &[0.0, 0.05, 0.1, 0.15, 0.2, 0.25, 0.3],
 };
 
 /// One reported complex with the parts of its estimate that the constants do not change.
@@ -59,6 +59,8 @@ struct Features {
     g: f64,
     b: f64,
     cross: Crossover,
+    /// The engine's ground 2S against Δ/B (all spin changes up to Δ/B = 200).
+    spins: Vec<(f64, i32)>,
 }
 
 /// What the model says about one case under one calibration.
@@ -90,9 +92,15 @@ impl Case {
             cal,
         );
         let state = choice.map_or(SpinState::Fixed, |c| c.state);
-        let two_s = match (&f.cross.low_spin, state.low_spin_ground()) {
-            (Some(ls), true) => ls.two_s,
-            _ => f.cross.high_spin.two_s,
+        // As `predict` reports it: the high-spin state's spin when the verdict is high spin; the
+        // low-spin state's, or a still lower spin where the engine finds a further change of
+        // spin at the low-spin state's own field.
+        let two_s = match (choice, state, &f.cross.low_spin) {
+            (Some(_), SpinState::High, _) => f.cross.high_spin.two_s,
+            (Some(c), SpinState::Low | SpinState::Crossover, Some(ls)) => {
+                spin_from_map(&f.spins, c.delta_over_b_low_spin).min(ls.two_s)
+            }
+            (_, _, _) => spin_from_map(&f.spins, delta_ref * sg.high_spin_factor / f.b),
         };
         Some(Verdict {
             state,
@@ -132,9 +140,13 @@ pub fn cases(tables: &Tables) -> Vec<Case> {
                     .collect(),
                 overrides: Overrides::default(),
             };
+            let spins = |c: &crate::complex::ResolvedComplex| {
+                ground_spin_map(c.ion.dn, c.geometry, c.crossover.c_over_b)
+            };
             match spec.resolve(tables) {
-                Ok(c) => Case {
+                Ok(c) if spins(&c).is_ok() => Case {
                     features: c.ion.g.map(|g| Features {
+                        spins: spins(&c).unwrap_or_default(),
                         mean_f: c.mean_f.unwrap_or(0.0),
                         mean_pi: c.mean_pi,
                         g,
@@ -149,6 +161,11 @@ pub fn cases(tables: &Tables) -> Vec<Case> {
                         .is_none()
                         .then(|| format!("no g for {}", c.ion.name())),
                     reported: r.clone(),
+                },
+                Ok(_) => Case {
+                    reported: r.clone(),
+                    features: None,
+                    error: Some("the ground-spin map could not be computed".into()),
                 },
                 Err(e) => Case {
                     reported: r.clone(),

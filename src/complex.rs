@@ -23,7 +23,7 @@ use crate::estimate::{
 use crate::tables::{
     FieldBasis, Ion, Ligand, Provenance, ReferenceState, Tables, TransitionSeries,
 };
-use nalgebra::Vector3;
+
 use std::str::FromStr;
 
 /// One ligand of a complex and how many of it are bound, parsed from `NAME[:COUNT]`.
@@ -691,22 +691,10 @@ impl ResolvedComplex {
         self.field_at(self.delta.value)
     }
 
-    /// The one-electron field (cm⁻¹) at a given Δ in the geometry's convention.
+    /// The one-electron field (cm⁻¹) at a given Δ in the geometry's convention (square planar:
+    /// the angular-overlap field with d–s mixing of [`LigandField::square_planar`]).
     pub fn field_at(&self, delta: f64) -> Result<LigandField> {
-        match self.geometry {
-            Geometry::SquarePlanar => {
-                let e_sigma = delta / 3.0;
-                let donors: Vec<(Vector3<f64>, f64, f64)> =
-                    [Vector3::x(), Vector3::y(), -Vector3::x(), -Vector3::y()]
-                        .into_iter()
-                        .map(|d| (d, e_sigma, 0.0))
-                        .collect();
-                Ok(LigandField::angular_overlap(&donors).barycentred())
-            }
-            g @ (Geometry::Octahedral | Geometry::Tetrahedral | Geometry::Tetragonal) => {
-                g.field(delta / 10.0, 0.0, 0.0)
-            }
-        }
+        self.geometry.field(delta / 10.0, 0.0, 0.0)
     }
 
     /// Point group whose labels are used.
@@ -819,15 +807,28 @@ mod tests {
         assert_eq!(c.formula(), "[CoCl4]2-");
     }
 
-    /// The square-planar AOM field equals the engine's σ-only square-planar field for the same
-    /// octahedral Dq, and its x²−y² to xy gap is 10Dq = 3e_σ (Larsen & La Mar 1974).
+    /// The square-planar field: the angular overlap model of four σ donors on ±x, ±y (Larsen
+    /// & La Mar 1974) with z² lowered by the d–s mixing e_ds; its x²−y² to xy gap is 10Dq = 3e_σ.
     #[test]
-    fn square_planar_field_is_the_sigma_only_aom() {
+    fn square_planar_field_is_the_aom_with_d_s_mixing() {
+        use nalgebra::Vector3;
         let c = resolve("Ni", 2, "sqpl", &["CN:4"]).unwrap();
-        let aom = c.field().unwrap();
-        let engine = Geometry::SquarePlanar.field(c.dq(), 0.0, 0.0).unwrap();
-        assert!((aom.matrix - engine.matrix).amax() < 1e-9 * c.delta.value);
-        let mut e: Vec<f64> = aom
+        let e_sigma = c.delta.value / 3.0;
+        let donors: Vec<(Vector3<f64>, f64, f64)> =
+            [Vector3::x(), Vector3::y(), -Vector3::x(), -Vector3::y()]
+                .into_iter()
+                .map(|d| (d, e_sigma, 0.0))
+                .collect();
+        let mut aom = LigandField::angular_overlap(&donors).matrix;
+        // Lower z² (real orbital index 0) by e_ds.
+        aom[(0, 0)] -= crate::engine::field::DS_MIXING * e_sigma;
+        let shift = aom.trace() / 5.0;
+        for i in 0..5 {
+            aom[(i, i)] -= shift;
+        }
+        let engine = c.field().unwrap();
+        assert!((aom - engine.matrix).amax() < 1e-9 * c.delta.value);
+        let mut e: Vec<f64> = engine
             .matrix
             .symmetric_eigen()
             .eigenvalues

@@ -220,17 +220,36 @@ pub fn predict_with(complex: &ResolvedComplex, options: PredictOptions) -> Resul
     }
     let calc = complex.calculation()?;
     let spectrum = calc.levels()?;
-    let ground = spectrum.ground().clone();
-    let expected = match spin_state {
-        SpinState::Low | SpinState::Crossover => cross.low_spin.as_ref().map(|g| g.two_s),
-        SpinState::High | SpinState::Fixed => Some(cross.high_spin.two_s),
+    // The ground level: the high-spin state's lowest level when the verdict is high spin (the
+    // verdict weighs each state at its own geometry, which a single field cannot show), the
+    // engine's ground at the ground state's Δ otherwise.
+    let engine_ground = spectrum.ground().clone();
+    let decided = match (spin_state, &cross.low_spin) {
+        (SpinState::High, _) => Some(cross.high_spin.two_s),
+        (SpinState::Low | SpinState::Crossover, Some(ls)) if engine_ground.two_s >= ls.two_s => {
+            Some(ls.two_s)
+        }
+        _ => None,
     };
-    if expected.is_some_and(|s| s != ground.two_s) {
+    let ground = decided
+        .and_then(|s| spectrum.lowest_of_spin(s).cloned())
+        .unwrap_or_else(|| engine_ground.clone());
+    if ground.two_s != engine_ground.two_s {
         notes.push(format!(
-            "the ground level at the {} state's Δ ({}) has another spin: the complex lies at the crossover",
-            spin_state.name(),
-            ground.label()
+            "at this Δ a single-geometry calculation puts {} lowest: the {} verdict comes from comparing each state at its own bond length (with the Jahn–Teller term)",
+            engine_ground.label(),
+            spin_state.name()
         ));
+    } else if let (SpinState::Low | SpinState::Crossover, Some(ls)) = (spin_state, &cross.low_spin)
+    {
+        if ls.two_s > ground.two_s {
+            notes.push(format!(
+                "the low-spin state's own field lies beyond a further change of spin: its ground level is {} (2S+1 = {}), not the {} found at the first crossover",
+                ground.label(),
+                ground.two_s + 1,
+                ls.term
+            ));
+        }
     }
     let l = term_l(&ground.parent).ok_or_else(|| {
         Error::Computation(format!(

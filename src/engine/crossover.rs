@@ -215,6 +215,60 @@ fn compute(dn: usize, geometry: Geometry, c_over_b: f64) -> Result<Crossover> {
     })
 }
 
+/// Largest Δ/B of [`ground_spin_map`].
+pub const SPIN_MAP_LIMIT: f64 = 200.0;
+
+/// Every change of the ground-state spin of d^n in `geometry` at `c_over_b` for
+/// 0 < Δ/B ≤ [`SPIN_MAP_LIMIT`]: (Δ/B where a spin starts, its 2S), ascending, the first entry at
+/// Δ/B = 0. Scanned in steps of 1 and refined by bisection to 1e-4 (cached); a spin that is the
+/// ground state over less than one unit of Δ/B can be missed. Unlike
+/// [`crossover`], which finds the first change, this also finds later ones (square-planar d⁶
+/// goes quintet → triplet → singlet).
+pub fn ground_spin_map(dn: usize, geometry: Geometry, c_over_b: f64) -> Result<Vec<(f64, i32)>> {
+    type SpinMap = Vec<(f64, i32)>;
+    static MAPS: OnceLock<Mutex<HashMap<Key, SpinMap>>> = OnceLock::new();
+    let key = (dn, geometry, c_over_b.to_bits());
+    let maps = MAPS.get_or_init(|| Mutex::new(HashMap::new()));
+    if let Some(hit) = maps.lock().ok().and_then(|m| m.get(&key).cloned()) {
+        return Ok(hit);
+    }
+    let spin_at = |x: f64| -> Result<i32> { Ok(ground_spin(&lowest(dn, geometry, c_over_b, x)?)) };
+    let mut out = vec![(0.0, spin_at(WEAK_FIELD)?)];
+    let mut prev_x = WEAK_FIELD;
+    let mut prev_s = out[0].1;
+    let mut x = WEAK_FIELD + 1.0;
+    while x <= SPIN_MAP_LIMIT + 1e-12 {
+        let s = spin_at(x)?;
+        if s != prev_s {
+            let (mut a, mut b) = (prev_x, x);
+            while b - a > 1e-4 {
+                let m = 0.5 * (a + b);
+                if spin_at(m)? == prev_s {
+                    a = m;
+                } else {
+                    b = m;
+                }
+            }
+            out.push((0.5 * (a + b), s));
+            prev_s = s;
+        }
+        prev_x = x;
+        x += 1.0;
+    }
+    if let Ok(mut m) = maps.lock() {
+        m.insert(key, out.clone());
+    }
+    Ok(out)
+}
+
+/// The ground-state 2S at Δ/B from a [`ground_spin_map`].
+pub fn spin_from_map(map: &[(f64, i32)], delta_over_b: f64) -> i32 {
+    map.iter()
+        .take_while(|(x, _)| *x <= delta_over_b)
+        .last()
+        .map_or(map[0].1, |e| e.1)
+}
+
 /// Root of f in [a, b] (f(a)·f(b) ≤ 0) by the Illinois method.
 fn illinois(
     f: impl Fn(f64) -> Result<f64>,

@@ -117,6 +117,13 @@ pub struct LigandField {
     pub matrix: Matrix5<f64>,
 }
 
+/// e_ds/e_σ of [`LigandField::square_planar`]: 1, the limit in which d–s mixing brings z² down
+/// to the level of xz, yz and xy. It reproduces the known ground states of planar complexes,
+/// S = 2 for d⁴ (Cr(II)), 1 for d⁶ (Fe(II) porphyrins), ½ for d⁷ (Co(II)) and 0 for d⁸, which
+/// the σ-only field gets wrong for d⁴ and d⁶ (F. A. Cotton, G. Wilkinson et al., Advanced
+/// Inorganic Chemistry, 6th ed., 1999; from memory). A modelling choice, not a fitted value.
+pub const DS_MIXING: f64 = 1.0;
+
 impl LigandField {
     /// No field (free ion).
     pub fn zero() -> Self {
@@ -152,12 +159,14 @@ impl LigandField {
     }
 
     /// Square planar field of four σ-donors on ±x, ±y, from the angular overlap model with
-    /// e_π = 0 (Larsen & La Mar, *J. Chem. Educ.* 1974): x²−y² = 3e_σ, z² = e_σ, xz, yz, xy = 0,
-    /// shifted to zero mean. `dq` is the octahedral Dq of the same ligands (10Dq = 3e_σ), so the
-    /// x²−y² orbital lies 10Dq above the xy, xz, yz set and z² at 10Dq/3.
+    /// e_π = 0 (Larsen & La Mar, *J. Chem. Educ.* 1974): x²−y² = 3e_σ, z² = e_σ − e_ds, xz, yz,
+    /// xy = 0, shifted to zero mean, with the d–s mixing e_ds = [`DS_MIXING`]·e_σ that lowers z²
+    /// in planar complexes (D. W. Smith, *Inorg. Chim. Acta* 1977, 22, 107; from memory). `dq`
+    /// is the octahedral Dq of the same ligands (10Dq = 3e_σ), so x²−y² lies 10Dq above the xy,
+    /// xz, yz set.
     pub fn square_planar(dq: f64) -> Self {
         let e_sigma = 10.0 * dq / 3.0;
-        let raw = [e_sigma, 0.0, 0.0, 3.0 * e_sigma, 0.0];
+        let raw = [(1.0 - DS_MIXING) * e_sigma, 0.0, 0.0, 3.0 * e_sigma, 0.0];
         let mean = raw.iter().sum::<f64>() / 5.0;
         Self::from_diagonal(raw.map(|x| x - mean))
     }

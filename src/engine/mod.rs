@@ -16,7 +16,9 @@ pub mod shell;
 pub mod spin_orbit;
 pub mod symmetry;
 
-pub use crossover::{crossover, tanabe_sugano_c_over_b, Crossover, SpinGround};
+pub use crossover::{
+    crossover, ground_spin_map, spin_from_map, tanabe_sugano_c_over_b, Crossover, SpinGround,
+};
 pub use diagram::{diagram, Diagram, Series};
 pub use field::LigandField;
 pub use geometry::Geometry;
