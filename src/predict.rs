@@ -42,6 +42,8 @@ pub struct Band {
     pub energy: f64,
     /// Wavelength (nm) = 10⁷ / energy.
     pub wavelength_nm: f64,
+    /// Expected intensity class and typical ε ([`crate::spectra::transitions::intensity`]).
+    pub intensity: crate::spectra::transitions::Intensity,
 }
 
 /// The spin-allowed bands of one spin state, from its lowest level.
@@ -135,7 +137,13 @@ pub fn term_l(term: &str) -> Option<usize> {
     L_LETTERS.iter().position(|&c| c == letter)
 }
 
-fn spin_bands(spectrum: &Spectrum, two_s: i32, delta: f64, limit: f64) -> Option<SpinBands> {
+fn spin_bands(
+    spectrum: &Spectrum,
+    two_s: i32,
+    delta: f64,
+    limit: f64,
+    geometry: crate::engine::Geometry,
+) -> Option<SpinBands> {
     let lowest = spectrum.lowest_of_spin(two_s)?;
     let all: Vec<&Level> = spectrum
         .levels
@@ -152,6 +160,7 @@ fn spin_bands(spectrum: &Spectrum, two_s: i32, delta: f64, limit: f64) -> Option
                 to_parent: l.parent.clone(),
                 energy,
                 wavelength_nm: 1e7 / energy,
+                intensity: crate::spectra::transitions::intensity(geometry, true, false),
             }
         })
         .collect();
@@ -299,13 +308,19 @@ pub fn predict_with(complex: &ResolvedComplex, options: PredictOptions) -> Resul
     } else {
         complex.calculation_at(hs_delta)?.levels()?
     };
-    let bands_high_spin = spin_bands(&hs_spectrum, cross.high_spin.two_s, hs_delta, limit)
-        .ok_or_else(|| {
-            Error::Computation(format!(
-                "no level with 2S = {} in the d{dn} spectrum",
-                cross.high_spin.two_s
-            ))
-        })?;
+    let bands_high_spin = spin_bands(
+        &hs_spectrum,
+        cross.high_spin.two_s,
+        hs_delta,
+        limit,
+        complex.geometry,
+    )
+    .ok_or_else(|| {
+        Error::Computation(format!(
+            "no level with 2S = {} in the d{dn} spectrum",
+            cross.high_spin.two_s
+        ))
+    })?;
     let bands_low_spin = match &cross.low_spin {
         Some(ls) => {
             let ls_delta = complex.delta_low_spin.value;
@@ -314,7 +329,7 @@ pub fn predict_with(complex: &ResolvedComplex, options: PredictOptions) -> Resul
             } else {
                 complex.calculation_at(ls_delta)?.levels()?
             };
-            spin_bands(&ls_spectrum, ls.two_s, ls_delta, limit)
+            spin_bands(&ls_spectrum, ls.two_s, ls_delta, limit, complex.geometry)
         }
         None => None,
     };

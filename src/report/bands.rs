@@ -26,6 +26,11 @@ pub struct BandRow {
     pub jahn_teller: bool,
     /// Index into `merged` (bands inside the window).
     pub merged_into: Option<usize>,
+    /// "spin-allowed, Laporte-forbidden", "spin-allowed, no inversion centre" or
+    /// "spin-forbidden".
+    pub intensity: String,
+    /// Typical molar absorptivity range ε (M⁻¹ cm⁻¹).
+    pub epsilon_range: (f64, f64),
 }
 
 /// Bands inside the window after merging.
@@ -123,6 +128,8 @@ impl BandsReport {
                             may_be_hidden: b.may_be_hidden,
                             jahn_teller: b.jahn_teller,
                             merged_into: b.merged_into,
+                            intensity: b.intensity.class.to_string(),
+                            epsilon_range: b.intensity.epsilon,
                         })
                         .collect(),
                     merged: s
@@ -189,6 +196,7 @@ impl BandsReport {
                 "λ (nm)",
                 "in window",
                 "jump",
+                "typical ε (M⁻¹ cm⁻¹)",
                 "band #",
                 "remarks",
             ]);
@@ -206,6 +214,16 @@ impl BandsReport {
                     fmt_num(b.wavelength_nm, 0),
                     if b.in_window { "yes" } else { "no" }.to_string(),
                     jump_text(b.electrons_moved, b.weak),
+                    format!(
+                        "{}–{}{}",
+                        fmt_num(b.epsilon_range.0, 2),
+                        fmt_num(b.epsilon_range.1, 0),
+                        if b.intensity == "spin-forbidden" {
+                            " (spin-forbidden)"
+                        } else {
+                            ""
+                        }
+                    ),
                     b.merged_into
                         .map(|g| (g + 1).to_string())
                         .unwrap_or_default(),

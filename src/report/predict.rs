@@ -104,6 +104,10 @@ pub struct BandRow {
     pub energy: f64,
     /// Wavelength (nm).
     pub wavelength_nm: f64,
+    /// "spin-allowed, Laporte-forbidden" or "spin-allowed, no inversion centre".
+    pub intensity: String,
+    /// Typical molar absorptivity range ε (M⁻¹ cm⁻¹).
+    pub epsilon_range: (f64, f64),
 }
 
 /// The spin-allowed bands of one spin state.
@@ -141,6 +145,8 @@ impl From<&SpinBands> for BandSet {
                     to_parent: b.to_parent.clone(),
                     energy: b.energy,
                     wavelength_nm: b.wavelength_nm,
+                    intensity: b.intensity.class.to_string(),
+                    epsilon_range: b.intensity.epsilon,
                 })
                 .collect(),
         }
@@ -515,10 +521,13 @@ impl PredictReport {
         ] {
             let Some(set) = set else { continue };
             out.push_str(&format!(
-                "spin-allowed bands of the {title} state (from {}, S = {}, at Δ = {} cm⁻¹): {}{}\n",
+                "spin-allowed bands of the {title} state (from {}, S = {}, at Δ = {} cm⁻¹; {}, typical ε {}–{} M⁻¹ cm⁻¹): {}{}\n",
                 set.from,
                 set.spin,
                 fmt_num(set.delta, 0),
+                set.bands.first().map_or("", |b| b.intensity.as_str()),
+                set.bands.first().map_or("—".to_string(), |b| fmt_num(b.epsilon_range.0, 0)),
+                set.bands.first().map_or("—".to_string(), |b| fmt_num(b.epsilon_range.1, 0)),
                 set.count,
                 if set.omitted > 0 {
                     format!(

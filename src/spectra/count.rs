@@ -16,7 +16,9 @@
 //! and below 25 000 cm⁻¹; the most are all its merged bands inside the window plus one shoulder
 //! per band touching an E term.
 
-use super::transitions::{band_manifold, calculation, jumps, spin_states, SpinState, Transition};
+use super::transitions::{
+    band_manifold, calculation, intensity, jumps, spin_states, Intensity, SpinState, Transition,
+};
 use crate::engine::{Geometry, PointGroup};
 use crate::error::{require_finite, Error, Result};
 
@@ -61,6 +63,8 @@ pub struct CountedBand {
     pub jahn_teller: bool,
     /// Index into [`SpinBands::merged`] for bands inside the window.
     pub merged_into: Option<usize>,
+    /// Expected intensity class and ε range ([`super::transitions::intensity`]).
+    pub intensity: Intensity,
 }
 
 /// Bands inside the window after merging those closer than the resolution.
@@ -189,6 +193,7 @@ pub fn count_bands(req: &CountRequest) -> Result<BandCount> {
                 may_be_hidden: t.energy > CHARGE_TRANSFER_ONSET,
                 jahn_teller: ground_e || (cubic && t.key.irrep.starts_with('E')),
                 merged_into: None,
+                intensity: intensity(req.geometry, !forbidden, band_jumps[i].weak),
             })
             .collect();
         // Merge neighbours inside the window (bands are sorted by energy).

@@ -497,6 +497,27 @@ pub fn configuration_text(sets: &[(String, Vec<usize>)], occ: &[u32]) -> String 
 }
 
 #[cfg(test)]
+mod intensity_tests {
+    use super::*;
+
+    /// Selection rules (Lever 1984; Cotton & Wilkinson 1999; common practice): tetrahedral
+    /// spin-allowed bands are stronger than octahedral ones, spin-forbidden bands weaker than
+    /// both, and a two-electron jump weaker again.
+    #[test]
+    fn intensity_follows_the_selection_rules() {
+        let oct = intensity(Geometry::Octahedral, true, false);
+        let tet = intensity(Geometry::Tetrahedral, true, false);
+        let forbidden = intensity(Geometry::Octahedral, false, false);
+        let two = intensity(Geometry::Octahedral, true, true);
+        assert!(tet.epsilon.0 > oct.epsilon.0 && tet.epsilon.1 > oct.epsilon.1);
+        assert!(forbidden.epsilon.1 <= oct.epsilon.0);
+        assert!(two.epsilon.1 < oct.epsilon.1);
+        assert_eq!(forbidden.class, "spin-forbidden");
+        assert!(oct.class.contains("Laporte"));
+    }
+}
+
+#[cfg(test)]
 mod tests {
     use super::*;
     use approx::assert_abs_diff_eq;
@@ -578,5 +599,39 @@ mod tests {
     fn spin_choice_parses() {
         assert_eq!("HS".parse::<SpinChoice>().unwrap(), SpinChoice::High);
         assert!("medium".parse::<SpinChoice>().is_err());
+    }
+}
+
+/// How intense a d–d band is expected to be, by the selection rules it breaks.
+#[derive(Debug, Clone, Copy, PartialEq)]
+pub struct Intensity {
+    /// "spin-allowed, Laporte-forbidden", "spin-allowed, no inversion centre" or
+    /// "spin-forbidden".
+    pub class: &'static str,
+    /// Typical molar absorptivity ε (M⁻¹ cm⁻¹), lowest and highest.
+    pub epsilon: (f64, f64),
+}
+
+/// The expected intensity of a d–d band (A. B. P. Lever, Inorganic Electronic Spectroscopy,
+/// 2nd ed., 1984; F. A. Cotton, G. Wilkinson et al., Advanced Inorganic Chemistry, 1999; usual
+/// ranges, from memory): spin-allowed bands of centrosymmetric complexes (oct, sqpl,
+/// tetragonal) are Laporte-forbidden, ε ≈ 1–100; without an inversion centre (tet) d–p mixing
+/// lends intensity, ε ≈ 50–1000; spin-forbidden bands have ε ≲ 1. A two-electron jump
+/// (`weak`) is a further factor of ten weaker.
+pub fn intensity(geometry: Geometry, spin_allowed: bool, weak: bool) -> Intensity {
+    let (class, (lo, hi)) = if !spin_allowed {
+        ("spin-forbidden", (0.01, 1.0))
+    } else {
+        match geometry {
+            Geometry::Tetrahedral => ("spin-allowed, no inversion centre", (50.0, 1000.0)),
+            Geometry::Octahedral | Geometry::SquarePlanar | Geometry::Tetragonal => {
+                ("spin-allowed, Laporte-forbidden", (1.0, 100.0))
+            }
+        }
+    };
+    let f = if weak { 0.1 } else { 1.0 };
+    Intensity {
+        class,
+        epsilon: (lo * f, hi * f),
     }
 }
