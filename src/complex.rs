@@ -349,9 +349,9 @@ impl ComplexSpec {
         let delta_reference = ion.g.map(|g| {
             estimate::reference_delta(mean_f, mean_pi, g, ion.oxidation_state, geometry, cal)
         });
-        let worst_f = bound.iter().fold(FieldBasis::Printed, |w, b| {
-            estimate::worse(w, b.ligand.f_from)
-        });
+        let worst_f = bound
+            .iter()
+            .fold(FieldBasis::Printed, |w, b| w.max(b.ligand.f_from));
         if delta_reference.is_none()
             && self.overrides.delta.is_none()
             && ion.dn != 0

@@ -90,12 +90,6 @@ pub const CALIBRATION: Calibration = Calibration {
     jahn_teller: 0.15,
 };
 
-impl Default for Calibration {
-    fn default() -> Self {
-        CALIBRATION
-    }
-}
-
 impl Calibration {
     /// γ of a geometry: Δ in its convention over the octahedral Δo = f̄·g of the same ligands.
     pub fn geometry_factor(&self, geometry: Geometry) -> f64 {
@@ -254,12 +248,6 @@ impl SpinGeometry {
             low_spin_factor,
         }
     }
-
-    /// Δ̄/Δ_ref: the mean of the two states' fields over the reference field.
-    #[inline]
-    pub fn mean_factor(&self) -> f64 {
-        0.5 * (self.high_spin_factor + self.low_spin_factor)
-    }
 }
 
 /// A ligand's two field terms: Jørgensen's f and the π-acceptor term π = −4e_π/g(Cr³⁺) (0 for
@@ -350,6 +338,19 @@ pub fn choose_spin(
     })
 }
 
+/// The 2S of the ground state a verdict stands for: the high-spin state's for `High`; for `Low`
+/// and `Crossover` the low-spin state's, or a still lower spin where the engine finds one at the
+/// low-spin state's own field (`engine_two_s`, the ground spin there; a field far beyond the
+/// first crossover can reach a further change of spin); the engine's for `Fixed`. `predict`
+/// and the calibration both count spins with this rule.
+pub fn verdict_two_s(state: SpinState, cross: &Crossover, engine_two_s: i32) -> i32 {
+    match (state, &cross.low_spin) {
+        (SpinState::High, _) => cross.high_spin.two_s,
+        (SpinState::Low | SpinState::Crossover, Some(ls)) => engine_two_s.min(ls.two_s),
+        (SpinState::Low | SpinState::Crossover | SpinState::Fixed, _) => engine_two_s,
+    }
+}
+
 /// Mean Δ̄/B at which a screen for spin crossover aims: where E_HS − E_LS is the middle of the
 /// thermal window (found from the linear gap, Jahn–Teller terms included through the two
 /// states' fields, `high_spin_factor` and `low_spin_factor` of [`SpinGeometry`]).
@@ -436,22 +437,6 @@ impl Reliability {
         } else {
             0.10
         }
-    }
-}
-
-/// The least reliable of two field bases.
-pub fn worse(a: FieldBasis, b: FieldBasis) -> FieldBasis {
-    fn rank(x: FieldBasis) -> u8 {
-        match x {
-            FieldBasis::Printed => 0,
-            FieldBasis::Derived => 1,
-            FieldBasis::Series => 2,
-        }
-    }
-    if rank(b) > rank(a) {
-        b
-    } else {
-        a
     }
 }
 

@@ -70,12 +70,16 @@ pub const BAND_WINDOW: f64 = 50_000.0;
 pub struct PredictOptions {
     /// List bands up to this energy (cm⁻¹); `f64::INFINITY` for all.
     pub band_limit: f64,
+    /// Compute the 300 K moment with spin–orbit coupling (one more diagonalisation; `check`
+    /// does without, since it computes the moments of both states itself).
+    pub moment_300k: bool,
 }
 
 impl Default for PredictOptions {
     fn default() -> Self {
         PredictOptions {
             band_limit: BAND_WINDOW,
+            moment_300k: true,
         }
     }
 }
@@ -233,15 +237,10 @@ pub fn predict_with(complex: &ResolvedComplex, options: PredictOptions) -> Resul
     // verdict weighs each state at its own geometry, which a single field cannot show), the
     // engine's ground at the ground state's Δ otherwise.
     let engine_ground = spectrum.ground().clone();
-    let decided = match (spin_state, &cross.low_spin) {
-        (SpinState::High, _) => Some(cross.high_spin.two_s),
-        (SpinState::Low | SpinState::Crossover, Some(ls)) if engine_ground.two_s >= ls.two_s => {
-            Some(ls.two_s)
-        }
-        _ => None,
-    };
-    let ground = decided
-        .and_then(|s| spectrum.lowest_of_spin(s).cloned())
+    let decided = crate::estimate::verdict_two_s(spin_state, &cross, engine_ground.two_s);
+    let ground = spectrum
+        .lowest_of_spin(decided)
+        .cloned()
         .unwrap_or_else(|| engine_ground.clone());
     if ground.two_s != engine_ground.two_s {
         notes.push(format!(
@@ -288,6 +287,7 @@ pub fn predict_with(complex: &ResolvedComplex, options: PredictOptions) -> Resul
         ));
     }
     let moment_300k = match complex.ion.zeta {
+        _ if !options.moment_300k => None,
         Some(zeta) if dn > 0 && dn < 10 => {
             let z = ZeemanLevels::compute(&calc, &MagneticModel::new(zeta))?;
             Some(z.at(300.0)?.mu_eff)

@@ -415,7 +415,7 @@ impl Sums {
             charge: self.charge + count as i32 * l.ligand.charge,
             donor_key: self.donor_key + count as u32 * l.donor_key,
             h_defaulted: self.h_defaulted || l.h_defaulted,
-            worst_f: estimate::worse(self.worst_f, l.ligand.f_from),
+            worst_f: self.worst_f.max(l.ligand.f_from),
             kinds: self.kinds + 1,
         }
     }

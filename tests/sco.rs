@@ -187,6 +187,16 @@ fn bad_input_is_explained() {
         "no χ_M·T, χ_M or μ_eff column",
     );
     expect_usage_error(&["sco-curve", "--dh", "12", "--ds", "-3"], "ΔS");
+    let demo = "data/demo/sco_curve.csv";
+    expect_usage_error(
+        &["sco-fit", "--input", demo, "--chit-hs", "nan"],
+        "high-spin state",
+    );
+    let (code, _, err) = run(&["sco-fit", "--input", demo, "--ox", "2"]);
+    assert_eq!(
+        code, 2,
+        "an oxidation state without a metal is refused: {err}"
+    );
     let (code, _, err) = run(&["sco-fit", "--input", "/no/such/file.csv"]);
     assert_eq!(code, 2, "{err}");
 }

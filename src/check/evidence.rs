@@ -545,68 +545,64 @@ pub fn curve(
         residual: false,
         two_s: Some(r.two_s),
     };
-    match fit(&request) {
-        Ok(f) => {
-            let tr = f.transition;
-            let g_lo = tr.intrinsic_fraction(t_lo, Branch::Heating)?;
-            let g_hi = tr.intrinsic_fraction(t_hi, Branch::Cooling)?;
-            let span = g_hi - g_lo;
-            let inside = (t_lo..=t_hi).contains(&f.t_half.value);
-            let loop_text = match (f.t_down, f.t_up) {
-                (Some(d), Some(u)) => {
-                    format!(", hysteresis T↓ {:.0} K, T↑ {:.0} K", d.value, u.value)
-                }
-                _ => String::new(),
-            };
-            let detail = format!(
-                "χ_M·T(T) crosses between the spin states: T½ = {:.0} K, ΔH = {:.1} kJ/mol, ΔS = {:.0} J/mol/K ({} fit, rms {:.3} cm³ K/mol{loop_text}); high-spin fraction {:.0} % at {t_lo:.0} K and {:.0} % at {t_hi:.0} K",
-                f.t_half.value,
-                f.dh.value,
-                f.ds.value,
-                f.model.name(),
-                f.rms,
-                100.0 * g_lo,
-                100.0 * g_hi
-            );
-            let strength = if span >= 0.6 && inside {
-                Strength::Strong
-            } else {
+    if !crate::sco::fit::crosses(pts, r.high_spin.0, r.low_spin.1) {
+        let mean = pts.iter().map(|p| p.chi_t).sum::<f64>() / pts.len() as f64;
+        let within = |(lo, hi): (f64, f64)| (lo - 0.05..=hi + 0.05).contains(&mean);
+        let (supports, temp, what) = if within(r.high_spin) {
+            (Support::High, t_lo, "the high-spin range")
+        } else if within(r.low_spin) {
+            (Support::Low, t_hi, "the low-spin range")
+        } else {
+            (Support::Neither, t_lo, "neither state's range")
+        };
+        return Ok(base(
+            predicted,
+            supports,
+            if supports == Support::Neither {
                 Strength::Moderate
-            };
-            Ok(base(
-                predicted,
-                Support::Mixture,
-                strength,
-                detail,
-                Some(f.t_half.value),
-            ))
-        }
-        Err(e) if e.to_string().contains("no transition") => {
-            let mean = pts.iter().map(|p| p.chi_t).sum::<f64>() / pts.len() as f64;
-            let within = |(lo, hi): (f64, f64)| (lo - 0.05..=hi + 0.05).contains(&mean);
-            let (supports, temp, what) = if within(r.high_spin) {
-                (Support::High, t_lo, "the high-spin range")
-            } else if within(r.low_spin) {
-                (Support::Low, t_hi, "the low-spin range")
             } else {
-                (Support::Neither, t_lo, "neither state's range")
-            };
-            Ok(base(
-                predicted,
-                supports,
-                if supports == Support::Neither {
-                    Strength::Moderate
-                } else {
-                    Strength::Strong
-                },
-                format!(
-                    "χ_M·T stays on one plateau (mean {mean:.2} cm³ K/mol over {t_lo:.0}–{t_hi:.0} K) inside {what}"
-                ),
-                Some(temp),
-            ))
-        }
-        Err(e) => Err(e),
+                Strength::Strong
+            },
+            format!(
+                "χ_M·T stays on one plateau (mean {mean:.2} cm³ K/mol over {t_lo:.0}–{t_hi:.0} K) inside {what}"
+            ),
+            Some(temp),
+        ));
     }
+    let f = fit(&request)?;
+    let tr = f.transition;
+    let g_lo = tr.intrinsic_fraction(t_lo, Branch::Heating)?;
+    let g_hi = tr.intrinsic_fraction(t_hi, Branch::Cooling)?;
+    let span = g_hi - g_lo;
+    let inside = (t_lo..=t_hi).contains(&f.t_half.value);
+    let loop_text = match (f.t_down, f.t_up) {
+        (Some(d), Some(u)) => {
+            format!(", hysteresis T↓ {:.0} K, T↑ {:.0} K", d.value, u.value)
+        }
+        _ => String::new(),
+    };
+    let detail = format!(
+        "χ_M·T(T) crosses between the spin states: T½ = {:.0} K, ΔH = {:.1} kJ/mol, ΔS = {:.0} J/mol/K ({} fit, rms {:.3} cm³ K/mol{loop_text}); high-spin fraction {:.0} % at {t_lo:.0} K and {:.0} % at {t_hi:.0} K",
+        f.t_half.value,
+        f.dh.value,
+        f.ds.value,
+        f.model.name(),
+        f.rms,
+        100.0 * g_lo,
+        100.0 * g_hi
+    );
+    let strength = if span >= 0.6 && inside {
+        Strength::Strong
+    } else {
+        Strength::Moderate
+    };
+    Ok(base(
+        predicted,
+        Support::Mixture,
+        strength,
+        detail,
+        Some(f.t_half.value),
+    ))
 }
 
 /// Evidence from the mean metal–donor bond length, against the published ranges of

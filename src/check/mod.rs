@@ -35,7 +35,7 @@ use crate::complex::{ComplexSpec, ResolvedComplex};
 use crate::error::Error;
 use crate::magnetism::evans::EvansInput;
 use crate::magnetism::Measured;
-use crate::predict::{predict, Prediction, SpinState};
+use crate::predict::{predict_with, PredictOptions, Prediction, SpinState};
 use crate::tables::bond_lengths::BondLengthTable;
 use crate::tables::moment_ranges::MomentRangeTable;
 use crate::tables::Tables;
@@ -329,7 +329,14 @@ pub fn check(
         .complex
         .resolve(tables.chemistry)
         .map_err(at(Part::Complex))?;
-    let prediction = predict(&complex).map_err(at(Part::Complex))?;
+    let prediction = predict_with(
+        &complex,
+        PredictOptions {
+            moment_300k: false,
+            ..PredictOptions::default()
+        },
+    )
+    .map_err(at(Part::Complex))?;
     let mut evidence = vec![evidence::prediction(&prediction)];
     if let Some(e) = &input.evans {
         evidence.push(evidence::evans(e, &complex, tables.moment_ranges).map_err(at(Part::Evans))?);

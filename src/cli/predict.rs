@@ -72,6 +72,7 @@ pub fn run(args: &Args, data: Option<&Path>) -> Result<Output, Failure> {
     let options = if args.all {
         PredictOptions {
             band_limit: f64::INFINITY,
+            ..PredictOptions::default()
         }
     } else {
         PredictOptions::default()

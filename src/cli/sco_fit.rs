@@ -39,7 +39,7 @@ pub struct Args {
     /// Metal and oxidation state: set d^n, ζ and the physically possible χ_M·T of each state.
     #[arg(long, value_name = "SYMBOL", requires = "ox")]
     pub metal: Option<String>,
-    #[arg(long, value_name = "N", allow_hyphen_values = true)]
+    #[arg(long, value_name = "N", allow_hyphen_values = true, requires = "metal")]
     pub ox: Option<i32>,
     /// d-electron count, instead of --metal/--ox (no ζ: spin-only and typical ranges).
     #[arg(long, value_name = "N", conflicts_with = "metal")]

@@ -70,6 +70,8 @@ pub struct FitReport {
     pub rms: f64,
     /// Free parameters and their correlation matrix.
     pub parameters: Vec<String>,
+    /// Quantities held fixed rather than fitted (names as in this object, e.g. "chit_ls").
+    pub fixed: Vec<String>,
     pub correlations: Vec<Vec<f64>>,
     pub residuals: Vec<ResidualRow>,
     pub warnings: Vec<String>,
@@ -125,6 +127,16 @@ impl FitReport {
             ds_other: r.other_entropy,
             rms: r.rms,
             parameters: r.parameter_names.iter().map(|s| s.to_string()).collect(),
+            fixed: [
+                ("gamma", &r.gamma),
+                ("chit_hs", &r.chit_hs),
+                ("chit_ls", &r.chit_ls),
+                ("residual_hs_fraction", &r.residual_hs_fraction),
+            ]
+            .into_iter()
+            .filter(|(_, e)| e.fixed)
+            .map(|(n, _)| n.to_string())
+            .collect(),
             correlations: r.correlations.clone(),
             residuals: r
                 .residuals
@@ -145,9 +157,11 @@ impl FitReport {
 
     /// Human-readable table.
     pub fn to_table(&self) -> String {
-        let pm = |v: f64, e: Option<f64>, d: usize| match e {
+        // A value without an uncertainty was either held fixed or is not determined by the data.
+        let pm = |name: &str, v: f64, e: Option<f64>, d: usize| match e {
             Some(e) => format!("{} ± {}", fmt_num(v, d), fmt_num(e, d.max(1))),
-            None => format!("{} (fixed)", fmt_num(v, d)),
+            None if self.fixed.iter().any(|f| f == name) => format!("{} (fixed)", fmt_num(v, d)),
+            None => format!("{} (not determined)", fmt_num(v, d)),
         };
         let mut out = format!(
             "spin-transition fit: {} model, {} points ({})\n",
@@ -156,23 +170,23 @@ impl FitReport {
         let mut t = new_table(["quantity", "value", "unit"]);
         t.add_row(vec![
             "T½".into(),
-            pm(self.t_half, self.t_half_err, 1),
+            pm("t_half", self.t_half, self.t_half_err, 1),
             "K".into(),
         ]);
         t.add_row(vec![
             "ΔH".into(),
-            pm(self.dh, self.dh_err, 2),
+            pm("dh", self.dh, self.dh_err, 2),
             "kJ/mol".into(),
         ]);
         t.add_row(vec![
             "ΔS".into(),
-            pm(self.ds, self.ds_err, 1),
+            pm("ds", self.ds, self.ds_err, 1),
             "J/mol/K".into(),
         ]);
         if self.model == "cooperative" {
             t.add_row(vec![
                 "Γ".into(),
-                pm(self.gamma, self.gamma_err, 2),
+                pm("gamma", self.gamma, self.gamma_err, 2),
                 "kJ/mol".into(),
             ]);
             t.add_row(vec![
@@ -182,24 +196,37 @@ impl FitReport {
             ]);
         }
         if let (Some(d), Some(u)) = (self.t_down, self.t_up) {
-            t.add_row(vec!["T↓".into(), pm(d, self.t_down_err, 1), "K".into()]);
-            t.add_row(vec!["T↑".into(), pm(u, self.t_up_err, 1), "K".into()]);
+            t.add_row(vec![
+                "T↓".into(),
+                pm("t_down", d, self.t_down_err, 1),
+                "K".into(),
+            ]);
+            t.add_row(vec![
+                "T↑".into(),
+                pm("t_up", u, self.t_up_err, 1),
+                "K".into(),
+            ]);
             t.add_row(vec!["loop width".into(), fmt_num(u - d, 1), "K".into()]);
         }
         t.add_row(vec![
             "χ_M·T (high spin)".into(),
-            pm(self.chit_hs, self.chit_hs_err, 3),
+            pm("chit_hs", self.chit_hs, self.chit_hs_err, 3),
             "cm³ K/mol".into(),
         ]);
         t.add_row(vec![
             "χ_M·T (low spin)".into(),
-            pm(self.chit_ls, self.chit_ls_err, 3),
+            pm("chit_ls", self.chit_ls, self.chit_ls_err, 3),
             "cm³ K/mol".into(),
         ]);
         if self.residual_hs_fraction_err.is_some() || self.residual_hs_fraction > 0.0 {
             t.add_row(vec![
                 "trapped high-spin fraction".into(),
-                pm(self.residual_hs_fraction, self.residual_hs_fraction_err, 3),
+                pm(
+                    "residual_hs_fraction",
+                    self.residual_hs_fraction,
+                    self.residual_hs_fraction_err,
+                    3,
+                ),
                 "".into(),
             ]);
         }

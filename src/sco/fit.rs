@@ -267,6 +267,19 @@ fn midpoint(points: &[Point], lo: f64, hi: f64) -> (f64, f64) {
     )
 }
 
+/// Whether a curve moves far enough between the pure states to show a transition: its χ_M·T
+/// spans at least a quarter of the gap between the lowest high-spin and the highest low-spin
+/// value (and at least 0.1 cm³ K mol⁻¹). [`fit`] refuses curves that do not; a caller can test
+/// first and read such a curve as a plateau instead.
+pub fn crosses(points: &[Point], hs_lo: f64, ls_hi: f64) -> bool {
+    let lo = points.iter().map(|p| p.chi_t).fold(f64::INFINITY, f64::min);
+    let hi = points
+        .iter()
+        .map(|p| p.chi_t)
+        .fold(f64::NEG_INFINITY, f64::max);
+    hi - lo >= 0.25 * (hs_lo - ls_hi).max(0.4)
+}
+
 /// Fits the curve.
 ///
 /// Errors: fewer points than free parameters plus one; a curve that does not cross between
@@ -282,6 +295,21 @@ pub fn fit(req: &FitRequest) -> Result<FitResult> {
         PureState::Fixed(v) => (*v, *v),
         PureState::Within { lo, hi, .. } => (*lo, *hi),
     };
+    for (what, state) in [("high-spin", &req.chit_hs), ("low-spin", &req.chit_ls)] {
+        let ok = match state {
+            PureState::Fixed(v) => v.is_finite() && *v >= 0.0,
+            PureState::Within { lo, hi, .. } => {
+                lo.is_finite() && hi.is_finite() && *lo >= 0.0 && lo <= hi
+            }
+        };
+        if !ok {
+            return Err(Error::invalid(
+                format!("χ_M·T of the {what} state"),
+                format!("{state:?}"),
+                "a finite value ≥ 0 cm³ K mol⁻¹ (or a range lo ≤ hi)",
+            ));
+        }
+    }
     if req.residual && !matches!(req.chit_ls, PureState::Fixed(_)) {
         return Err(Error::invalid(
             "residual fraction",
@@ -344,7 +372,7 @@ pub fn fit(req: &FitRequest) -> Result<FitResult> {
         .iter()
         .map(|p| p.chi_t)
         .fold(f64::NEG_INFINITY, f64::max);
-    if obs_hi - obs_lo < 0.25 * (hs_lo - ls_hi).max(0.4) {
+    if !crosses(pts, hs_lo, ls_hi) {
         return Err(Error::invalid(
             "curve",
             format!(
@@ -462,7 +490,9 @@ pub fn fit(req: &FitRequest) -> Result<FitResult> {
         })
     };
     // Physical parameters as functions of u, for the delta method.
-    let phys_vec = |u: &DVector<f64>| -> [f64; 8] {
+    // (T½, ΔH, ΔS, Γ, χT_HS, χT_LS, r, loop width, T↓, T↑): the turning points are found once
+    // per evaluation.
+    let phys_vec = |u: &DVector<f64>| -> [f64; 10] {
         let q = layout.physical(u);
         let tr = q.transition();
         let (down, up) = tr.turning_points().unwrap_or((f64::NAN, f64::NAN));
@@ -475,11 +505,9 @@ pub fn fit(req: &FitRequest) -> Result<FitResult> {
             q.chit_ls,
             q.residual,
             up - down,
+            down,
+            up,
         ]
-    };
-    let turning = |u: &DVector<f64>| -> [f64; 2] {
-        let tr = layout.physical(u).transition();
-        tr.turning_points().map_or([f64::NAN; 2], |(d, up)| [d, up])
     };
     let errs: Option<Vec<f64>> = cov_u.as_ref().map(|cov| {
         let mut g = DMatrix::zeros(10, p);
@@ -490,12 +518,8 @@ pub fn fit(req: &FitRequest) -> Result<FitResult> {
             a[k] += h;
             b[k] -= h;
             let (fa, fb) = (phys_vec(&a), phys_vec(&b));
-            let (ta, tb) = (turning(&a), turning(&b));
-            for i in 0..8 {
+            for i in 0..10 {
                 g[(i, k)] = (fa[i] - fb[i]) / (2.0 * h);
-            }
-            for i in 0..2 {
-                g[(8 + i, k)] = (ta[i] - tb[i]) / (2.0 * h);
             }
         }
         let c = &g * cov * g.transpose();

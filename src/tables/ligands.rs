@@ -59,7 +59,8 @@ impl PiRole {
 }
 
 /// How a ligand's field factor f was obtained; it sets the uncertainty the estimate assumes.
-#[derive(Debug, Clone, Copy, PartialEq, Eq, Hash)]
+/// Ordered from the most to the least reliable, so `max` gives the worst of several.
+#[derive(Debug, Clone, Copy, PartialEq, Eq, Hash, PartialOrd, Ord)]
 pub enum FieldBasis {
     /// Printed in Jørgensen's table.
     Printed,
