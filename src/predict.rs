@@ -7,7 +7,7 @@
 //! minus the crossover Δ/B. The ground term and its parent come from a full d^n calculation at
 //! the ground state's Δ; the bands of each spin state from a calculation at that state's Δ.
 
-use crate::complex::{Origin, ResolvedComplex};
+use crate::complex::ResolvedComplex;
 use crate::engine::levels::L_LETTERS;
 use crate::engine::{Crossover, Level, PointGroup, Spectrum};
 use crate::error::{Error, Result};
@@ -212,16 +212,7 @@ pub fn predict_with(complex: &ResolvedComplex, options: PredictOptions) -> Resul
             (choice.state, Some(margin), Some(choice.energy_gap))
         }
         _ => {
-            let x = complex.delta_over_b();
-            if cross.delta_over_b.is_none()
-                && x > cross.limit
-                && complex.delta.origin != Origin::Nominal
-            {
-                notes.push(format!(
-                    "Δ/B = {x:.1} lies above the searched range (Δ/B ≤ {}); no change of spin was found below it",
-                    cross.limit
-                ));
-            }
+            // No note for fields above `cross.limit`: the ground spin cannot change there.
             (SpinState::Fixed, None, None)
         }
     };

@@ -648,10 +648,9 @@ fn prepare_ion(tables: &Tables, spec: &IonSpec, geometry: Geometry) -> Result<Sc
         return Err(Error::invalid(
             format!("metal {}", ion.name()),
             format!(
-                "d{} in {} (one spin state up to Δ/B = {})",
+                "d{} in {} (one ground spin at every Δ/B)",
                 ion.dn,
                 geometry.name(),
-                cross.limit
             ),
             "an ion whose ground spin can change in this geometry (d4–d7 for oct); a screen ranks by distance to the crossover",
         ));
@@ -2092,7 +2091,7 @@ mod tests {
             oxidation_state: 2,
         }];
         let e = err(&ni, Geometry::Octahedral, &["H2O"], Filters::default());
-        assert!(e.contains("one spin state"), "{e}");
+        assert!(e.contains("one ground spin"), "{e}");
         let e = err(
             &fe2(),
             Geometry::Octahedral,

@@ -175,6 +175,61 @@ fn no_crossover_for_d1_d2_d3_d8_d9_octahedral() {
 }
 
 #[test]
+fn crossover_search_has_no_fixed_ceiling() {
+    // In the strong-field limit the ground state of octahedral d⁶ is t2g⁶ ¹A1g for any C/B
+    // (Y. Tanabe, S. Sugano, J. Phys. Soc. Jpn. 9, 766, 1954; common practice). A large C/B
+    // pushes the crossover far out (≈ 77 B at C/B = 20), past the old fixed search limit of 60.
+    let x = crossover(6, Geometry::Octahedral, 20.0).unwrap();
+    let found = x.delta_over_b.expect("a crossover at large C/B");
+    assert!(
+        found > 60.0 && found < x.limit,
+        "{found} vs bound {}",
+        x.limit
+    );
+    assert_eq!(x.low_spin.unwrap().two_s, 0);
+}
+
+#[test]
+fn nothing_changes_beyond_the_spin_change_bound() {
+    // The bound (first- and second-order perturbation theory, A. Messiah, Quantum Mechanics
+    // vol. 2, 1962; P.-O. Löwdin, J. Math. Phys. 3, 969, 1962): past it the ground spin equals
+    // the spin of the strong-field limit, checked here at the bound and far beyond it.
+    use spinstate::engine::crossover::{ground_spin_map, spin_change_bound};
+    for geometry in [
+        Geometry::Octahedral,
+        Geometry::Tetrahedral,
+        Geometry::SquarePlanar,
+    ] {
+        for dn in 2..=8usize {
+            for c_over_b in [3.0, 4.5, 8.0] {
+                let bound = spin_change_bound(dn, geometry, c_over_b).unwrap();
+                assert!(
+                    bound.is_finite() && bound < 1.0e4,
+                    "d{dn} {geometry}: {bound}"
+                );
+                let map = ground_spin_map(dn, geometry, c_over_b).unwrap();
+                let last = map.last().unwrap().1;
+                for x in [bound * 1.001, 10.0 * bound, 1.0e3 * bound] {
+                    let calc = Calculation::new(
+                        dn,
+                        1.0,
+                        c_over_b,
+                        geometry.field(x / 10.0, 0.0, 0.0).unwrap(),
+                        geometry.point_group(0.0, 0.0),
+                    )
+                    .unwrap();
+                    assert_eq!(
+                        calc.ground_two_s().unwrap(),
+                        last,
+                        "d{dn} {geometry} C/B {c_over_b}: spin at Δ/B = {x} vs map {map:?}"
+                    );
+                }
+            }
+        }
+    }
+}
+
+#[test]
 fn tetrahedral_labels_carry_no_g() {
     // Td has no inversion centre, so no g/u labels (common practice).
     let calc = Calculation::new(

@@ -234,7 +234,7 @@ fn bad_pools_and_options_are_explained() {
             "--pool",
             "H2O",
         ],
-        "one spin state",
+        "one ground spin",
     );
     expect_usage_error(
         &[

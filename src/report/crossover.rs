@@ -9,10 +9,10 @@ pub struct CrossoverRow {
     pub dn: usize,
     pub geometry: String,
     pub c_over_b: f64,
-    /// Δ/B (Δ = 10Dq) where the ground-state spin changes; null when it does not change below
-    /// `limit`.
+    /// Δ/B (Δ = 10Dq) where the ground-state spin changes; null when it never changes.
     pub delta_over_b: Option<f64>,
-    /// Largest Δ/B searched.
+    /// Largest Δ/B searched: a perturbation-theory bound beyond which the ground spin cannot
+    /// change any more.
     pub limit: f64,
     /// Ground term below the crossover (weak field), e.g. "5T2g".
     pub high_spin_term: String,
@@ -47,7 +47,7 @@ impl CrossoverReport {
                 fmt_num(r.c_over_b, 3),
                 match r.delta_over_b {
                     Some(x) => fmt_num(x, 3),
-                    None => format!("none ≤ {}", r.limit),
+                    None => "none at any Δ/B".into(),
                 },
                 format!("{} ({})", r.high_spin_term, r.high_spin_s),
                 match (&r.low_spin_term, r.low_spin_s) {

@@ -247,7 +247,7 @@ pub struct PredictReport {
     pub parameters: Parameters,
     /// Δ/B where the ground spin changes, for this d^n, geometry and C/B; null if it does not.
     pub crossover_delta_over_b: Option<f64>,
-    /// Largest Δ/B searched for a crossover.
+    /// Largest Δ/B searched for a crossover: the bound beyond which the ground spin cannot change.
     pub crossover_limit: f64,
     /// "high", "crossover" (low spin at low temperature, high spin thermally reachable), "low"
     /// or "fixed".
@@ -468,8 +468,8 @@ impl PredictReport {
                 ls.spin
             )),
             _ => out.push_str(&format!(
-                "no crossover: the ground spin of d{} {} does not change up to Δ/B = {}\n",
-                self.dn, self.geometry, self.crossover_limit
+                "no crossover: the ground spin of d{} {} does not change at any Δ/B\n",
+                self.dn, self.geometry
             )),
         }
         let state_words = match self.spin_state.as_str() {
