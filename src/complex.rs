@@ -35,6 +35,10 @@ pub struct LigandCount {
     pub count: usize,
 }
 
+/// Most ligands of one kind in a sphere: no coordination number above 12 is known (common
+/// practice), so every later donor sum stays small and cannot wrap.
+pub const MAX_LIGAND_COUNT: usize = 12;
+
 impl FromStr for LigandCount {
     type Err = Error;
 
@@ -46,7 +50,7 @@ impl FromStr for LigandCount {
                     Error::invalid(
                         "ligand count",
                         format!("'{c}' in '{s}'"),
-                        "a whole number ≥ 1 after the colon, as in py:4",
+                        "a whole number from 1 to 12 after the colon, as in py:4",
                     )
                 })?;
                 (n.trim(), count)
@@ -60,11 +64,11 @@ impl FromStr for LigandCount {
                 "NAME or NAME:COUNT, as in NCS:2",
             ));
         }
-        if count == 0 {
+        if count == 0 || count > MAX_LIGAND_COUNT {
             return Err(Error::invalid(
                 "ligand count",
-                format!("0 in '{s}'"),
-                "a whole number ≥ 1",
+                format!("{count} in '{s}'"),
+                "a whole number from 1 to 12 (a coordination sphere holds at most 12 donor atoms)",
             ));
         }
         Ok(LigandCount {
@@ -298,7 +302,7 @@ impl ComplexSpec {
                 ));
             }
             match bound.iter_mut().find(|b| b.ligand.name == ligand.name) {
-                Some(b) => b.count += lc.count,
+                Some(b) => b.count = b.count.saturating_add(lc.count),
                 None => bound.push(BoundLigand {
                     ligand: ligand.clone(),
                     count: lc.count,
@@ -307,7 +311,10 @@ impl ComplexSpec {
                 }),
             }
         }
-        let donor_count: usize = bound.iter().map(|b| b.count * b.ligand.denticity()).sum();
+        // Saturating: a count built in code (not parsed) may be huge; the check below refuses it.
+        let donor_count: usize = bound.iter().fold(0, |n, b| {
+            n.saturating_add(b.count.saturating_mul(b.ligand.denticity()))
+        });
         let needed = geometry.coordination_number();
         if donor_count != needed {
             let parts: Vec<String> = bound

@@ -60,9 +60,16 @@ impl Error {
         value: impl std::fmt::Display,
         accepted: impl Into<String>,
     ) -> Self {
+        // A float's Display writes every digit (1e-310 as 310 zeros): extreme magnitudes are
+        // shown in scientific notation instead.
+        let value = value.to_string();
+        let value = match value.parse::<f64>() {
+            Ok(x) if value.len() > 20 => num(x),
+            _ => value,
+        };
         Error::InvalidParameter {
             name: name.into(),
-            value: value.to_string(),
+            value,
             accepted: accepted.into(),
         }
     }

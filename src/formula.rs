@@ -209,12 +209,29 @@ fn is_sign(c: char) -> bool {
     PLUS.contains(&c) || MINUS.contains(&c)
 }
 
+/// Longest formula accepted, in characters (the largest coordination compounds need a few
+/// hundred).
+pub const MAX_FORMULA_CHARS: usize = 10_000;
+
+/// The formula as quoted in a message: at most 60 characters, then "…".
+fn shortened(text: &str) -> String {
+    match text.char_indices().nth(60) {
+        Some((at, _)) => format!("{}…", &text[..at]),
+        None => text.to_string(),
+    }
+}
+
+/// Deepest nesting of brackets accepted; real formulas use three or four levels.
+pub const MAX_BRACKET_DEPTH: usize = 32;
+
 struct Parser<'a> {
     text: &'a str,
     chars: Vec<char>,
     pos: usize,
     lookup: Option<&'a GroupLookup<'a>>,
     parts_done: usize,
+    /// Brackets open at the current position.
+    depth: usize,
 }
 
 impl<'a> Parser<'a> {
@@ -225,6 +242,7 @@ impl<'a> Parser<'a> {
             pos: 0,
             lookup,
             parts_done: 0,
+            depth: 0,
         }
     }
 
@@ -232,7 +250,7 @@ impl<'a> Parser<'a> {
     fn error_at(&self, index: usize, what: impl fmt::Display) -> Error {
         Error::Parse(format!(
             "formula '{}': {what} at character {}",
-            self.text,
+            shortened(self.text),
             index + 1
         ))
     }
@@ -248,6 +266,13 @@ impl<'a> Parser<'a> {
     }
 
     fn run(mut self) -> Result<Formula> {
+        if self.chars.len() > MAX_FORMULA_CHARS {
+            return Err(Error::Parse(format!(
+                "formula '{}' has {} characters; at most {MAX_FORMULA_CHARS} are accepted",
+                shortened(self.text),
+                self.chars.len()
+            )));
+        }
         self.skip_spaces();
         if self.peek().is_none() {
             return Err(Error::Parse(
@@ -376,9 +401,18 @@ impl<'a> Parser<'a> {
             let unit = match c {
                 'A'..='Z' => self.element()?,
                 '(' | '[' => {
+                    if self.depth >= MAX_BRACKET_DEPTH {
+                        return Err(self.error_at(
+                            unit_start,
+                            format!("brackets nested deeper than {MAX_BRACKET_DEPTH} levels"),
+                        ));
+                    }
                     self.pos += 1;
                     let close = if c == '(' { ')' } else { ']' };
-                    let inner = self.sequence(Some((c, unit_start)))?;
+                    self.depth += 1;
+                    let inner = self.sequence(Some((c, unit_start)));
+                    self.depth -= 1;
+                    let inner = inner?;
                     if self.peek() != Some(close) {
                         // sequence() returns only at the matching bracket or with an error.
                         return Err(self.error_at(unit_start, format!("unclosed '{c}'")));
@@ -539,11 +573,21 @@ impl<'a> Parser<'a> {
         Ok(value as f64)
     }
 
-    /// Whether only signs (and trailing whitespace) follow `from`.
+    /// Whether only signs (and trailing whitespace) follow `from`. Stops at the first other
+    /// character, so that parsing stays linear in the length of the formula.
     fn is_charge_tail(&self, from: usize) -> bool {
-        let rest: String = self.chars[from..].iter().collect();
-        let rest = rest.trim_end();
-        !rest.is_empty() && rest.chars().all(is_sign)
+        let mut signs = 0usize;
+        let mut rest = self.chars[from..].iter();
+        for &c in rest.by_ref() {
+            if is_sign(c) {
+                signs += 1;
+            } else if c.is_whitespace() {
+                break;
+            } else {
+                return false;
+            }
+        }
+        signs > 0 && rest.all(|c| c.is_whitespace())
     }
 
     /// An optional final charge: `2+`, `+2`, `+`, `++`, `^3-`, `³⁻`.
@@ -633,6 +677,22 @@ mod tests {
 
     fn counts(f: &Formula) -> Vec<(&'static str, f64)> {
         f.elements().iter().map(|(e, n)| (e.symbol(), *n)).collect()
+    }
+
+    #[test]
+    fn deep_nesting_and_long_formulas_are_refused_with_their_limit() {
+        let deep = format!("{}H{}", "(".repeat(40), ")".repeat(40));
+        let e = Formula::parse(&deep).unwrap_err().to_string();
+        assert!(e.contains("nested deeper than 32"), "{e}");
+        assert!(e.len() < 200, "the message quotes a shortened formula: {e}");
+        let ok = format!("{}H{}", "(".repeat(32), ")".repeat(32));
+        assert_eq!(Formula::parse(&ok).unwrap().count(Element::H), 1.0);
+        let long = "CH2".repeat(4000);
+        let e = Formula::parse(&long).unwrap_err().to_string();
+        assert!(e.contains("at most 10000"), "{e}");
+        // Just under the limit parses (and in linear time: the charge look-ahead stops early).
+        let f = Formula::parse(&"CH2".repeat(3300)).unwrap();
+        assert_eq!(f.count(Element::C), 3300.0);
     }
 
     #[test]

@@ -1136,7 +1136,7 @@ impl Screen {
                 }
                 let ti = table_index(tables, l);
                 match parsed.iter_mut().find(|(t, _)| *t == ti) {
-                    Some((_, c)) => *c += lc.count,
+                    Some((_, c)) => *c = c.saturating_add(lc.count),
                     None => parsed.push((ti, lc.count)),
                 }
             }
@@ -1144,10 +1144,9 @@ impl Screen {
                 errors.push(err(message));
                 continue;
             }
-            let donors: usize = parsed
-                .iter()
-                .map(|(t, c)| c * tables.ligands.rows[*t].denticity())
-                .sum();
+            let donors: usize = parsed.iter().fold(0, |n, (t, c)| {
+                n.saturating_add(c.saturating_mul(tables.ligands.rows[*t].denticity()))
+            });
             if donors != cn {
                 errors.push(err(format!(
                     "'{text}' has {donors} donor atoms; {} needs exactly {cn}",

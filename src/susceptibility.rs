@@ -331,6 +331,10 @@ pub const MIN_TEMPERATURE: f64 = 0.01;
 /// Highest temperature accepted (K).
 pub const MAX_TEMPERATURE: f64 = 1.0e5;
 
+/// Most temperatures in one curve: far more than any plot or fit needs, and small enough that the
+/// curve's memory and time stay bounded (each point costs a few µs to ms).
+pub const MAX_POINTS: usize = 100_000;
+
 /// `points` temperatures evenly spaced from `tmin` to `tmax`, both included.
 pub fn temperature_grid(tmin: f64, tmax: f64, points: usize) -> Result<Vec<f64>> {
     require_finite("tmin", tmin)?;
@@ -342,11 +346,11 @@ pub fn temperature_grid(tmin: f64, tmax: f64, points: usize) -> Result<Vec<f64>>
             format!("0 < tmin ≤ tmax with {MIN_TEMPERATURE} K ≤ T ≤ {MAX_TEMPERATURE} K"),
         ));
     }
-    if points == 0 || (points == 1 && tmax != tmin) {
+    if points == 0 || (points == 1 && tmax != tmin) || points > MAX_POINTS {
         return Err(Error::invalid(
             "points",
             points,
-            "at least 2 (or 1 when tmin = tmax)",
+            format!("2 to {MAX_POINTS} (or 1 when tmin = tmax)"),
         ));
     }
     if points == 1 {

@@ -114,8 +114,32 @@ impl Output {
     }
 }
 
-/// Runs the parsed command.
+/// Runs the parsed command. One rule for the global `--data DIR` across commands: it must name
+/// an existing directory (checked before any command runs), and a command that reads no table
+/// says so instead of ignoring it silently.
 pub fn run(cli: Cli) -> Result<Output, Failure> {
+    if let Some(dir) = cli.data.as_deref() {
+        if !dir.is_dir() {
+            return Err(Failure::usage(format!(
+                "--data: '{}' is not an existing directory (give a directory holding edited copies of the data tables, e.g. ions.csv, ligands.csv)",
+                dir.display()
+            )));
+        }
+    }
+    let reads_no_table = matches!(
+        cli.command,
+        Command::Levels(_) | Command::Diagram(_) | Command::Crossover(_) | Command::ScoCurve(_)
+    );
+    let data_unused = cli.data.is_some() && reads_no_table;
+    let mut out = dispatch(cli)?;
+    if data_unused {
+        out.warnings
+            .push("note: --data is not used by this command (it reads no data table)".into());
+    }
+    Ok(out)
+}
+
+fn dispatch(cli: Cli) -> Result<Output, Failure> {
     match cli.command {
         Command::Levels(a) => levels::run(&a),
         Command::Diagram(a) => diagram::run(&a),

@@ -20,6 +20,15 @@ pub const L_LETTERS: [char; 13] = [
     'S', 'P', 'D', 'F', 'G', 'H', 'I', 'K', 'L', 'M', 'N', 'O', 'Q',
 ];
 
+/// Largest energy parameter accepted (B, C, the field, ζ). Energies beyond 10¹² cm⁻¹ are far
+/// outside any ligand field (the strong-field limit and trial points of fits reach ≈ 10⁷–10¹¹);
+/// rejecting them keeps every later sum finite.
+pub const MAX_ENERGY: f64 = 1e12;
+
+/// Smallest Racah B accepted (in whatever unit the energies use: cm⁻¹, or 1 when energies are in
+/// units of B).
+pub const MIN_B: f64 = 1e-100;
+
 /// Free-ion term symbol such as "4F" from 2S and L.
 pub fn term_symbol(two_s: i32, l: usize) -> String {
     format!("{}{}", two_s + 1, L_LETTERS.get(l).copied().unwrap_or('?'))
@@ -117,15 +126,19 @@ impl Calculation {
         }
         require_finite("B", b)?;
         require_finite("C", c)?;
-        if b <= 0.0 {
-            return Err(Error::invalid("B", b, "a Racah B > 0 cm⁻¹"));
+        // B also sets the tolerances and the small shifts that separate terms: a subnormal or
+        // vanishing B would make them underflow to zero.
+        if b < MIN_B {
+            return Err(Error::invalid(
+                "B",
+                b,
+                "a Racah B > 0 cm⁻¹ and at least 1e-100 (usually 100–1200)",
+            ));
         }
         if c < 0.0 {
             return Err(Error::invalid("C", c, "a Racah C ≥ 0 cm⁻¹"));
         }
-        // Energies beyond 10¹² cm⁻¹ are far outside any ligand field (the strong-field limit and
-        // trial points of fits reach ≈ 10⁷–10¹¹); rejecting them keeps every later sum finite.
-        const LIMIT: f64 = 1e12;
+        const LIMIT: f64 = MAX_ENERGY;
         if b > LIMIT || c > LIMIT || field.magnitude() > LIMIT {
             return Err(Error::invalid(
                 "B, C or field",
@@ -262,9 +275,12 @@ impl Calculation {
         let free_ion = terms_at_zero_field && self.field.magnitude() == 0.0;
         if free_ion && self.l_squared_shift == 0.0 {
             // Free ion: separate accidentally degenerate terms (e.g. ²P and ²H of d³) by L.
+            // Called directly (not through `grouped` again), so no recursion is possible.
             let mut c = self.clone();
             c.l_squared_shift = 1e-2 * self.b;
-            let mut raw = c.grouped(true, true)?;
+            let mut raw = c
+                .grouped_impl(true, true, false)?
+                .expect("every eigenvector is available when not in fast mode");
             for r in &mut raw {
                 let l = l_from_l_squared(r.l_sq.unwrap_or(0.0)) as f64;
                 r.energy -= c.l_squared_shift * l * (l + 1.0);

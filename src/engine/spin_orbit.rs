@@ -154,11 +154,11 @@ impl Calculation {
     /// Every eigenstate with spin–orbit coupling ζ Σ l·s (ζ in cm⁻¹, ≥ 0).
     pub fn spin_orbit(&self, zeta: f64) -> Result<SpinOrbitSolution> {
         require_finite("ζ", zeta)?;
-        if zeta < 0.0 {
+        if !(0.0..=super::levels::MAX_ENERGY).contains(&zeta) {
             return Err(Error::invalid(
                 "ζ",
                 zeta,
-                "a one-electron spin–orbit constant ≥ 0 cm⁻¹",
+                "a one-electron spin–orbit constant from 0 to 1e12 cm⁻¹ (free ions: ≈ 100–5000)",
             ));
         }
         let blocks = self

@@ -1,0 +1,153 @@
+//! Hostile inputs that once crashed, wrapped or ran without bound: each is now refused with
+//! one line that states the limit, and exit code 2. The limits themselves are design choices
+//! (stated beside each); the chemistry behind them is common practice.
+
+mod common;
+
+use common::{expect_usage_error, run};
+
+#[test]
+fn ligand_counts_are_bounded_where_they_are_parsed() {
+    // No coordination sphere holds more than 12 donor atoms (common practice).
+    let base = ["predict", "--metal", "Fe", "--ox", "2", "--geometry", "oct"];
+    let mut huge = base.to_vec();
+    huge.extend(["--ligand", "H2O:18446744073709551617"]);
+    expect_usage_error(&huge, "1 to 12");
+    let mut wraps = base.to_vec();
+    wraps.extend(["--ligand", "H2O:9223372036854775809"]);
+    expect_usage_error(&wraps, "1 to 12");
+}
+
+#[test]
+fn deep_or_huge_formulas_are_refused_not_overflowed() {
+    let deep = format!("{}H{}", "(".repeat(1000), ")".repeat(1000));
+    let args = [
+        "moment",
+        "--chi",
+        "0.01",
+        "--temp",
+        "300",
+        "--formula",
+        &deep,
+    ];
+    expect_usage_error(&args, "nested deeper than 32");
+}
+
+#[test]
+fn subnormal_b_and_huge_zeta_are_range_errors() {
+    expect_usage_error(
+        &[
+            "levels",
+            "--dn",
+            "3",
+            "--geometry",
+            "oct",
+            "--b",
+            "1e-310",
+            "--c",
+            "3000",
+            "--dq",
+            "0",
+        ],
+        "B = 1e-310",
+    );
+    expect_usage_error(
+        &[
+            "magnetism",
+            "--dn",
+            "5",
+            "--geometry",
+            "oct",
+            "--b",
+            "800",
+            "--c",
+            "3000",
+            "--dq",
+            "1000",
+            "--zeta",
+            "1e300",
+        ],
+        "from 0 to 1e12",
+    );
+}
+
+#[test]
+fn curve_points_are_bounded() {
+    expect_usage_error(
+        &[
+            "magnetism",
+            "--dn",
+            "5",
+            "--geometry",
+            "oct",
+            "--b",
+            "800",
+            "--c",
+            "3000",
+            "--dq",
+            "1000",
+            "--points",
+            "100000000",
+        ],
+        "2 to 100000",
+    );
+}
+
+#[test]
+fn one_rule_for_data_across_commands() {
+    let missing = "/nonexistent/spinstate-data";
+    for args in [
+        vec![
+            "predict",
+            "--metal",
+            "Fe",
+            "--ox",
+            "2",
+            "--geometry",
+            "oct",
+            "--ligand",
+            "H2O:6",
+        ],
+        vec!["moment", "--chi", "0.01", "--temp", "300"],
+        vec!["evans", "--help-is-not-an-option"],
+        vec![
+            "levels",
+            "--dn",
+            "3",
+            "--geometry",
+            "oct",
+            "--b",
+            "700",
+            "--c",
+            "3000",
+            "--dq",
+            "1700",
+        ],
+    ] {
+        let mut full = vec!["--data", missing];
+        full.extend(args.iter().copied());
+        let (code, out, err) = run(&full);
+        assert_eq!(code, 2, "{full:?}: {err}");
+        assert!(out.is_empty());
+        assert!(!err.contains("panicked"), "{err}");
+    }
+    // A real directory for a command that reads no table: it runs, and says --data is unused.
+    let dir = tempfile::tempdir().unwrap();
+    let (code, _, err) = run(&[
+        "--data",
+        dir.path().to_str().unwrap(),
+        "levels",
+        "--dn",
+        "3",
+        "--geometry",
+        "oct",
+        "--b",
+        "700",
+        "--c",
+        "3000",
+        "--dq",
+        "1700",
+    ]);
+    assert_eq!(code, 0, "{err}");
+    assert!(err.contains("--data is not used"), "{err}");
+}
