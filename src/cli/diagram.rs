@@ -7,7 +7,7 @@ use spinstate::engine::diagram;
 use spinstate::plot::energy::{EnergyOptions, SampleMark};
 use spinstate::plot::marks;
 use spinstate::predict::predict;
-use spinstate::report::diagram::{DiagramReport, SeriesRow};
+use spinstate::report::diagram::DiagramReport;
 use spinstate::report::to_json;
 use std::path::{Path, PathBuf};
 
@@ -154,26 +154,7 @@ pub fn run(args: &Args, data: Option<&Path>) -> Result<Output, Failure> {
         None => args.max,
     };
     let d = diagram(dn, geometry, c_over_b, max, args.points)?;
-    let series = d
-        .series
-        .iter()
-        .map(|s| SeriesRow {
-            key: s.key(d.needs_index(s)),
-            label: s.label(),
-            multiplicity: s.two_s + 1,
-            parent: s.parent.clone(),
-            degeneracy: s.degeneracy,
-            energies: s.energies.clone(),
-        })
-        .collect();
-    let report = DiagramReport {
-        dn: d.dn,
-        geometry: geometry.name().into(),
-        c_over_b: d.c_over_b,
-        delta_over_b: d.delta_over_b.clone(),
-        crossover_delta_over_b: d.crossover.delta_over_b,
-        series,
-    };
+    let report = DiagramReport::from_engine(&d);
     let title = match &complex {
         Some(c) => format!(
             "{}: d^{{{}}}, *B* = {:.0} cm⁻¹, *C*/*B* = {:.2}",

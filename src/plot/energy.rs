@@ -407,7 +407,14 @@ pub fn energy_svg(d: &DiagramReport, sample: Option<&SampleMark>, o: &EnergyOpti
         if !arrows.is_empty() {
             let gap = size * 0.55;
             let x0 = f.px(s.delta_over_b.min(xmax)) + gap;
-            let flip = x0 > f.left + f.width * 0.62;
+            let widest = arrows
+                .iter()
+                .map(|a| Rich::parse(&a.text).width(small))
+                .fold(0.0, f64::max);
+            let needed = gap * (arrows.len() as f64 + 1.5) + widest + size * 0.3;
+            let fits_right = x0 + needed <= f.right();
+            let fits_left = x0 - 2.0 * gap - needed >= f.left;
+            let flip = !fits_right && fits_left;
             let dir = if flip { -1.0 } else { 1.0 };
             let arrow_stroke = Stroke::solid(INK, 0.6);
             svg.open_group("transitions");
@@ -424,7 +431,11 @@ pub fn energy_svg(d: &DiagramReport, sample: Option<&SampleMark>, o: &EnergyOpti
                 f.top + lh / 2.0,
                 f.bottom() - lh / 2.0,
             );
-            let lx = xs.last().copied().unwrap_or(x0) + dir * gap * 1.2;
+            let mut lx = xs.last().copied().unwrap_or(x0) + dir * gap * 1.2;
+            if !flip && !fits_right {
+                // Neither side has room: keep the labels inside the frame (over the arrows).
+                lx = lx.min(f.right() - widest - size * 0.3);
+            }
             for (k, a) in arrows.iter().enumerate() {
                 let t = Rich::parse(&a.text);
                 let w = t.width(small);
@@ -465,15 +476,28 @@ pub fn energy_svg(d: &DiagramReport, sample: Option<&SampleMark>, o: &EnergyOpti
         size,
         width - 2.0 * size,
     );
-    svg.finish(
-        &o.title
-            .replace(['*', '{', '}'], "")
-            .replace("_", "")
-            .replace("^", ""),
-    )
+    let mut desc =
+        "Energy-level diagram. x axis: Δ/B; y axis: E/B (ground level at 0).".to_string();
+    if let Some(x) = cross {
+        desc.push_str(&format!(" Spin crossover at Δ/B = {x:.2}."));
+    }
+    if let Some(s) = sample {
+        desc.push_str(&format!(
+            " Sample at Δ/B = {:.2} ± {:.2} with {} spin-allowed transitions.",
+            s.delta_over_b,
+            s.uncertainty,
+            s.arrows.len()
+        ));
+    }
+    svg.finish(&plain(&o.title), &desc)
 }
 
 /// Δ/B as printed on the figure (one decimal).
 fn num2(x: f64) -> String {
     format!("{x:.1}")
+}
+
+/// A caption without markup.
+pub fn plain(markup: &str) -> String {
+    Rich::parse(markup).plain()
 }

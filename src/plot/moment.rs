@@ -250,5 +250,17 @@ pub fn moment_svg(fig: &MomentFigure, column: Column) -> String {
         size,
         width - 2.0 * size,
     );
-    svg.finish(&fig.title.replace(['*', '{', '}', '_', '^'], ""))
+    let y = match fig.quantity {
+        Quantity::ChiT { si: false } => "χ_M·T / cm³ K mol⁻¹",
+        Quantity::ChiT { si: true } => "χ_M·T / m³ K mol⁻¹",
+        Quantity::Mu => "μ_eff / μB",
+    };
+    svg.finish(
+        &super::energy::plain(&fig.title),
+        &format!(
+            "x axis: T / K; y axis: {y}; {} model curve(s), {} measured point(s), spin-only lines.",
+            fig.curves.len(),
+            fig.measured.len()
+        ),
+    )
 }

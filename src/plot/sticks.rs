@@ -169,5 +169,14 @@ pub fn sticks_svg(title: &str, rows: &[Row], column: Column) -> String {
         }
         svg.close_group();
     }
-    svg.finish(&title.replace(['*', '{', '}', '_', '^'], ""))
+    svg.finish(
+        &super::energy::plain(title),
+        &format!(
+            "x axis: wavenumber / cm⁻¹; rows: {}.",
+            rows.iter()
+                .map(|r| r.name.as_str())
+                .collect::<Vec<_>>()
+                .join(", ")
+        ),
+    )
 }

@@ -284,15 +284,18 @@ impl Svg {
 
     /// The finished document: physical size in mm, a `viewBox` in points, the embedded font's
     /// family with fall-backs, a white background and an accessible title.
-    pub fn finish(self, title: &str) -> String {
+    ///
+    /// `desc` is a plain-text description (axes and what is marked) for screen readers and search.
+    pub fn finish(self, title: &str, desc: &str) -> String {
         format!(
-            "<svg xmlns=\"http://www.w3.org/2000/svg\" version=\"1.1\" width=\"{}mm\" height=\"{}mm\" viewBox=\"0 0 {} {}\" font-family=\"{}\" role=\"img\">\n<title>{}</title>\n<rect class=\"background\" x=\"0\" y=\"0\" width=\"{}\" height=\"{}\" fill=\"white\"/>\n{}</svg>\n",
+            "<svg xmlns=\"http://www.w3.org/2000/svg\" version=\"1.1\" width=\"{}mm\" height=\"{}mm\" viewBox=\"0 0 {} {}\" font-family=\"{}\" role=\"img\">\n<title>{}</title>\n<desc>{}</desc>\n<rect class=\"background\" x=\"0\" y=\"0\" width=\"{}\" height=\"{}\" fill=\"white\"/>\n{}</svg>\n",
             num(self.width * MM_PER_PT),
             num(self.height * MM_PER_PT),
             num(self.width),
             num(self.height),
             FONT_FAMILY,
             escape(title),
+            escape(desc),
             num(self.width),
             num(self.height),
             self.body

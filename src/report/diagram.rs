@@ -35,6 +35,29 @@ pub struct DiagramReport {
 }
 
 impl DiagramReport {
+    /// The report of an engine diagram.
+    pub fn from_engine(d: &crate::engine::Diagram) -> Self {
+        DiagramReport {
+            dn: d.dn,
+            geometry: d.geometry.name().into(),
+            c_over_b: d.c_over_b,
+            delta_over_b: d.delta_over_b.clone(),
+            crossover_delta_over_b: d.crossover.delta_over_b,
+            series: d
+                .series
+                .iter()
+                .map(|s| SeriesRow {
+                    key: s.key(d.needs_index(s)),
+                    label: s.label(),
+                    multiplicity: s.two_s + 1,
+                    parent: s.parent.clone(),
+                    degeneracy: s.degeneracy,
+                    energies: s.energies.clone(),
+                })
+                .collect(),
+        }
+    }
+
     /// A short table: E/B of every level at Δ/B = 0, the middle and the maximum.
     pub fn to_table(&self) -> String {
         let n = self.delta_over_b.len();
