@@ -86,7 +86,7 @@ impl Frame {
 
 /// Tick positions at a 1, 2 or 5 × 10^k step giving about `target` intervals over `[lo, hi]`.
 pub fn ticks(lo: f64, hi: f64, target: usize) -> Vec<f64> {
-    if !(hi > lo) || !lo.is_finite() || !hi.is_finite() {
+    if hi <= lo || !lo.is_finite() || !hi.is_finite() {
         return vec![lo];
     }
     let raw = (hi - lo) / target.max(1) as f64;

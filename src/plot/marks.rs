@@ -16,7 +16,7 @@ pub fn wavenumber_text(e: f64) -> String {
     let digits = r.abs().to_string();
     let mut out = String::new();
     for (i, c) in digits.chars().enumerate() {
-        if i > 0 && (digits.len() - i) % 3 == 0 && digits.len() > 4 {
+        if i > 0 && (digits.len() - i).is_multiple_of(3) && digits.len() > 4 {
             out.push('\u{2009}');
         }
         out.push(c);
