@@ -233,9 +233,12 @@ mod tests {
     #[test]
     fn markup_runs() {
         let r = Rich::parse("*χ*_{M}·*T* / cm³ K mol⁻¹");
-        assert_eq!(r.spans.len(), 4);
+        // χ (italic), M (subscript), · (upright), T (italic), the unit (upright).
+        assert_eq!(r.spans.len(), 5);
         assert_eq!(r.spans[0].script, Script::Italic);
         assert_eq!(r.spans[1].script, Script::Sub);
+        assert_eq!(r.spans[2].script, Script::Normal);
+        assert_eq!(r.spans[3].script, Script::Italic);
         assert_eq!(r.plain(), "χM·T / cm³ K mol⁻¹");
     }
 
