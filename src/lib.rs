@@ -19,3 +19,4 @@ pub mod tables;
 pub mod units;
 
 pub use error::{Error, Result};
+pub mod plot;

@@ -2,11 +2,14 @@
 //! by options or for every row of a CSV file (`--input`).
 
 use super::common::{load_tables, Format};
+use super::figure::write_html;
 use super::{Failure, Output};
 use indicatif::{ProgressBar, ProgressStyle};
 use spinstate::check::batch::{self, RowError, Sample};
 use spinstate::check::{check, CheckTables, CurveInput};
 use spinstate::report::check::{BatchReport, CheckReport, RowErrorRow, SAFETY};
+use spinstate::report::figures::sample_figures;
+use spinstate::report::html::{self, parameter_rows, Section};
 use spinstate::report::to_json;
 use spinstate::tables::bond_lengths::BondLengthTable;
 use spinstate::tables::moment_ranges::MomentRangeTable;
@@ -128,6 +131,9 @@ pub struct Args {
     /// Also write the verdicts as CSV to FILE.
     #[arg(long, value_name = "FILE")]
     pub csv: Option<PathBuf>,
+    /// Also write a self-contained HTML report (inline figures, printable) to FILE.
+    #[arg(long, value_name = "FILE")]
+    pub html: Option<PathBuf>,
     #[command(flatten)]
     pub format: Format,
 }
@@ -240,11 +246,15 @@ fn attach_curve(sample: &mut Sample, base: Option<&Path>) -> Result<(), String> 
 
 /// Checks every row of a batch text: the report, and the bad rows (already in the report).
 /// `base` is the directory `chit_file` cells are relative to.
-pub fn run_batch(
+/// Checks every row of a batch file, also building each sample's HTML section when `html` is
+/// set.
+pub fn run_batch_with(
     text: &str,
     base: Option<&Path>,
     data: Option<&Path>,
-) -> Result<(BatchReport, Vec<RowError>), Failure> {
+    html: bool,
+) -> Result<(BatchReport, Vec<RowError>, Vec<Section>), Failure> {
+    let mut sections = Vec::new();
     let rows = batch::parse(text).map_err(|e| Failure::usage(format!("--input: {e}")))?;
     let loaded = Loaded::new(data)?;
     let bar = if rows.len() >= PROGRESS_FROM && std::io::stdout().is_terminal() {
@@ -275,7 +285,13 @@ pub fn run_batch(
                     row, name, input, ..
                 } = sample;
                 match check(&input, loaded.tables()) {
-                    Ok(result) => samples.push(CheckReport::new(&result, Some(name), Some(row))),
+                    Ok(result) => {
+                        let report = CheckReport::new(&result, Some(name), Some(row));
+                        if html {
+                            sections.push(html_section(&input, &result, report.clone())?);
+                        }
+                        samples.push(report)
+                    }
                     Err(e) => bad.push(RowError {
                         row,
                         name: Some(name),
@@ -290,7 +306,20 @@ pub fn run_batch(
     }
     bar.finish_and_clear();
     let errors = bad.iter().map(RowErrorRow::from).collect();
-    Ok((BatchReport::new(samples, errors), bad))
+    Ok((BatchReport::new(samples, errors), bad, sections))
+}
+
+/// One sample's section of the HTML page (figures drawn here, from the library).
+pub fn html_section(
+    input: &spinstate::check::CheckInput,
+    result: &spinstate::check::CheckResult,
+    report: CheckReport,
+) -> Result<Section, Failure> {
+    Ok(Section {
+        parameters: parameter_rows(result),
+        figures: sample_figures(input, result)?,
+        report,
+    })
 }
 
 fn write_csv(path: &Path, text: &str) -> Result<(), Failure> {
@@ -302,9 +331,16 @@ pub fn run(args: &Args, data: Option<&Path>) -> Result<Output, Failure> {
     if let Some(path) = &args.input {
         let text = std::fs::read_to_string(path)
             .map_err(|e| Failure::usage(format!("--input: cannot read {}: {e}", path.display())))?;
-        let (report, bad) = run_batch(&text, path.parent(), data)?;
+        let (report, bad, sections) =
+            run_batch_with(&text, path.parent(), data, args.html.is_some())?;
         if let Some(csv) = &args.csv {
             write_csv(csv, &report.to_csv())?;
+        }
+        let mut notes = Vec::new();
+        if let Some(file) = &args.html {
+            let title = format!("Spin-state check of {}", path.display());
+            let page = html::page(&title, None, &sections, &report.errors, SAFETY);
+            notes.push(write_html(&page, file)?);
         }
         let stdout = if args.format.json {
             to_json(&report)
@@ -313,9 +349,12 @@ pub fn run(args: &Args, data: Option<&Path>) -> Result<Output, Failure> {
         };
         return Ok(Output {
             stdout,
-            warnings: bad
-                .iter()
-                .map(|e| format!("error: {}: {e}", path.display()))
+            warnings: notes
+                .into_iter()
+                .chain(
+                    bad.iter()
+                        .map(|e| format!("error: {}: {e}", path.display())),
+                )
                 .collect(),
             code: if bad.is_empty() { 0 } else { 2 },
         });
@@ -337,9 +376,16 @@ pub fn run(args: &Args, data: Option<&Path>) -> Result<Output, Failure> {
         let one = BatchReport::new(vec![report.clone()], Vec::new());
         write_csv(csv, &one.to_csv())?;
     }
-    Ok(Output::text(if args.format.json {
+    let mut out = Output::text(if args.format.json {
         to_json(&report)
     } else {
         report.to_table()
-    }))
+    });
+    if let Some(file) = &args.html {
+        let section = html_section(&sample.input, &result, report.clone())?;
+        let title = format!("Spin-state check of {}", report.complex);
+        let page = html::page(&title, None, &[section], &[], SAFETY);
+        out.warnings.push(write_html(&page, file)?);
+    }
+    Ok(out)
 }

@@ -1,23 +1,39 @@
 //! `spinstate demo`: the invented screening scenario of `data/demo/`, run end to end from the
 //! copy embedded in the binary.
 
-use super::check::run_batch;
+use super::check::run_batch_with;
 use super::common::Format;
+use super::figure::write_html;
 use super::{Failure, Output};
 use spinstate::check::demo::{INTRO, SAMPLES};
 use spinstate::report::check::SAFETY;
+use spinstate::report::html;
 use spinstate::report::to_json;
-use std::path::Path;
+use std::path::{Path, PathBuf};
 
 #[derive(Debug, clap::Args)]
 #[command(after_help = SAFETY)]
 pub struct Args {
+    /// Also write the scenario as one self-contained HTML report (inline figures) to FILE.
+    #[arg(long, value_name = "FILE")]
+    pub html: Option<PathBuf>,
     #[command(flatten)]
     pub format: Format,
 }
 
 pub fn run(args: &Args, data: Option<&Path>) -> Result<Output, Failure> {
-    let (report, bad) = run_batch(SAMPLES, None, data)?;
+    let (report, bad, sections) = run_batch_with(SAMPLES, None, data, args.html.is_some())?;
+    let mut notes = Vec::new();
+    if let Some(file) = &args.html {
+        let page = html::page(
+            "Spin-state demo: the invented Tallowmere screening set",
+            Some(INTRO),
+            &sections,
+            &report.errors,
+            SAFETY,
+        );
+        notes.push(write_html(&page, file)?);
+    }
     let stdout = if args.format.json {
         to_json(&report)
     } else {
@@ -31,9 +47,9 @@ the estimate's uncertainty is wide, so near the crossover this is a guide):\n{}\
     };
     Ok(Output {
         stdout,
-        warnings: bad
-            .iter()
-            .map(|e| format!("error: demo sheet: {e}"))
+        warnings: notes
+            .into_iter()
+            .chain(bad.iter().map(|e| format!("error: demo sheet: {e}")))
             .collect(),
         code: if bad.is_empty() { 0 } else { 2 },
     })

@@ -1,23 +1,27 @@
-//! `spinstate diagram`: E/B of every level against Δ/B.
+//! `spinstate diagram`: E/B of every level against Δ/B, optionally with a sample marked on it.
 
-use super::common::{emit, parse_geometry, Format, Renderings};
+use super::common::{emit, parse_geometry, ComplexArgs, Format, Renderings};
+use super::figure::{write_png, FigureArgs};
 use super::{Failure, Output};
 use spinstate::engine::diagram;
-use spinstate::report::diagram::{DiagramReport, SeriesRow};
+use spinstate::plot::energy::{EnergyOptions, SampleMark};
+use spinstate::plot::marks;
+use spinstate::predict::predict;
+use spinstate::report::diagram::DiagramReport;
 use spinstate::report::to_json;
-use std::path::PathBuf;
+use std::path::{Path, PathBuf};
 
 #[derive(Debug, clap::Args)]
 pub struct Args {
-    /// Number of d electrons, 0..=10.
+    /// Number of d electrons, 0..=10 (not needed with --metal).
     #[arg(long, value_name = "N")]
-    pub dn: usize,
+    pub dn: Option<usize>,
     /// Geometry: oct, tet, sqpl or tetragonal.
     #[arg(long, value_name = "G")]
     pub geometry: String,
-    /// C/B ratio (e.g. 4.8 for d6 as in the original diagrams).
+    /// C/B ratio (e.g. 4.8 for d6 as in the original diagrams; with --metal the complex's own).
     #[arg(long, value_name = "R", allow_hyphen_values = true)]
-    pub c_over_b: f64,
+    pub c_over_b: Option<f64>,
     /// Largest Δ/B.
     #[arg(
         long,
@@ -29,28 +33,73 @@ pub struct Args {
     /// Number of Δ/B values from 0 to --max, both included.
     #[arg(long, value_name = "P", default_value_t = 201)]
     pub points: usize,
+    #[command(flatten)]
+    pub complex: ComplexArgs,
+    /// Mark a sample at this Δ/B on the figure (with --dn and --c-over-b).
+    #[arg(
+        long,
+        value_name = "X",
+        conflicts_with = "metal",
+        allow_hyphen_values = true
+    )]
+    pub delta_over_b: Option<f64>,
+    /// 1σ of --delta-over-b, drawn as a band.
+    #[arg(
+        long,
+        value_name = "U",
+        requires = "delta_over_b",
+        default_value_t = 0.0
+    )]
+    pub delta_over_b_err: f64,
+    /// Racah B (cm⁻¹) of the --delta-over-b sample, to label its transitions in cm⁻¹.
+    #[arg(long, value_name = "B", requires = "delta_over_b")]
+    pub b: Option<f64>,
+    /// Highlight each spin state's spin-allowed levels (the others grey).
+    #[arg(long)]
+    pub highlight_spins: bool,
     /// Write the full diagram as CSV (one column per level) to FILE ('-' for stdout).
     #[arg(long, value_name = "FILE")]
     pub csv: Option<PathBuf>,
-    /// Write an SVG picture to FILE.
+    /// Write an SVG figure to FILE.
     #[arg(long, value_name = "FILE")]
     pub svg: Option<PathBuf>,
+    #[command(flatten)]
+    pub figure: FigureArgs,
     #[command(flatten)]
     pub format: Format,
 }
 
-pub fn run(args: &Args) -> Result<Output, Failure> {
+pub fn run(args: &Args, data: Option<&Path>) -> Result<Output, Failure> {
     let geometry = parse_geometry(&args.geometry)?;
-    if args.dn > 10 {
-        return Err(Failure::usage(format!(
-            "--dn {} is outside 0..=10",
-            args.dn
-        )));
+    let complex = args.complex.resolve(geometry, data)?;
+    let prediction = match &complex {
+        Some(c) => Some(predict(c)?),
+        None => None,
+    };
+    let dn = match (&complex, args.dn) {
+        (Some(c), _) => c.ion.dn,
+        (None, Some(dn)) => dn,
+        (None, None) => {
+            return Err(Failure::usage(
+                "give --dn N (0..=10) and --c-over-b R, or --metal, --ox and --ligand",
+            ))
+        }
+    };
+    let c_over_b = match (&complex, args.c_over_b) {
+        (Some(c), _) => c.c_over_b(),
+        (None, Some(r)) => r,
+        (None, None) => {
+            return Err(Failure::usage(
+                "--c-over-b R is needed without --metal (usually 3.5–5, e.g. 4.8)",
+            ))
+        }
+    };
+    if dn > 10 {
+        return Err(Failure::usage(format!("--dn {dn} is outside 0..=10")));
     }
-    if !args.c_over_b.is_finite() || args.c_over_b <= 0.0 {
+    if !c_over_b.is_finite() || c_over_b <= 0.0 {
         return Err(Failure::usage(format!(
-            "--c-over-b {} must be a ratio > 0 (usually 3.5–5)",
-            args.c_over_b
+            "--c-over-b {c_over_b} must be a ratio > 0 (usually 3.5–5)"
         )));
     }
     if !args.max.is_finite() || args.max <= 0.0 {
@@ -65,36 +114,81 @@ pub fn run(args: &Args) -> Result<Output, Failure> {
             args.points
         )));
     }
-    let d = diagram(args.dn, geometry, args.c_over_b, args.max, args.points)?;
-    let series = d
-        .series
-        .iter()
-        .map(|s| SeriesRow {
-            key: s.key(d.needs_index(s)),
-            label: s.label(),
-            multiplicity: s.two_s + 1,
-            parent: s.parent.clone(),
-            degeneracy: s.degeneracy,
-            energies: s.energies.clone(),
-        })
-        .collect();
-    let report = DiagramReport {
-        dn: d.dn,
-        geometry: geometry.name().into(),
-        c_over_b: d.c_over_b,
-        delta_over_b: d.delta_over_b.clone(),
-        crossover_delta_over_b: d.crossover.delta_over_b,
-        series,
+    if let Some(x) = args.delta_over_b {
+        if !x.is_finite() || x < 0.0 {
+            return Err(Failure::usage(format!(
+                "--delta-over-b {x} must be a Δ/B ≥ 0 (e.g. 20)"
+            )));
+        }
+    }
+    if !args.delta_over_b_err.is_finite() || args.delta_over_b_err < 0.0 {
+        return Err(Failure::usage(format!(
+            "--delta-over-b-err {} must be ≥ 0",
+            args.delta_over_b_err
+        )));
+    }
+    if let Some(b) = args.b {
+        if !b.is_finite() || b <= 0.0 {
+            return Err(Failure::usage(format!(
+                "--b {b} must be a Racah B > 0 in cm⁻¹ (e.g. 800)"
+            )));
+        }
+    }
+    let sample: Option<SampleMark> = match (&prediction, args.delta_over_b) {
+        (Some(p), _) => Some(marks::from_prediction(p)),
+        (None, Some(x)) => Some(marks::from_ratio(
+            dn,
+            geometry,
+            c_over_b,
+            x,
+            args.delta_over_b_err,
+            args.b,
+        )?),
+        _ => None,
     };
-    emit(
+    // Keep the sample (and its band) on the figure.
+    let max = match &sample {
+        Some(s) => args
+            .max
+            .max(((s.delta_over_b + 1.5 * s.uncertainty) * 1.25 / 5.0).ceil() * 5.0),
+        None => args.max,
+    };
+    let d = diagram(dn, geometry, c_over_b, max, args.points)?;
+    let report = DiagramReport::from_engine(&d);
+    let title = match &complex {
+        Some(c) => format!(
+            "{}: d^{{{}}}, *B* = {:.0} cm⁻¹, *C*/*B* = {:.2}",
+            spinstate::plot::text::formula_markup(&c.formula()),
+            dn,
+            c.b.value,
+            c_over_b
+        ),
+        None => report.caption(),
+    };
+    let highlight = if args.highlight_spins {
+        marks::spin_highlights(dn, geometry, c_over_b)?
+    } else {
+        Vec::new()
+    };
+    let options = EnergyOptions {
+        column: args.figure.column(),
+        title,
+        highlight,
+    };
+    let svg = || report.to_svg_with(sample.as_ref(), &options);
+    let mut out = emit(
         args.csv.as_deref(),
         args.svg.as_deref(),
         args.format.json,
         Renderings {
             csv: || report.to_csv(),
-            svg: || report.to_svg(),
+            svg: || Ok(svg()),
             json: || to_json(&report),
             table: || report.to_table(),
         },
-    )
+    )?;
+    if let Some(path) = &args.figure.png {
+        out.warnings.push(write_png(&svg(), path)?);
+    }
+    Ok(out)
 }

@@ -2,7 +2,8 @@
 
 use super::common::{emit, ComplexArgs, FieldArgs, Format, Renderings};
 use super::{Failure, Output};
-use spinstate::report::magnetism::{MagnetismPoint, MagnetismReport};
+use spinstate::plot::moment::{Point, Quantity};
+use spinstate::report::magnetism::{MagnetismPoint, MagnetismReport, MomentPlot};
 use spinstate::report::to_json;
 use spinstate::susceptibility::{temperature_grid, MagneticModel, ZeemanLevels, G_ELECTRON};
 use spinstate::units;
@@ -53,9 +54,18 @@ pub struct Args {
     /// Write every point as CSV to FILE ('-' for stdout).
     #[arg(long, value_name = "FILE")]
     pub csv: Option<PathBuf>,
-    /// Write an SVG plot of μ_eff against T to FILE.
+    /// Write an SVG figure to FILE (μ_eff against T unless --plot chit).
     #[arg(long, value_name = "FILE")]
     pub svg: Option<PathBuf>,
+    /// What the figure shows against T: chit (χ_M·T) or mu (μ_eff).
+    #[arg(long, value_name = "Q", default_value = "mu", value_parser = ["chit", "mu"])]
+    pub plot: String,
+    /// Measured points to overlay: CSV with a temperature column (T) and χ_M·T, χ_M (already
+    /// corrected for diamagnetism) or μ_eff, optionally with an error column.
+    #[arg(long, value_name = "FILE.csv")]
+    pub measured: Option<PathBuf>,
+    #[command(flatten)]
+    pub figure: super::figure::FigureArgs,
     #[command(flatten)]
     pub format: Format,
 }
@@ -127,15 +137,85 @@ pub fn run(args: &Args, data: Option<&Path>) -> Result<Output, Failure> {
             .collect(),
         notes,
     };
-    emit(
+    let quantity = if args.plot == "chit" {
+        Quantity::ChiT {
+            si: units == units::SusceptibilityUnits::Si,
+        }
+    } else {
+        Quantity::Mu
+    };
+    let measured = match &args.measured {
+        Some(path) => read_measured(path, quantity, units)?,
+        None => Vec::new(),
+    };
+    let spin_states =
+        spinstate::plot::marks::spin_highlights(r.calc.dn, r.geometry, r.calc.c / r.calc.b)?
+            .into_iter()
+            .map(|(m, name)| (m - 1, name))
+            .collect();
+    let plot = MomentPlot {
+        quantity,
+        spin_states,
+        measured,
+        measured_name: args
+            .measured
+            .as_ref()
+            .and_then(|p| p.file_name())
+            .map(|n| format!("measured ({})", n.to_string_lossy()))
+            .unwrap_or_default(),
+        column: args.figure.column(),
+        title: None,
+    };
+    let svg = || report.to_svg_with(&plot);
+    let mut out = emit(
         args.csv.as_deref(),
         args.svg.as_deref(),
         args.format.json,
         Renderings {
             csv: || report.to_csv(),
-            svg: || report.to_svg(),
+            svg: || Ok(svg()),
             json: || to_json(&report),
             table: || report.to_table(16),
         },
-    )
+    )?;
+    if let Some(path) = &args.figure.png {
+        out.warnings.push(super::figure::write_png(&svg(), path)?);
+    }
+    Ok(out)
+}
+
+/// Reads measured points for the figure, converted to its quantity and unit system.
+fn read_measured(
+    path: &Path,
+    quantity: Quantity,
+    units: units::SusceptibilityUnits,
+) -> Result<Vec<Point>, Failure> {
+    let text = std::fs::read_to_string(path)
+        .map_err(|e| Failure::usage(format!("--measured: cannot read {}: {e}", path.display())))?;
+    let curve = spinstate::sco::data::read_curve(&text, 0.0)
+        .map_err(|e| Failure::usage(format!("--measured {}: {e}", path.display())))?;
+    curve
+        .points
+        .iter()
+        .map(|p| match quantity {
+            Quantity::Mu => {
+                let mu =
+                    units::mu_eff_from_chi_t(p.chi_t.max(0.0), units::SusceptibilityUnits::Cgs)
+                        .map_err(|e| Failure::usage(format!("--measured line {}: {e}", p.line)))?;
+                let err = p.err.map(|e| {
+                    if p.chi_t > 0.0 {
+                        mu * e / (2.0 * p.chi_t)
+                    } else {
+                        0.0
+                    }
+                });
+                Ok(Point { t: p.t, y: mu, err })
+            }
+            Quantity::ChiT { .. } => Ok(Point {
+                t: p.t,
+                y: units.from_cgs(p.chi_t),
+                err: p.err.map(|e| units.from_cgs(e)),
+            }),
+        })
+        .collect()
 }

@@ -8,6 +8,7 @@ pub mod data;
 pub mod demo;
 pub mod diagram;
 pub mod evans;
+pub mod figure;
 pub mod fit_bands;
 pub mod levels;
 pub mod magnetism;
@@ -142,7 +143,7 @@ pub fn run(cli: Cli) -> Result<Output, Failure> {
 fn dispatch(cli: Cli) -> Result<Output, Failure> {
     match cli.command {
         Command::Levels(a) => levels::run(&a),
-        Command::Diagram(a) => diagram::run(&a),
+        Command::Diagram(a) => diagram::run(&a, cli.data.as_deref()),
         Command::Crossover(a) => crossover::run(&a),
         Command::Evans(a) => evans::run(&a, cli.data.as_deref()),
         Command::Moment(a) => moment::run(&a, cli.data.as_deref()),

@@ -1,7 +1,9 @@
 //! Report of `spinstate magnetism`: χ, χT and μ_eff against temperature.
 
 use super::{fmt_num, new_table};
-use plotters::prelude::*;
+use crate::plot::moment::{moment_svg, Curve, MomentFigure, Point, Quantity, Reference};
+use crate::plot::style::Column;
+use crate::units;
 use serde::Serialize;
 
 /// One temperature point (cgs-emu units unless the report's `units` is "si").
@@ -150,76 +152,106 @@ impl MagnetismReport {
         String::from_utf8(w.into_inner().expect("CSV to memory")).expect("UTF-8")
     }
 
-    /// SVG of μ_eff against T with the spin-only value dashed.
+    /// The figure: μ_eff against T with the spin-only value of the ground level.
     pub fn to_svg(&self) -> Result<String, String> {
-        let mut out = String::new();
-        {
-            let root = SVGBackend::with_string(&mut out, (820, 560)).into_drawing_area();
-            root.fill(&WHITE).map_err(|e| e.to_string())?;
-            let tmin = self.points.first().map(|p| p.t).unwrap_or(0.0);
-            let tmax = self
-                .points
-                .last()
-                .map(|p| p.t)
-                .unwrap_or(1.0)
-                .max(tmin + 1e-9);
-            let ymax = self
+        Ok(self.to_svg_with(&MomentPlot {
+            quantity: Quantity::Mu,
+            spin_states: Vec::new(),
+            measured: Vec::new(),
+            measured_name: String::new(),
+            column: Column::Single,
+            title: None,
+        }))
+    }
+
+    /// The figure of χ_M·T or μ_eff against T with the spin-only lines of the given spin states
+    /// (2S, name) and measured points (in the figure's quantity).
+    pub fn to_svg_with(&self, p: &MomentPlot) -> String {
+        let si = self.units == "si";
+        let value = |chi_t: f64, mu: f64| match p.quantity {
+            Quantity::Mu => mu,
+            Quantity::ChiT { .. } => chi_t,
+        };
+        let curve = Curve {
+            name: format!(
+                "model (*κ* = {}, *ζ* = {:.0} cm⁻¹)",
+                fmt_num(self.kappa, 2),
+                self.zeta
+            ),
+            t: self.points.iter().map(|q| q.t).collect(),
+            y: self
                 .points
                 .iter()
-                .map(|p| p.mu_eff)
-                .fold(self.spin_only_moment, f64::max)
-                * 1.15
-                + 0.1;
-            let mut chart = ChartBuilder::on(&root)
-                .caption(
-                    format!("d{} {}: μ_eff against T", self.dn, self.geometry),
-                    ("sans-serif", 20),
-                )
-                .margin(16)
-                .x_label_area_size(44)
-                .y_label_area_size(56)
-                .build_cartesian_2d(0.0..tmax, 0.0..ymax)
-                .map_err(|e| e.to_string())?;
-            chart
-                .configure_mesh()
-                .x_desc("T (K)")
-                .y_desc("μ_eff (μB)")
-                .light_line_style(RGBColor(236, 236, 236))
-                .draw()
-                .map_err(|e| e.to_string())?;
-            let line = RGBColor(123, 75, 148);
-            chart
-                .draw_series(LineSeries::new(
-                    self.points.iter().map(|p| (p.t, p.mu_eff)),
-                    line.stroke_width(2),
-                ))
-                .map_err(|e| e.to_string())?
-                .label("ligand field + spin–orbit")
-                .legend(move |(x, y)| {
-                    PathElement::new(vec![(x, y), (x + 18, y)], line.stroke_width(2))
-                });
-            let so = self.spin_only_moment;
-            chart
-                .draw_series(DashedLineSeries::new(
-                    vec![(0.0, so), (tmax, so)],
-                    6,
-                    4,
-                    BLACK.stroke_width(1),
-                ))
-                .map_err(|e| e.to_string())?
-                .label(format!("spin-only {:.2} μB", so))
-                .legend(|(x, y)| {
-                    PathElement::new(vec![(x, y), (x + 18, y)], BLACK.stroke_width(1))
-                });
-            chart
-                .configure_series_labels()
-                .position(SeriesLabelPosition::LowerRight)
-                .background_style(WHITE.mix(0.85))
-                .border_style(RGBColor(180, 180, 180))
-                .draw()
-                .map_err(|e| e.to_string())?;
-            root.present().map_err(|e| e.to_string())?;
+                .map(|q| value(q.chi_t, q.mu_eff))
+                .collect(),
+        };
+        let mut states = p.spin_states.clone();
+        if states.is_empty() {
+            states.push((
+                (self.spin_only_moment.powi(2) + 1.0).sqrt().round() as i32 - 1,
+                "ground level".into(),
+            ));
         }
-        Ok(out)
+        let units = if si {
+            units::SusceptibilityUnits::Si
+        } else {
+            units::SusceptibilityUnits::Cgs
+        };
+        let references = states
+            .iter()
+            .map(|(two_s, name)| {
+                let n = f64::from(*two_s);
+                Reference {
+                    name: format!("*S* = {} ({name})", spin_text(*two_s)),
+                    value: value(
+                        units.from_cgs(units::spin_only_chi_t_cgs(n)),
+                        units::spin_only_moment(n),
+                    ),
+                }
+            })
+            .collect();
+        let title = p.title.clone().unwrap_or_else(|| {
+            format!(
+                "d^{{{}}} {}, *B* = {:.0} cm⁻¹, *Dq* = {:.0} cm⁻¹",
+                self.dn, self.geometry, self.b, self.dq
+            )
+        });
+        moment_svg(
+            &MomentFigure {
+                title,
+                quantity: match p.quantity {
+                    Quantity::ChiT { .. } => Quantity::ChiT { si },
+                    q => q,
+                },
+                curves: vec![curve],
+                measured: p.measured.clone(),
+                measured_name: p.measured_name.clone(),
+                references,
+            },
+            p.column,
+        )
+    }
+}
+
+/// What the moment figure shows besides the model curve.
+#[derive(Debug, Clone, PartialEq)]
+pub struct MomentPlot {
+    pub quantity: Quantity,
+    /// Spin states for spin-only lines: (2S, name such as "high spin").
+    pub spin_states: Vec<(i32, String)>,
+    /// Measured points in the figure's quantity (and the report's unit system).
+    pub measured: Vec<Point>,
+    pub measured_name: String,
+    pub column: Column,
+    /// Caption; None for d^n, geometry and parameters.
+    pub title: Option<String>,
+}
+
+/// S as text from 2S: "2", "3/2".
+pub fn spin_text(two_s: i32) -> String {
+    if two_s % 2 == 0 {
+        format!("{}", two_s / 2)
+    } else {
+        format!("{two_s}/2")
     }
 }
