@@ -14,6 +14,7 @@ pub mod report;
 pub mod sco;
 pub mod screen;
 pub mod spectra;
+pub mod structure;
 pub mod susceptibility;
 pub mod tables;
 pub mod units;

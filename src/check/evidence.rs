@@ -705,6 +705,19 @@ pub fn bond_length(
     ))
 }
 
+/// The bond-length verdict for a mean over the donors of one element against a joined
+/// reference, by the same rules as [`bond_length`] (used by the structure report).
+pub fn classify_mean(mean: Measured, reference: &Reference, ion: String, donor: &str) -> Evidence {
+    let input = BondLengthInput {
+        mean,
+        temperature: None,
+    };
+    let measured = format!("mean M–{donor} {:.3} Å", mean.value);
+    classify(
+        mean.value, mean.err, reference, &input, measured, ion, donor,
+    )
+}
+
 fn classify(
     x: f64,
     u: f64,

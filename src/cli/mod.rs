@@ -18,6 +18,7 @@ pub mod predict;
 pub mod sco_curve;
 pub mod sco_fit;
 pub mod screen;
+pub mod structure;
 
 use clap::{Parser, Subcommand};
 use std::path::PathBuf;
@@ -70,6 +71,9 @@ pub enum Command {
     ScoFit(sco_fit::Args),
     /// Simulate a spin transition: γ_HS(T) and χ_M·T(T) on both branches.
     ScoCurve(sco_curve::Args),
+    /// Metal centres of crystal structures (CIF) or coordinates (XYZ): bonds, shape measures,
+    /// Σ/Θ/ζ and the spin state the bond lengths support; several files compared.
+    Structure(structure::Args),
 }
 
 /// A failure with its exit code (1: computation did not finish, 2: bad usage or input).
@@ -157,5 +161,6 @@ fn dispatch(cli: Cli) -> Result<Output, Failure> {
         Command::Demo(a) => demo::run(&a, cli.data.as_deref()),
         Command::ScoFit(a) => sco_fit::run(&a, cli.data.as_deref()),
         Command::ScoCurve(a) => sco_curve::run(&a),
+        Command::Structure(a) => structure::run(&a, cli.data.as_deref()),
     }
 }

@@ -17,6 +17,7 @@ pub mod measured;
 pub mod predict;
 pub mod sco;
 pub mod screen;
+pub mod structure;
 
 use comfy_table::{presets::UTF8_FULL_CONDENSED, ContentArrangement, Table};
 use serde::Serialize;

@@ -274,9 +274,10 @@ mod tests {
         // Co(II)–N has only the change (Crystals 2018, 8, 155): no reference range.
         assert!(t.reference("Co", 2, "N").is_none());
         assert_eq!(t.rows_for("Co", 2, "N")[0].delta_r, Some(0.10));
-        // Fe(III)–N is given per donor type only.
-        assert!(t.reference("Fe", 3, "N").is_none());
-        assert_eq!(t.rows_for("Fe", 3, "N").len(), 2);
+        // Fe(III)–N is given per donor type, and as their union for a mean over N donors.
+        assert_eq!(t.rows_for("Fe", 3, "N").len(), 3);
+        let r = t.reference("Fe", 3, "N").unwrap();
+        assert_eq!((r.low_spin, r.high_spin), ((1.92, 2.08), (2.09, 2.26)));
     }
 
     #[test]
