@@ -947,10 +947,7 @@ fn refine(
             observed: obs,
             transition: t.clone(),
             residual: obs - t.energy,
-            jump: Jump {
-                electrons: None,
-                weak: false,
-            },
+            jump: Jump::unknown(),
         });
     }
     let n = bands.len();
@@ -958,16 +955,15 @@ fn refine(
     let rms = (rss / n as f64).sqrt();
 
     // Strong-field configurations: one-electron vs two-electron jumps.
-    let all_jumps = jumps(req.dn, req.geometry, b, c, &m)?;
+    let jump_calc = calculation(req.dn, req.geometry, dq, b, c)?;
+    let jump_spectrum = jump_calc.levels()?;
+    let all_jumps = jumps(&jump_calc, req.geometry, &jump_spectrum, &m)?;
     let jump_of = |key: &TransitionKey| -> Jump {
         m.transitions
             .iter()
             .position(|t| &t.key == key)
             .map(|i| all_jumps[i])
-            .unwrap_or(Jump {
-                electrons: None,
-                weak: false,
-            })
+            .unwrap_or(Jump::unknown())
     };
     for a in &mut assigned {
         a.jump = jump_of(&a.transition.key);
