@@ -449,6 +449,7 @@ fn position_fit(
         fixed_b: None,
         patience: None,
         b0: complex.ion.b0,
+        forbidden: Vec::new(),
     };
     match fit_bands(&req) {
         Ok(outcome) => {
