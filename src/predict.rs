@@ -44,6 +44,13 @@ pub struct Band {
     pub wavelength_nm: f64,
     /// Expected intensity class and typical ε ([`crate::spectra::transitions::intensity`]).
     pub intensity: crate::spectra::transitions::Intensity,
+    /// One- or two-electron jump in the strong-field picture, its one-electron fraction at this
+    /// field and whether that makes it weak ([`crate::spectra::transitions::jumps`]); None
+    /// when the analysis was not asked for ([`PredictOptions::band_analysis`]).
+    pub jump: Option<crate::spectra::transitions::Jump>,
+    /// Above the charge-transfer onset ([`PredictOptions::charge_transfer_onset`]): likely
+    /// hidden under charge-transfer absorption.
+    pub may_be_hidden: bool,
 }
 
 /// The spin-allowed bands of one spin state, from its lowest level.
@@ -73,6 +80,12 @@ pub struct PredictOptions {
     /// Compute the 300 K moment with spin–orbit coupling (one more diagonalisation; `check`
     /// does without, since it computes the moments of both states itself).
     pub moment_300k: bool,
+    /// Label each band with its strong-field jump and one-electron fraction (a few more
+    /// diagonalisations; `check` does without).
+    pub band_analysis: bool,
+    /// Charge-transfer onset (cm⁻¹) above which bands are flagged as likely hidden; None uses
+    /// [`crate::spectra::count::CHARGE_TRANSFER_ONSET`].
+    pub charge_transfer_onset: Option<f64>,
 }
 
 impl Default for PredictOptions {
@@ -80,6 +93,8 @@ impl Default for PredictOptions {
         PredictOptions {
             band_limit: BAND_WINDOW,
             moment_300k: true,
+            band_analysis: true,
+            charge_transfer_onset: None,
         }
     }
 }
@@ -142,40 +157,60 @@ pub fn term_l(term: &str) -> Option<usize> {
 }
 
 fn spin_bands(
+    calc: &crate::engine::Calculation,
     spectrum: &Spectrum,
     two_s: i32,
     delta: f64,
-    limit: f64,
+    options: &PredictOptions,
     geometry: crate::engine::Geometry,
-) -> Option<SpinBands> {
-    let lowest = spectrum.lowest_of_spin(two_s)?;
+) -> Result<Option<SpinBands>> {
+    use crate::spectra::transitions::{jumps, manifold, TransitionKey};
+    let Some(lowest) = spectrum.lowest_of_spin(two_s) else {
+        return Ok(None);
+    };
     let all: Vec<&Level> = spectrum
         .levels
         .iter()
         .filter(|l| l.two_s == two_s && l.energy > lowest.energy + 1e-6)
         .collect();
+    let analysed: Vec<(TransitionKey, crate::spectra::transitions::Jump)> =
+        match (options.band_analysis, manifold(spectrum, two_s)) {
+            (true, Some(m)) => {
+                let j = jumps(calc, geometry, spectrum, &m)?;
+                m.transitions.iter().map(|t| t.key.clone()).zip(j).collect()
+            }
+            _ => Vec::new(),
+        };
+    let onset = options
+        .charge_transfer_onset
+        .unwrap_or(crate::spectra::count::CHARGE_TRANSFER_ONSET);
     let bands: Vec<Band> = all
         .iter()
-        .filter(|l| l.energy - lowest.energy <= limit)
+        .filter(|l| l.energy - lowest.energy <= options.band_limit)
         .map(|l| {
             let energy = l.energy - lowest.energy;
+            let key = TransitionKey::of(l);
+            let jump = analysed.iter().find(|(k, _)| *k == key).map(|(_, j)| *j);
+            let weak = jump.is_some_and(|j| j.weak);
             Band {
                 to: l.label(),
                 to_parent: l.parent.clone(),
                 energy,
                 wavelength_nm: 1e7 / energy,
-                intensity: crate::spectra::transitions::intensity(geometry, true, false),
+                intensity: crate::spectra::transitions::intensity(geometry, true, weak),
+                jump,
+                may_be_hidden: energy > onset,
             }
         })
         .collect();
-    Some(SpinBands {
+    Ok(Some(SpinBands {
         two_s,
         from: lowest.label(),
         from_energy: lowest.energy,
         omitted: all.len() - bands.len(),
         bands,
         delta,
-    })
+    }))
 }
 
 /// Predicts the spin state of a resolved complex (bands up to [`BAND_WINDOW`]).
@@ -292,20 +327,21 @@ pub fn predict_with(complex: &ResolvedComplex, options: PredictOptions) -> Resul
             None
         }
     };
-    let limit = options.band_limit;
     let hs_delta = complex.delta_high_spin.value;
+    let hs_calc = complex.calculation_at(hs_delta)?;
     let hs_spectrum = if (hs_delta - complex.delta.value).abs() < 1e-9 {
         spectrum.clone()
     } else {
-        complex.calculation_at(hs_delta)?.levels()?
+        hs_calc.levels()?
     };
     let bands_high_spin = spin_bands(
+        &hs_calc,
         &hs_spectrum,
         cross.high_spin.two_s,
         hs_delta,
-        limit,
+        &options,
         complex.geometry,
-    )
+    )?
     .ok_or_else(|| {
         Error::Computation(format!(
             "no level with 2S = {} in the d{dn} spectrum",
@@ -315,12 +351,20 @@ pub fn predict_with(complex: &ResolvedComplex, options: PredictOptions) -> Resul
     let bands_low_spin = match &cross.low_spin {
         Some(ls) => {
             let ls_delta = complex.delta_low_spin.value;
+            let ls_calc = complex.calculation_at(ls_delta)?;
             let ls_spectrum = if (ls_delta - complex.delta.value).abs() < 1e-9 {
                 spectrum
             } else {
-                complex.calculation_at(ls_delta)?.levels()?
+                ls_calc.levels()?
             };
-            spin_bands(&ls_spectrum, ls.two_s, ls_delta, limit, complex.geometry)
+            spin_bands(
+                &ls_calc,
+                &ls_spectrum,
+                ls.two_s,
+                ls_delta,
+                &options,
+                complex.geometry,
+            )?
         }
         None => None,
     };

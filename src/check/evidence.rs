@@ -264,7 +264,14 @@ pub fn moment(
 /// fits one state only is moderate evidence. When the count fits both states, Δ and B are fitted
 /// to the positions under each spin assumption ([`crate::spectra::fit`]); a state that alone
 /// reproduces them and stays the ground state at the fitted field gets weak support.
-pub fn bands(input: &BandInput, complex: &ResolvedComplex) -> Result<Evidence> {
+///
+/// Bands above the charge-transfer onset of the complex's ligands (`charge_transfer`, the
+/// lowest applicable row) count as possibly hidden.
+pub fn bands(
+    input: &BandInput,
+    complex: &ResolvedComplex,
+    charge_transfer: &crate::tables::ChargeTransferTable,
+) -> Result<Evidence> {
     if input.maxima.is_empty() {
         return Err(Error::invalid(
             "bands",
@@ -292,6 +299,7 @@ pub fn bands(input: &BandInput, complex: &ResolvedComplex) -> Result<Evidence> {
         window_nm: input.window_nm,
         resolution: input.resolution,
         observed: Some(inside),
+        charge_transfer: crate::spectra::count::charge_transfer_limit(charge_transfer, complex),
     })?;
     let predicted = count
         .spin_states
@@ -441,6 +449,7 @@ fn position_fit(
         fixed_b: None,
         patience: None,
         b0: complex.ion.b0,
+        forbidden: Vec::new(),
     };
     match fit_bands(&req) {
         Ok(outcome) => {

@@ -333,6 +333,7 @@ pub fn check(
         &complex,
         PredictOptions {
             moment_300k: false,
+            band_analysis: false,
             ..PredictOptions::default()
         },
     )
@@ -346,7 +347,10 @@ pub fn check(
             .push(evidence::moment(m, &complex, tables.moment_ranges).map_err(at(Part::Moment))?);
     }
     if let Some(b) = &input.bands {
-        evidence.push(evidence::bands(b, &complex).map_err(at(Part::Bands))?);
+        evidence.push(
+            evidence::bands(b, &complex, &tables.chemistry.charge_transfer)
+                .map_err(at(Part::Bands))?,
+        );
     }
     if let Some(b) = &input.bond_length {
         evidence.push(

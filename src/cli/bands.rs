@@ -1,11 +1,13 @@
 //! `spinstate bands`: which spin-allowed bands each spin state puts in a spectrometer window.
 
-use super::common::{parse_geometry, ComplexArgs, Format};
+use super::common::{load_tables, parse_geometry, ComplexArgs, Format};
 use super::fit_bands::SAFETY;
 use super::{Failure, Output};
 use spinstate::report::bands::BandsReport;
 use spinstate::report::to_json;
-use spinstate::spectra::count::{count_bands, CountRequest, DEFAULT_RESOLUTION};
+use spinstate::spectra::count::{
+    charge_transfer_limit, count_bands, ChargeTransferLimit, CountRequest, DEFAULT_RESOLUTION,
+};
 use spinstate::spectra::transitions::default_c_over_b;
 
 #[derive(Debug, clap::Args)]
@@ -50,6 +52,10 @@ pub struct Args {
     /// Bands closer than this (cm⁻¹) count as one unresolved band.
     #[arg(long, value_name = "CM-1", default_value_t = DEFAULT_RESOLUTION, allow_hyphen_values = true)]
     pub resolution: f64,
+    /// Charge-transfer onset in cm⁻¹: bands above it count as likely hidden (default: the
+    /// lowest charge_transfer.csv row of the --ligand list, else about 25000).
+    #[arg(long, value_name = "CM-1", allow_hyphen_values = true)]
+    pub ct_onset: Option<f64>,
     /// Number of d–d bands observed: says whether it supports high spin, low spin, both or
     /// neither.
     #[arg(long, value_name = "N")]
@@ -133,6 +139,26 @@ pub fn run(args: &Args, data: Option<&std::path::Path>) -> Result<Output, Failur
             args.resolution
         )));
     }
+    let charge_transfer = match (args.ct_onset, &complex) {
+        (Some(x), _) => {
+            if !(x.is_finite() && x > 0.0) {
+                return Err(Failure::usage(format!(
+                    "--ct-onset {x} must be a wavenumber > 0 cm⁻¹"
+                )));
+            }
+            Some(ChargeTransferLimit {
+                onset: x,
+                kind: "charge-transfer".into(),
+                ligand: "the sample".into(),
+                source: "given with --ct-onset".into(),
+            })
+        }
+        (None, Some(cx)) => {
+            let tables = load_tables(data)?;
+            charge_transfer_limit(&tables.charge_transfer, cx)
+        }
+        (None, None) => None,
+    };
     let req = CountRequest {
         dn,
         geometry,
@@ -142,6 +168,7 @@ pub fn run(args: &Args, data: Option<&std::path::Path>) -> Result<Output, Failur
         window_nm: parse_window(&args.window)?,
         resolution: args.resolution,
         observed: args.observed,
+        charge_transfer,
     };
     let report = BandsReport::new(&count_bands(&req)?);
     Ok(Output::text(if args.format.json {

@@ -4,7 +4,7 @@ use super::common::{load_tables, parse_geometry, Format};
 use super::{Failure, Output};
 use spinstate::report::fit_bands::{Context, FitBandsReport};
 use spinstate::report::to_json;
-use spinstate::spectra::fit::{crossover_position, fit_bands, FitRequest};
+use spinstate::spectra::fit::{crossover_position, fit_bands, FitRequest, ForbiddenBand};
 use spinstate::spectra::units::parse_bands;
 use spinstate::spectra::{EnergyUnit, SpinChoice};
 use std::path::Path;
@@ -30,6 +30,12 @@ pub struct Args {
     /// Observed d–d band maxima, comma-separated, in --units (e.g. 17400,24600,37800).
     #[arg(long, value_name = "LIST", allow_hyphen_values = true)]
     pub bands: String,
+    /// Assigned spin-forbidden bands, comma-separated, in --units, each optionally with its
+    /// upper level after a colon (e.g. 14900:2Eg; a bare multiplicity such as 14900:2 takes
+    /// the lowest level of that spin, no label the spin next below). Each is fitted to that
+    /// level and C becomes a free parameter.
+    #[arg(long, value_name = "LIST", allow_hyphen_values = true)]
+    pub forbidden: Option<String>,
     /// Unit of --bands: cm-1, nm, kK or eV.
     #[arg(long, value_name = "UNIT", default_value = "cm-1")]
     pub units: String,
@@ -100,6 +106,10 @@ pub fn run(args: &Args, data: Option<&Path>) -> Result<Output, Failure> {
         .map_err(|e| Failure::usage(format!("--spin: {e}")))?;
     let bands =
         parse_bands(&args.bands, unit).map_err(|e| Failure::usage(format!("--bands: {e}")))?;
+    let forbidden = match &args.forbidden {
+        Some(list) => parse_forbidden(list, unit)?,
+        None => Vec::new(),
+    };
     if let Some(b0) = args.b0 {
         if !(b0.is_finite() && b0 > 0.0) {
             return Err(Failure::usage(format!(
@@ -117,6 +127,7 @@ pub fn run(args: &Args, data: Option<&Path>) -> Result<Output, Failure> {
         fixed_b: args.b,
         patience: Some(args.max_evaluations),
         b0: args.b0.or(ion.and_then(|i| i.b0)),
+        forbidden,
     };
     if args.max_evaluations == 0 {
         return Err(Failure::usage("--max-evaluations 0 must be at least 1"));
@@ -169,4 +180,36 @@ pub fn run(args: &Args, data: Option<&Path>) -> Result<Output, Failure> {
     } else {
         report.to_table()
     }))
+}
+
+/// Parses --forbidden: "14900:2Eg,15200" with positions in `unit`.
+fn parse_forbidden(list: &str, unit: EnergyUnit) -> Result<Vec<ForbiddenBand>, Failure> {
+    let bad = |item: &str, why: String| {
+        Failure::usage(format!(
+            "--forbidden '{item}': {why}; accepted: positions in --units, each optionally with its upper level, e.g. 14900:2Eg,15200:2 or 14900"
+        ))
+    };
+    let mut out = Vec::new();
+    for item in list.split(',').map(str::trim) {
+        if item.is_empty() {
+            return Err(bad(list, "an empty entry".into()));
+        }
+        let (pos, label) = match item.split_once(':') {
+            Some((p, l)) => (p.trim(), Some(l.trim())),
+            None => (item, None),
+        };
+        let cm = parse_bands(pos, unit).map_err(|e| bad(item, e.to_string()))?;
+        let [position] = cm.as_slice() else {
+            return Err(bad(item, "one position per entry".into()));
+        };
+        let text = match label {
+            Some(l) => format!("{position}:{l}"),
+            None => format!("{position}"),
+        };
+        out.push(
+            text.parse::<ForbiddenBand>()
+                .map_err(|e| bad(item, e.to_string()))?,
+        );
+    }
+    Ok(out)
 }

@@ -69,16 +69,36 @@ impl Args {
 pub fn run(args: &Args, data: Option<&Path>) -> Result<Output, Failure> {
     let tables = load_tables(data)?;
     let complex = args.spec()?.resolve(&tables)?;
-    let options = if args.all {
-        PredictOptions {
-            band_limit: f64::INFINITY,
-            ..PredictOptions::default()
-        }
-    } else {
-        PredictOptions::default()
+    let charge_transfer =
+        spinstate::spectra::count::charge_transfer_limit(&tables.charge_transfer, &complex);
+    let options = PredictOptions {
+        band_limit: if args.all {
+            f64::INFINITY
+        } else {
+            spinstate::predict::BAND_WINDOW
+        },
+        charge_transfer_onset: charge_transfer.as_ref().map(|c| c.onset),
+        ..PredictOptions::default()
     };
     let prediction = predict_with(&complex, options)?;
-    let report = PredictReport::new(&prediction).with_reported(complex.reported(&tables));
+    let mut report = PredictReport::new(&prediction).with_reported(complex.reported(&tables));
+    report.charge_transfer_onset = Some(
+        charge_transfer
+            .as_ref()
+            .map_or(spinstate::spectra::count::CHARGE_TRANSFER_ONSET, |c| {
+                c.onset
+            }),
+    );
+    report.notes.push(match &charge_transfer {
+        Some(c) => format!(
+            "bands above {:.0} cm⁻¹ are likely hidden by {} of {} ({})",
+            c.onset, c.kind, c.ligand, c.source
+        ),
+        None => format!(
+            "bands above about {:.0} cm⁻¹ may be hidden by charge transfer (common practice; no ligand-specific row in charge_transfer.csv)",
+            spinstate::spectra::count::CHARGE_TRANSFER_ONSET
+        ),
+    });
     Ok(Output::text(if args.format.json {
         to_json(&report)
     } else {

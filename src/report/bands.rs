@@ -18,9 +18,13 @@ pub struct BandRow {
     pub wavelength_nm: f64,
     pub in_window: bool,
     pub electrons_moved: Option<u32>,
-    /// Not a one-electron jump: expected weak.
+    /// One-electron fraction below 0.1 (or a spin-forbidden band): expected weak.
     pub weak: bool,
-    /// Above ≈25 000 cm⁻¹: charge transfer may hide it.
+    /// Share of the band that is a one-electron jump at this field (0–1), null if not computed.
+    pub one_electron_fraction: Option<f64>,
+    /// "strong", "weak" or "faint" (faint bands are not counted).
+    pub visibility: String,
+    /// Above the charge-transfer onset (`charge_transfer_onset`): charge transfer may hide it.
     pub may_be_hidden: bool,
     /// Touches an E term: a Jahn–Teller shoulder is possible.
     pub jahn_teller: bool,
@@ -42,8 +46,14 @@ pub struct MergedRow {
     pub wavelength_nm: f64,
     pub members: Vec<String>,
     pub weak: bool,
+    /// Visibility of the most visible member: "strong", "weak" or "faint".
+    pub visibility: String,
+    /// Largest one-electron fraction among the members (0–1).
+    pub one_electron_fraction: f64,
     pub may_be_hidden: bool,
     pub jahn_teller: bool,
+    /// Counted in `max_expected`.
+    pub counted: bool,
 }
 
 /// The bands of one spin state.
@@ -62,6 +72,8 @@ pub struct SpinRow {
     pub merged: Vec<MergedRow>,
     pub min_expected: usize,
     pub max_expected: usize,
+    /// Indices into `merged`, most visible first, weakest last.
+    pub ranked: Vec<usize>,
     /// The observed count lies in min..=max (null without --observed).
     pub supports_observed: Option<bool>,
 }
@@ -90,6 +102,11 @@ pub struct BandsReport {
     /// "high spin", "low spin", "both", "neither", … (null without --observed).
     pub verdict: Option<String>,
     pub notes: Vec<String>,
+    /// Charge-transfer onset used (cm⁻¹).
+    pub charge_transfer_onset: f64,
+    /// "LMCT" or "MLCT" and the ligand that sets the onset; null for the generic onset.
+    pub charge_transfer_kind: Option<String>,
+    pub charge_transfer_ligand: Option<String>,
 }
 
 impl BandsReport {
@@ -125,6 +142,8 @@ impl BandsReport {
                             in_window: b.in_window,
                             electrons_moved: b.electrons_moved,
                             weak: b.weak,
+                            one_electron_fraction: b.one_electron,
+                            visibility: b.visibility.name().to_string(),
                             may_be_hidden: b.may_be_hidden,
                             jahn_teller: b.jahn_teller,
                             merged_into: b.merged_into,
@@ -140,18 +159,25 @@ impl BandsReport {
                             wavelength_nm: 1e7 / m.position,
                             members: m.members.clone(),
                             weak: m.weak,
+                            visibility: m.visibility.name().to_string(),
+                            one_electron_fraction: m.one_electron,
                             may_be_hidden: m.may_be_hidden,
                             jahn_teller: m.jahn_teller,
+                            counted: m.counted,
                         })
                         .collect(),
                     min_expected: s.min_expected,
                     max_expected: s.max_expected,
+                    ranked: s.ranked.clone(),
                     supports_observed: s.supports,
                 })
                 .collect(),
             observed: r.observed,
             verdict: r.verdict.as_ref().map(|v| v.text.clone()),
             notes: r.notes.clone(),
+            charge_transfer_onset: r.charge_transfer_onset,
+            charge_transfer_kind: r.charge_transfer.as_ref().map(|c| c.kind.clone()),
+            charge_transfer_ligand: r.charge_transfer.as_ref().map(|c| c.ligand.clone()),
         }
     }
 
@@ -196,6 +222,7 @@ impl BandsReport {
                 "λ (nm)",
                 "in window",
                 "jump",
+                "1-electron share",
                 "typical ε (M⁻¹ cm⁻¹)",
                 "band #",
                 "remarks",
@@ -214,6 +241,9 @@ impl BandsReport {
                     fmt_num(b.wavelength_nm, 0),
                     if b.in_window { "yes" } else { "no" }.to_string(),
                     jump_text(b.electrons_moved, b.weak),
+                    b.one_electron_fraction
+                        .map(|f| format!("{:.0} % ({})", 100.0 * f, b.visibility))
+                        .unwrap_or_else(|| "—".into()),
                     format!(
                         "{}–{}{}",
                         fmt_num(b.epsilon_range.0, 2),
@@ -231,6 +261,27 @@ impl BandsReport {
                 ]);
             }
             s.push_str(&format!("{t}\n"));
+            if !sp.ranked.is_empty() {
+                let list: Vec<String> = sp
+                    .ranked
+                    .iter()
+                    .map(|&g| {
+                        let m = &sp.merged[g];
+                        let mut tag = m.visibility.clone();
+                        if m.may_be_hidden {
+                            tag.push_str(", above CT onset");
+                        }
+                        if !m.counted {
+                            tag.push_str(", not counted");
+                        }
+                        format!("{} cm⁻¹ ({tag})", fmt_num(m.position, 0))
+                    })
+                    .collect();
+                s.push_str(&format!(
+                    "what the window should show, most visible first: {}\n",
+                    list.join("; ")
+                ));
+            }
             s.push_str(&format!(
                 "expected: {} to {} band(s) in the window",
                 sp.min_expected, sp.max_expected

@@ -151,6 +151,9 @@ pub struct FitBandsReport {
     pub assignment: Vec<AssignmentRow>,
     /// Observed − calculated per band (cm⁻¹), same order as `assignment`.
     pub residuals: Vec<f64>,
+    /// Spin-forbidden bands given with --forbidden, fitted to the lowest level of their
+    /// multiplicity (cm⁻¹), in input order; empty without them.
+    pub forbidden: Vec<AssignmentRow>,
     /// Transitions not observed (cm⁻¹).
     pub predicted: Vec<PredictedRow>,
     pub spin_check: SpinCheckRow,
@@ -288,6 +291,21 @@ impl FitBandsReport {
                 })
                 .collect(),
             residuals: f.assigned.iter().map(|a| a.residual).collect(),
+            forbidden: f
+                .forbidden
+                .iter()
+                .map(|a| AssignmentRow {
+                    observed: a.observed,
+                    observed_in_unit: unit.from_wavenumber(a.observed),
+                    transition: arrow(&f.reference, &a.transition.label),
+                    label: a.transition.label.clone(),
+                    parent: a.transition.parent.clone(),
+                    calculated: a.transition.energy,
+                    residual: a.residual,
+                    electrons_moved: None,
+                    weak: true,
+                })
+                .collect(),
             predicted: f
                 .predicted
                 .iter()
@@ -424,6 +442,15 @@ impl FitBandsReport {
                 fmt_num(a.calculated, 0),
                 fmt_residual(a.residual),
                 jump_text(a.electrons_moved, a.weak),
+            ]);
+        }
+        for a in &self.forbidden {
+            t.add_row(vec![
+                fmt_num(a.observed, 0),
+                a.transition.clone(),
+                fmt_num(a.calculated, 0),
+                fmt_residual(a.residual),
+                "spin-forbidden (marked)".to_string(),
             ]);
         }
         s.push_str(&format!("{t}\n"));

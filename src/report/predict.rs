@@ -108,6 +108,16 @@ pub struct BandRow {
     pub intensity: String,
     /// Typical molar absorptivity range ε (M⁻¹ cm⁻¹).
     pub epsilon_range: (f64, f64),
+    /// Electrons changing orbital set between the strong-field parents (1 = one-electron
+    /// jump); null when not determined.
+    pub electrons_moved: Option<u32>,
+    /// Share of the band that is a one-electron jump at this field (0–1); null when not
+    /// computed.
+    pub one_electron_fraction: Option<f64>,
+    /// One-electron fraction below 0.1: expected weak.
+    pub weak: bool,
+    /// Above the charge-transfer onset (`charge_transfer_onset`): likely hidden.
+    pub may_be_hidden: bool,
 }
 
 /// The spin-allowed bands of one spin state.
@@ -147,6 +157,10 @@ impl From<&SpinBands> for BandSet {
                     wavelength_nm: b.wavelength_nm,
                     intensity: b.intensity.class.to_string(),
                     epsilon_range: b.intensity.epsilon,
+                    electrons_moved: b.jump.and_then(|j| j.electrons),
+                    one_electron_fraction: b.jump.and_then(|j| j.one_electron),
+                    weak: b.jump.is_some_and(|j| j.weak),
+                    may_be_hidden: b.may_be_hidden,
                 })
                 .collect(),
         }
@@ -288,6 +302,9 @@ pub struct PredictReport {
     /// reported_spin_states.csv); `spin_state` and `unpaired` above are always the model's own.
     pub reported: Option<ReportedRow>,
     pub notes: Vec<String>,
+    /// Charge-transfer onset (cm⁻¹) above which bands are flagged `may_be_hidden`; null when
+    /// the report was built without one.
+    pub charge_transfer_onset: Option<f64>,
     /// Handling cautions; the tool's output is never a safety approval.
     pub cautions: Vec<String>,
 }
@@ -389,6 +406,7 @@ impl PredictReport {
             bands_low_spin: p.bands_low_spin.as_ref().map(Into::into),
             reported: None,
             notes: p.notes.clone(),
+            charge_transfer_onset: None,
             cautions,
         }
     }
@@ -540,13 +558,34 @@ impl PredictReport {
                 }
             ));
             if set.count > 0 {
-                let mut t = new_table(["to", "parent", "energy (cm⁻¹)", "λ (nm)"]);
+                let mut t = new_table([
+                    "to",
+                    "parent",
+                    "energy (cm⁻¹)",
+                    "λ (nm)",
+                    "jump",
+                    "1-electron share",
+                    "remarks",
+                ]);
                 for b in &set.bands {
                     t.add_row(vec![
                         b.to.clone(),
                         b.to_parent.clone(),
                         fmt_num(b.energy, 0),
                         fmt_num(b.wavelength_nm, 0),
+                        b.electrons_moved
+                            .map(|k| format!("{k}-electron"))
+                            .unwrap_or_else(|| "?".into()),
+                        b.one_electron_fraction
+                            .map(|f| format!("{:.0} %", 100.0 * f))
+                            .unwrap_or_else(|| "—".into()),
+                        match (b.weak, b.may_be_hidden) {
+                            (true, true) => "weak; CT likely hides it",
+                            (true, false) => "weak",
+                            (false, true) => "CT likely hides it",
+                            (false, false) => "",
+                        }
+                        .to_string(),
                     ]);
                 }
                 out.push_str(&format!("{t}\n"));

@@ -1,23 +1,28 @@
-//! Band-count check: which spin-allowed d–d bands each possible spin state puts inside a
-//! spectrometer window, which of them are likely to merge or be weak, and whether an observed
+//! Band-count check: which d–d bands each possible spin state puts inside a spectrometer
+//! window, which of them are likely to merge, be weak or be hidden, and whether an observed
 //! number of bands fits high spin, low spin, both or neither.
 //!
 //! Rules used (documented here because they decide the verdict):
 //! - Bands closer than the resolution merge into one likely unresolved band (single linkage).
-//! - A band is weak when it is not a one-electron jump in the strong-field limit and cannot
-//!   borrow intensity from a one-electron level of the same symmetry (rule of
-//!   [`super::transitions::jumps`]).
-//! - Charge-transfer absorption can hide d–d bands above about 25 000 cm⁻¹ (common practice), so
-//!   bands there may be missing.
+//! - A band's strength follows its one-electron fraction at the actual field
+//!   ([`super::transitions::jumps`]): strong from [`WEAK_FRACTION`] up, weak below it, and
+//!   faint (not counted) below [`FAINT_FRACTION`]. The spin-forbidden quartets of high-spin d⁵
+//!   are all weak but counted: they are the whole spectrum of such ions.
+//! - Charge-transfer absorption hides d–d bands above its onset: the ligand's row of
+//!   `charge_transfer.csv` when the request names one, otherwise about 25 000 cm⁻¹ (common
+//!   practice). A strong band above the onset may still show as a shoulder; a weak one is not
+//!   counted.
 //! - Jahn–Teller splitting can add a shoulder to a band whose lower or upper level is an E term
 //!   (cubic groups only).
 //!
-//! The fewest bands a spin state should show are its merged, not-weak bands inside the window
-//! and below 25 000 cm⁻¹; the most are all its merged bands inside the window plus one shoulder
-//! per band touching an E term.
+//! The fewest bands a spin state should show are its merged strong bands inside the window and
+//! below the onset; the most are those plus its strong bands above the onset and its weak (not
+//! faint) bands below it, plus one shoulder per counted band touching an E term. `ranked` lists
+//! the merged bands most visible first, weakest last.
 
 use super::transitions::{
     band_manifold, calculation, intensity, jumps, spin_states, Intensity, SpinState, Transition,
+    WEAK_FRACTION,
 };
 use crate::engine::{Geometry, PointGroup};
 use crate::error::{require_finite, Error, Result};
@@ -26,8 +31,76 @@ use crate::error::{require_finite, Error, Result};
 pub const DEFAULT_WINDOW_NM: (f64, f64) = (200.0, 1100.0);
 /// Default resolution (cm⁻¹) below which two bands are taken as one.
 pub const DEFAULT_RESOLUTION: f64 = 1500.0;
-/// Above about this wavenumber (cm⁻¹) charge-transfer bands can hide d–d bands (common practice).
+/// Above about this wavenumber (cm⁻¹) charge-transfer bands can hide d–d bands (common
+/// practice), when no ligand-specific onset is known.
 pub const CHARGE_TRANSFER_ONSET: f64 = 25_000.0;
+
+/// Below this one-electron fraction a spin-allowed band is faint (a nominal two-electron jump
+/// with almost no one-electron admixture, ≳ 30 times weaker than a one-electron band) and is not
+/// counted: this tool's choice, below the weak ⁴A₂g of [Co(H₂O)₆]²⁺ (≈ 7 %, seen as a shoulder;
+/// A. B. P. Lever, Inorganic Electronic Spectroscopy, 2nd ed., 1984, from memory) and above the
+/// higher singlets of low-spin d⁶ (≤ 2 % below 45 000 cm⁻¹ in [Co(NH₃)₆]³⁺).
+pub const FAINT_FRACTION: f64 = 0.03;
+
+/// A ligand-specific charge-transfer onset.
+#[derive(Debug, Clone, PartialEq)]
+pub struct ChargeTransferLimit {
+    /// Onset (cm⁻¹).
+    pub onset: f64,
+    /// "LMCT" or "MLCT".
+    pub kind: String,
+    /// The ligand that sets it.
+    pub ligand: String,
+    pub source: String,
+}
+
+impl From<&crate::tables::ChargeTransferOnset> for ChargeTransferLimit {
+    fn from(r: &crate::tables::ChargeTransferOnset) -> Self {
+        ChargeTransferLimit {
+            onset: r.onset,
+            kind: r.kind.name().to_string(),
+            ligand: r.ligand.clone(),
+            source: r.source.clone(),
+        }
+    }
+}
+
+/// The lowest charge-transfer onset of a complex's ligands on its metal, from the table; None
+/// when no row applies.
+pub fn charge_transfer_limit(
+    table: &crate::tables::ChargeTransferTable,
+    complex: &crate::complex::ResolvedComplex,
+) -> Option<ChargeTransferLimit> {
+    table
+        .onset(
+            complex.ligands.iter().map(|l| l.ligand.name.as_str()),
+            &complex.ion.symbol,
+            complex.ion.oxidation_state,
+        )
+        .map(ChargeTransferLimit::from)
+}
+
+/// How visible a band is expected to be.
+#[derive(Debug, Clone, Copy, PartialEq, Eq, PartialOrd, Ord)]
+pub enum Visibility {
+    /// A one-electron band, or one that borrows enough (fraction ≥ [`WEAK_FRACTION`]).
+    Strong,
+    /// Weak but countable: fraction in [`FAINT_FRACTION`]..[`WEAK_FRACTION`], or a
+    /// spin-forbidden band of a state with no spin-allowed ones.
+    Weak,
+    /// Not counted: fraction below [`FAINT_FRACTION`].
+    Faint,
+}
+
+impl Visibility {
+    pub fn name(self) -> &'static str {
+        match self {
+            Visibility::Strong => "strong",
+            Visibility::Weak => "weak",
+            Visibility::Faint => "faint",
+        }
+    }
+}
 
 /// What to check.
 #[derive(Debug, Clone)]
@@ -46,6 +119,8 @@ pub struct CountRequest {
     pub resolution: f64,
     /// Number of d–d bands observed, if known.
     pub observed: Option<usize>,
+    /// Ligand-specific charge-transfer onset; None uses [`CHARGE_TRANSFER_ONSET`].
+    pub charge_transfer: Option<ChargeTransferLimit>,
 }
 
 /// One spin-allowed transition in the check.
@@ -57,7 +132,10 @@ pub struct CountedBand {
     pub in_window: bool,
     /// Expected weak (see [`super::transitions::jumps`]).
     pub weak: bool,
-    /// Above [`CHARGE_TRANSFER_ONSET`]: may be hidden by charge transfer.
+    /// Share of the band that is a one-electron jump at the actual field.
+    pub one_electron: Option<f64>,
+    pub visibility: Visibility,
+    /// Above the charge-transfer onset: may be hidden by charge transfer.
     pub may_be_hidden: bool,
     /// The lower or upper level is an E term: a Jahn–Teller shoulder is possible.
     pub jahn_teller: bool,
@@ -76,8 +154,14 @@ pub struct MergedBand {
     pub members: Vec<String>,
     /// Every member is weak.
     pub weak: bool,
+    /// The most visible member's visibility.
+    pub visibility: Visibility,
+    /// Largest one-electron fraction of the members (0 when none is known).
+    pub one_electron: f64,
     pub may_be_hidden: bool,
     pub jahn_teller: bool,
+    /// Counted in `max_expected`.
+    pub counted: bool,
 }
 
 /// The bands of one spin state.
@@ -96,6 +180,10 @@ pub struct SpinBands {
     pub min_expected: usize,
     /// Most bands expected.
     pub max_expected: usize,
+    /// Indices into `merged`, most visible first and weakest last: strong bands below the
+    /// onset, then weak ones, then those above the onset, then faint ones, each by decreasing
+    /// one-electron fraction.
+    pub ranked: Vec<usize>,
     /// Whether the observed count lies in min..=max, when a count was given.
     pub supports: Option<bool>,
 }
@@ -124,6 +212,10 @@ pub struct BandCount {
     pub observed: Option<usize>,
     pub verdict: Option<Verdict>,
     pub notes: Vec<String>,
+    /// The charge-transfer onset used (cm⁻¹).
+    pub charge_transfer_onset: f64,
+    /// Where it comes from, when ligand-specific.
+    pub charge_transfer: Option<ChargeTransferLimit>,
 }
 
 fn check_inputs(req: &CountRequest) -> Result<()> {
@@ -151,6 +243,16 @@ fn check_inputs(req: &CountRequest) -> Result<()> {
     if req.resolution < 0.0 {
         return Err(Error::invalid("resolution", req.resolution, "≥ 0 cm⁻¹"));
     }
+    if let Some(ct) = &req.charge_transfer {
+        require_finite("charge-transfer onset", ct.onset)?;
+        if ct.onset <= 0.0 {
+            return Err(Error::invalid(
+                "charge-transfer onset",
+                ct.onset,
+                "a wavenumber > 0 cm⁻¹",
+            ));
+        }
+    }
     Ok(())
 }
 
@@ -169,6 +271,11 @@ pub fn count_bands(req: &CountRequest) -> Result<BandCount> {
         ));
     }
     let window_cm = (1e7 / req.window_nm.1, 1e7 / req.window_nm.0);
+    let onset = req
+        .charge_transfer
+        .as_ref()
+        .map(|c| c.onset)
+        .unwrap_or(CHARGE_TRANSFER_ONSET);
     let cubic = matches!(calc.group, PointGroup::Oh | PointGroup::Td);
     let ground_two_s = spectrum.ground().two_s;
     let mut out = Vec::new();
@@ -179,21 +286,35 @@ pub fn count_bands(req: &CountRequest) -> Result<BandCount> {
             continue;
         };
         let forbidden = m.upper_two_s != m.two_s;
-        let band_jumps = jumps(req.dn, req.geometry, req.b, req.c, &m)?;
+        let band_jumps = jumps(&calc, req.geometry, &spectrum, &m)?;
         let ground_e = cubic && m.reference.irrep.starts_with('E');
         let mut bands: Vec<CountedBand> = m
             .transitions
             .iter()
             .enumerate()
-            .map(|(i, t)| CountedBand {
-                transition: t.clone(),
-                electrons_moved: band_jumps[i].electrons,
-                in_window: (window_cm.0..=window_cm.1).contains(&t.energy),
-                weak: band_jumps[i].weak || forbidden,
-                may_be_hidden: t.energy > CHARGE_TRANSFER_ONSET,
-                jahn_teller: ground_e || (cubic && t.key.irrep.starts_with('E')),
-                merged_into: None,
-                intensity: intensity(req.geometry, !forbidden, band_jumps[i].weak),
+            .map(|(i, t)| {
+                let j = band_jumps[i];
+                let visibility = if forbidden {
+                    Visibility::Weak
+                } else {
+                    match j.one_electron {
+                        Some(f) if f < FAINT_FRACTION => Visibility::Faint,
+                        Some(f) if f < WEAK_FRACTION => Visibility::Weak,
+                        _ => Visibility::Strong,
+                    }
+                };
+                CountedBand {
+                    transition: t.clone(),
+                    electrons_moved: j.electrons,
+                    in_window: (window_cm.0..=window_cm.1).contains(&t.energy),
+                    weak: j.weak || forbidden,
+                    one_electron: j.one_electron,
+                    visibility,
+                    may_be_hidden: t.energy > onset,
+                    jahn_teller: ground_e || (cubic && t.key.irrep.starts_with('E')),
+                    merged_into: None,
+                    intensity: intensity(req.geometry, !forbidden, j.weak),
+                }
             })
             .collect();
         // Merge neighbours inside the window (bands are sorted by energy).
@@ -207,8 +328,11 @@ pub fn count_bands(req: &CountRequest) -> Result<BandCount> {
                     position: e,
                     members: Vec::new(),
                     weak: true,
+                    visibility: Visibility::Faint,
+                    one_electron: 0.0,
                     may_be_hidden: true,
                     jahn_teller: false,
+                    counted: false,
                 });
                 sums.push((0.0, 0));
             }
@@ -216,6 +340,8 @@ pub fn count_bands(req: &CountRequest) -> Result<BandCount> {
             let group = &mut merged[g];
             group.members.push(band.transition.label.clone());
             group.weak &= band.weak;
+            group.visibility = group.visibility.min(band.visibility);
+            group.one_electron = group.one_electron.max(band.one_electron.unwrap_or(0.0));
             group.jahn_teller |= band.jahn_teller;
             sums[g].0 += e;
             sums[g].1 += 1;
@@ -224,13 +350,33 @@ pub fn count_bands(req: &CountRequest) -> Result<BandCount> {
         }
         for (g, (sum, count)) in merged.iter_mut().zip(&sums) {
             g.position = sum / *count as f64;
-            g.may_be_hidden = g.position > CHARGE_TRANSFER_ONSET;
+            g.may_be_hidden = g.position > onset;
+            g.counted = match g.visibility {
+                Visibility::Strong => true,
+                Visibility::Weak => !g.may_be_hidden,
+                Visibility::Faint => false,
+            };
         }
         let min_expected = merged
             .iter()
-            .filter(|g| !g.weak && !g.may_be_hidden)
+            .filter(|g| g.visibility == Visibility::Strong && !g.may_be_hidden)
             .count();
-        let max_expected = merged.len() + merged.iter().filter(|g| g.jahn_teller).count();
+        let max_expected = merged.iter().filter(|g| g.counted).count()
+            + merged.iter().filter(|g| g.counted && g.jahn_teller).count();
+        let mut ranked: Vec<usize> = (0..merged.len()).collect();
+        let tier = |g: &MergedBand| match (g.visibility, g.may_be_hidden) {
+            (Visibility::Strong, false) => 0,
+            (Visibility::Weak, false) => 1,
+            (Visibility::Strong, true) => 2,
+            (Visibility::Weak, true) => 3,
+            (Visibility::Faint, _) => 4,
+        };
+        ranked.sort_by(|&a, &b| {
+            tier(&merged[a])
+                .cmp(&tier(&merged[b]))
+                .then(merged[b].one_electron.total_cmp(&merged[a].one_electron))
+                .then(a.cmp(&b))
+        });
         any_jt |= merged.iter().any(|g| g.jahn_teller);
         if forbidden {
             notes.push(format!(
@@ -251,11 +397,27 @@ pub fn count_bands(req: &CountRequest) -> Result<BandCount> {
             merged,
             min_expected,
             max_expected,
+            ranked,
         });
     }
+    match &req.charge_transfer {
+        Some(ct) => notes.push(format!(
+            "{} bands of {} can hide d–d bands above about {:.0} cm⁻¹ ({:.0} nm) ({}); such bands are counted as possibly missing",
+            ct.kind,
+            ct.ligand,
+            ct.onset,
+            1e7 / ct.onset,
+            ct.source
+        )),
+        None => notes.push(format!(
+            "charge-transfer bands can hide d–d bands above about {CHARGE_TRANSFER_ONSET:.0} cm⁻¹ ({:.0} nm) (common practice; name the ligands for a ligand-specific onset); such bands are counted as possibly missing",
+            1e7 / CHARGE_TRANSFER_ONSET
+        )),
+    }
     notes.push(format!(
-        "charge-transfer bands can hide d–d bands above about {CHARGE_TRANSFER_ONSET:.0} cm⁻¹ ({:.0} nm) (common practice); such bands are counted as possibly missing",
-        1e7 / CHARGE_TRANSFER_ONSET
+        "a band is strong when at least {:.0} % of it is a one-electron jump at this field, weak from {:.0} %, and faint (not counted) below that; the fraction comes from the configuration weights of the two levels",
+        100.0 * WEAK_FRACTION,
+        100.0 * FAINT_FRACTION
     ));
     if any_jt {
         notes.push(
@@ -300,6 +462,8 @@ pub fn count_bands(req: &CountRequest) -> Result<BandCount> {
         observed: req.observed,
         verdict,
         notes,
+        charge_transfer_onset: onset,
+        charge_transfer: req.charge_transfer.clone(),
     })
 }
 
@@ -317,6 +481,7 @@ mod tests {
             window_nm: DEFAULT_WINDOW_NM,
             resolution: DEFAULT_RESOLUTION,
             observed,
+            charge_transfer: None,
         }
     }
 
@@ -357,6 +522,78 @@ mod tests {
         assert_eq!(ls.supports, Some(true));
         // The 29 500 band is above 25 000 cm⁻¹, so one observed band is also consistent.
         assert_eq!(ls.min_expected, 1);
+    }
+
+    fn onset(x: f64) -> Option<ChargeTransferLimit> {
+        Some(ChargeTransferLimit {
+            onset: x,
+            kind: "LMCT".into(),
+            ligand: "test".into(),
+            source: "test".into(),
+        })
+    }
+
+    /// Published counts of octahedral d–d bands (A. B. P. Lever, Inorganic Electronic
+    /// Spectroscopy, 2nd ed., 1984; B. N. Figgis, M. A. Hitchman, Ligand Field Theory and its
+    /// Applications, 2000; both from memory): d³ 3; d⁷ high spin 3 with ⁴A₂g weak; d⁸ 3;
+    /// low-spin d⁶ 2; high-spin d⁶ 1 (Jahn–Teller split); high-spin d⁵ none spin-allowed.
+    /// Fields are the fits to the aqua/ammine/cyano band sets of the same sources (Cr(III)
+    /// Dq 1740, B 729; Co(II) 922, 828; Ni(II) 850, 907; [Co(NH₃)₆]³⁺ 2303, 635; [Fe(CN)₆]⁴⁻
+    /// 3300, 450; [Fe(H₂O)₆]²⁺ 1040 with B 750 assumed; [Mn(H₂O)₆]²⁺ 820, 737, C 3500), a
+    /// window of 200–1300 nm, and the charge-transfer onsets of charge_transfer.csv.
+    #[test]
+    fn published_band_counts() {
+        type Case = (&'static str, usize, f64, f64, f64, i32, f64, (usize, usize));
+        let cases: [Case; 7] = [
+            ("[Cr(H2O)6]3+", 3, 1740.0, 728.6, 4.5, 3, 40_000.0, (3, 3)),
+            ("[Co(H2O)6]2+", 7, 921.5, 827.7, 4.633, 3, 40_000.0, (2, 3)),
+            ("[Ni(H2O)6]2+", 8, 850.0, 906.7, 4.709, 2, 40_000.0, (3, 3)),
+            ("[Co(NH3)6]3+", 6, 2303.0, 634.8, 4.8, 0, 45_000.0, (2, 2)),
+            ("[Fe(CN)6]4-", 6, 3300.0, 450.0, 4.8, 0, 40_000.0, (2, 2)),
+            ("[Fe(H2O)6]2+", 6, 1040.0, 750.0, 4.8, 4, 40_000.0, (1, 2)),
+            // No strong band; the four observed quartet bands (18 900–28 000 cm⁻¹) must fit.
+            (
+                "[Mn(H2O)6]2+",
+                5,
+                820.0,
+                737.0,
+                3500.0 / 737.0,
+                5,
+                40_000.0,
+                (0, 4),
+            ),
+        ];
+        for (name, dn, dq, b, r, two_s, ct, (lo, hi)) in cases {
+            let mut req = request(dn, dq, b, r, None);
+            req.window_nm = (200.0, 1300.0);
+            req.charge_transfer = onset(ct);
+            let out = count_bands(&req).unwrap();
+            let s = out
+                .spin_states
+                .iter()
+                .find(|s| s.state.two_s == two_s)
+                .unwrap();
+            assert!(s.is_ground, "{name}");
+            if dn == 5 {
+                assert_eq!(s.min_expected, lo, "{name}");
+                assert!(s.max_expected >= hi, "{name}");
+            } else {
+                assert_eq!((s.min_expected, s.max_expected), (lo, hi), "{name}");
+            }
+        }
+        // The ⁴A₂g of Co(II) is the weak one, and it is listed after the strong bands.
+        let mut req = request(7, 921.5, 827.7, 4.633, None);
+        req.window_nm = (200.0, 1300.0);
+        let out = count_bands(&req).unwrap();
+        let hs = &out.spin_states[0];
+        let a2 = hs
+            .bands
+            .iter()
+            .find(|b| b.transition.label == "4A2g")
+            .unwrap();
+        assert_eq!(a2.visibility, Visibility::Weak);
+        let last = *hs.ranked.last().unwrap();
+        assert!(hs.merged[last].members.contains(&"4A2g".to_string()));
     }
 
     #[test]

@@ -66,6 +66,64 @@ pub struct FitRequest {
     /// Free-ion B₀ (cm⁻¹), when known: a fit with B > B₀ (β > 1) is flagged as unphysical and is
     /// never a near-equal alternative.
     pub b0: Option<f64>,
+    /// Assigned spin-forbidden bands (e.g. the sharp ²Eg of Cr(III)); each is fitted to the
+    /// lowest level of its multiplicity (and irrep, when named), and with any of them C is
+    /// fitted too.
+    pub forbidden: Vec<ForbiddenBand>,
+}
+
+/// An observed spin-forbidden band with its assignment.
+#[derive(Debug, Clone, PartialEq)]
+pub struct ForbiddenBand {
+    /// Observed maximum (cm⁻¹).
+    pub position: f64,
+    /// Multiplicity 2S+1 of the upper level; None: the spin next below the assumed one (next
+    /// above when there is none below).
+    pub multiplicity: Option<i32>,
+    /// Irrep of the upper level ("Eg"); None: the lowest level of that multiplicity.
+    pub irrep: Option<String>,
+}
+
+impl std::str::FromStr for ForbiddenBand {
+    type Err = Error;
+
+    /// "14900" or "14900:2Eg" or "14900:2" (position in cm⁻¹, optional multiplicity and irrep).
+    fn from_str(s: &str) -> Result<Self> {
+        let accepted = "a position in cm⁻¹, optionally with the upper level, e.g. 14900 or 14900:2Eg or 14900:2";
+        let (pos, label) = match s.split_once(':') {
+            Some((p, l)) => (p.trim(), Some(l.trim())),
+            None => (s.trim(), None),
+        };
+        let position: f64 = pos
+            .parse()
+            .ok()
+            .filter(|x: &f64| x.is_finite() && *x > 0.0)
+            .ok_or_else(|| Error::invalid("spin-forbidden band", s, accepted))?;
+        let (multiplicity, irrep) = match label {
+            None => (None, None),
+            Some(l) => {
+                let digits: String = l.chars().take_while(|c| c.is_ascii_digit()).collect();
+                let rest = &l[digits.len()..];
+                let m: i32 = digits
+                    .parse()
+                    .ok()
+                    .filter(|m| (1..=6).contains(m))
+                    .ok_or_else(|| Error::invalid("spin-forbidden band", s, accepted))?;
+                let ok_irrep = rest.is_empty()
+                    || (rest.starts_with(['A', 'B', 'E', 'T'])
+                        && rest.chars().all(|c| c.is_ascii_alphanumeric()));
+                if !ok_irrep {
+                    return Err(Error::invalid("spin-forbidden band", s, accepted));
+                }
+                (Some(m), (!rest.is_empty()).then(|| rest.to_string()))
+            }
+        };
+        Ok(ForbiddenBand {
+            position,
+            multiplicity,
+            irrep,
+        })
+    }
 }
 
 /// Default cap on model evaluations per assignment, × (free parameters + 1).
@@ -164,6 +222,8 @@ pub struct BandFit {
     pub residual_variance: Option<f64>,
     /// Bands in increasing energy with their assignment.
     pub assigned: Vec<AssignedBand>,
+    /// The assigned spin-forbidden bands ([`FitRequest::forbidden`]), in input order.
+    pub forbidden: Vec<AssignedBand>,
     /// Transitions not observed, lowest first (up to 50 000 cm⁻¹ or 5 000 above the highest band).
     pub predicted: Vec<PredictedBand>,
     /// Root-mean-square residual (cm⁻¹).
@@ -269,12 +329,15 @@ impl Spec {
     }
 }
 
-/// The energies of given transitions for one spin at Dq, B, C.
+/// The energies of given transitions for one spin at Dq, B, C: the spin-allowed (or band
+/// manifold) `keys`, then the `forbidden` levels, all measured from the lowest level of spin
+/// `two_s`.
 struct Model<'a> {
     dn: usize,
     geometry: Geometry,
     two_s: i32,
     keys: &'a [TransitionKey],
+    forbidden: &'a [TransitionKey],
 }
 
 impl Model<'_> {
@@ -290,11 +353,42 @@ impl Model<'_> {
     }
 
     fn energies(&self, dq: f64, b: f64, c: f64) -> Option<Vec<f64>> {
-        let m = self.manifold(dq, b, c)?;
+        if self.forbidden.is_empty() {
+            let m = self.manifold(dq, b, c)?;
+            return self
+                .keys
+                .iter()
+                .map(|k| m.get(k).map(|t| t.energy))
+                .collect();
+        }
+        let (m, spectrum) = self.manifold_and_spectrum(dq, b, c)?;
+        let reference = m.reference.find(&spectrum)?.energy;
         self.keys
             .iter()
             .map(|k| m.get(k).map(|t| t.energy))
+            .chain(
+                self.forbidden
+                    .iter()
+                    .map(|k| k.find(&spectrum).map(|l| l.energy - reference)),
+            )
             .collect()
+    }
+
+    fn manifold_and_spectrum(
+        &self,
+        dq: f64,
+        b: f64,
+        c: f64,
+    ) -> Option<(Manifold, crate::engine::Spectrum)> {
+        if !(dq.is_finite() && b.is_finite() && c.is_finite()) || dq <= 0.0 || b <= 0.0 {
+            return None;
+        }
+        let spectrum = calculation(self.dn, self.geometry, dq, b, c)
+            .ok()?
+            .levels()
+            .ok()?;
+        let m = band_manifold(&spectrum, self.two_s)?;
+        Some((m, spectrum))
     }
 }
 
@@ -325,7 +419,7 @@ fn converged(t: &TerminationReason) -> bool {
 /// Jacobian of the energies of `keys` with respect to the natural free parameters (cm⁻¹ per
 /// cm⁻¹), by central differences of relative step 10⁻⁵.
 fn natural_jacobian(model: &Model, spec: &Spec, dq: f64, b: f64, c: f64) -> Option<DMatrix<f64>> {
-    let n = model.keys.len();
+    let n = model.keys.len() + model.forbidden.len();
     let mut j = DMatrix::zeros(n, spec.free.len());
     for (k, p) in spec.free.iter().enumerate() {
         let value = match p {
@@ -408,6 +502,16 @@ pub fn fit_bands(req: &FitRequest) -> Result<FitOutcome> {
         require_finite("band", nu)?;
         if nu <= 0.0 {
             return Err(Error::invalid("band", nu, "a positive position in cm⁻¹"));
+        }
+    }
+    for f in &req.forbidden {
+        require_finite("spin-forbidden band", f.position)?;
+        if f.position <= 0.0 {
+            return Err(Error::invalid(
+                "spin-forbidden band",
+                f.position,
+                "a positive position in cm⁻¹",
+            ));
         }
     }
     if let Some(b) = req.fixed_b {
@@ -497,6 +601,7 @@ pub fn fit_bands(req: &FitRequest) -> Result<FitOutcome> {
     if let Some(a) = best
         .assigned
         .iter()
+        .chain(&best.forbidden)
         .find(|a| a.residual.abs() > FAR_ABSOLUTE.max(FAR_FRACTION * a.observed))
     {
         return Err(Error::invalid(
@@ -661,18 +766,22 @@ fn fit_one_spin(
         .as_ref()
         .is_some_and(|m| m.upper_two_s != m.two_s);
     let widened;
-    let req = if forbidden && n >= 3 && !req.fit_c && req.fixed_b.is_none() {
-        // The quartets of high-spin d⁵ pin B and C separately (⁴A₁g,⁴Eg(G) at 10B + 5C and
-        // ⁴Eg(D) at 17B + 5C in the weak-field limit; A. B. P. Lever, Inorganic Electronic
-        // Spectroscopy, 1984): fit C as well.
-        widened = FitRequest {
-            fit_c: true,
-            ..req.clone()
+    let marked = !req.forbidden.is_empty();
+    let req =
+        if (forbidden && n >= 3 && !req.fit_c && req.fixed_b.is_none()) || (marked && !req.fit_c) {
+            // The quartets of high-spin d⁵ pin B and C separately (⁴A₁g,⁴Eg(G) at 10B + 5C and
+            // ⁴Eg(D) at 17B + 5C in the weak-field limit; A. B. P. Lever, Inorganic Electronic
+            // Spectroscopy, 1984): fit C as well. Marked spin-forbidden bands of other d^n pin C
+            // the same way (the ²Eg of d³ lies near 9B + 3C; Y. Tanabe, S. Sugano, J. Phys. Soc.
+            // Jpn. 1954, 9, 753).
+            widened = FitRequest {
+                fit_c: true,
+                ..req.clone()
+            };
+            &widened
+        } else {
+            req
         };
-        &widened
-    } else {
-        req
-    };
     if total == 0 {
         return Err(Error::invalid(
             "spin state",
@@ -692,7 +801,12 @@ fn fit_one_spin(
             ),
         ));
     }
-    let (b_enters, c_enters) = dependence(req.dn, req.geometry, state.two_s, c_over_b)?;
+    // Levels of another spin depend on B and C, so marked spin-forbidden bands bring both in.
+    let (b_enters, c_enters) = if marked {
+        (true, true)
+    } else {
+        dependence(req.dn, req.geometry, state.two_s, c_over_b)?
+    };
     let mut free = vec![Parameter::Dq];
     let mut fixed = Vec::new();
     let mut notes = Vec::new();
@@ -704,6 +818,12 @@ fn fit_one_spin(
             req.geometry,
             state.two_s - 1,
             if req.fit_c { "; Dq, B and C are all fitted" } else { "" }
+        ));
+    }
+    if marked {
+        notes.push(format!(
+            "{} spin-forbidden band(s) fitted to the lowest level of the named (or next) multiplicity, which fixes C: Dq, B and C are all fitted",
+            req.forbidden.len()
         ));
     }
     if !b_enters {
@@ -774,6 +894,7 @@ fn fit_one_spin(
         }
     }
     let p = free.len();
+    let n = n + req.forbidden.len();
     if n < p {
         let names: Vec<&str> = free.iter().map(|f| f.name()).collect();
         let hint = if free.contains(&Parameter::C) {
@@ -886,6 +1007,75 @@ fn fit_one_spin(
     Ok((fits, notes))
 }
 
+/// The upper level of a spin-forbidden band: the lowest level of the named multiplicity (the
+/// spin next below the assumed one when none is named, next above if there is none below), of
+/// the named irrep when one is given.
+fn forbidden_target(
+    spectrum: &crate::engine::Spectrum,
+    state: SpinState,
+    band: &ForbiddenBand,
+    req: &FitRequest,
+) -> Result<TransitionKey> {
+    let has = |two_s: i32| spectrum.levels.iter().any(|l| l.two_s == two_s);
+    let two_s = match band.multiplicity {
+        Some(m) => m - 1,
+        None if has(state.two_s - 2) => state.two_s - 2,
+        None => state.two_s + 2,
+    };
+    let what = || {
+        format!(
+            "{}{}",
+            two_s + 1,
+            band.irrep
+                .clone()
+                .unwrap_or_else(|| String::from(" (any irrep)"))
+        )
+    };
+    if two_s == state.two_s {
+        return Err(Error::invalid(
+            "spin-forbidden band",
+            format!("{:.0} cm⁻¹ → {}", band.position, what()),
+            format!(
+                "a level of another multiplicity than the assumed {} ({}): list spin-allowed bands with the other bands",
+                state.multiplicity(),
+                state.describe()
+            ),
+        ));
+    }
+    spectrum
+        .levels
+        .iter()
+        .find(|l| l.two_s == two_s && band.irrep.as_ref().is_none_or(|i| *i == l.irrep))
+        .map(TransitionKey::of)
+        .ok_or_else(|| {
+            let have: Vec<String> = {
+                let mut v: Vec<String> = spectrum
+                    .levels
+                    .iter()
+                    .filter(|l| l.two_s != state.two_s)
+                    .map(|l| l.label())
+                    .collect();
+                v.dedup();
+                v.truncate(8);
+                v
+            };
+            Error::invalid(
+                "spin-forbidden band",
+                format!("{:.0} cm⁻¹ → {}", band.position, what()),
+                format!(
+                    "a level that d{} {} has; other-spin levels include {}",
+                    req.dn,
+                    req.geometry,
+                    if have.is_empty() {
+                        "none (this d^n has a single spin)".to_string()
+                    } else {
+                        have.join(", ")
+                    }
+                ),
+            )
+        })
+}
+
 /// Refines one seed with Levenberg–Marquardt and evaluates the result. None when the model
 /// cannot be evaluated at the seed (a transition of the assignment is missing there).
 #[allow(clippy::too_many_arguments)]
@@ -899,18 +1089,35 @@ fn refine(
     fixed: &[FixedParameter],
     (b_enters, c_enters): (bool, bool),
 ) -> Result<Option<BandFit>> {
-    let model = Model {
-        dn: req.dn,
-        geometry: req.geometry,
-        two_s: state.two_s,
-        keys: &seed.keys,
-    };
     let b0 = if spec.free.contains(&Parameter::B) {
         seed.b
     } else {
         spec.b_fixed
     };
     let dq0 = seed.x * seed.b / 10.0;
+    // The upper level of each spin-forbidden band, chosen at the seed's field.
+    let forbidden_keys = if req.forbidden.is_empty() {
+        Vec::new()
+    } else {
+        let spectrum = calculation(req.dn, req.geometry, dq0, b0, seed.c_over_b * b0)?.levels()?;
+        req.forbidden
+            .iter()
+            .map(|f| forbidden_target(&spectrum, state, f, req))
+            .collect::<Result<Vec<_>>>()?
+    };
+    let model = Model {
+        dn: req.dn,
+        geometry: req.geometry,
+        two_s: state.two_s,
+        keys: &seed.keys,
+        forbidden: &forbidden_keys,
+    };
+    let observed: Vec<f64> = bands
+        .iter()
+        .copied()
+        .chain(req.forbidden.iter().map(|f| f.position))
+        .collect();
+    let bands = &observed[..seed.keys.len()];
     let mut spec = spec.clone();
     if !spec.free.contains(&Parameter::B) && !b_enters {
         // B does not enter: express the seed's Δ with the nominal B.
@@ -918,7 +1125,7 @@ fn refine(
     }
     let u0 = spec.log_params(dq0, b0, seed.c_over_b * b0);
     let problem = Residuals::new(
-        |u: &DVector<f64>| band_residuals(&model, &spec, bands, u),
+        |u: &DVector<f64>| band_residuals(&model, &spec, &observed, u),
         u0,
         LOG_STEP,
     );
@@ -947,27 +1154,55 @@ fn refine(
             observed: obs,
             transition: t.clone(),
             residual: obs - t.energy,
-            jump: Jump {
-                electrons: None,
-                weak: false,
-            },
+            jump: Jump::unknown(),
         });
     }
-    let n = bands.len();
-    let rss: f64 = assigned.iter().map(|a| a.residual.powi(2)).sum();
+    // Spin-forbidden bands, in input order.
+    let mut forbidden_assigned = Vec::new();
+    if !forbidden_keys.is_empty() {
+        let Some((_, spectrum)) = model.manifold_and_spectrum(dq, b, c) else {
+            return Ok(None);
+        };
+        let Some(reference) = m.reference.find(&spectrum).map(|l| l.energy) else {
+            return Ok(None);
+        };
+        for (key, f) in forbidden_keys.iter().zip(&req.forbidden) {
+            let Some(level) = key.find(&spectrum) else {
+                return Ok(None);
+            };
+            let energy = level.energy - reference;
+            forbidden_assigned.push(AssignedBand {
+                observed: f.position,
+                transition: Transition {
+                    key: key.clone(),
+                    label: level.label(),
+                    parent: level.parent.clone(),
+                    energy,
+                    degeneracy: level.degeneracy,
+                },
+                residual: f.position - energy,
+                jump: Jump::unknown(),
+            });
+        }
+    }
+    let n = bands.len() + forbidden_assigned.len();
+    let rss: f64 = assigned
+        .iter()
+        .chain(&forbidden_assigned)
+        .map(|a| a.residual.powi(2))
+        .sum();
     let rms = (rss / n as f64).sqrt();
 
     // Strong-field configurations: one-electron vs two-electron jumps.
-    let all_jumps = jumps(req.dn, req.geometry, b, c, &m)?;
+    let jump_calc = calculation(req.dn, req.geometry, dq, b, c)?;
+    let jump_spectrum = jump_calc.levels()?;
+    let all_jumps = jumps(&jump_calc, req.geometry, &jump_spectrum, &m)?;
     let jump_of = |key: &TransitionKey| -> Jump {
         m.transitions
             .iter()
             .position(|t| &t.key == key)
             .map(|i| all_jumps[i])
-            .unwrap_or(Jump {
-                electrons: None,
-                weak: false,
-            })
+            .unwrap_or(Jump::unknown())
     };
     for a in &mut assigned {
         a.jump = jump_of(&a.transition.key);
@@ -1076,6 +1311,7 @@ fn refine(
         determination,
         residual_variance: variance,
         assigned,
+        forbidden: forbidden_assigned,
         predicted,
         rms,
         ground_two_s,
@@ -1185,6 +1421,7 @@ mod tests {
             fixed_b: None,
             patience: None,
             b0: None,
+            forbidden: Vec::new(),
         }
     }
 
@@ -1275,6 +1512,47 @@ mod tests {
         assert_relative_eq!(out.best.c.unwrap(), c, max_relative = 1e-3);
     }
 
+    /// Ruby (Cr³⁺ in Al₂O₃): ⁴T₂g 18 000, ⁴T₁g 24 400 and the sharp ²Eg R line at 14 400 cm⁻¹
+    /// (S. Sugano, Y. Tanabe, J. Phys. Soc. Jpn. 1958, 13, 880; Lever 1984; from memory): with
+    /// the ²Eg marked, C is fitted and lands at a usual C/B with B near the published ≈ 620–650.
+    #[test]
+    fn ruby_doublet_fixes_c() {
+        let mut r = request(3, Geometry::Octahedral, vec![18_000.0, 24_400.0]);
+        r.forbidden = vec!["14400:2Eg".parse().unwrap()];
+        let f = fit_bands(&r).unwrap().best;
+        assert!(f.free.contains(&Parameter::C));
+        assert_eq!(f.forbidden[0].transition.label, "2Eg");
+        assert!(f.forbidden[0].residual.abs() < 1.0);
+        let (b, c) = (f.b.unwrap(), f.c.unwrap());
+        assert!((580.0..=700.0).contains(&b), "{b}");
+        assert!((4.0..=5.5).contains(&(c / b)), "{}", c / b);
+        // Round trip on the engine's own ²Eg: C comes back.
+        let (dq, b, c) = (1740.0, 700.0, 3200.0);
+        let spectrum = calculation(3, Geometry::Octahedral, dq, b, c)
+            .unwrap()
+            .levels()
+            .unwrap();
+        let e2 = spectrum
+            .levels
+            .iter()
+            .find(|l| l.two_s == 1 && l.irrep == "Eg")
+            .unwrap()
+            .energy;
+        let nu = engine_bands(
+            3,
+            Geometry::Octahedral,
+            3,
+            (dq, b, c),
+            &["4T2g", "4T1g(F)", "4T1g(P)"],
+        );
+        let mut r = request(3, Geometry::Octahedral, nu);
+        r.forbidden = vec![format!("{e2}").parse().unwrap()];
+        let f = fit_bands(&r).unwrap().best;
+        assert_relative_eq!(f.c.unwrap(), c, max_relative = 1e-4);
+        assert!(f.uncertainties.c.is_some());
+        assert!("15000:2Xg".parse::<ForbiddenBand>().is_err());
+    }
+
     /// [Mn(H₂O)₆]²⁺: bands at 18 900, 23 100, 24 900 and 28 000 cm⁻¹ (A. B. P. Lever, Inorganic
     /// Electronic Spectroscopy, 2nd ed., 1984, from memory) are the quartets of a high-spin ion
     /// with Dq ≈ 800, B ≈ 700 and C/B ≈ 4.5–5 (Lever 1984's fit, from memory, lies in the same
@@ -1342,6 +1620,7 @@ mod tests {
             fixed_b: None,
             patience: None,
             b0: None,
+            forbidden: Vec::new(),
         };
         let out = fit_bands(&req).unwrap();
         let f = &out.best;

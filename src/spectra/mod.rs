@@ -5,6 +5,7 @@
 //! Everything here works in cm⁻¹ and calls the engine; nothing does IO.
 
 pub mod assign;
+pub mod configuration;
 pub mod count;
 pub mod fit;
 pub mod transitions;

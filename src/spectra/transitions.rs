@@ -440,49 +440,86 @@ pub fn electrons_moved(from: &[u32], to: &[u32]) -> u32 {
         / 2
 }
 
-/// How a spin-allowed transition changes the strong-field configuration.
-#[derive(Debug, Clone, Copy, PartialEq, Eq)]
+/// Below this one-electron fraction ([`super::configuration::one_electron_fraction`]) a band is
+/// expected weak. Intensity scales roughly with the fraction (a one-electron band has ≈ 1), so
+/// a band under 10 % is at least ten times weaker than its neighbours. The cut is this tool's
+/// choice, set from the engine's fractions for the published band sets (counts of A. B. P.
+/// Lever, Inorganic Electronic Spectroscopy, 2nd ed., 1984, from memory): ⁴T₁g(P) of
+/// [Cr(H₂O)₆]³⁺ (≈ 11 %) and ³T₁g(P) of [Ni(H₂O)₆]²⁺ (≈ 48 %) are counted as strong; the ⁴A₂g
+/// of [Co(H₂O)₆]²⁺ (≈ 7 %), the ³A₂g of [V(H₂O)₆]³⁺ (≈ 2 %) and the higher singlets of low-spin
+/// d⁶ (≤ 3.5 % in [Co(NH₃)₆]³⁺), which those counts call weak or leave out, are not.
+pub const WEAK_FRACTION: f64 = 0.1;
+
+/// How a transition changes the strong-field configuration.
+#[derive(Debug, Clone, Copy, PartialEq)]
 pub struct Jump {
-    /// Electrons changing orbital set (see [`electrons_moved`]), None if not determined.
+    /// Electrons changing orbital set between the strong-field parents of the two levels (see
+    /// [`electrons_moved`]), None if not determined: the nominal label.
     pub electrons: Option<u32>,
-    /// Expected weak (rule of [`jumps`]).
+    /// Share of the transition that is a one-electron jump at the actual field
+    /// ([`super::configuration::one_electron_fraction`]), None if not computed.
+    pub one_electron: Option<f64>,
+    /// Expected weak: one-electron fraction below [`WEAK_FRACTION`].
     pub weak: bool,
 }
 
-/// The jump of every transition of a manifold (same order as `m.transitions`).
+impl Jump {
+    /// A jump that was not analysed (never weak).
+    pub fn unknown() -> Self {
+        Jump {
+            electrons: None,
+            one_electron: None,
+            weak: false,
+        }
+    }
+}
+
+/// The jump of every transition of a manifold (same order as `m.transitions`), for the
+/// calculation `calc` whose spectrum `spectrum` holds the manifold's levels.
 ///
-/// Rule: a one-electron jump is strong. A two-electron jump whose upper level shares its irrep
-/// with a one-electron-jump level mixes with it and borrows intensity (the octahedral d³ and d⁸
-/// ν₃ bands, e.g. t₂g³ → t₂g¹e_g² for ⁴T₁g(P)), so it is not marked weak; one that has no such
-/// partner (the ³A₂g of d² and ⁴A₂g of d⁷, A. B. P. Lever, Inorganic Electronic Spectroscopy, 2nd ed., 1984, from memory [M]) is weak, as are jumps of three or
-/// more electrons and transitions within one configuration. Common practice; the intensity borrowing is the usual
-/// configuration-interaction explanation, not computed here.
-pub fn jumps(dn: usize, geometry: Geometry, b: f64, c: f64, m: &Manifold) -> Result<Vec<Jump>> {
+/// Rule: the nominal label is the number of electrons that change orbital set between the
+/// strong-field parents (at fixed B and C, field scaled up; [`strong_field_configurations`]).
+/// Whether the band is weak follows from the actual field instead: the configuration weights of
+/// both levels ([`super::configuration::configuration_weights`]) give the share of the
+/// transition that is a one-electron jump, and a band is weak when that share is below
+/// [`WEAK_FRACTION`]. So a nominal two-electron jump that mixes strongly with a one-electron
+/// level of its symmetry (⁴T₁g(P) of d³ and ³T₁g(P) of d⁸) is not weak, while one with no such
+/// partner (³A₂g of d², ⁴A₂g of d⁷, A. B. P. Lever, Inorganic Electronic Spectroscopy, 2nd ed.,
+/// 1984, from memory) and the higher singlets of low-spin d⁶ are.
+pub fn jumps(
+    calc: &Calculation,
+    geometry: Geometry,
+    spectrum: &Spectrum,
+    m: &Manifold,
+) -> Result<Vec<Jump>> {
     let mut keys = vec![m.reference.clone()];
     keys.extend(m.transitions.iter().map(|t| t.key.clone()));
-    let confs = strong_field_configurations(dn, geometry, b, c, &keys)?;
+    let confs = strong_field_configurations(calc.dn, geometry, calc.b, calc.c, &keys)?;
     let moved: Vec<Option<u32>> = (1..keys.len())
         .map(|i| match (&confs[0], &confs[i]) {
             (Some(a), Some(b)) => Some(electrons_moved(a, b)),
             _ => None,
         })
         .collect();
-    Ok(m.transitions
+    let levels: Option<Vec<&Level>> = keys.iter().map(|k| k.find(spectrum)).collect();
+    let levels = levels.ok_or_else(|| {
+        Error::Computation("a level of the manifold is missing from its spectrum".into())
+    })?;
+    let sets: Vec<Vec<usize>> = orbital_sets(geometry)?
+        .into_iter()
+        .map(|(_, members)| members)
+        .collect();
+    let weights = super::configuration::configuration_weights(calc, &sets, &levels)?;
+    Ok(moved
         .iter()
-        .zip(&moved)
-        .map(|(t, &electrons)| {
-            let partner = m
-                .transitions
-                .iter()
-                .zip(&moved)
-                .any(|(o, &k)| o.key.irrep == t.key.irrep && k == Some(1));
-            let weak = match electrons {
-                Some(1) | None => false,
-                Some(0) => true,
-                Some(2) => !partner,
-                Some(_) => true,
-            };
-            Jump { electrons, weak }
+        .enumerate()
+        .map(|(i, &electrons)| {
+            let f = super::configuration::one_electron_fraction(&weights[0], &weights[i + 1]);
+            Jump {
+                electrons,
+                one_electron: Some(f),
+                weak: f < WEAK_FRACTION,
+            }
         })
         .collect())
 }

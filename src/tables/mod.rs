@@ -10,12 +10,14 @@
 
 pub mod bond_lengths;
 pub mod covalent_radii;
+pub mod charge_transfer;
 pub mod ions;
 pub mod ligands;
 pub mod moment_ranges;
 pub mod pascal;
 pub mod reported;
 
+pub use charge_transfer::{ChargeTransferKind, ChargeTransferOnset, ChargeTransferTable};
 pub use ions::{Ion, IonTable, Provenance, ReferenceState, TransitionSeries};
 pub use ligands::{FieldBasis, Ligand, LigandTable, PiRole};
 pub use reported::{Category, ReportedComplex, ReportedSpin, ReportedTable};
@@ -42,6 +44,9 @@ pub struct Tables {
     pub ligands: LigandTable,
     /// Literature spin states (validated against the ligand table).
     pub reported: ReportedTable,
+    /// Charge-transfer onsets per ligand (`charge_transfer.csv`, validated against the ligand
+    /// table).
+    pub charge_transfer: ChargeTransferTable,
 }
 
 impl Tables {
@@ -61,6 +66,7 @@ impl Tables {
             ions: IonTable::parse(ions_csv)?,
             ligands: LigandTable::parse(ligands_csv)?,
             reported: ReportedTable::default(),
+            charge_transfer: ChargeTransferTable::default(),
         })
     }
 
@@ -70,6 +76,7 @@ impl Tables {
         Ok(Tables {
             ions: IonTable::parse(ions_csv)?,
             reported: ReportedTable::parse(reported_csv, &ligands)?,
+            charge_transfer: ChargeTransferTable::parse(charge_transfer::BUNDLED, &ligands)?,
             ligands,
         })
     }
@@ -98,11 +105,14 @@ impl Tables {
         let ions = read(IONS_FILE, BUNDLED_IONS)?;
         let ligands = read(LIGANDS_FILE, BUNDLED_LIGANDS)?;
         let reported = read(REPORTED_FILE, BUNDLED_REPORTED)?;
+        let charge_transfer = read(charge_transfer::FILE, charge_transfer::BUNDLED)?;
         let ligands = LigandTable::parse(&ligands).map_err(|e| in_dir(e, dir, LIGANDS_FILE))?;
         Ok(Tables {
             ions: IonTable::parse(&ions).map_err(|e| in_dir(e, dir, IONS_FILE))?,
             reported: ReportedTable::parse(&reported, &ligands)
                 .map_err(|e| in_dir(e, dir, REPORTED_FILE))?,
+            charge_transfer: ChargeTransferTable::parse(&charge_transfer, &ligands)
+                .map_err(|e| in_dir(e, dir, charge_transfer::FILE))?,
             ligands,
         })
     }
