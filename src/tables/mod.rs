@@ -9,8 +9,8 @@
 //! Reading a `--data` directory ([`Tables::from_dir`]) is the only file access in the library.
 
 pub mod bond_lengths;
-pub mod covalent_radii;
 pub mod charge_transfer;
+pub mod covalent_radii;
 pub mod ions;
 pub mod ligands;
 pub mod moment_ranges;
