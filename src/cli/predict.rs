@@ -7,6 +7,7 @@ use spinstate::complex::{ComplexSpec, LigandCount, Overrides};
 use spinstate::predict::{predict_with, PredictOptions};
 use spinstate::report::predict::PredictReport;
 use spinstate::report::to_json;
+use spinstate::spectra::count;
 use std::path::Path;
 
 #[derive(Debug, clap::Args)]
@@ -69,8 +70,7 @@ impl Args {
 pub fn run(args: &Args, data: Option<&Path>) -> Result<Output, Failure> {
     let tables = load_tables(data)?;
     let complex = args.spec()?.resolve(&tables)?;
-    let charge_transfer =
-        spinstate::spectra::count::charge_transfer_limit(&tables.charge_transfer, &complex);
+    let charge_transfer = count::charge_transfer_limit(&tables.charge_transfer, &complex);
     let options = PredictOptions {
         band_limit: if args.all {
             f64::INFINITY
@@ -82,23 +82,10 @@ pub fn run(args: &Args, data: Option<&Path>) -> Result<Output, Failure> {
     };
     let prediction = predict_with(&complex, options)?;
     let mut report = PredictReport::new(&prediction).with_reported(complex.reported(&tables));
-    report.charge_transfer_onset = Some(
-        charge_transfer
-            .as_ref()
-            .map_or(spinstate::spectra::count::CHARGE_TRANSFER_ONSET, |c| {
-                c.onset
-            }),
-    );
-    report.notes.push(match &charge_transfer {
-        Some(c) => format!(
-            "bands above {:.0} cm⁻¹ are likely hidden by {} of {} ({})",
-            c.onset, c.kind, c.ligand, c.source
-        ),
-        None => format!(
-            "bands above about {:.0} cm⁻¹ may be hidden by charge transfer (common practice; no ligand-specific row in charge_transfer.csv)",
-            spinstate::spectra::count::CHARGE_TRANSFER_ONSET
-        ),
-    });
+    report.charge_transfer_onset = Some(count::onset_or_generic(charge_transfer.as_ref()));
+    report
+        .notes
+        .push(count::hidden_above_note(charge_transfer.as_ref()));
     Ok(Output::text(if args.format.json {
         to_json(&report)
     } else {

@@ -168,16 +168,7 @@ pub fn energy_svg(d: &DiagramReport, sample: Option<&SampleMark>, o: &EnergyOpti
     };
 
     let mut svg = Svg::new(width, height);
-    svg.text(&Label {
-        x: size * 0.6,
-        y: size * 1.25,
-        text: &title,
-        size: size * 1.05,
-        anchor: Anchor::Start,
-        colour: INK,
-        class: "figure-title",
-        rotate: 0.0,
-    });
+    svg.title(&title, size);
 
     // Sample band under everything.
     if let Some(s) = sample {

@@ -150,16 +150,7 @@ pub fn moment_svg(fig: &MomentFigure, column: Column) -> String {
         y: (0.0, ymax),
     };
     let mut svg = Svg::new(width, height);
-    svg.text(&Label {
-        x: size * 0.6,
-        y: size * 1.25,
-        text: &title,
-        size: size * 1.05,
-        anchor: Anchor::Start,
-        colour: INK,
-        class: "figure-title",
-        rotate: 0.0,
-    });
+    svg.title(&title, size);
     svg.open_group("references");
     for (r, s) in fig.references.iter().zip(&ref_strokes) {
         if r.value <= ymax {

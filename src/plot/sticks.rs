@@ -52,16 +52,7 @@ pub fn sticks_svg(title: &str, rows: &[Row], column: Column) -> String {
     };
     let mut svg = Svg::new(width, height);
     let t = Rich::parse(title);
-    svg.text(&Label {
-        x: size * 0.6,
-        y: size * 1.25,
-        text: &t,
-        size: size * 1.05,
-        anchor: Anchor::Start,
-        colour: INK,
-        class: "figure-title",
-        rotate: 0.0,
-    });
+    svg.title(&t, size);
     let axis = Stroke::solid(INK, 0.6);
     svg.open_group("axes");
     svg.line((f.left, f.bottom()), (f.right(), f.bottom()), &axis);

@@ -232,6 +232,20 @@ impl Svg {
         );
     }
 
+    /// The figure's title at the top left, for a figure whose body text is `size` pt.
+    pub fn title(&mut self, text: &Rich, size: f64) {
+        self.text(&Label {
+            x: size * 0.6,
+            y: size * 1.25,
+            text,
+            size: size * 1.05,
+            anchor: Anchor::Start,
+            colour: super::style::INK,
+            class: "figure-title",
+            rotate: 0.0,
+        });
+    }
+
     /// A text with its runs as tspans (sub- and superscripts shifted by `dy`).
     pub fn text(&mut self, l: &Label<'_>) {
         let mut s = format!(

@@ -1,7 +1,9 @@
 //! Report of `spinstate fit-bands`: fitted Dq, B, C with the band assignment.
 
 use super::{fmt_num, new_table};
-use crate::spectra::fit::{relative_to_crossover, BandFit, Determination, FitOutcome, Parameter};
+use crate::spectra::fit::{
+    relative_to_crossover, AssignedBand, BandFit, Determination, FitOutcome, Parameter,
+};
 use crate::spectra::EnergyUnit;
 use crate::Result;
 use serde::Serialize;
@@ -216,6 +218,21 @@ impl FitBandsReport {
     pub fn new(out: &FitOutcome, ctx: &Context) -> Result<Self> {
         let f = &out.best;
         let unit = ctx.input_unit.unwrap_or(EnergyUnit::Wavenumber);
+        let assignment_row = |a: &AssignedBand, spin_forbidden: bool| AssignmentRow {
+            observed: a.observed,
+            observed_in_unit: unit.from_wavenumber(a.observed),
+            transition: arrow(&f.reference, &a.transition.label),
+            label: a.transition.label.clone(),
+            parent: a.transition.parent.clone(),
+            calculated: a.transition.energy,
+            residual: a.residual,
+            electrons_moved: if spin_forbidden {
+                None
+            } else {
+                a.jump.electrons
+            },
+            weak: spin_forbidden || a.jump.weak,
+        };
         let beta = match (&ctx.b0, f.b) {
             (Some((b0, _)), Some(b)) => Some(crate::spectra::fit::nephelauxetic_ratio(b, *b0)?),
             _ => None,
@@ -278,33 +295,14 @@ impl FitBandsReport {
             assignment: f
                 .assigned
                 .iter()
-                .map(|a| AssignmentRow {
-                    observed: a.observed,
-                    observed_in_unit: unit.from_wavenumber(a.observed),
-                    transition: arrow(&f.reference, &a.transition.label),
-                    label: a.transition.label.clone(),
-                    parent: a.transition.parent.clone(),
-                    calculated: a.transition.energy,
-                    residual: a.residual,
-                    electrons_moved: a.jump.electrons,
-                    weak: a.jump.weak,
-                })
+                .map(|a| assignment_row(a, false))
                 .collect(),
             residuals: f.assigned.iter().map(|a| a.residual).collect(),
+            // Spin-forbidden bands are weak by their nature; no jump is computed for them.
             forbidden: f
                 .forbidden
                 .iter()
-                .map(|a| AssignmentRow {
-                    observed: a.observed,
-                    observed_in_unit: unit.from_wavenumber(a.observed),
-                    transition: arrow(&f.reference, &a.transition.label),
-                    label: a.transition.label.clone(),
-                    parent: a.transition.parent.clone(),
-                    calculated: a.transition.energy,
-                    residual: a.residual,
-                    electrons_moved: None,
-                    weak: true,
-                })
+                .map(|a| assignment_row(a, true))
                 .collect(),
             predicted: f
                 .predicted

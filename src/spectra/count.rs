@@ -80,6 +80,25 @@ pub fn charge_transfer_limit(
         .map(ChargeTransferLimit::from)
 }
 
+/// The onset (cm⁻¹) above which bands are likely hidden: the table's, else the generic
+/// [`CHARGE_TRANSFER_ONSET`].
+pub fn onset_or_generic(limit: Option<&ChargeTransferLimit>) -> f64 {
+    limit.map_or(CHARGE_TRANSFER_ONSET, |c| c.onset)
+}
+
+/// One line saying above which wavenumber bands are likely hidden by charge transfer, and why.
+pub fn hidden_above_note(limit: Option<&ChargeTransferLimit>) -> String {
+    match limit {
+        Some(c) => format!(
+            "bands above {:.0} cm⁻¹ are likely hidden by {} of {} ({})",
+            c.onset, c.kind, c.ligand, c.source
+        ),
+        None => format!(
+            "bands above about {CHARGE_TRANSFER_ONSET:.0} cm⁻¹ may be hidden by charge transfer (common practice; no ligand-specific row in charge_transfer.csv)"
+        ),
+    }
+}
+
 /// How visible a band is expected to be.
 #[derive(Debug, Clone, Copy, PartialEq, Eq, PartialOrd, Ord)]
 pub enum Visibility {
@@ -271,11 +290,7 @@ pub fn count_bands(req: &CountRequest) -> Result<BandCount> {
         ));
     }
     let window_cm = (1e7 / req.window_nm.1, 1e7 / req.window_nm.0);
-    let onset = req
-        .charge_transfer
-        .as_ref()
-        .map(|c| c.onset)
-        .unwrap_or(CHARGE_TRANSFER_ONSET);
+    let onset = onset_or_generic(req.charge_transfer.as_ref());
     let cubic = matches!(calc.group, PointGroup::Oh | PointGroup::Td);
     let ground_two_s = spectrum.ground().two_s;
     let mut out = Vec::new();

@@ -13,7 +13,7 @@ use super::transitions::{
     band_manifold, calculation, default_c_over_b, jumps, select_spin, spin_states, Jump, Manifold,
     SpinChoice, SpinState, Transition, TransitionKey,
 };
-use crate::engine::Geometry;
+use crate::engine::{Calculation, Geometry};
 use crate::error::{require_finite, Error, Result};
 use crate::least_squares::Residuals;
 use levenberg_marquardt::{LevenbergMarquardt, TerminationReason};
@@ -342,14 +342,7 @@ struct Model<'a> {
 
 impl Model<'_> {
     fn manifold(&self, dq: f64, b: f64, c: f64) -> Option<Manifold> {
-        if !(dq.is_finite() && b.is_finite() && c.is_finite()) || dq <= 0.0 || b <= 0.0 {
-            return None;
-        }
-        let spectrum = calculation(self.dn, self.geometry, dq, b, c)
-            .ok()?
-            .levels()
-            .ok()?;
-        band_manifold(&spectrum, self.two_s)
+        self.manifold_and_spectrum(dq, b, c).map(|(m, _)| m)
     }
 
     fn energies(&self, dq: f64, b: f64, c: f64) -> Option<Vec<f64>> {
@@ -374,21 +367,31 @@ impl Model<'_> {
             .collect()
     }
 
+    /// The band manifold and the spectrum it came from (one calculation).
     fn manifold_and_spectrum(
         &self,
         dq: f64,
         b: f64,
         c: f64,
     ) -> Option<(Manifold, crate::engine::Spectrum)> {
+        self.solved(dq, b, c).map(|(m, s, _)| (m, s))
+    }
+
+    /// [`Self::manifold_and_spectrum`] with the calculation itself, for analyses that need
+    /// its eigenvectors.
+    fn solved(
+        &self,
+        dq: f64,
+        b: f64,
+        c: f64,
+    ) -> Option<(Manifold, crate::engine::Spectrum, Calculation)> {
         if !(dq.is_finite() && b.is_finite() && c.is_finite()) || dq <= 0.0 || b <= 0.0 {
             return None;
         }
-        let spectrum = calculation(self.dn, self.geometry, dq, b, c)
-            .ok()?
-            .levels()
-            .ok()?;
+        let calc = calculation(self.dn, self.geometry, dq, b, c).ok()?;
+        let spectrum = calc.levels().ok()?;
         let m = band_manifold(&spectrum, self.two_s)?;
-        Some((m, spectrum))
+        Some((m, spectrum, calc))
     }
 }
 
@@ -1141,7 +1144,9 @@ fn refine(
     );
     let ok = converged(&report.termination) && report.objective_function.is_finite();
     let (dq, b, c) = spec.natural(&solved);
-    let Some(m) = model.manifold(dq, b, c) else {
+    // One calculation at the solution serves the assignment, the spin-forbidden bands and the
+    // one-/two-electron analysis.
+    let Some((m, spectrum, solution_calc)) = model.solved(dq, b, c) else {
         return Ok(None);
     };
     // Assigned bands, in band order (bands are sorted).
@@ -1160,9 +1165,6 @@ fn refine(
     // Spin-forbidden bands, in input order.
     let mut forbidden_assigned = Vec::new();
     if !forbidden_keys.is_empty() {
-        let Some((_, spectrum)) = model.manifold_and_spectrum(dq, b, c) else {
-            return Ok(None);
-        };
         let Some(reference) = m.reference.find(&spectrum).map(|l| l.energy) else {
             return Ok(None);
         };
@@ -1194,9 +1196,7 @@ fn refine(
     let rms = (rss / n as f64).sqrt();
 
     // Strong-field configurations: one-electron vs two-electron jumps.
-    let jump_calc = calculation(req.dn, req.geometry, dq, b, c)?;
-    let jump_spectrum = jump_calc.levels()?;
-    let all_jumps = jumps(&jump_calc, req.geometry, &jump_spectrum, &m)?;
+    let all_jumps = jumps(&solution_calc, req.geometry, &spectrum, &m)?;
     let jump_of = |key: &TransitionKey| -> Jump {
         m.transitions
             .iter()

@@ -12,7 +12,6 @@
 pub mod centre;
 pub mod cif;
 pub mod distortion;
-pub mod field;
 pub mod lattice;
 pub mod shape;
 pub mod sphere;

@@ -30,23 +30,10 @@ impl CovalentRadii {
 
     /// DIR/covalent_radii.csv when `data_dir` is given and holds that file, else the bundled one.
     pub fn load(data_dir: Option<&Path>) -> Result<Self> {
-        if let Some(dir) = data_dir {
-            let path = dir.join(FILE);
-            if path.is_file() {
-                let text = std::fs::read_to_string(&path).map_err(|e| Error::Data {
-                    table: path.display().to_string(),
-                    message: format!("cannot be read: {e}"),
-                })?;
-                return Self::from_csv(&text).map_err(|e| match e {
-                    Error::Data { message, .. } => Error::Data {
-                        table: path.display().to_string(),
-                        message,
-                    },
-                    other => other,
-                });
-            }
+        match super::read_override(data_dir, FILE)? {
+            Some(text) => Self::from_csv(&text),
+            None => Self::bundled(),
         }
-        Self::bundled()
     }
 
     /// Parses and validates CSV text in the layout described in the module docs.
@@ -55,20 +42,8 @@ impl CovalentRadii {
             table: FILE.to_string(),
             message,
         };
-        let mut reader = csv::ReaderBuilder::new()
-            .trim(csv::Trim::All)
-            .from_reader(text.as_bytes());
-        let header = reader
-            .headers()
-            .map_err(|e| data_err(format!("bad header: {e}")))?
-            .clone();
-        if header.iter().collect::<Vec<_>>() != HEADER {
-            return Err(data_err(format!("header must be {}", HEADER.join(","))));
-        }
         let mut radii = HashMap::new();
-        for (i, record) in reader.records().enumerate() {
-            let row = i + 2;
-            let record = record.map_err(|e| data_err(format!("row {row}: {e}")))?;
+        for (row, record) in super::records(FILE, text, &HEADER)? {
             let cell = |col: usize| record.get(col).unwrap_or("").to_string();
             let element = cell(0);
             if element.is_empty() {
@@ -96,9 +71,6 @@ impl CovalentRadii {
                     "row {row}: element {element} is listed twice"
                 )));
             }
-        }
-        if radii.is_empty() {
-            return Err(data_err("has no rows".into()));
         }
         Ok(CovalentRadii { radii })
     }
