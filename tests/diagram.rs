@@ -114,3 +114,55 @@ fn bad_input() {
         "--max -3",
     );
 }
+
+/// The eigenvalue-only diagram (projected blocks) against labelling every point from its own
+/// eigenvectors: the same series, labels, parents and energies for every d^n and cubic or
+/// square-planar geometry. H is block-diagonal over the irreps of its group at every field
+/// strength (E. P. Wigner, Group Theory and its Application to the Quantum Mechanics of Atomic
+/// Spectra, 1959), so the two routes must agree to round-off.
+#[test]
+fn projected_diagram_equals_the_full_one() {
+    use spinstate::engine::diagram::{diagram, diagram_full};
+    use spinstate::engine::Geometry;
+    for dn in 1..=9 {
+        for geometry in [
+            Geometry::Octahedral,
+            Geometry::Tetrahedral,
+            Geometry::SquarePlanar,
+        ] {
+            // The projection must really be built (else both routes are the full one).
+            assert!(
+                spinstate::engine::projection::Projection::for_group(
+                    dn,
+                    geometry.point_group(0.0, 0.0)
+                )
+                .unwrap()
+                .is_some(),
+                "d{dn} {geometry:?}: no projection"
+            );
+            let fast = diagram(dn, geometry, 4.5, 45.0, 31).unwrap();
+            let full = diagram_full(dn, geometry, 4.5, 45.0, 31).unwrap();
+            assert_eq!(fast.series.len(), full.series.len(), "d{dn} {geometry:?}");
+            // Series that stay degenerate (σ-only square planar) may be listed in either order.
+            let sorted = |d: &spinstate::engine::diagram::Diagram| {
+                let mut s = d.series.clone();
+                s.sort_by(|a, b| (a.two_s, &a.irrep, a.index).cmp(&(b.two_s, &b.irrep, b.index)));
+                s
+            };
+            for (a, b) in sorted(&fast).iter().zip(&sorted(&full)) {
+                assert_eq!(
+                    (a.two_s, &a.irrep, a.index, &a.parent, a.degeneracy),
+                    (b.two_s, &b.irrep, b.index, &b.parent, b.degeneracy),
+                    "d{dn} {geometry:?}"
+                );
+                for (x, y) in a.energies.iter().zip(&b.energies) {
+                    assert!(
+                        (x - y).abs() < 1e-7,
+                        "d{dn} {geometry:?} {}: {x} vs {y}",
+                        a.label()
+                    );
+                }
+            }
+        }
+    }
+}

@@ -418,7 +418,7 @@ fn cached_unit_matrices_are_symmetric() {
     // Every term of the Hamiltonian is Hermitian (here real symmetric in the cached bases).
     for dn in 0..=10 {
         for blk in shell(dn).blocks(true) {
-            for m in [&blk.rep_b, &blk.rep_c, &blk.l_squared] {
+            for m in [&blk.rep_b, &blk.rep_c, blk.l_squared()] {
                 assert_abs_diff_eq!((m - m.transpose()).amax(), 0.0, epsilon = 1e-10);
             }
             let n = blk.basis.ncols();

@@ -4,6 +4,7 @@
 use super::crossover::{crossover, Crossover};
 use super::geometry::Geometry;
 use super::levels::Calculation;
+use super::projection::Projection;
 use crate::error::{require_finite, Error, Result};
 
 /// One level followed across the diagram.
@@ -63,12 +64,37 @@ impl Diagram {
 }
 
 /// Computes the diagram of d^n in `geometry` at C/B for `points` values of Δ/B from 0 to `max`.
+/// Every point after the first needs eigenvalues only ([`Projection`]); where the projection
+/// cannot be built, every point is labelled from its eigenvectors.
 pub fn diagram(
     dn: usize,
     geometry: Geometry,
     c_over_b: f64,
     max: f64,
     points: usize,
+) -> Result<Diagram> {
+    diagram_with(dn, geometry, c_over_b, max, points, true)
+}
+
+/// As [`diagram`], with every point labelled from its own eigenvectors (the reference the
+/// projected path is tested against).
+pub fn diagram_full(
+    dn: usize,
+    geometry: Geometry,
+    c_over_b: f64,
+    max: f64,
+    points: usize,
+) -> Result<Diagram> {
+    diagram_with(dn, geometry, c_over_b, max, points, false)
+}
+
+fn diagram_with(
+    dn: usize,
+    geometry: Geometry,
+    c_over_b: f64,
+    max: f64,
+    points: usize,
+    project: bool,
 ) -> Result<Diagram> {
     require_finite("maximum Δ/B", max)?;
     if max <= 0.0 {
@@ -87,13 +113,25 @@ pub fn diagram(
             group,
         )
     };
-    let parents = at(max)?.parent_table()?;
+    let reference = at(max)?;
+    let parents = reference.parent_table()?;
+    let projection = if project {
+        Projection::for_group(dn, group)?
+    } else {
+        None
+    };
     let xs: Vec<f64> = (0..points)
         .map(|i| max * i as f64 / (points - 1) as f64)
         .collect();
     let mut series: Vec<Series> = Vec::new();
     for (pi, &x) in xs.iter().enumerate() {
-        let spectrum = at(x)?.levels_with(&parents, false)?;
+        let calc = at(x)?;
+        let spectrum = match &projection {
+            // Δ = 0 is the free ion: its levels are degenerate across irreps, which the
+            // projection handles like any other point.
+            Some(p) => p.levels(&calc, &parents)?,
+            None => calc.levels_with(&parents, false)?,
+        };
         for l in &spectrum.levels {
             let existing = series
                 .iter_mut()

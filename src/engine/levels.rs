@@ -188,7 +188,7 @@ impl Calculation {
         let mut re = &block.rep_b * self.b;
         add_scaled(&mut re, self.c, &block.rep_c);
         if self.l_squared_shift != 0.0 {
-            add_scaled(&mut re, self.l_squared_shift, &block.l_squared);
+            add_scaled(&mut re, self.l_squared_shift, block.l_squared());
         }
         let mut im: Option<DMatrix<f64>> = None;
         add_field(&mut re, &mut im, &block.excitations, v);
@@ -607,9 +607,9 @@ fn expectation(block: &SpinBlock, vecs: &DMatrix<C64>, k: usize, ri: usize) -> f
     let col = vecs.column(k);
     if col.iter().all(|z| z.im == 0.0) {
         let v: nalgebra::DVector<f64> = col.map(|z| z.re);
-        v.dot(&(&block.rotations_re[ri] * &v))
+        v.dot(&(&block.rotations_re()[ri] * &v))
     } else {
-        (col.adjoint() * &block.rotations[ri] * col)[(0, 0)].re
+        (col.adjoint() * &block.rotations()[ri] * col)[(0, 0)].re
     }
 }
 
@@ -618,19 +618,19 @@ struct MissingVector;
 
 /// A grouped level before parents are attached.
 #[derive(Debug, Clone)]
-struct RawLevel {
-    energy: f64,
-    two_s: i32,
-    irrep: String,
-    dim: usize,
-    l_sq: Option<f64>,
+pub(crate) struct RawLevel {
+    pub(crate) energy: f64,
+    pub(crate) two_s: i32,
+    pub(crate) irrep: String,
+    pub(crate) dim: usize,
+    pub(crate) l_sq: Option<f64>,
 }
 
 fn l_from_l_squared(x: f64) -> usize {
     (((1.0 + 4.0 * x.max(0.0)).sqrt() - 1.0) / 2.0).round() as usize
 }
 
-fn assemble(raw: Vec<RawLevel>, parents: &ParentTable) -> Spectrum {
+pub(crate) fn assemble(raw: Vec<RawLevel>, parents: &ParentTable) -> Spectrum {
     let ground = raw.first().map(|r| r.energy).unwrap_or(0.0);
     let mut counters: Vec<((i32, String), usize)> = Vec::new();
     let levels = raw

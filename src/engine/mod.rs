@@ -12,6 +12,7 @@ pub mod geometry;
 pub mod hermitian;
 pub mod levels;
 pub mod operators;
+pub mod projection;
 pub mod shell;
 pub mod spin_orbit;
 pub mod symmetry;

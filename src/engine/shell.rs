@@ -14,6 +14,8 @@ type C64 = Complex<f64>;
 /// States of maximal projection M_S = S for one total spin S, in one M_L-mod-4 class (or all).
 #[derive(Debug)]
 pub struct SpinBlock {
+    /// Number of d electrons of the shell the block belongs to.
+    pub n: usize,
     /// Twice the total spin S.
     pub two_s: i32,
     /// M_L mod 4 of every determinant in the block, or None when the block holds all M_L.
@@ -28,15 +30,41 @@ pub struct SpinBlock {
     pub rep_c: DMatrix<f64>,
     /// Spatial excitations Σ_σ a†_{mσ} a_{m′σ}, projected; index (m+2)·5 + (m′+2).
     pub excitations: Vec<Option<DMatrix<f64>>>,
-    /// Diagonal blocks of the rotations of [`Rotation::ALL`], projected.
-    pub rotations: Vec<DMatrix<C64>>,
-    /// Real parts of `rotations` (enough for ⟨v|R|v⟩ with real v).
-    pub rotations_re: Vec<DMatrix<f64>>,
-    /// Orbital angular momentum squared L², projected (L² conserves M_L).
-    pub l_squared: DMatrix<f64>,
+    /// Diagonal blocks of the rotations of [`Rotation::ALL`], projected; built on first use
+    /// (only labelling needs them).
+    rotations: OnceLock<Vec<DMatrix<C64>>>,
+    /// Real parts of the rotations (enough for ⟨v|R|v⟩ with real v); built on first use.
+    rotations_re: OnceLock<Vec<DMatrix<f64>>>,
+    /// Orbital angular momentum squared L², projected (L² conserves M_L); built on first use.
+    l_squared: OnceLock<DMatrix<f64>>,
 }
 
 impl SpinBlock {
+    /// Diagonal blocks of the rotations of [`Rotation::ALL`] over the spin-adapted basis.
+    pub fn rotations(&self) -> &[DMatrix<C64>] {
+        self.rotations.get_or_init(|| {
+            let cbasis = self.basis.map(|x| C64::new(x, 0.0));
+            Rotation::ALL
+                .iter()
+                .map(|&r| cbasis.adjoint() * rotation_matrix(r, &self.dets, &self.dets) * &cbasis)
+                .collect()
+        })
+    }
+
+    /// Real parts of [`SpinBlock::rotations`].
+    pub fn rotations_re(&self) -> &[DMatrix<f64>] {
+        self.rotations_re
+            .get_or_init(|| self.rotations().iter().map(|m| m.map(|z| z.re)).collect())
+    }
+
+    /// L² over the spin-adapted basis.
+    pub fn l_squared(&self) -> &DMatrix<f64> {
+        self.l_squared.get_or_init(|| {
+            let m = shell(self.n).l_squared_matrix(&self.dets);
+            self.basis.transpose() * m * &self.basis
+        })
+    }
+
     /// Number of spin-adapted states.
     pub fn dim(&self) -> usize {
         self.basis.ncols()
@@ -282,15 +310,9 @@ impl Shell {
                 excitations.push(Some(project(e)));
             }
         }
-        let cbasis = basis.map(|x| C64::new(x, 0.0));
-        let rotations: Vec<DMatrix<C64>> = Rotation::ALL
-            .iter()
-            .map(|&r| cbasis.adjoint() * rotation_matrix(r, &dets, &dets) * &cbasis)
-            .collect();
-        let rotations_re = rotations.iter().map(|m| m.map(|z| z.re)).collect();
-        let l_squared = project(self.l_squared_matrix(&dets));
         Some(SpinBlock {
-            l_squared,
+            n: self.n,
+            l_squared: OnceLock::new(),
             two_s,
             residue,
             dets,
@@ -298,8 +320,8 @@ impl Shell {
             rep_b,
             rep_c,
             excitations,
-            rotations,
-            rotations_re,
+            rotations: OnceLock::new(),
+            rotations_re: OnceLock::new(),
         })
     }
 
