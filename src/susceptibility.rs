@@ -14,6 +14,7 @@
 
 use crate::engine::basis::all_determinants;
 use crate::engine::operators::{angular_momentum, one_body_complex, Axis, DetList};
+use crate::engine::shell::shell;
 use crate::engine::{Calculation, SpinOrbitSolution};
 use crate::error::{num, require_finite, Error, Result};
 use crate::units;
@@ -128,32 +129,94 @@ pub struct ZeemanLevels {
     pub second_order: Vec<[f64; 3]>,
 }
 
-/// Full-space matrices of L and S components for d^n, cached (exact).
-struct MomentMatrices {
-    dets: DetList,
-    l: [DMatrix<C64>; 3],
-    s: [DMatrix<C64>; 3],
+/// Sub-blocks of L and S between two spin–orbit blocks, for one axis: over the complex orbitals
+/// with Condon–Shortley phases L_x, S_x, L_z and S_z are real and L_y, S_y purely imaginary, so
+/// each is stored as one real matrix (the imaginary part for y).
+struct AxisPair {
+    l: DMatrix<f64>,
+    s: DMatrix<f64>,
 }
 
-fn moment_matrices(n: usize) -> &'static MomentMatrices {
-    static CACHE: [OnceLock<MomentMatrices>; 11] = [const { OnceLock::new() }; 11];
-    CACHE[n].get_or_init(|| {
+/// For every ordered pair of spin–orbit blocks of one shell and blocking, the non-zero
+/// sub-blocks of L and S along x, y, z (cached: exact).
+struct PairMoments {
+    /// pairs[to][from][axis]
+    pairs: Vec<Vec<[Option<AxisPair>; 3]>>,
+}
+
+fn pair_moments(n: usize, fourfold: bool) -> &'static PairMoments {
+    static CACHE: [OnceLock<PairMoments>; 22] = [const { OnceLock::new() }; 22];
+    CACHE[2 * n + fourfold as usize].get_or_init(|| {
+        let blocks = shell(n).spin_orbit_blocks(fourfold);
         let dets = DetList::new(all_determinants(n));
         let build = |orbital: bool, axis: Axis| {
-            one_body_complex(&dets, &dets, &angular_momentum(orbital, axis))
+            let m = one_body_complex(&dets, &dets, &angular_momentum(orbital, axis));
+            // The real or the imaginary part, whichever carries the operator.
+            if axis == Axis::Y {
+                m.map(|z| z.im)
+            } else {
+                m.map(|z| z.re)
+            }
         };
-        let l = [
-            build(true, Axis::X),
-            build(true, Axis::Y),
-            build(true, Axis::Z),
-        ];
-        let s = [
-            build(false, Axis::X),
-            build(false, Axis::Y),
-            build(false, Axis::Z),
-        ];
-        MomentMatrices { dets, l, s }
+        let axes = [Axis::X, Axis::Y, Axis::Z];
+        let l = axes.map(|a| build(true, a));
+        let s = axes.map(|a| build(false, a));
+        let positions: Vec<Vec<usize>> = blocks
+            .iter()
+            .map(|b| {
+                b.dets
+                    .dets
+                    .iter()
+                    .map(|&d| dets.position(d).expect("determinant in full list"))
+                    .collect()
+            })
+            .collect();
+        let cut = |m: &DMatrix<f64>, to: &[usize], from: &[usize]| {
+            DMatrix::from_fn(to.len(), from.len(), |i, j| m[(to[i], from[j])])
+        };
+        let pairs = positions
+            .iter()
+            .map(|to| {
+                positions
+                    .iter()
+                    .map(|from| {
+                        std::array::from_fn(|ax| {
+                            let l = cut(&l[ax], to, from);
+                            let s = cut(&s[ax], to, from);
+                            let zero = l.iter().chain(s.iter()).all(|&x| x == 0.0);
+                            (!zero).then_some(AxisPair { l, s })
+                        })
+                    })
+                    .collect()
+            })
+            .collect();
+        PairMoments { pairs }
     })
+}
+
+/// ⟨j|L|a⟩ and ⟨j|S|a⟩ between the eigenstates of two blocks along one axis (the imaginary
+/// unit of the y axis left out), in real arithmetic when both blocks' eigenvectors are real.
+enum Transformed {
+    Real(DMatrix<f64>, DMatrix<f64>),
+    Complex(DMatrix<C64>, DMatrix<C64>),
+}
+
+impl Transformed {
+    /// |m_ja|² and the diagonal value Re m_aa for m = κL + gS.
+    fn element(&self, y_axis: bool, kappa: f64, g: f64, j: usize, a: usize) -> (f64, f64) {
+        match self {
+            Transformed::Real(l, s) => {
+                let v = kappa * l[(j, a)] + g * s[(j, a)];
+                // Along y the element is i·v: real part zero.
+                (v * v, if y_axis { 0.0 } else { v })
+            }
+            Transformed::Complex(l, s) => {
+                let v = l[(j, a)] * kappa + s[(j, a)] * g;
+                let v = if y_axis { v * C64::new(0.0, 1.0) } else { v };
+                (v.norm_sqr(), v.re)
+            }
+        }
+    }
 }
 
 impl ZeemanLevels {
@@ -171,15 +234,68 @@ impl ZeemanLevels {
         solution: &SpinOrbitSolution,
         model: &MagneticModel,
     ) -> Result<Self> {
-        model.check()?;
-        if (solution.zeta - model.effective_zeta()).abs() > 1e-12 * (1.0 + solution.zeta.abs()) {
-            return Err(Error::invalid(
-                "ζ of the eigenstates",
-                solution.zeta,
-                format!("the model's ζ = {}", model.effective_zeta()),
+        let mut all = Self::from_solution_models(calc, solution, std::slice::from_ref(model))?;
+        Ok(all.remove(0))
+    }
+
+    /// The Zeeman sums of several models (κ, g) that share ζ and so one diagonalisation: each
+    /// transform of L and S to the eigenstates is done once for all of them. Real arithmetic is
+    /// used when every block's eigenvectors are real (cubic and tetragonal fields over the complex
+    /// orbitals), complex arithmetic otherwise; [`ZeemanLevels::from_solution_complex`] forces
+    /// the latter.
+    pub fn from_solution_models(
+        calc: &Calculation,
+        solution: &SpinOrbitSolution,
+        models: &[MagneticModel],
+    ) -> Result<Vec<Self>> {
+        Self::sums(calc, solution, models, false)
+    }
+
+    /// As [`ZeemanLevels::from_solution`], always in complex arithmetic (the reference for the
+    /// real path).
+    pub fn from_solution_complex(
+        calc: &Calculation,
+        solution: &SpinOrbitSolution,
+        model: &MagneticModel,
+    ) -> Result<Self> {
+        let mut all = Self::sums(calc, solution, std::slice::from_ref(model), true)?;
+        Ok(all.remove(0))
+    }
+
+    fn sums(
+        calc: &Calculation,
+        solution: &SpinOrbitSolution,
+        models: &[MagneticModel],
+        force_complex: bool,
+    ) -> Result<Vec<Self>> {
+        for model in models {
+            model.check()?;
+            if (solution.zeta - model.effective_zeta()).abs() > 1e-12 * (1.0 + solution.zeta.abs())
+            {
+                return Err(Error::invalid(
+                    "ζ of the eigenstates",
+                    solution.zeta,
+                    format!("the model's ζ = {}", model.effective_zeta()),
+                ));
+            }
+        }
+        let Some(first) = solution.blocks.first() else {
+            return Err(Error::Computation("no eigenstates to sum over".into()));
+        };
+        let fourfold = first.block.class.is_some();
+        let shell_blocks = shell(calc.dn).spin_orbit_blocks(fourfold);
+        let same_blocks = shell_blocks.len() == solution.blocks.len()
+            && solution
+                .blocks
+                .iter()
+                .zip(shell_blocks)
+                .all(|(b, s)| std::ptr::eq(b.block, s));
+        if !same_blocks {
+            return Err(Error::Computation(
+                "eigenstates do not come from this shell's spin–orbit blocks".into(),
             ));
         }
-        let mm = moment_matrices(calc.dn);
+        let moments = pair_moments(calc.dn, fourfold);
         // Global state list: (energy, block, column), sorted.
         let mut states: Vec<(f64, usize, usize)> = Vec::new();
         for (bi, b) in solution.blocks.iter().enumerate() {
@@ -189,7 +305,8 @@ impl ZeemanLevels {
         }
         states.sort_by(|a, b| a.0.total_cmp(&b.0));
         let ground = states.first().map(|s| s.0).unwrap_or(0.0);
-        let scale = (calc.b + calc.c + 10.0 * calc.field.magnitude() + model.zeta).max(1.0);
+        let zeta_max = models.iter().map(|m| m.zeta).fold(0.0, f64::max);
+        let scale = (calc.b + calc.c + 10.0 * calc.field.magnitude() + zeta_max).max(1.0);
         let tol = 1e-9 * scale;
         // Level index of every state.
         let mut level_of = vec![0usize; states.len()];
@@ -210,69 +327,81 @@ impl ZeemanLevels {
             start = end;
         }
         // Position of (block, column) in the sorted list.
-        let mut index = vec![Vec::new(); solution.blocks.len()];
-        for (bi, b) in solution.blocks.iter().enumerate() {
-            index[bi] = vec![0usize; b.energies.len()];
-        }
+        let mut index: Vec<Vec<usize>> = solution
+            .blocks
+            .iter()
+            .map(|b| vec![0usize; b.energies.len()])
+            .collect();
         for (g, &(_, bi, k)) in states.iter().enumerate() {
             index[bi][k] = g;
         }
-        // Positions of each block's determinants in the full list.
-        let positions: Vec<Vec<usize>> = solution
-            .blocks
-            .iter()
-            .map(|b| {
-                b.block
-                    .dets
-                    .dets
-                    .iter()
-                    .map(|&d| mm.dets.position(d).expect("determinant in full list"))
-                    .collect()
-            })
-            .collect();
+        let real = !force_complex
+            && solution
+                .blocks
+                .iter()
+                .all(|b| b.vectors.iter().all(|z| z.im == 0.0));
+        let real_vectors: Vec<DMatrix<f64>> = if real {
+            solution
+                .blocks
+                .iter()
+                .map(|b| b.vectors.map(|z| z.re))
+                .collect()
+        } else {
+            Vec::new()
+        };
         let nlev = energies.len();
-        let mut first_order = vec![[0.0; 3]; nlev];
-        let mut trace = vec![[0.0; 3]; nlev];
-        let mut second_order = vec![[0.0; 3]; nlev];
-        for axis in 0..3 {
-            let m = &mm.l[axis] * C64::new(model.kappa, 0.0)
-                + &mm.s[axis] * C64::new(model.g_spin, 0.0);
+        let mut first_order = vec![vec![[0.0; 3]; nlev]; models.len()];
+        let mut trace = vec![vec![[0.0; 3]; nlev]; models.len()];
+        let mut second_order = vec![vec![[0.0; 3]; nlev]; models.len()];
+        for (b2, blk2) in solution.blocks.iter().enumerate() {
             for (b1, blk1) in solution.blocks.iter().enumerate() {
-                for (b2, blk2) in solution.blocks.iter().enumerate() {
-                    let sub = DMatrix::from_fn(positions[b2].len(), positions[b1].len(), |i, j| {
-                        m[(positions[b2][i], positions[b1][j])]
-                    });
-                    if sub.iter().all(|z| z.norm_sqr() == 0.0) {
+                for (axis, pair) in moments.pairs[b2][b1].iter().enumerate() {
+                    let Some(pair) = pair else {
                         continue;
-                    }
-                    let x = blk2.vectors.adjoint() * sub * &blk1.vectors;
+                    };
+                    let x = if real {
+                        let (v2, v1) = (&real_vectors[b2], &real_vectors[b1]);
+                        Transformed::Real(v2.tr_mul(&(&pair.l * v1)), v2.tr_mul(&(&pair.s * v1)))
+                    } else {
+                        let to_c = |m: &DMatrix<f64>| m.map(|x| C64::new(x, 0.0));
+                        let (v2, v1) = (&blk2.vectors, &blk1.vectors);
+                        Transformed::Complex(
+                            v2.adjoint() * (to_c(&pair.l) * v1),
+                            v2.adjoint() * (to_c(&pair.s) * v1),
+                        )
+                    };
+                    let y_axis = axis == 1;
                     for a in 0..blk1.energies.len() {
                         let ga = index[b1][a];
                         let la = level_of[ga];
-                        for j in 0..blk2.energies.len() {
-                            let gj = index[b2][j];
+                        for (j, &gj) in index[b2].iter().enumerate() {
                             let lj = level_of[gj];
-                            let w = x[(j, a)].norm_sqr();
-                            if la == lj {
-                                first_order[la][axis] += w;
-                                if ga == gj {
-                                    trace[la][axis] += x[(j, a)].re;
+                            let gap = energies[la] - energies[lj];
+                            for (mi, model) in models.iter().enumerate() {
+                                let (w, diag) = x.element(y_axis, model.kappa, model.g_spin, j, a);
+                                if la == lj {
+                                    first_order[mi][la][axis] += w;
+                                    if ga == gj {
+                                        trace[mi][la][axis] += diag;
+                                    }
+                                } else {
+                                    second_order[mi][la][axis] += w / gap;
                                 }
-                            } else {
-                                second_order[la][axis] += w / (energies[la] - energies[lj]);
                             }
                         }
                     }
                 }
             }
         }
-        Ok(ZeemanLevels {
-            energies,
-            degeneracy,
-            first_order,
-            trace,
-            second_order,
-        })
+        Ok((0..models.len())
+            .map(|mi| ZeemanLevels {
+                energies: energies.clone(),
+                degeneracy: degeneracy.clone(),
+                first_order: std::mem::take(&mut first_order[mi]),
+                trace: std::mem::take(&mut trace[mi]),
+                second_order: std::mem::take(&mut second_order[mi]),
+            })
+            .collect())
     }
 
     /// χ, χT and μ_eff at temperature `t` (K > 0).
@@ -371,7 +500,6 @@ pub fn finite_field_chi(
     axis: usize,
 ) -> Result<f64> {
     model.check()?;
-    let mm = moment_matrices(calc.dn);
     let all = crate::engine::shell::shell(calc.dn).spin_orbit_blocks(false);
     let blk = &all[0];
     let v = calc.field.complex_matrix();
@@ -385,9 +513,13 @@ pub fn finite_field_chi(
             }
         }
     }
-    // The single block lists the determinants in the same order as the moment matrices.
-    debug_assert_eq!(blk.dets.dets, mm.dets.dets);
-    let m = &mm.l[axis] * C64::new(model.kappa, 0.0) + &mm.s[axis] * C64::new(model.g_spin, 0.0);
+    // The Zeeman operator over the single block's determinants, built here in complex
+    // arithmetic independently of the sums' cached sub-blocks.
+    let direction = [Axis::X, Axis::Y, Axis::Z][axis.min(2)];
+    let momentum =
+        |orbital| one_body_complex(&blk.dets, &blk.dets, &angular_momentum(orbital, direction));
+    let m =
+        momentum(true) * C64::new(model.kappa, 0.0) + momentum(false) * C64::new(model.g_spin, 0.0);
     let kt = boltzmann_cm() * t;
     let free_energy = |b_cm: f64| -> Result<f64> {
         let hb = &h + &m * C64::new(b_cm, 0.0);

@@ -291,18 +291,14 @@ fn full_moment(spec: &ComplexSpec, two_s: i32, zeta: f64, t: f64) -> Result<(f64
     )?;
     // κ enters only the Zeeman term, so both ends share one diagonalisation.
     let solution = calc.spin_orbit(zeta)?;
-    let mut mus = [0.0; 2];
-    for (i, kappa) in [KAPPA_RANGE.0, KAPPA_RANGE.1].into_iter().enumerate() {
-        let model = MagneticModel {
-            zeta,
-            kappa,
-            reduce_zeta: false,
-            g_spin: crate::units::G_ELECTRON,
-        };
-        mus[i] = ZeemanLevels::from_solution(&calc, &solution, &model)?
-            .at(t)?
-            .mu_eff;
-    }
+    let models = [KAPPA_RANGE.0, KAPPA_RANGE.1].map(|kappa| MagneticModel {
+        zeta,
+        kappa,
+        reduce_zeta: false,
+        g_spin: crate::units::G_ELECTRON,
+    });
+    let levels = ZeemanLevels::from_solution_models(&calc, &solution, &models)?;
+    let mus = [levels[0].at(t)?.mu_eff, levels[1].at(t)?.mu_eff];
     Ok((mus[0], mus[1], x))
 }
 
