@@ -489,6 +489,16 @@ impl Ranking {
         }
     }
 
+    /// The score a new hit must reach to be kept, once the ranking is full (None before, and
+    /// always None when every hit is kept).
+    #[inline]
+    fn bar(&self) -> Option<f64> {
+        match self.keep {
+            Keep::Top(n) if self.heap.len() >= n => self.heap.peek().map(|w| w.score),
+            _ => None,
+        }
+    }
+
     fn finish(self) -> Vec<Hit> {
         match self.keep {
             Keep::All => {
@@ -611,6 +621,111 @@ pub struct Candidate {
     /// High, Crossover or Low (never Fixed: ions without a crossover are not screened).
     pub spin_state: SpinState,
     pub score: f64,
+}
+
+/// Relative slack of the fast test: a candidate is only rejected when its score is below the
+/// ranking's bar by more than this (round-off of the two orders of arithmetic is ~1e-15), so the
+/// exact path decides every close call and the ranking is identical to the exact screen's.
+const FAST_SLACK: f64 = 1e-9;
+
+/// One ion's constants for the multiply-only reject test. With the sums N = Σf + c·Σπ (c the
+/// back-bonding weight of the ion) and b = B₀·β, β = max(1 − k·Σh/n, β_floor), the mean field
+/// is Δ̄/B = K·N / b (K = ½(h + l)·g·(geometry factor)/n, as in [`estimate::reference_delta`]
+/// and [`Screen::score`]); the crossover aim of [`estimate::crossover_target`] is α/b + γ. Every
+/// test below is that algebra multiplied through by b > 0.
+#[derive(Debug, Clone, Copy)]
+struct FastBound {
+    k_mean: f64,
+    pi_weight: f64,
+    /// k/n (0 when the ion has no k: β = 1).
+    k_per_donor: f64,
+    b0: f64,
+    xc: f64,
+    /// α and γ of the crossover aim (None: the aim is Δ/B at the crossover itself).
+    aim: Option<(f64, f64)>,
+}
+
+impl FastBound {
+    fn new(screen: &Screen, ion: &ScreenIon) -> Option<FastBound> {
+        let donors = screen.geometry.coordination_number() as f64;
+        let cal = &screen.calibration;
+        let sg = &ion.spin_geometry;
+        let g_geom = estimate::reference_delta(
+            1.0,
+            0.0,
+            ion.g,
+            ion.ion.oxidation_state,
+            screen.geometry,
+            cal,
+        );
+        let pi_weight = estimate::reference_delta(
+            0.0,
+            1.0,
+            ion.g,
+            ion.ion.oxidation_state,
+            screen.geometry,
+            cal,
+        ) / g_geom;
+        let k_mean = 0.5 * (sg.high_spin_factor + sg.low_spin_factor) * g_geom / donors;
+        let xc = ion.crossover_delta_over_b;
+        // crossover_target(b) = (W/2 + s·b·X)/(b·q), q = s + j(u_L − u_H): evaluated at two b
+        // values it gives α and γ exactly (it is α/b + γ).
+        let aim = match (
+            estimate::crossover_target(&ion.crossover, sg, 1.0, cal),
+            estimate::crossover_target(&ion.crossover, sg, 2.0, cal),
+        ) {
+            (Some(a1), Some(a2)) => {
+                let alpha = 2.0 * (a1 - a2);
+                let gamma = a1 - alpha;
+                Some((alpha, gamma))
+            }
+            _ => None,
+        };
+        let fb = FastBound {
+            k_mean,
+            pi_weight,
+            k_per_donor: ion.k.map_or(0.0, |k| k / donors),
+            b0: ion.b0,
+            xc,
+            aim,
+        };
+        let finite = [fb.k_mean, fb.pi_weight, fb.k_per_donor, fb.b0, fb.xc]
+            .iter()
+            .chain(fb.aim.iter().flat_map(|(a, g)| [a, g]))
+            .all(|x| x.is_finite());
+        (finite && fb.b0 > 0.0 && xc > 0.0).then_some(fb)
+    }
+
+    /// True when the candidate's score is surely below `bar` (NaN never rejects).
+    #[inline]
+    fn rejects(&self, target: Target, s: &Sums, bar: f64) -> bool {
+        let beta = if self.k_per_donor == 0.0 {
+            1.0
+        } else {
+            (1.0 - self.k_per_donor * s.h).max(estimate::BETA_FLOOR)
+        };
+        let b = self.b0 * beta;
+        let kn = self.k_mean * (s.f + self.pi_weight * s.pi);
+        match target {
+            // Low: 100(m − X)/X ≥ bar ⟺ m ≥ X(1 + bar/100).
+            Target::Low => {
+                let lhs = self.xc * (1.0 + 0.01 * bar) * b;
+                kn < lhs - FAST_SLACK * (lhs.abs() + kn.abs())
+            }
+            // High: −100(m − X)/X ≥ bar ⟺ m ≤ X(1 − bar/100).
+            Target::High => {
+                let rhs = self.xc * (1.0 - 0.01 * bar) * b;
+                kn > rhs + FAST_SLACK * (rhs.abs() + kn.abs())
+            }
+            // Crossover: −100|m − aim|/X ≥ bar ⟺ |K·N − α − γb| ≤ (−bar·X/100)·b.
+            Target::Crossover => {
+                let (alpha, gamma) = self.aim.unwrap_or((0.0, self.xc));
+                let dev = (kn - alpha - gamma * b).abs();
+                let allowed = -0.01 * bar * self.xc * b;
+                dev > allowed + FAST_SLACK * (kn.abs() + alpha.abs() + (gamma * b).abs())
+            }
+        }
+    }
 }
 
 /// Δ of both spin states and B of one candidate (cm⁻¹).
@@ -1289,7 +1404,26 @@ impl Screen {
     /// Runs the screen. `progress` is called with the number of spheres done, every 65 536
     /// spheres and once at the end (the library draws nothing itself).
     pub fn run(&self, keep: Keep, progress: &mut dyn FnMut(u64)) -> Outcome {
+        self.run_with(keep, false, progress)
+    }
+
+    /// As [`Screen::run`] with every candidate taken through the exact path (no fast reject):
+    /// the reference the fast path is tested against.
+    pub fn run_exact(&self, keep: Keep, progress: &mut dyn FnMut(u64)) -> Outcome {
+        self.run_with(keep, true, progress)
+    }
+
+    fn run_with(&self, keep: Keep, exact: bool, progress: &mut dyn FnMut(u64)) -> Outcome {
+        let fast = if exact {
+            vec![None; self.ions.len()]
+        } else {
+            self.ions
+                .iter()
+                .map(|ion| FastBound::new(self, ion))
+                .collect()
+        };
         let mut state = RunState {
+            fast,
             ranking: Ranking::new(match keep {
                 Keep::Top(n) => Keep::Top(n.max(1)),
                 k => k,
@@ -1405,6 +1539,11 @@ impl Screen {
                 }
             }
             state.evaluated += 1;
+            if let (Some(fast), Some(bar)) = (&state.fast[i], state.ranking.bar()) {
+                if fast.rejects(self.target, sums, bar) {
+                    continue;
+                }
+            }
             let Some(p) = self.parameters(ion, sums) else {
                 state.skipped += 1;
                 continue;
@@ -1560,6 +1699,8 @@ struct Node {
 }
 
 struct RunState {
+    /// Per ion: the multiply-only reject test (None: exact path only).
+    fast: Vec<Option<FastBound>>,
     ranking: Ranking,
     spheres: u64,
     evaluated: u64,
