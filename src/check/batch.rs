@@ -97,93 +97,187 @@ impl std::fmt::Display for RowError {
     }
 }
 
-/// Parses a batch file. File-level problems (empty, no header, missing or unknown columns, no
-/// rows) are an `Err`; each row is then a [`Sample`] or a [`RowError`], in file order.
+/// Longest line accepted in a batch file (bytes). A file without line breaks (a binary file,
+/// `/dev/zero`) is refused at this point instead of being read into memory whole.
+pub const MAX_LINE_BYTES: usize = 1 << 20;
+
+/// Parses a batch file held in memory. File-level problems (empty, no header, missing or
+/// unknown columns, no rows) are an `Err`; each row is then a [`Sample`] or a [`RowError`], in
+/// file order. Large files are better read with [`BatchReader`], which holds one row at a time.
 pub fn parse(text: &str) -> Result<Vec<std::result::Result<Sample, RowError>>> {
-    let accepted = || {
-        format!(
-            "a CSV file whose first line names the columns; required: {}",
-            REQUIRED.join(",")
-        )
-    };
-    if text.trim().is_empty() {
-        return Err(Error::invalid("input file", "empty", accepted()));
+    let mut reader = BatchReader::new(text.as_bytes())?;
+    let mut out = Vec::new();
+    for row in reader.by_ref() {
+        out.push(row);
     }
-    let mut reader = csv::ReaderBuilder::new()
-        .has_headers(true)
-        .flexible(true)
-        .trim(csv::Trim::All)
-        .from_reader(text.as_bytes());
-    let header: Vec<String> = reader
-        .headers()
-        .map_err(|e| Error::Parse(format!("input file: the header cannot be read: {e}")))?
-        .iter()
-        .map(|h| h.to_lowercase())
-        .collect();
-    let known: Vec<&str> = REQUIRED.iter().chain(OPTIONAL.iter()).copied().collect();
-    for (i, h) in header.iter().enumerate() {
-        if !known.contains(&h.as_str()) {
-            let near = closest_names(h, known.iter().copied());
-            return Err(Error::Unknown {
-                kind: format!(
-                    "column (header position {}; accepted: {}, {})",
-                    i + 1,
-                    REQUIRED.join(", "),
-                    OPTIONAL.join(", ")
-                ),
-                name: h.clone(),
-                suggestions: near,
-            });
+    reader.finish()?;
+    Ok(out)
+}
+
+/// Reads `R` but fails once a line grows beyond [`MAX_LINE_BYTES`].
+struct LineLimited<R> {
+    inner: R,
+    line_bytes: usize,
+}
+
+impl<R: std::io::Read> std::io::Read for LineLimited<R> {
+    fn read(&mut self, buf: &mut [u8]) -> std::io::Result<usize> {
+        let n = self.inner.read(buf)?;
+        for &b in &buf[..n] {
+            if b == b'\n' {
+                self.line_bytes = 0;
+            } else {
+                self.line_bytes += 1;
+                if self.line_bytes > MAX_LINE_BYTES {
+                    return Err(std::io::Error::new(
+                        std::io::ErrorKind::InvalidData,
+                        format!("a line longer than {MAX_LINE_BYTES} bytes (not a CSV text file?)"),
+                    ));
+                }
+            }
         }
-        if header[..i].contains(h) {
+        Ok(n)
+    }
+}
+
+/// A batch file read row by row: the header is checked by [`BatchReader::new`], then each
+/// iteration yields one row as a [`Sample`] or a [`RowError`], in file order, holding only that
+/// row in memory. Call [`BatchReader::finish`] after the last row: it reports a file without
+/// rows or one that could not be read to its end.
+pub struct BatchReader<R> {
+    reader: csv::Reader<LineLimited<R>>,
+    header: Vec<String>,
+    record: csv::StringRecord,
+    rows: usize,
+    fatal: Option<Error>,
+}
+
+impl<R: std::io::Read> BatchReader<R> {
+    /// Reads and checks the header.
+    pub fn new(input: R) -> Result<Self> {
+        let accepted = || {
+            format!(
+                "a CSV file whose first line names the columns; required: {}",
+                REQUIRED.join(",")
+            )
+        };
+        let mut reader = csv::ReaderBuilder::new()
+            .has_headers(true)
+            .flexible(true)
+            .trim(csv::Trim::All)
+            .from_reader(LineLimited {
+                inner: input,
+                line_bytes: 0,
+            });
+        let header: Vec<String> = reader
+            .headers()
+            .map_err(|e| Error::Parse(format!("input file: the header cannot be read: {e}")))?
+            .iter()
+            .map(|h| h.to_lowercase())
+            .collect();
+        if header.iter().all(String::is_empty) {
+            return Err(Error::invalid("input file", "empty", accepted()));
+        }
+        let known: Vec<&str> = REQUIRED.iter().chain(OPTIONAL.iter()).copied().collect();
+        for (i, h) in header.iter().enumerate() {
+            if !known.contains(&h.as_str()) {
+                let near = closest_names(h, known.iter().copied());
+                return Err(Error::Unknown {
+                    kind: format!(
+                        "column (header position {}; accepted: {}, {})",
+                        i + 1,
+                        REQUIRED.join(", "),
+                        OPTIONAL.join(", ")
+                    ),
+                    name: h.clone(),
+                    suggestions: near,
+                });
+            }
+            if header[..i].contains(h) {
+                return Err(Error::invalid(
+                    "column",
+                    format!("'{h}' twice"),
+                    "each column once",
+                ));
+            }
+        }
+        let missing: Vec<&str> = REQUIRED
+            .iter()
+            .copied()
+            .filter(|r| !header.iter().any(|h| h == r))
+            .collect();
+        if !missing.is_empty() {
             return Err(Error::invalid(
-                "column",
-                format!("'{h}' twice"),
-                "each column once",
+                "input file",
+                format!("missing column(s) {}", missing.join(", ")),
+                accepted(),
             ));
         }
+        Ok(BatchReader {
+            reader,
+            header,
+            record: csv::StringRecord::new(),
+            rows: 0,
+            fatal: None,
+        })
     }
-    let missing: Vec<&str> = REQUIRED
-        .iter()
-        .copied()
-        .filter(|r| !header.iter().any(|h| h == r))
-        .collect();
-    if !missing.is_empty() {
-        return Err(Error::invalid(
-            "input file",
-            format!("missing column(s) {}", missing.join(", ")),
-            accepted(),
-        ));
-    }
-    let mut out = Vec::new();
-    for record in reader.records() {
-        let record = match record {
-            Ok(r) => r,
-            Err(e) => {
-                let row = e.position().map_or(0, |p| p.line() as usize);
-                out.push(Err(RowError {
-                    row,
-                    name: None,
-                    column: "(whole row)".into(),
-                    message: format!("cannot be read: {e}"),
-                }));
-                continue;
-            }
-        };
-        let row = record.position().map_or(0, |p| p.line() as usize);
-        if record.iter().all(str::is_empty) {
-            continue; // a blank line
+
+    /// File-level problems found while reading the rows: no rows at all, or a read that could
+    /// not continue (the rows before it were yielded).
+    pub fn finish(self) -> Result<()> {
+        if let Some(e) = self.fatal {
+            return Err(e);
         }
-        out.push(parse_row(row, &header, &record));
+        if self.rows == 0 {
+            return Err(Error::invalid(
+                "input file",
+                "a header without rows",
+                "one sample per row below the header",
+            ));
+        }
+        Ok(())
     }
-    if out.is_empty() {
-        return Err(Error::invalid(
-            "input file",
-            "a header without rows",
-            "one sample per row below the header",
-        ));
+}
+
+impl<R: std::io::Read> Iterator for BatchReader<R> {
+    type Item = std::result::Result<Sample, RowError>;
+
+    fn next(&mut self) -> Option<Self::Item> {
+        if self.fatal.is_some() {
+            return None;
+        }
+        loop {
+            match self.reader.read_record(&mut self.record) {
+                Ok(false) => return None,
+                Ok(true) => {
+                    let row = self.record.position().map_or(0, |p| p.line() as usize);
+                    if self.record.iter().all(str::is_empty) {
+                        continue; // a blank line
+                    }
+                    self.rows += 1;
+                    return Some(parse_row(row, &self.header, &self.record));
+                }
+                Err(e) => {
+                    let row = e.position().map_or(0, |p| p.line() as usize);
+                    if let csv::ErrorKind::Io(io) = e.kind() {
+                        // The reader cannot go on: stop and report it from `finish`.
+                        self.fatal = Some(Error::Parse(format!(
+                            "input file: reading stopped after {} row(s): {io}",
+                            self.rows
+                        )));
+                        return None;
+                    }
+                    self.rows += 1;
+                    return Some(Err(RowError {
+                        row,
+                        name: None,
+                        column: "(whole row)".into(),
+                        message: format!("cannot be read: {e}"),
+                    }));
+                }
+            }
+        }
     }
-    Ok(out)
 }
 
 struct Row<'a> {

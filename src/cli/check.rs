@@ -7,7 +7,9 @@ use super::{Failure, Output};
 use indicatif::{ProgressBar, ProgressStyle};
 use spinstate::check::batch::{self, RowError, Sample};
 use spinstate::check::{check, CheckTables, CurveInput};
-use spinstate::report::check::{BatchReport, CheckReport, RowErrorRow, SAFETY};
+use spinstate::report::check::{
+    rows_table, BatchReport, BatchRow, CheckReport, RowErrorRow, SAFETY,
+};
 use spinstate::report::figures::sample_figures;
 use spinstate::report::html::{self, parameter_rows, Section};
 use spinstate::report::to_json;
@@ -131,6 +133,10 @@ pub struct Args {
     /// Also write the verdicts as CSV to FILE.
     #[arg(long, value_name = "FILE")]
     pub csv: Option<PathBuf>,
+    /// With --input: print one JSON object per line as each row is checked (a sample's report
+    /// under "sample", a bad row under "error", each with its "row").
+    #[arg(long, requires = "input", conflicts_with = "json")]
+    pub jsonl: bool,
     /// Also write a self-contained HTML report (inline figures, printable) to FILE.
     #[arg(long, value_name = "FILE")]
     pub html: Option<PathBuf>,
@@ -327,7 +333,197 @@ fn write_csv(path: &Path, text: &str) -> Result<(), Failure> {
         .map_err(|e| Failure::usage(format!("--csv: cannot write {}: {e}", path.display())))
 }
 
+/// Rows checked together (in parallel) before their results are written: memory stays bounded
+/// by one chunk whatever the file's length.
+const CHUNK_ROWS: usize = 512;
+
+/// How a streamed batch is printed.
+#[derive(Clone, Copy, PartialEq)]
+enum Stream {
+    Table,
+    Json,
+    JsonLines,
+}
+
+fn write_failed(e: std::io::Error) -> Failure {
+    Failure::usage(format!("cannot write the output: {e}"))
+}
+
+/// One row checked: the sample's report or the row's error.
+fn check_row(
+    row: Result<Sample, RowError>,
+    base: Option<&Path>,
+    loaded: &Loaded,
+) -> Result<CheckReport, RowError> {
+    let mut sample = row?;
+    if let Err(message) = attach_curve(&mut sample, base) {
+        return Err(RowError {
+            row: sample.row,
+            name: Some(sample.name),
+            column: "chit_file".into(),
+            message,
+        });
+    }
+    let Sample {
+        row, name, input, ..
+    } = sample;
+    match check(&input, loaded.tables()) {
+        Ok(result) => Ok(CheckReport::new(&result, Some(name), Some(row))),
+        Err(e) => Err(RowError {
+            row,
+            name: Some(name),
+            column: batch::columns_of(&e),
+            message: e.to_string().replace("--magnet", "evans_magnet"),
+        }),
+    }
+}
+
+/// Checks a batch file row by row, on every core, writing each chunk's results in input order
+/// as soon as it is ready (stdout and `--csv`), so that memory does not grow with the file.
+fn stream_batch(args: &Args, path: &Path, data: Option<&Path>) -> Result<Output, Failure> {
+    use rayon::prelude::*;
+    use std::io::Write;
+    let file = std::fs::File::open(path)
+        .map_err(|e| Failure::usage(format!("--input: cannot read {}: {e}", path.display())))?;
+    let input_error = |e: spinstate::Error| Failure::usage(format!("--input: {e}"));
+    let mut reader = batch::BatchReader::new(std::io::BufReader::new(file)).map_err(input_error)?;
+    let loaded = Loaded::new(data)?;
+    let base = path.parent();
+    let mode = if args.jsonl {
+        Stream::JsonLines
+    } else if args.format.json {
+        Stream::Json
+    } else {
+        Stream::Table
+    };
+    let mut csv_out = match &args.csv {
+        Some(file) => {
+            let mut w = csv::Writer::from_path(file).map_err(|e| {
+                Failure::usage(format!("--csv: cannot write {}: {e}", file.display()))
+            })?;
+            w.write_record(spinstate::report::check::csv_header())
+                .map_err(|e| Failure::usage(format!("--csv: {e}")))?;
+            Some(w)
+        }
+        None => None,
+    };
+    let bar = if std::io::stdout().is_terminal() {
+        let bar = ProgressBar::no_length();
+        if let Ok(style) = ProgressStyle::with_template("checking: {pos} samples, {per_sec}") {
+            bar.set_style(style);
+        }
+        bar
+    } else {
+        ProgressBar::hidden()
+    };
+    let stdout = std::io::stdout();
+    let mut out = std::io::BufWriter::new(stdout.lock());
+    let mut errors: Vec<RowErrorRow> = Vec::new();
+    let mut warnings = Vec::new();
+    let mut first_sample = true;
+    let mut started = false;
+    loop {
+        let chunk: Vec<_> = reader.by_ref().take(CHUNK_ROWS).collect();
+        if chunk.is_empty() {
+            break;
+        }
+        let n = chunk.len() as u64;
+        let results: Vec<Result<CheckReport, RowError>> = chunk
+            .into_par_iter()
+            .map(|row| check_row(row, base, &loaded))
+            .collect();
+        if !started && mode == Stream::Json {
+            out.write_all(b"{\"samples\":[").map_err(write_failed)?;
+        }
+        started = true;
+        let rows: Vec<Result<CheckReport, RowErrorRow>> = results
+            .into_iter()
+            .map(|r| {
+                r.map_err(|e| {
+                    warnings.push(format!("error: {}: {e}", path.display()));
+                    RowErrorRow::from(&e)
+                })
+            })
+            .collect();
+        let refs: Vec<BatchRow<'_>> = rows.iter().map(|r| r.as_ref()).collect();
+        if let Some(w) = csv_out.as_mut() {
+            for &row in &refs {
+                w.write_record(spinstate::report::check::csv_record(row))
+                    .map_err(|e| Failure::usage(format!("--csv: {e}")))?;
+            }
+        }
+        match mode {
+            Stream::Table => {
+                out.write_all(rows_table(&refs).as_bytes())
+                    .map_err(write_failed)?;
+            }
+            Stream::JsonLines => {
+                for row in &refs {
+                    let line = match row {
+                        Ok(s) => serde_json::json!({ "row": s.row, "sample": s }),
+                        Err(e) => serde_json::json!({ "row": e.row, "error": e }),
+                    };
+                    writeln!(out, "{line}").map_err(write_failed)?;
+                }
+            }
+            Stream::Json => {
+                for s in refs.iter().filter_map(|r| r.ok()) {
+                    if !first_sample {
+                        out.write_all(b",").map_err(write_failed)?;
+                    }
+                    first_sample = false;
+                    serde_json::to_writer(&mut out, s)
+                        .map_err(|e| Failure::usage(format!("cannot write the output: {e}")))?;
+                }
+            }
+        }
+        errors.extend(rows.into_iter().filter_map(Result::err));
+        out.flush().map_err(write_failed)?;
+        bar.inc(n);
+    }
+    bar.finish_and_clear();
+    let finished = reader.finish();
+    if !started {
+        // Nothing was written: a file without rows is an input error.
+        return Err(input_error(finished.err().unwrap_or_else(|| {
+            spinstate::Error::Computation("no rows were read".into())
+        })));
+    }
+    match mode {
+        Stream::Table => {
+            writeln!(out, "{SAFETY}").map_err(write_failed)?;
+        }
+        Stream::Json => {
+            let tail = serde_json::json!({ "errors": errors, "safety": SAFETY });
+            writeln!(
+                out,
+                "],\"errors\":{},\"safety\":{}}}",
+                tail["errors"], tail["safety"]
+            )
+            .map_err(write_failed)?;
+        }
+        Stream::JsonLines => {}
+    }
+    out.flush().map_err(write_failed)?;
+    if let Some(mut w) = csv_out {
+        w.flush()
+            .map_err(|e| Failure::usage(format!("--csv: {e}")))?;
+    }
+    if let Err(e) = finished {
+        // Rows before the failure were reported; the rest of the file was not read.
+        return Err(Failure::usage(format!("--input {}: {e}", path.display())));
+    }
+    Ok(Output {
+        stdout: String::new(),
+        warnings,
+        code: if errors.is_empty() { 0 } else { 2 },
+    })
+}
+
 pub fn run(args: &Args, data: Option<&Path>) -> Result<Output, Failure> {
+    if let (Some(path), None) = (&args.input, &args.html) {
+        return stream_batch(args, path, data);
+    }
     if let Some(path) = &args.input {
         let text = std::fs::read_to_string(path)
             .map_err(|e| Failure::usage(format!("--input: cannot read {}: {e}", path.display())))?;

@@ -253,8 +253,8 @@ impl BatchReport {
     }
 
     /// Rows in file order: samples and bad rows.
-    fn rows(&self) -> Vec<Result<&CheckReport, &RowErrorRow>> {
-        let mut rows: Vec<(usize, Result<&CheckReport, &RowErrorRow>)> = self
+    fn rows(&self) -> Vec<BatchRow<'_>> {
+        let mut rows: Vec<(usize, BatchRow<'_>)> = self
             .samples
             .iter()
             .map(|s| (s.row.unwrap_or(0), Ok(s)))
@@ -266,62 +266,7 @@ impl BatchReport {
 
     /// The verdict table with one line per sample (bad rows included), then the reasons.
     pub fn to_table(&self) -> String {
-        let mut t = new_table([
-            "sample",
-            "complex",
-            "prediction",
-            "evans",
-            "moment",
-            "bands",
-            "bond length",
-            "χT(T) curve",
-            "verdict",
-        ]);
-        for row in self.rows() {
-            match row {
-                Ok(s) => {
-                    let mut cells = vec![
-                        s.name.clone().unwrap_or_default(),
-                        format!("{} {}", s.complex, s.ion),
-                    ];
-                    cells.extend(KINDS.iter().map(|k| s.support_of(*k)));
-                    cells.push(format!("{} ({})", s.verdict, s.confidence));
-                    t.add_row(cells);
-                }
-                Err(e) => {
-                    let mut cells = vec![
-                        e.name.clone().unwrap_or_else(|| format!("row {}", e.row)),
-                        format!("bad row {}", e.row),
-                    ];
-                    cells.extend(KINDS.iter().map(|_| "—".to_string()));
-                    cells.push(format!("error in {}", e.column));
-                    t.add_row(cells);
-                }
-            }
-        }
-        let mut out = format!("{t}\n");
-        for row in self.rows() {
-            match row {
-                Ok(s) => {
-                    out.push_str(&format!(
-                        "{}: {}\n",
-                        s.name.as_deref().unwrap_or(""),
-                        s.verdict_line()
-                    ));
-                    for r in &s.reasons {
-                        out.push_str(&format!("  - {r}\n"));
-                    }
-                    for r in &s.recheck {
-                        out.push_str(&format!("  re-check {r}\n"));
-                    }
-                }
-                Err(e) => out.push_str(&format!(
-                    "row {}: not checked: column {}: {}\n",
-                    e.row, e.column, e.message
-                )),
-            }
-        }
-        out
+        rows_table(&self.rows())
     }
 
     /// Where each sample's mean Δ̄/B sits against its crossover.
@@ -357,74 +302,147 @@ impl BatchReport {
     /// CSV: one line per row of the input (bad rows with their error), full precision.
     pub fn to_csv(&self) -> String {
         let mut w = csv::Writer::from_writer(Vec::new());
-        let mut header: Vec<String> = [
-            "row",
-            "name",
-            "complex",
-            "ion",
-            "geometry",
-            "delta_over_b",
-            "crossover_delta_over_b",
-            "margin_percent",
-        ]
-        .iter()
-        .map(|s| s.to_string())
-        .collect();
-        header.extend(KINDS.iter().map(|k| k.name().replace('-', "_")));
-        header.extend(
-            ["verdict", "confidence", "reasons", "recheck", "error"]
-                .iter()
-                .map(|s| s.to_string()),
-        );
-        w.write_record(&header).expect("CSV to memory");
-        let opt = |x: Option<f64>| x.map_or(String::new(), |v| v.to_string());
+        w.write_record(csv_header()).expect("CSV to memory");
         for row in self.rows() {
-            let rec: Vec<String> = match row {
-                Ok(s) => {
-                    let mut r = vec![
-                        opt(s.row.map(|r| r as f64)),
-                        s.name.clone().unwrap_or_default(),
-                        s.complex.clone(),
-                        s.ion.clone(),
-                        s.geometry.clone(),
-                        s.delta_over_b.to_string(),
-                        opt(s.crossover_delta_over_b),
-                        opt(s.margin_percent),
-                    ];
-                    r.extend(KINDS.iter().map(|k| {
-                        let c = s.support_of(*k);
-                        if c == "—" {
-                            String::new()
-                        } else {
-                            c
-                        }
-                    }));
-                    r.extend([
-                        s.verdict.clone(),
-                        s.confidence.clone(),
-                        s.reasons.join(" | "),
-                        s.recheck.join(" | "),
-                        String::new(),
-                    ]);
-                    r
-                }
-                Err(e) => {
-                    let mut r = vec![e.row.to_string(), e.name.clone().unwrap_or_default()];
-                    r.extend(std::iter::repeat_n(String::new(), 6 + KINDS.len()));
-                    r.extend([
-                        "error".to_string(),
-                        String::new(),
-                        String::new(),
-                        String::new(),
-                        format!("column {}: {}", e.column, e.message),
-                    ]);
-                    r
-                }
-            };
-            w.write_record(&rec).expect("CSV to memory");
+            w.write_record(csv_record(row)).expect("CSV to memory");
         }
         String::from_utf8(w.into_inner().expect("CSV to memory")).expect("CSV is UTF-8")
     }
+}
+
+/// One row of a batch result: a checked sample or a bad row.
+pub type BatchRow<'a> = Result<&'a CheckReport, &'a RowErrorRow>;
+
+/// The header of the batch CSV.
+pub fn csv_header() -> Vec<String> {
+    let mut header: Vec<String> = [
+        "row",
+        "name",
+        "complex",
+        "ion",
+        "geometry",
+        "delta_over_b",
+        "crossover_delta_over_b",
+        "margin_percent",
+    ]
+    .iter()
+    .map(|s| s.to_string())
+    .collect();
+    header.extend(KINDS.iter().map(|k| k.name().replace('-', "_")));
+    header.extend(
+        ["verdict", "confidence", "reasons", "recheck", "error"]
+            .iter()
+            .map(|s| s.to_string()),
+    );
+    header
+}
+
+/// One record of the batch CSV (full precision), matching [`csv_header`].
+pub fn csv_record(row: BatchRow<'_>) -> Vec<String> {
+    let opt = |x: Option<f64>| x.map_or(String::new(), |v| v.to_string());
+    match row {
+        Ok(s) => {
+            let mut r = vec![
+                opt(s.row.map(|r| r as f64)),
+                s.name.clone().unwrap_or_default(),
+                s.complex.clone(),
+                s.ion.clone(),
+                s.geometry.clone(),
+                s.delta_over_b.to_string(),
+                opt(s.crossover_delta_over_b),
+                opt(s.margin_percent),
+            ];
+            r.extend(KINDS.iter().map(|k| {
+                let c = s.support_of(*k);
+                if c == "—" {
+                    String::new()
+                } else {
+                    c
+                }
+            }));
+            r.extend([
+                s.verdict.clone(),
+                s.confidence.clone(),
+                s.reasons.join(" | "),
+                s.recheck.join(" | "),
+                String::new(),
+            ]);
+            r
+        }
+        Err(e) => {
+            let mut r = vec![e.row.to_string(), e.name.clone().unwrap_or_default()];
+            r.extend(std::iter::repeat_n(String::new(), 6 + KINDS.len()));
+            r.extend([
+                "error".to_string(),
+                String::new(),
+                String::new(),
+                String::new(),
+                format!("column {}: {}", e.column, e.message),
+            ]);
+            r
+        }
+    }
+}
+
+/// The verdict table of some rows of a batch (one line per sample or bad row), then their
+/// reasons; a streamed batch prints one such table per chunk of rows.
+pub fn rows_table(rows: &[BatchRow<'_>]) -> String {
+    let mut t = new_table([
+        "sample",
+        "complex",
+        "prediction",
+        "evans",
+        "moment",
+        "bands",
+        "bond length",
+        "χT(T) curve",
+        "verdict",
+    ]);
+    for row in rows.iter().copied() {
+        match row {
+            Ok(s) => {
+                let mut cells = vec![
+                    s.name.clone().unwrap_or_default(),
+                    format!("{} {}", s.complex, s.ion),
+                ];
+                cells.extend(KINDS.iter().map(|k| s.support_of(*k)));
+                cells.push(format!("{} ({})", s.verdict, s.confidence));
+                t.add_row(cells);
+            }
+            Err(e) => {
+                let mut cells = vec![
+                    e.name.clone().unwrap_or_else(|| format!("row {}", e.row)),
+                    format!("bad row {}", e.row),
+                ];
+                cells.extend(KINDS.iter().map(|_| "—".to_string()));
+                cells.push(format!("error in {}", e.column));
+                t.add_row(cells);
+            }
+        }
+    }
+    let mut out = format!("{t}\n");
+    for row in rows.iter().copied() {
+        match row {
+            Ok(s) => {
+                out.push_str(&format!(
+                    "{}: {}\n",
+                    s.name.as_deref().unwrap_or(""),
+                    s.verdict_line()
+                ));
+                for r in &s.reasons {
+                    out.push_str(&format!("  - {r}\n"));
+                }
+                for r in &s.recheck {
+                    out.push_str(&format!("  re-check {r}\n"));
+                }
+            }
+            Err(e) => out.push_str(&format!(
+                "row {}: not checked: column {}: {}\n",
+                e.row, e.column, e.message
+            )),
+        }
+    }
+    out
 }
 
 /// A one-line picture of Δ/B against the crossover: the scale runs from half to one and a half
