@@ -340,14 +340,20 @@ impl ZeemanLevels {
                 .blocks
                 .iter()
                 .all(|b| b.vectors.iter().all(|z| z.im == 0.0));
-        let real_vectors: Vec<DMatrix<f64>> = if real {
+        // Eigenvectors and their transposes, real (products below go through the blocked
+        // matrix kernel; `tr_mul` would take dot products element by element).
+        let (real_vectors, real_transposed): (Vec<DMatrix<f64>>, Vec<DMatrix<f64>>) = if real {
             solution
                 .blocks
                 .iter()
-                .map(|b| b.vectors.map(|z| z.re))
-                .collect()
+                .map(|b| {
+                    let v = b.vectors.map(|z| z.re);
+                    let t = v.transpose();
+                    (v, t)
+                })
+                .unzip()
         } else {
-            Vec::new()
+            (Vec::new(), Vec::new())
         };
         let nlev = energies.len();
         let mut first_order = vec![vec![[0.0; 3]; nlev]; models.len()];
@@ -360,8 +366,8 @@ impl ZeemanLevels {
                         continue;
                     };
                     let x = if real {
-                        let (v2, v1) = (&real_vectors[b2], &real_vectors[b1]);
-                        Transformed::Real(v2.tr_mul(&(&pair.l * v1)), v2.tr_mul(&(&pair.s * v1)))
+                        let (v2t, v1) = (&real_transposed[b2], &real_vectors[b1]);
+                        Transformed::Real(v2t * (&pair.l * v1), v2t * (&pair.s * v1))
                     } else {
                         let to_c = |m: &DMatrix<f64>| m.map(|x| C64::new(x, 0.0));
                         let (v2, v1) = (&blk2.vectors, &blk1.vectors);

@@ -117,7 +117,8 @@ impl Projection {
                     continue;
                 }
                 let q = DMatrix::from_columns(&cols);
-                let project = |m: &DMatrix<f64>| q.tr_mul(&(m * &q));
+                let qt = q.transpose();
+                let project = |m: &DMatrix<f64>| &qt * (m * &q);
                 states += q.ncols() * dim;
                 let irrep = if group == PointGroup::D4h {
                     name.to_string()

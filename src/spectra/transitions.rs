@@ -98,11 +98,6 @@ impl std::str::FromStr for SpinChoice {
     }
 }
 
-/// Δ/B values scanned to find the possible ground spin states.
-fn scan_points() -> impl Iterator<Item = f64> {
-    (1..=200).map(|k| 0.5 * k as f64)
-}
-
 /// One calculation at B = `b` cm⁻¹, C = `c_over_b`·B and Δ/B = `delta_over_b`.
 pub fn calculation_at(
     dn: usize,
@@ -121,13 +116,13 @@ pub fn calculation(dn: usize, geometry: Geometry, dq: f64, b: f64, c: f64) -> Re
     Calculation::new(dn, b, c, field, geometry.point_group(0.0, 0.0))
 }
 
-/// The spin states that are the ground state somewhere between Δ/B = 0.5 and 100 at the given
-/// C/B, from weak to strong field. A single entry has kind [`SpinKind::Only`].
+/// The spin states that are the ground state somewhere at the given C/B (every Δ/B up to the
+/// engine's bound beyond which the spin cannot change), from weak to strong field. A single entry has kind [`SpinKind::Only`].
 pub fn spin_states(dn: usize, geometry: Geometry, c_over_b: f64) -> Result<Vec<SpinState>> {
+    // The engine's map of ground spins over every Δ/B (cached, with no fixed ceiling).
     let mut spins: Vec<i32> = Vec::new();
-    for x in scan_points() {
-        let s = calculation_at(dn, geometry, 1000.0, c_over_b, x)?.ground_two_s()?;
-        if spins.last() != Some(&s) && !spins.contains(&s) {
+    for (_, s) in crate::engine::crossover::ground_spin_map(dn, geometry, c_over_b)? {
+        if !spins.contains(&s) {
             spins.push(s);
         }
     }
