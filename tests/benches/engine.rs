@@ -13,6 +13,18 @@ fn bench_diagram(c: &mut Criterion) {
     g.bench_function("d5 oct, 1000 points, labelled", |b| {
         b.iter(|| diagram(5, Geometry::Octahedral, black_box(4.477), 40.0, 1000).unwrap())
     });
+    g.bench_function("d5 oct, 1000 points, every point from eigenvectors", |b| {
+        b.iter(|| {
+            spinstate::engine::diagram::diagram_full(
+                5,
+                Geometry::Octahedral,
+                black_box(4.477),
+                40.0,
+                1000,
+            )
+            .unwrap()
+        })
+    });
     g.finish();
 }
 
@@ -98,6 +110,30 @@ fn bench_magnetism(c: &mut Criterion) {
             })
         },
     );
+    // d5 (252 states): the real-arithmetic sums against the complex reference path, both from
+    // one diagonalisation.
+    let d5 = Calculation::new(
+        5,
+        860.0,
+        3850.0,
+        LigandField::octahedral(1400.0),
+        PointGroup::Oh,
+    )
+    .unwrap();
+    let m5 = MagneticModel::new(400.0);
+    let solution = d5.spin_orbit(400.0).unwrap();
+    c.bench_function("magnetism d5 oct, 300-point curve (full)", |b| {
+        b.iter(|| {
+            let z = ZeemanLevels::compute(black_box(&d5), &m5).unwrap();
+            z.curve(&temps).unwrap()
+        })
+    });
+    c.bench_function("Zeeman sums d5 oct, real arithmetic", |b| {
+        b.iter(|| ZeemanLevels::from_solution(black_box(&d5), &solution, &m5).unwrap())
+    });
+    c.bench_function("Zeeman sums d5 oct, complex reference path", |b| {
+        b.iter(|| ZeemanLevels::from_solution_complex(black_box(&d5), &solution, &m5).unwrap())
+    });
 }
 
 criterion_group!(

@@ -69,6 +69,10 @@ fn bench_screen(c: &mut Criterion) {
     g.bench_function("30 monodentates, 6 sites, Fe(II) oct, top 20", |b| {
         b.iter(|| black_box(&screen).run(Keep::Top(20), &mut |_| {}))
     });
+    g.bench_function(
+        "30 monodentates, 6 sites, Fe(II) oct, top 20, exact path",
+        |b| b.iter(|| black_box(&screen).run_exact(Keep::Top(20), &mut |_| {})),
+    );
     g.finish();
 }
 
