@@ -369,17 +369,19 @@ impl Shell {
             .iter()
             .find(|(s, _, _)| *s == block.two_s)
             .expect("every spin of the shell has an L+ matrix");
-        let mut full = nalgebra::DVector::from_element(list.len(), C64::new(0.0, 0.0));
+        // L₊ is real: act on the real and imaginary parts separately (no complex copy of L₊).
+        let mut re = nalgebra::DVector::zeros(list.len());
+        let mut im = nalgebra::DVector::zeros(list.len());
         let mut lz = 0.0;
         for (i, &d) in block.dets.dets.iter().enumerate() {
             let pos = list
                 .position(d)
                 .expect("block determinants are in the M_S list");
-            full[pos] = det_vector[i];
+            re[pos] = det_vector[i].re;
+            im[pos] = det_vector[i].im;
             let ml = total_ml(d) as f64;
             lz += det_vector[i].norm_sqr() * (ml * ml + ml);
         }
-        let raised = lplus.map(|x| C64::new(x, 0.0)) * full;
-        lz + raised.norm_squared()
+        lz + (lplus * re).norm_squared() + (lplus * im).norm_squared()
     }
 }
