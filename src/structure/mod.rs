@@ -12,6 +12,7 @@
 pub mod centre;
 pub mod cif;
 pub mod distortion;
+pub mod field;
 pub mod lattice;
 pub mod shape;
 pub mod sphere;
