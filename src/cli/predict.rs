@@ -18,7 +18,7 @@ pub struct Args {
     /// Oxidation state of the metal, e.g. 2.
     #[arg(long, value_name = "N", allow_hyphen_values = true)]
     pub ox: i32,
-    /// Geometry: oct, tet or sqpl.
+    /// Geometry: oct, tet, sqpl, sqpy (square pyramid) or tbp (trigonal bipyramid).
     #[arg(long, value_name = "G")]
     pub geometry: String,
     /// A ligand and how many of it are bound, NAME[:COUNT] (repeatable; e.g. --ligand NCS:2
