@@ -289,7 +289,7 @@ impl ComplexSpec {
         let mut bound: Vec<BoundLigand> = Vec::new();
         for lc in &self.ligands {
             let ligand = tables.ligands.find(&lc.name)?;
-            if !ligand.binds.contains(&geometry) {
+            if !ligand.binds_in(geometry) {
                 let can: Vec<&str> = ligand.binds.iter().map(|g| g.name()).collect();
                 return Err(Error::invalid(
                     format!("ligand {}", ligand.name),
@@ -333,6 +333,18 @@ impl ComplexSpec {
                 .map(|b| b.count as i32 * b.ligand.charge)
                 .sum::<i32>();
         let mut notes = Vec::new();
+        match geometry {
+            Geometry::SquarePyramidal => notes.push(
+                "sqpy: ideal square pyramid, metal in the basal plane, angular-overlap field (σ only, e_σ = 10Dq/3, d–s mixing); the d-orbital field of C4v has D4h symmetry, so levels carry D4h labels: drop the g for C4v".to_string(),
+            ),
+            Geometry::TrigonalBipyramidal => notes.push(
+                "tbp: ideal trigonal bipyramid, angular-overlap field (σ only, e_σ = 10Dq/3, d–s mixing); D3h is not among the groups the engine labels, so levels are labelled A (C1)".to_string(),
+            ),
+            Geometry::Octahedral
+            | Geometry::Tetrahedral
+            | Geometry::SquarePlanar
+            | Geometry::Tetragonal => {}
+        }
 
         // Δ
         for (name, v) in [

@@ -95,7 +95,11 @@ impl Calibration {
     pub fn geometry_factor(&self, geometry: Geometry) -> f64 {
         let shape = geometry.delta_ratio_to_octahedral();
         match geometry {
-            Geometry::Octahedral | Geometry::Tetragonal | Geometry::Tetrahedral => shape,
+            Geometry::Octahedral
+            | Geometry::Tetragonal
+            | Geometry::Tetrahedral
+            | Geometry::SquarePyramidal
+            | Geometry::TrigonalBipyramidal => shape,
             Geometry::SquarePlanar => shape * self.planar_factor,
         }
     }
@@ -404,7 +408,8 @@ impl Reliability {
     /// spectra (Δo within about 3–10 % for the aqua and ammine ions of Cr(III), Ni(II), Co(III);
     /// data/README.md): 10 % for a printed f, 12 % derived, 20 % placed by series; added in
     /// quadrature: 8 % for a derived g, 15 % for a g from a rule or assumed, 10 % when
-    /// back-bonding was added, 20 % for square planar (one calibrated planar factor).
+    /// back-bonding was added, 20 % for square planar (one calibrated planar factor) and for
+    /// the five-coordinate geometries (no reported spin states calibrate them).
     pub fn delta(&self) -> f64 {
         let mut u: f64 = match self.worst_f {
             FieldBasis::Printed => 0.10,
@@ -420,7 +425,9 @@ impl Reliability {
             u = u.hypot(0.10);
         }
         let planar = match self.geometry {
-            Geometry::SquarePlanar => 0.20,
+            Geometry::SquarePlanar | Geometry::SquarePyramidal | Geometry::TrigonalBipyramidal => {
+                0.20
+            }
             Geometry::Octahedral | Geometry::Tetrahedral | Geometry::Tetragonal => 0.0,
         };
         u.hypot(planar)

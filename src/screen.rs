@@ -803,7 +803,7 @@ fn prepare_ion(tables: &Tables, spec: &IonSpec, geometry: Geometry) -> Result<Sc
 
 /// Why a ligand cannot take part in a screen of `geometry`, if it cannot.
 fn unusable(l: &Ligand, geometry: Geometry) -> Option<String> {
-    if !l.binds.contains(&geometry) {
+    if !l.binds_in(geometry) {
         let can: Vec<&str> = l.binds.iter().map(|g| g.name()).collect();
         return Some(format!(
             "{} does not bind in {} (it binds in: {})",

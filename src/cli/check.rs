@@ -33,7 +33,7 @@ pub struct Args {
     /// Oxidation state of the metal.
     #[arg(long, value_name = "N", allow_hyphen_values = true)]
     pub ox: Option<i32>,
-    /// Geometry: oct, tet or sqpl.
+    /// Geometry: oct, tet, sqpl, sqpy (square pyramid) or tbp (trigonal bipyramid).
     #[arg(long, value_name = "G")]
     pub geometry: Option<String>,
     /// A ligand, NAME[:COUNT] (repeatable), as in `predict`.

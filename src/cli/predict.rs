@@ -4,10 +4,15 @@
 use super::common::{load_tables, parse_geometry, Format};
 use super::{Failure, Output};
 use spinstate::complex::{ComplexSpec, LigandCount, Overrides};
+use spinstate::engine::Geometry;
 use spinstate::predict::{predict_with, PredictOptions};
 use spinstate::report::predict::PredictReport;
+use spinstate::report::structure_spin::StructureSpinReport;
 use spinstate::report::to_json;
 use spinstate::spectra::count;
+use spinstate::structure::centre::Centre;
+use spinstate::structure::shape::IdealShape;
+use spinstate::structure::spin::structure_spin;
 use std::path::Path;
 
 #[derive(Debug, clap::Args)]
@@ -18,9 +23,16 @@ pub struct Args {
     /// Oxidation state of the metal, e.g. 2.
     #[arg(long, value_name = "N", allow_hyphen_values = true)]
     pub ox: i32,
-    /// Geometry: oct, tet or sqpl.
-    #[arg(long, value_name = "G")]
-    pub geometry: String,
+    /// Geometry: oct, tet, sqpl, sqpy (square pyramid) or tbp (trigonal bipyramid). With
+    /// --structure it defaults to the centre's closest shape.
+    #[arg(long, value_name = "G", required_unless_present = "structure")]
+    pub geometry: Option<String>,
+    /// Use the field of a real centre: a crystal structure (.cif) or coordinates (.xyz). The
+    /// ligands are still needed: each donor atom is assigned to a ligand by its element.
+    #[arg(long, value_name = "FILE")]
+    pub structure: Option<std::path::PathBuf>,
+    #[command(flatten)]
+    pub centre: super::structure::CentreArgs,
     /// A ligand and how many of it are bound, NAME[:COUNT] (repeatable; e.g. --ligand NCS:2
     /// --ligand py:4). The donor atoms must fill the geometry exactly.
     #[arg(long = "ligand", value_name = "NAME[:COUNT]", required = true)]
@@ -43,8 +55,9 @@ pub struct Args {
 }
 
 impl Args {
-    /// The complex described by the options.
-    pub fn spec(&self) -> Result<ComplexSpec, Failure> {
+    /// The complex described by the options; `default_geometry` is used when --geometry is
+    /// not given.
+    pub fn spec_in(&self, default_geometry: Option<Geometry>) -> Result<ComplexSpec, Failure> {
         let ligands = self
             .ligands
             .iter()
@@ -56,7 +69,15 @@ impl Args {
         Ok(ComplexSpec {
             metal: self.metal.clone(),
             oxidation_state: self.ox,
-            geometry: parse_geometry(&self.geometry)?,
+            geometry: match (&self.geometry, default_geometry) {
+                (Some(g), _) => parse_geometry(g)?,
+                (None, Some(g)) => g,
+                (None, None) => {
+                    return Err(Failure::usage(
+                        "--geometry is needed (oct, tet, sqpl, sqpy or tbp)",
+                    ))
+                }
+            },
             ligands,
             overrides: Overrides {
                 delta: self.delta,
@@ -67,7 +88,70 @@ impl Args {
     }
 }
 
+impl Args {
+    /// The complex described by the options.
+    pub fn spec(&self) -> Result<ComplexSpec, Failure> {
+        self.spec_in(None)
+    }
+}
+
+/// The named geometry closest to a centre's shape (for the composition estimate).
+fn geometry_of(centre: &Centre) -> Option<Geometry> {
+    match centre.best_shape? {
+        IdealShape::Octahedron | IdealShape::TrigonalPrism => Some(Geometry::Octahedral),
+        IdealShape::Tetrahedron => Some(Geometry::Tetrahedral),
+        IdealShape::SquarePlane => Some(Geometry::SquarePlanar),
+        IdealShape::SquarePyramid => Some(Geometry::SquarePyramidal),
+        IdealShape::TrigonalBipyramid => Some(Geometry::TrigonalBipyramidal),
+    }
+}
+
+fn run_structure(args: &Args, path: &Path, data: Option<&Path>) -> Result<Output, Failure> {
+    let tables = load_tables(data)?;
+    let s = super::structure::read_structure(path)?;
+    let centres = super::structure::centres(&s, &args.centre, Some(args.ox), data)?;
+    let centre = match centres.as_slice() {
+        [c] => c,
+        _ => {
+            return Err(Failure::usage(format!(
+                "{}: {} metal centres; choose one with --metal-index N or --metal-label LABEL",
+                s.name,
+                centres.len()
+            )))
+        }
+    };
+    let complex = args.spec_in(geometry_of(centre))?.resolve(&tables)?;
+    let spin = structure_spin(centre, &complex, &[])?;
+    let mut notes = vec![
+        format!(
+            "each donor is assigned to a ligand of the composition by its element (assumed, not read from the structure); e_σ, e_π per donor from the {} estimate of Δ_LS at {} Å, scaled by (r₀/r)^{}",
+            complex.geometry.name(),
+            spinstate::estimate::REFERENCE_BOND_LENGTH,
+            complex.calibration.distance_exponent
+        ),
+        "the margin scales the field at fixed geometry; a real spin change also moves the bonds".to_string(),
+    ];
+    notes.extend(centre.notes.iter().cloned());
+    notes.extend(complex.notes.iter().cloned());
+    notes.extend(complex.cautions.iter().map(|c| format!("caution: {c}")));
+    let report = StructureSpinReport::new(
+        &centre.label,
+        complex.formula(),
+        &spin,
+        centre.spin_state_from_bonds,
+        notes,
+    );
+    Ok(Output::text(if args.format.json {
+        to_json(&report)
+    } else {
+        report.to_table()
+    }))
+}
+
 pub fn run(args: &Args, data: Option<&Path>) -> Result<Output, Failure> {
+    if let Some(path) = &args.structure {
+        return run_structure(args, path, data);
+    }
     let tables = load_tables(data)?;
     let complex = args.spec()?.resolve(&tables)?;
     let charge_transfer = count::charge_transfer_limit(&tables.charge_transfer, &complex);

@@ -111,6 +111,33 @@ fn build_complex_from_real() -> nalgebra::SMatrix<Complex<f64>, 5, 5> {
     t
 }
 
+/// Coefficients of each real d orbital (in [`REAL_ORBITALS`] order) on the σ (local z²) and
+/// the two π (local xz, yz) orbitals of a ligand along `dir`: the angular-overlap factors
+/// F_σ, F_πx, F_πy.
+fn angular_factors(dir: &Vector3<f64>) -> ([f64; 5], [f64; 5], [f64; 5]) {
+    let n = dir.normalize();
+    // Two unit vectors perpendicular to n form the local x', y' axes.
+    let trial = if n.x.abs() < 0.9 {
+        Vector3::x()
+    } else {
+        Vector3::y()
+    };
+    let u = (trial - n * n.dot(&trial)).normalize();
+    let w = n.cross(&u);
+    let r = Matrix3::from_rows(&[u.transpose(), w.transpose(), n.transpose()]);
+    let mut fs = [0.0; 5];
+    let mut fx = [0.0; 5];
+    let mut fy = [0.0; 5];
+    for a in 0..5 {
+        let local = r * real_orbital_form(a) * r.transpose();
+        let dot = |b: usize| real_orbital_form(b).component_mul(&local).sum();
+        fs[a] = dot(Z2);
+        fx[a] = dot(XZ);
+        fy[a] = dot(YZ);
+    }
+    (fs, fx, fy)
+}
+
 /// The one-electron ligand-field matrix over the five real d orbitals (cm⁻¹).
 #[derive(Debug, Clone, Copy, PartialEq)]
 pub struct LigandField {
@@ -184,27 +211,7 @@ impl LigandField {
     pub fn angular_overlap(ligands: &[(Vector3<f64>, f64, f64)]) -> Self {
         let mut v = Matrix5::zeros();
         for (dir, e_sigma, e_pi) in ligands {
-            let n = dir.normalize();
-            // Two unit vectors perpendicular to n form the local x', y' axes.
-            let trial = if n.x.abs() < 0.9 {
-                Vector3::x()
-            } else {
-                Vector3::y()
-            };
-            let u = (trial - n * n.dot(&trial)).normalize();
-            let w = n.cross(&u);
-            let r = Matrix3::from_rows(&[u.transpose(), w.transpose(), n.transpose()]);
-            // Coefficients of each global orbital on the local σ (z²) and π (xz, yz) orbitals.
-            let mut fs = [0.0; 5];
-            let mut fx = [0.0; 5];
-            let mut fy = [0.0; 5];
-            for a in 0..5 {
-                let local = r * real_orbital_form(a) * r.transpose();
-                let dot = |b: usize| real_orbital_form(b).component_mul(&local).sum();
-                fs[a] = dot(Z2);
-                fx[a] = dot(XZ);
-                fy[a] = dot(YZ);
-            }
+            let (fs, fx, fy) = angular_factors(dir);
             for a in 0..5 {
                 for b in 0..5 {
                     v[(a, b)] += e_sigma * fs[a] * fs[b] + e_pi * (fx[a] * fx[b] + fy[a] * fy[b]);
@@ -212,6 +219,32 @@ impl LigandField {
             }
         }
         LigandField { matrix: v }
+    }
+
+    /// [`LigandField::angular_overlap`] plus d–s mixing: the metal s orbital, reached through
+    /// the ligands' σ orbitals, lowers the d combination Σ_L √e_ds,L F_σ(L) by its squared
+    /// norm, V_ab −= (Σ_L √e_ds,L F_σ,a(L))(Σ_L √e_ds,L F_σ,b(L)), with e_ds,L =
+    /// `mixing`·e_σ,L/4 (the second-order d–s term of D. W. Smith, *Inorg. Chim. Acta* 1977,
+    /// 22, 107; from memory). It vanishes for the octahedron and the tetrahedron (no d orbital
+    /// transforms as the s orbital there) and lowers z² of the ideal square plane by
+    /// `mixing`·e_σ, so the planar set reproduces [`LigandField::square_planar`]. Not
+    /// barycentred.
+    pub fn angular_overlap_with_ds(ligands: &[(Vector3<f64>, f64, f64)], mixing: f64) -> Self {
+        let mut field = Self::angular_overlap(ligands);
+        let mut s = [0.0; 5];
+        for (dir, e_sigma, _) in ligands {
+            let (fs, _, _) = angular_factors(dir);
+            let w = (mixing * e_sigma.max(0.0) / 4.0).sqrt();
+            for a in 0..5 {
+                s[a] += w * fs[a];
+            }
+        }
+        for a in 0..5 {
+            for b in 0..5 {
+                field.matrix[(a, b)] -= s[a] * s[b];
+            }
+        }
+        field
     }
 
     /// The same field with its mean orbital energy removed (barycentred).

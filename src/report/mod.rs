@@ -18,6 +18,7 @@ pub mod predict;
 pub mod sco;
 pub mod screen;
 pub mod structure;
+pub mod structure_spin;
 
 use comfy_table::{presets::UTF8_FULL_CONDENSED, ContentArrangement, Table};
 use serde::Serialize;

@@ -647,7 +647,7 @@ pub struct Intensity {
 /// The expected intensity of a d–d band (A. B. P. Lever, Inorganic Electronic Spectroscopy,
 /// 2nd ed., 1984; F. A. Cotton, G. Wilkinson et al., Advanced Inorganic Chemistry, 1999; usual
 /// ranges, from memory): spin-allowed bands of centrosymmetric complexes (oct, sqpl,
-/// tetragonal) are Laporte-forbidden, ε ≈ 1–100; without an inversion centre (tet) d–p mixing
+/// tetragonal) are Laporte-forbidden, ε ≈ 1–100; without an inversion centre (tet, sqpy, tbp) d–p mixing
 /// lends intensity, ε ≈ 50–1000; spin-forbidden bands have ε ≲ 1. A two-electron jump
 /// (`weak`) is a further factor of ten weaker.
 pub fn intensity(geometry: Geometry, spin_allowed: bool, weak: bool) -> Intensity {
@@ -655,7 +655,9 @@ pub fn intensity(geometry: Geometry, spin_allowed: bool, weak: bool) -> Intensit
         ("spin-forbidden", (0.01, 1.0))
     } else {
         match geometry {
-            Geometry::Tetrahedral => ("spin-allowed, no inversion centre", (50.0, 1000.0)),
+            Geometry::Tetrahedral | Geometry::SquarePyramidal | Geometry::TrigonalBipyramidal => {
+                ("spin-allowed, no inversion centre", (50.0, 1000.0))
+            }
             Geometry::Octahedral | Geometry::SquarePlanar | Geometry::Tetragonal => {
                 ("spin-allowed, Laporte-forbidden", (1.0, 100.0))
             }

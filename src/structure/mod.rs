@@ -8,13 +8,16 @@
 //! - [`distortion`]: the octahedral distortion parameters Σ, Θ and ζ.
 //! - [`centre`]: everything reported for one centre, and the comparison of two structures.
 //! - [`field`]: the angular-overlap field of a centre at its real geometry.
+//! - [`spin`]: the spin state that field gives, and its distance from a spin change.
 
 pub mod centre;
 pub mod cif;
 pub mod distortion;
+pub mod field;
 pub mod lattice;
 pub mod shape;
 pub mod sphere;
+pub mod spin;
 pub mod xyz;
 
 use crate::error::{Error, Result};

@@ -113,6 +113,21 @@ pub struct Ligand {
 }
 
 impl Ligand {
+    /// Whether the ligand can occupy `geometry`: as listed in its `binds` column, and the
+    /// five-coordinate geometries (sqpy, tbp) wherever it binds in an octahedron (the column
+    /// lists only oct, tet and sqpl; common practice).
+    pub fn binds_in(&self, geometry: Geometry) -> bool {
+        match geometry {
+            Geometry::SquarePyramidal | Geometry::TrigonalBipyramidal => {
+                self.binds.contains(&Geometry::Octahedral)
+            }
+            Geometry::Octahedral
+            | Geometry::Tetrahedral
+            | Geometry::SquarePlanar
+            | Geometry::Tetragonal => self.binds.contains(&geometry),
+        }
+    }
+
     /// Number of donor atoms.
     pub fn denticity(&self) -> usize {
         self.donors.len()
