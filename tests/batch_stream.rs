@@ -86,3 +86,39 @@ fn a_file_without_line_breaks_is_refused() {
     assert!(err.contains("longer than"), "{err}");
     assert_eq!(err.lines().count(), 1, "{err}");
 }
+
+#[test]
+fn rows_keep_their_line_numbers_after_crlf_and_blank_lines() {
+    // A spreadsheet export with CRLF line ends, blank lines and a stray line: every row is
+    // named by its true line in the file (header = line 1).
+    let dir = tempfile::tempdir().unwrap();
+    for (name, eol) in [("crlf.csv", "\r\n"), ("lf.csv", "\n")] {
+        let text = [
+            "name,metal,ox,geometry,ligands",
+            "A,Fe,2,oct,H2O:6",
+            "B,Xq,2,oct,H2O:6",
+            "",
+            "",
+            "stray",
+            "C,Fe,9,oct,H2O:6",
+            "",
+        ]
+        .join(eol);
+        let path = dir.path().join(name);
+        std::fs::write(&path, text).unwrap();
+        let (_, out, err) = run(&["check", "--input", path.to_str().unwrap(), "--jsonl"]);
+        let rows: Vec<u64> = out
+            .lines()
+            .map(|l| {
+                serde_json::from_str::<serde_json::Value>(l).unwrap()["row"]
+                    .as_u64()
+                    .unwrap()
+            })
+            .collect();
+        assert_eq!(rows, [2, 3, 6, 7], "{name}");
+        assert!(
+            err.contains("row 3 (B)") && err.contains("row 7 (C)"),
+            "{name}: {err}"
+        );
+    }
+}

@@ -114,28 +114,73 @@ pub fn parse(text: &str) -> Result<Vec<std::result::Result<Sample, RowError>>> {
     Ok(out)
 }
 
-/// Reads `R` but fails once a line grows beyond [`MAX_LINE_BYTES`].
+/// Reads `R` but fails once a line grows beyond [`MAX_LINE_BYTES`]; it also notes where each
+/// non-empty line starts, so that rows get their true line numbers whatever the line ending and
+/// however many blank lines come before them (the CSV reader's own count is one short after
+/// CRLF line ends, and its record positions include the blank lines it skipped).
 struct LineLimited<R> {
     inner: R,
     line_bytes: usize,
+    /// Bytes read so far.
+    read: u64,
+    /// Line number of the byte being read (1-based).
+    line: usize,
+    /// The byte being read is the first of its line.
+    at_line_start: bool,
+    /// (offset, line) of non-empty line starts not yet passed by a row.
+    starts: std::collections::VecDeque<(u64, usize)>,
+}
+
+impl<R> LineLimited<R> {
+    fn new(inner: R) -> Self {
+        LineLimited {
+            inner,
+            line_bytes: 0,
+            read: 0,
+            line: 1,
+            at_line_start: true,
+            starts: std::collections::VecDeque::new(),
+        }
+    }
+
+    /// Line number of the first non-empty line at or after byte `offset` (a record's start);
+    /// offsets must be asked in increasing order.
+    fn line_of(&mut self, offset: u64) -> usize {
+        while self.starts.front().is_some_and(|&(o, _)| o < offset) {
+            self.starts.pop_front();
+        }
+        self.starts.front().map_or(self.line, |&(_, l)| l)
+    }
 }
 
 impl<R: std::io::Read> std::io::Read for LineLimited<R> {
     fn read(&mut self, buf: &mut [u8]) -> std::io::Result<usize> {
         let n = self.inner.read(buf)?;
-        for &b in &buf[..n] {
-            if b == b'\n' {
-                self.line_bytes = 0;
-            } else {
-                self.line_bytes += 1;
-                if self.line_bytes > MAX_LINE_BYTES {
-                    return Err(std::io::Error::new(
-                        std::io::ErrorKind::InvalidData,
-                        format!("a line longer than {MAX_LINE_BYTES} bytes (not a CSV text file?)"),
-                    ));
+        for (i, &b) in buf[..n].iter().enumerate() {
+            match b {
+                b'\n' => {
+                    self.line += 1;
+                    self.at_line_start = true;
+                    self.line_bytes = 0;
+                    continue;
+                }
+                b'\r' => {}
+                _ => {
+                    if self.at_line_start {
+                        self.starts.push_back((self.read + i as u64, self.line));
+                    }
+                    self.at_line_start = false;
                 }
             }
+            self.line_bytes += 1;
+            if self.line_bytes > MAX_LINE_BYTES {
+                return Err(std::io::Error::new(
+                    std::io::ErrorKind::InvalidData,
+                    format!("a line longer than {MAX_LINE_BYTES} bytes (not a CSV text file?)"),
+                ));
+            }
         }
+        self.read += n as u64;
         Ok(n)
     }
 }
@@ -165,10 +210,7 @@ impl<R: std::io::Read> BatchReader<R> {
             .has_headers(true)
             .flexible(true)
             .trim(csv::Trim::All)
-            .from_reader(LineLimited {
-                inner: input,
-                line_bytes: 0,
-            });
+            .from_reader(LineLimited::new(input));
         let header: Vec<String> = reader
             .headers()
             .map_err(|e| Error::Parse(format!("input file: the header cannot be read: {e}")))?
@@ -239,6 +281,13 @@ impl<R: std::io::Read> BatchReader<R> {
     }
 }
 
+impl<R: std::io::Read> BatchReader<R> {
+    /// The true line number of a record starting at byte `offset` (0 when unknown).
+    fn line_at(&mut self, offset: Option<u64>) -> usize {
+        offset.map_or(0, |b| self.reader.get_mut().line_of(b))
+    }
+}
+
 impl<R: std::io::Read> Iterator for BatchReader<R> {
     type Item = std::result::Result<Sample, RowError>;
 
@@ -250,7 +299,7 @@ impl<R: std::io::Read> Iterator for BatchReader<R> {
             match self.reader.read_record(&mut self.record) {
                 Ok(false) => return None,
                 Ok(true) => {
-                    let row = self.record.position().map_or(0, |p| p.line() as usize);
+                    let row = self.line_at(self.record.position().map(|p| p.byte()));
                     if self.record.iter().all(str::is_empty) {
                         continue; // a blank line
                     }
@@ -258,7 +307,7 @@ impl<R: std::io::Read> Iterator for BatchReader<R> {
                     return Some(parse_row(row, &self.header, &self.record));
                 }
                 Err(e) => {
-                    let row = e.position().map_or(0, |p| p.line() as usize);
+                    let row = self.line_at(e.position().map(|p| p.byte()));
                     if let csv::ErrorKind::Io(io) = e.kind() {
                         // The reader cannot go on: stop and report it from `finish`.
                         self.fatal = Some(Error::Parse(format!(
