@@ -275,36 +275,13 @@ pub fn run_batch_with(
     let mut samples = Vec::new();
     let mut bad: Vec<RowError> = Vec::new();
     for row in rows {
-        match row {
-            Ok(mut sample) => {
-                if let Err(message) = attach_curve(&mut sample, base) {
-                    bad.push(RowError {
-                        row: sample.row,
-                        name: Some(sample.name),
-                        column: "chit_file".into(),
-                        message,
-                    });
-                    bar.inc(1);
-                    continue;
+        match check_sample(row, base, &loaded) {
+            Ok((input, result)) => {
+                let report = CheckReport::new(&result, Some(input.1), Some(input.0));
+                if html {
+                    sections.push(html_section(&input.2, &result, report.clone())?);
                 }
-                let Sample {
-                    row, name, input, ..
-                } = sample;
-                match check(&input, loaded.tables()) {
-                    Ok(result) => {
-                        let report = CheckReport::new(&result, Some(name), Some(row));
-                        if html {
-                            sections.push(html_section(&input, &result, report.clone())?);
-                        }
-                        samples.push(report)
-                    }
-                    Err(e) => bad.push(RowError {
-                        row,
-                        name: Some(name),
-                        column: batch::columns_of(&e),
-                        message: e.to_string().replace("--magnet", "evans_magnet"),
-                    }),
-                }
+                samples.push(report)
             }
             Err(e) => bad.push(e),
         }
@@ -349,12 +326,15 @@ fn write_failed(e: std::io::Error) -> Failure {
     Failure::usage(format!("cannot write the output: {e}"))
 }
 
-/// One row checked: the sample's report or the row's error.
-fn check_row(
+/// A row's line, name and input, as checked.
+type Checked = (usize, String, spinstate::check::CheckInput);
+
+/// One row checked (its `chit_file` read first): the row and its result, or the row's error.
+fn check_sample(
     row: Result<Sample, RowError>,
     base: Option<&Path>,
     loaded: &Loaded,
-) -> Result<CheckReport, RowError> {
+) -> Result<(Checked, spinstate::check::CheckResult), RowError> {
     let mut sample = row?;
     if let Err(message) = attach_curve(&mut sample, base) {
         return Err(RowError {
@@ -368,7 +348,7 @@ fn check_row(
         row, name, input, ..
     } = sample;
     match check(&input, loaded.tables()) {
-        Ok(result) => Ok(CheckReport::new(&result, Some(name), Some(row))),
+        Ok(result) => Ok(((row, name, input), result)),
         Err(e) => Err(RowError {
             row,
             name: Some(name),
@@ -376,6 +356,16 @@ fn check_row(
             message: e.to_string().replace("--magnet", "evans_magnet"),
         }),
     }
+}
+
+/// One row checked, as its report or its error.
+fn check_row(
+    row: Result<Sample, RowError>,
+    base: Option<&Path>,
+    loaded: &Loaded,
+) -> Result<CheckReport, RowError> {
+    check_sample(row, base, loaded)
+        .map(|((row, name, _), result)| CheckReport::new(&result, Some(name), Some(row)))
 }
 
 /// Checks a batch file row by row, on every core, writing each chunk's results in input order
@@ -418,8 +408,7 @@ fn stream_batch(args: &Args, path: &Path, data: Option<&Path>) -> Result<Output,
     };
     let stdout = std::io::stdout();
     let mut out = std::io::BufWriter::new(stdout.lock());
-    let mut errors: Vec<RowErrorRow> = Vec::new();
-    let mut warnings = Vec::new();
+    let mut errors: Vec<RowError> = Vec::new();
     let mut first_sample = true;
     let mut started = false;
     loop {
@@ -440,8 +429,9 @@ fn stream_batch(args: &Args, path: &Path, data: Option<&Path>) -> Result<Output,
             .into_iter()
             .map(|r| {
                 r.map_err(|e| {
-                    warnings.push(format!("error: {}: {e}", path.display()));
-                    RowErrorRow::from(&e)
+                    let row = RowErrorRow::from(&e);
+                    errors.push(e);
+                    row
                 })
             })
             .collect();
@@ -477,7 +467,6 @@ fn stream_batch(args: &Args, path: &Path, data: Option<&Path>) -> Result<Output,
                 }
             }
         }
-        errors.extend(rows.into_iter().filter_map(Result::err));
         out.flush().map_err(write_failed)?;
         bar.inc(n);
     }
@@ -494,13 +483,14 @@ fn stream_batch(args: &Args, path: &Path, data: Option<&Path>) -> Result<Output,
             writeln!(out, "{SAFETY}").map_err(write_failed)?;
         }
         Stream::Json => {
-            let tail = serde_json::json!({ "errors": errors, "safety": SAFETY });
-            writeln!(
-                out,
-                "],\"errors\":{},\"safety\":{}}}",
-                tail["errors"], tail["safety"]
-            )
-            .map_err(write_failed)?;
+            let rows: Vec<RowErrorRow> = errors.iter().map(RowErrorRow::from).collect();
+            let text =
+                |e: serde_json::Error| Failure::usage(format!("cannot write the output: {e}"));
+            let (rows, safety) = (
+                serde_json::to_string(&rows).map_err(text)?,
+                serde_json::to_string(SAFETY).map_err(text)?,
+            );
+            writeln!(out, "],\"errors\":{rows},\"safety\":{safety}}}").map_err(write_failed)?;
         }
         Stream::JsonLines => {}
     }
@@ -515,7 +505,10 @@ fn stream_batch(args: &Args, path: &Path, data: Option<&Path>) -> Result<Output,
     }
     Ok(Output {
         stdout: String::new(),
-        warnings,
+        warnings: errors
+            .iter()
+            .map(|e| format!("error: {}: {e}", path.display()))
+            .collect(),
         code: if errors.is_empty() { 0 } else { 2 },
     })
 }

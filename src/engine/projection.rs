@@ -152,10 +152,10 @@ impl Projection {
     /// The labelled levels of `calc` (same d^n, group and field direction as the reference)
     /// from eigenvalues alone, with parents from `parents`.
     pub fn levels(&self, calc: &Calculation, parents: &ParentTable) -> Result<Spectrum> {
-        if calc.dn != self.dn || calc.group != self.group || !calc.field.is_real_in_complex_basis()
-        {
+        // A complex field is refused below, where its imaginary part first appears.
+        if calc.dn != self.dn || calc.group != self.group {
             return Err(Error::Computation(
-                "a projection is used only for its own shell and a real field".into(),
+                "a projection is used only for its own shell and group".into(),
             ));
         }
         let v = calc.field.complex_matrix();

@@ -217,7 +217,8 @@ fn polyhedron_frame(centre: &Centre) -> Option<Matrix3<f64>> {
     }
 }
 
-fn cubic_deviation(m: &Matrix5<f64>) -> f64 {
+/// Largest off-diagonal element of a field matrix over the real orbitals.
+fn off_diagonal(m: &Matrix5<f64>) -> f64 {
     let mut dev: f64 = 0.0;
     for a in 0..5 {
         for b in 0..5 {
@@ -226,21 +227,18 @@ fn cubic_deviation(m: &Matrix5<f64>) -> f64 {
             }
         }
     }
-    dev.max((m[(0, 0)] - m[(3, 3)]).abs())
+    dev
+}
+
+fn cubic_deviation(m: &Matrix5<f64>) -> f64 {
+    off_diagonal(m)
+        .max((m[(0, 0)] - m[(3, 3)]).abs())
         .max((m[(1, 1)] - m[(2, 2)]).abs())
         .max((m[(1, 1)] - m[(4, 4)]).abs())
 }
 
 fn tetragonal_deviation(m: &Matrix5<f64>) -> f64 {
-    let mut dev: f64 = 0.0;
-    for a in 0..5 {
-        for b in 0..5 {
-            if a != b {
-                dev = dev.max(m[(a, b)].abs());
-            }
-        }
-    }
-    dev.max((m[(1, 1)] - m[(2, 2)]).abs())
+    off_diagonal(m).max((m[(1, 1)] - m[(2, 2)]).abs())
 }
 
 /// The AOM field of a centre with the donors assigned to the composition's ligands.
