@@ -93,7 +93,9 @@ fn five_coordinate_closed_forms() {
 }
 
 /// The d–s term vanishes for O_h and T_d and turns the ideal square plane into the engine's
-/// square-planar field (z² lowered by DS_MIXING·e_σ).
+/// square-planar field (z² lowered by DS_MIXING·e_σ). d–s mixing in the angular overlap model:
+/// D. W. Smith, Inorg. Chim. Acta 1977, 22, 107 (from memory); that it vanishes for
+/// centrosymmetric cubic sets is common practice.
 #[test]
 fn ds_mixing_reproduces_the_planar_field() {
     let e = 7000.0;
@@ -198,7 +200,8 @@ fn planar_d8_with_strong_sigma_donors_is_low_spin() {
 
 /// The demo compound's two forms (invented structures, data/demo/): with the same assumed
 /// ligands (bpy:3 for the N₆ donor set), the short-bond form gives a singlet and the long-bond
-/// form a quintet, from the distance scaling alone.
+/// form a quintet, from the distance scaling alone (shorter Fe–N bonds for low-spin Fe(II):
+/// common practice; the structures themselves are invented demo data).
 #[test]
 fn demo_forms_give_their_spin_states_from_the_field() {
     let s = spec("Fe", 2, Geometry::Octahedral, &["bpy:3"]);
