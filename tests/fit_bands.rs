@@ -266,7 +266,7 @@ fn bad_input_is_rejected_with_exit_code_2() {
             "--bands",
             "17400,24600",
         ],
-        "Ds and Dt are not fitted",
+        "at least 4 to determine Dq, Ds, Dt, B",
     );
     expect_usage_error(&with(&["--bands", "1,2,3,4"]), "at most 3");
     expect_usage_error(
@@ -335,4 +335,81 @@ fn a_fit_that_does_not_converge_exits_1_with_the_best_point() {
     assert!(out.is_empty());
     assert!(err.contains("best point reached: 10Dq ="), "{err}");
     assert_eq!(err.trim().lines().count(), 1, "{err}");
+}
+
+#[test]
+fn tetragonal_geometry_fits_ds_and_dt() {
+    // Elongated Cu(II) built from the one-hole D4h closed forms with Dq = 1200, Ds = 1500,
+    // Dt = 400 cm⁻¹ (2A1g = 4Ds + 5Dt, 2B2g = 10Dq, 2Eg = 10Dq + 3Ds − 5Dt; A. B. P. Lever,
+    // Inorganic Electronic Spectroscopy, 1984, ch. 6; from memory).
+    let v = run_json(&[
+        "fit-bands",
+        "--metal",
+        "Cu",
+        "--ox",
+        "2",
+        "--geometry",
+        "tetragonal",
+        "--bands",
+        "8000,12000,14500",
+        "--json",
+    ]);
+    assert_eq!(v["geometry"], "tetragonal");
+    assert_eq!(v["reference"], "2B1g");
+    assert_abs_diff_eq!(v["dq"].as_f64().unwrap(), 1200.0, epsilon = 0.5);
+    assert_abs_diff_eq!(v["ds"].as_f64().unwrap(), 1500.0, epsilon = 0.5);
+    assert_abs_diff_eq!(v["dt"].as_f64().unwrap(), 400.0, epsilon = 0.5);
+    assert_abs_diff_eq!(v["dq_axial"].as_f64().unwrap(), 500.0, epsilon = 1.0);
+    assert_eq!(v["determination"], "exact");
+    assert!(v["b"].is_null());
+    // The compressed reading fits as well and is listed, not hidden.
+    assert!(v["alternatives"]
+        .as_array()
+        .unwrap()
+        .iter()
+        .any(|a| a["near_equal"] == true && a["dt"].as_f64().unwrap() < 0.0));
+}
+
+#[test]
+fn tetragonal_geometry_says_what_the_bands_cannot_determine() {
+    // Two bands cannot fix Dq, Ds and Dt; three singlet bands of low-spin d6 cannot fix B too.
+    expect_usage_error(
+        &[
+            "fit-bands",
+            "--dn",
+            "9",
+            "--geometry",
+            "tetragonal",
+            "--bands",
+            "12000,15000",
+        ],
+        "Dq, Ds, Dt",
+    );
+    expect_usage_error(
+        &[
+            "fit-bands",
+            "--dn",
+            "6",
+            "--geometry",
+            "tetragonal",
+            "--spin",
+            "low",
+            "--bands",
+            "16000,22000,26000",
+        ],
+        "--b",
+    );
+    expect_usage_error(
+        &[
+            "fit-bands",
+            "--dn",
+            "8",
+            "--geometry",
+            "tetragonal",
+            "--bands",
+            "8000,12000,14000,16000",
+            "--fit-c",
+        ],
+        "--c-over-b",
+    );
 }

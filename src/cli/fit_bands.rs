@@ -2,9 +2,12 @@
 
 use super::common::{load_tables, parse_geometry, Format};
 use super::{Failure, Output};
+use spinstate::engine::Geometry;
 use spinstate::report::fit_bands::{Context, FitBandsReport};
+use spinstate::report::tetragonal_fit::TetragonalFitReport;
 use spinstate::report::to_json;
 use spinstate::spectra::fit::{crossover_position, fit_bands, FitRequest, ForbiddenBand};
+use spinstate::spectra::tetragonal::{fit_tetragonal, TetragonalRequest};
 use spinstate::spectra::units::parse_bands;
 use spinstate::spectra::{EnergyUnit, SpinChoice};
 use std::path::Path;
@@ -24,7 +27,8 @@ pub struct Args {
     /// Oxidation state of --metal.
     #[arg(long, value_name = "N", requires = "metal", allow_hyphen_values = true)]
     pub ox: Option<i32>,
-    /// Geometry: oct, tet, sqpl or tetragonal (no distortion parameters here).
+    /// Geometry: oct, tet or sqpl; tetragonal fits Dq, Ds and Dt (and B where the bands allow)
+    /// to split bands of a tetragonally distorted or trans-[MX2L4] centre (at least three bands).
     #[arg(long, value_name = "G")]
     pub geometry: String,
     /// Observed d–d band maxima, comma-separated, in --units (e.g. 17400,24600,37800).
@@ -116,6 +120,44 @@ pub fn run(args: &Args, data: Option<&Path>) -> Result<Output, Failure> {
                 "--b0 {b0} must be a free-ion Racah B > 0 cm⁻¹"
             )));
         }
+    }
+    if geometry == Geometry::Tetragonal {
+        if args.fit_c || !forbidden.is_empty() {
+            return Err(Failure::usage(
+                "--fit-c and --forbidden apply to oct, tet and sqpl; the tetragonal fit holds C/B (set it with --c-over-b)",
+            ));
+        }
+        if args.max_evaluations == 0 {
+            return Err(Failure::usage("--max-evaluations 0 must be at least 1"));
+        }
+        let b0 = args.b0.or(ion.and_then(|i| i.b0));
+        let req = TetragonalRequest {
+            dn,
+            bands,
+            spin,
+            c_over_b: args.c_over_b,
+            fixed_b: args.b,
+            b0,
+            patience: Some(args.max_evaluations),
+        };
+        let out = fit_tetragonal(&req).map_err(|e| {
+            let mut f = Failure::from(e);
+            if f.code == 2 && f.message.contains("hold B") {
+                f.message.push_str(" (option --b)");
+            }
+            f
+        })?;
+        let mut report = TetragonalFitReport::new(&out, unit, b0, args.b.is_some());
+        if let Some(c) = ion.and_then(|i| i.caution.as_ref()) {
+            report.notes.push(format!(
+                "caution: {c}; follow your institution's rules and the SDS"
+            ));
+        }
+        return Ok(Output::text(if args.format.json {
+            to_json(&report)
+        } else {
+            report.to_table()
+        }));
     }
     let req = FitRequest {
         dn,

@@ -19,6 +19,7 @@ pub mod sco;
 pub mod screen;
 pub mod structure;
 pub mod structure_spin;
+pub mod tetragonal_fit;
 
 use comfy_table::{presets::UTF8_FULL_CONDENSED, ContentArrangement, Table};
 use serde::Serialize;

@@ -495,7 +495,7 @@ pub fn fit_bands(req: &FitRequest) -> Result<FitOutcome> {
         return Err(Error::invalid(
             "geometry",
             "tetragonal",
-            "oct, tet or sqpl: Ds and Dt are not fitted, and without them a tetragonal field is the octahedral one",
+            "oct, tet or sqpl here; split bands of a tetragonal centre are fitted by spectra::tetragonal::fit_tetragonal",
         ));
     }
     if req.bands.is_empty() {

@@ -1,6 +1,6 @@
 //! Electronic spectra of d^n complexes: units of band positions, spin-allowed transitions and
 //! their strong-field configurations, the fit of Dq, B and C to observed band maxima with
-//! assignment search, and the band-count check.
+//! assignment search, the tetragonal (Dq, Ds, Dt) fit of split bands, and the band-count check.
 //!
 //! Everything here works in cm⁻¹ and calls the engine; nothing does IO.
 
@@ -8,6 +8,7 @@ pub mod assign;
 pub mod configuration;
 pub mod count;
 pub mod fit;
+pub mod tetragonal;
 pub mod transitions;
 pub mod units;
 
