@@ -11,9 +11,9 @@ fn bands(args: &[&str]) -> serde_json::Value {
 
 #[test]
 fn cobalt_aqua_two_bands_support_high_spin() {
-    // [Co(H2O)6]2+, Dq ≈ 920, B ≈ 825 (Lever 1984, from memory; shared fact sheet §5.6).
-    // Octahedral d7 HS shows → 4T2g, → 4A2g (weak, two-electron) and → 4T1g(P) (Lever 1984;
-    // fact sheet §5.4 [M]); the 4T2g band near 8 100 cm⁻¹ lies beyond 1100 nm.
+    // [Co(H2O)6]2+, Dq ≈ 920, B ≈ 825 (A. B. P. Lever, Inorganic Electronic Spectroscopy, 1984, from memory).
+    // Octahedral d7 HS shows → 4T2g, → 4A2g (weak, two-electron) and → 4T1g(P) (Lever 1984,
+    // from memory); the 4T2g band near 8 100 cm⁻¹ lies beyond 1100 nm.
     let v = bands(&[
         "--dn",
         "7",
@@ -46,8 +46,8 @@ fn cobalt_aqua_two_bands_support_high_spin() {
 
 #[test]
 fn chromium_aqua_three_bands_and_too_many() {
-    // Octahedral d3: three spin-allowed bands (Lever 1984; fact sheet §5.4 [M]); [Cr(H2O)6]3+
-    // Dq = 1740, B = 728.6 (fact sheet §5.6). ν3 lies above 25 000 cm⁻¹ and may be hidden by
+    // Octahedral d3: three spin-allowed bands (Lever 1984, from memory); [Cr(H2O)6]3+
+    // Dq = 1740, B = 728.6 (Lever 1968 closed forms, computed here). ν3 lies above 25 000 cm⁻¹ and may be hidden by
     // charge transfer (common practice), so 2 or 3 bands are expected.
     let args = [
         "--dn",
@@ -180,7 +180,7 @@ fn high_spin_d5_has_no_spin_allowed_bands() {
 
 #[test]
 fn notes_mention_charge_transfer_and_jahn_teller() {
-    // d9 2Eg ground term: Jahn–Teller broadened or split (fact sheet §5.4 [M]).
+    // d9 2Eg ground term: Jahn–Teller broadened or split (Lever 1984, from memory).
     let (code, out, _) = run(&[
         "bands",
         "--dn",

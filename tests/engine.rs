@@ -98,8 +98,9 @@ fn d2_and_d7_octahedral_bands_match_closed_forms() {
 }
 
 #[test]
-fn shared_fact_sheet_band_predictions() {
-    // Computed values of the shared fact sheet (§9 items 5–8, from the closed forms above):
+fn closed_form_band_predictions() {
+    // Values computed from the Lever 1968 closed forms (A. B. P. Lever, J. Chem. Educ. 1968, 45,
+    // 711) outside the engine:
     // [Cr(H2O)6]3+ Dq 1740, B 728.6 → ν3 = 38 529; [V(H2O)6]3+ 10Dq 19 102, B 613.5 → ν(A2g)
     // 36 902; [Co(H2O)6]2+ 10Dq 9 215, B 827.7 → ν(A2g) 17 315 (band positions: Lever 1984,
     // from memory).

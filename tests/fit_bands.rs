@@ -96,8 +96,8 @@ fn json_has_the_contract_fields() {
     assert_eq!(v["determination"], "over-determined");
     assert_eq!(v["degrees_of_freedom"], 1);
     assert!(v["uncertainties"]["b"].as_f64().unwrap() > 0.0);
-    // β = B/B0 with B0(Cr3+) = 918 cm⁻¹ (Jolly, Modern Inorganic Chemistry 1989, as
-    // reproduced in the shared fact sheet §4.2).
+    // β = B/B0 with B0(Cr3+) = 918 cm⁻¹ (W. L. Jolly, Modern Inorganic Chemistry, 1989,
+    // p. 411, as reproduced).
     let b = v["b"].as_f64().unwrap();
     assert_abs_diff_eq!(v["beta"].as_f64().unwrap(), b / 918.0, epsilon = 1e-12);
     // Residuals are observed − calculated and listed per band.
@@ -178,7 +178,7 @@ fn fixed_b_allows_one_band() {
 #[test]
 fn metal_and_oxidation_state_give_dn_and_b0() {
     // B0(Cr3+) = 918 cm⁻¹ (Jolly, Modern Inorganic Chemistry 1989, p. 411, as reproduced;
-    // data/ions.csv); [Cr(H2O)6]3+ β ≈ 0.79 (shared fact sheet §4.5).
+    // data/ions.csv); [Cr(H2O)6]3+ β ≈ 0.79 (C. K. Jørgensen's h and k factors, 1962, from memory).
     let v = run_json(&[
         "fit-bands",
         "--metal",
