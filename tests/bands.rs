@@ -176,6 +176,13 @@ fn high_spin_d5_has_no_spin_allowed_bands() {
         .map(|n| n.as_str().unwrap())
         .collect();
     assert!(notes.iter().any(|n| n.contains("no spin-allowed")));
+    // The 4A1g,4Eg(G) pair belongs to the ground configuration t2g3 eg2 and gives the sharp,
+    // field-independent band of Mn(II) (Lever 1984, from memory): no Jahn–Teller shoulder.
+    let eg_g = listed
+        .iter()
+        .find(|b| b["label"] == "4Eg(G)")
+        .expect("4Eg(G) listed");
+    assert_eq!(eg_g["jahn_teller"], false);
 }
 
 #[test]

@@ -26,7 +26,8 @@ pub struct BandRow {
     pub visibility: String,
     /// Above the charge-transfer onset (`charge_transfer_onset`): charge transfer may hide it.
     pub may_be_hidden: bool,
-    /// Touches an E term: a Jahn–Teller shoulder is possible.
+    /// The lower level is an E term, or the upper one is an E term reached by a change of
+    /// orbital occupation: a Jahn–Teller shoulder is possible.
     pub jahn_teller: bool,
     /// Index into `merged` (bands inside the window).
     pub merged_into: Option<usize>,
@@ -246,8 +247,8 @@ impl BandsReport {
                         .unwrap_or_else(|| "—".into()),
                     format!(
                         "{}–{}{}",
-                        fmt_num(b.epsilon_range.0, 2),
-                        fmt_num(b.epsilon_range.1, 0),
+                        fmt_epsilon(b.epsilon_range.0),
+                        fmt_epsilon(b.epsilon_range.1),
                         if b.intensity == "spin-forbidden" {
                             " (spin-forbidden)"
                         } else {
@@ -301,6 +302,20 @@ impl BandsReport {
         for n in &self.notes {
             s.push_str(&format!("note: {n}\n"));
         }
+        s
+    }
+}
+
+/// A molar absorptivity (M⁻¹ cm⁻¹) with two significant figures at most: 0.001, 0.1, 10, 1000.
+fn fmt_epsilon(x: f64) -> String {
+    if !x.is_finite() || x <= 0.0 {
+        return fmt_num(x, 0);
+    }
+    let decimals = (1.0 - x.log10().floor()).max(0.0) as usize;
+    let s = format!("{x:.decimals$}");
+    if s.contains('.') {
+        s.trim_end_matches('0').trim_end_matches('.').to_string()
+    } else {
         s
     }
 }

@@ -406,15 +406,21 @@ impl FitBandsReport {
             s.push('\n');
         }
         let free = self.free_parameters.join(", ");
+        // Spin-allowed bands, and the assigned spin-forbidden ones that count as data too.
+        let data = match self.forbidden.len() {
+            0 => format!("{} band(s)", self.assignment.len()),
+            k => format!(
+                "{} band(s) and {k} spin-forbidden band(s)",
+                self.assignment.len()
+            ),
+        };
         match self.determination.as_str() {
             "exact" => s.push_str(&format!(
-                "exactly determined: {} band(s) for {} free parameter(s) ({free}); no uncertainties\n",
-                self.assignment.len(),
+                "exactly determined: {data} for {} free parameter(s) ({free}); no uncertainties\n",
                 self.free_parameters.len()
             )),
             _ => s.push_str(&format!(
-                "over-determined: {} bands, free parameters {free}, {} degree(s) of freedom; rms residual {} cm⁻¹; ± are 1σ from s²(JᵀJ)⁻¹\n",
-                self.assignment.len(),
+                "over-determined: {data}, free parameters {free}, {} degree(s) of freedom; rms residual {} cm⁻¹; ± are 1σ from s²(JᵀJ)⁻¹\n",
                 self.degrees_of_freedom,
                 fmt_num(self.rms, 0)
             )),

@@ -12,7 +12,8 @@
 //!   `charge_transfer.csv` when the request names one, otherwise about 25 000 cm⁻¹ (common
 //!   practice). A strong band above the onset may still show as a shoulder; a weak one is not
 //!   counted.
-//! - Jahn–Teller splitting can add a shoulder to a band whose lower or upper level is an E term
+//! - Jahn–Teller splitting can add a shoulder to a band whose lower level is an E term, or whose
+//!   upper level is an E term reached by a change of orbital occupation
 //!   (cubic groups only).
 //!
 //! The fewest bands a spin state should show are its merged strong bands inside the window and
@@ -326,7 +327,11 @@ pub fn count_bands(req: &CountRequest) -> Result<BandCount> {
                     one_electron: j.one_electron,
                     visibility,
                     may_be_hidden: t.energy > onset,
-                    jahn_teller: ground_e || (cubic && t.key.irrep.starts_with('E')),
+                    // An upper E level splits a band only when the jump changes the
+                    // orbital occupation; an E of the ground configuration (the sharp
+                    // 4Eg(G) of high-spin d5) does not.
+                    jahn_teller: ground_e
+                        || (cubic && t.key.irrep.starts_with('E') && j.electrons != Some(0)),
                     merged_into: None,
                     intensity: intensity(req.geometry, !forbidden, j.weak),
                 }
