@@ -3,6 +3,7 @@
 pub mod calibration;
 pub mod check;
 pub mod complex;
+pub mod csv_input;
 pub mod engine;
 pub mod error;
 pub mod estimate;

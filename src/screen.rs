@@ -1174,6 +1174,12 @@ impl Screen {
     ) -> Result<(Screen, Vec<RowError>)> {
         let screen_ions = Self::prepare_ions(tables, ions, geometry)?;
         Self::check_filters(filters, geometry)?;
+        if let Some(line) = crate::csv_input::unclosed_quote(csv_text, Some(b'#')) {
+            return Err(Error::Parse(format!(
+                "candidates file: {}",
+                crate::csv_input::unclosed_message(line)
+            )));
+        }
         let mut reader = csv::ReaderBuilder::new()
             .has_headers(true)
             .flexible(true)

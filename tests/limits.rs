@@ -171,3 +171,72 @@ fn one_rule_for_data_across_commands() {
     assert_eq!(code, 0, "{err}");
     assert!(err.contains("--data is not used"), "{err}");
 }
+
+#[test]
+fn an_unclosed_quote_is_an_error_that_names_its_line() {
+    // A quote opened at the start of a field and never closed (RFC 4180 quoting) would make the
+    // CSV reader swallow every row after it; each reader refuses it instead.
+    let dir = tempfile::tempdir().unwrap();
+    let samples = dir.path().join("samples.csv");
+    std::fs::write(
+        &samples,
+        "name,metal,ox,geometry,ligands\r\nA,Fe,2,oct,H2O:6\r\n\"B,Fe,2,oct,H2O:6\r\nC,Fe,2,oct,H2O:6\r\n",
+    )
+    .unwrap();
+    let (code, out, err) = run(&["check", "--input", samples.to_str().unwrap()]);
+    assert_eq!(code, 2, "{err}");
+    assert!(err.contains("line 3 opens a quoted field"), "{err}");
+    assert_eq!(err.lines().count(), 1, "{err}");
+    // The row before the quote is still reported.
+    assert!(out.contains("A:"), "{out}");
+
+    let candidates = dir.path().join("candidates.csv");
+    std::fs::write(&candidates, "name,ligands\nA,H2O:6\n\"B,py:6\n").unwrap();
+    expect_usage_error(
+        &[
+            "screen",
+            "--metal",
+            "Fe",
+            "--ox",
+            "2",
+            "--geometry",
+            "oct",
+            "--candidates",
+            candidates.to_str().unwrap(),
+        ],
+        "line 3 opens a quoted field",
+    );
+
+    // A data table with an unclosed quote is refused with the table's name.
+    let data = dir.path().join("data");
+    std::fs::create_dir(&data).unwrap();
+    let ligands = std::fs::read_to_string("data/ligands.csv").unwrap();
+    let open_line = ligands.lines().count() + 1;
+    std::fs::write(
+        data.join("ligands.csv"),
+        format!(
+            "{}\n\"XX,a ligand whose row opens a quote\n",
+            ligands.trim_end()
+        ),
+    )
+    .unwrap();
+    let (code, _, err) = run(&[
+        "predict",
+        "--data",
+        data.to_str().unwrap(),
+        "--metal",
+        "Fe",
+        "--ox",
+        "2",
+        "--geometry",
+        "oct",
+        "--ligand",
+        "H2O:6",
+    ]);
+    assert_eq!(code, 2, "{err}");
+    assert!(
+        err.contains("ligands.csv")
+            && err.contains(&format!("line {open_line} opens a quoted field")),
+        "{err}"
+    );
+}

@@ -129,6 +129,8 @@ struct LineLimited<R> {
     at_line_start: bool,
     /// (offset, line) of non-empty line starts not yet passed by a row.
     starts: std::collections::VecDeque<(u64, usize)>,
+    /// Quote state, so that a quote left open is an error rather than the end of the rows.
+    quotes: crate::csv_input::QuoteScanner,
 }
 
 impl<R> LineLimited<R> {
@@ -140,6 +142,7 @@ impl<R> LineLimited<R> {
             line: 1,
             at_line_start: true,
             starts: std::collections::VecDeque::new(),
+            quotes: crate::csv_input::QuoteScanner::new(None),
         }
     }
 
@@ -156,6 +159,15 @@ impl<R> LineLimited<R> {
 impl<R: std::io::Read> std::io::Read for LineLimited<R> {
     fn read(&mut self, buf: &mut [u8]) -> std::io::Result<usize> {
         let n = self.inner.read(buf)?;
+        if n == 0 && !buf.is_empty() {
+            if let Some(line) = self.quotes.unclosed() {
+                return Err(std::io::Error::new(
+                    std::io::ErrorKind::InvalidData,
+                    crate::csv_input::unclosed_message(line),
+                ));
+            }
+        }
+        self.quotes.feed(&buf[..n]);
         for (i, &b) in buf[..n].iter().enumerate() {
             match b {
                 b'\n' => {

@@ -95,6 +95,12 @@ const MU_NAMES: [&str; 3] = ["mu_eff", "mueff", "mu"];
 type Rows = Vec<(usize, csv::StringRecord)>;
 
 fn records(text: &str) -> Result<(Vec<String>, Rows)> {
+    if let Some(line) = crate::csv_input::unclosed_quote(text, Some(b'#')) {
+        return Err(Error::Parse(format!(
+            "curve file: {}",
+            crate::csv_input::unclosed_message(line)
+        )));
+    }
     let mut reader = csv::ReaderBuilder::new()
         .has_headers(true)
         .trim(csv::Trim::All)

@@ -101,6 +101,9 @@ impl BondLengthTable {
             table: FILE.to_string(),
             message,
         };
+        if let Some(line) = crate::csv_input::unclosed_quote(text, None) {
+            return Err(data_err(crate::csv_input::unclosed_message(line)));
+        }
         let mut reader = csv::ReaderBuilder::new()
             .trim(csv::Trim::All)
             .from_reader(text.as_bytes());

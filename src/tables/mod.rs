@@ -153,6 +153,12 @@ pub(crate) fn records(
     text: &str,
     expected: &[&str],
 ) -> Result<Vec<(usize, csv::StringRecord)>> {
+    if let Some(line) = crate::csv_input::unclosed_quote(text, None) {
+        return Err(Error::Data {
+            table: table.to_string(),
+            message: crate::csv_input::unclosed_message(line),
+        });
+    }
     let mut reader = csv::ReaderBuilder::new()
         .has_headers(true)
         .trim(csv::Trim::All)
