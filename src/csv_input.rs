@@ -145,7 +145,7 @@ mod tests {
 
     #[test]
     fn comment_lines_are_skipped() {
-        assert_eq!(unclosed_quote("a,b\n# a \"note\n1,2\n", Some(b'#')), None);
-        assert_eq!(unclosed_quote("a,b\n# a \"note\n1,2\n", None), Some(2));
+        assert_eq!(unclosed_quote("a,b\n# a,\"note\n1,2\n", Some(b'#')), None);
+        assert_eq!(unclosed_quote("a,b\n# a,\"note\n1,2\n", None), Some(2));
     }
 }
