@@ -240,3 +240,32 @@ fn an_unclosed_quote_is_an_error_that_names_its_line() {
         "{err}"
     );
 }
+
+#[test]
+fn bond_length_table_rows_must_keep_the_two_ranges_apart() {
+    // A row whose low-spin range overlaps its high-spin range would read a bond length inside
+    // both as either state and give confident wrong verdicts; it is refused with its row and
+    // column. Ranges may touch, and either may be the shorter (Mn(III)–O phenolate shortens on
+    // going high spin in the bundled table's source), but the change delta_r_a must go the way
+    // the ranges go.
+    use spinstate::tables::bond_lengths::BondLengthTable;
+    let header = "metal,oxidation_state,donor,donor_class,ls_min_a,ls_max_a,hs_min_a,hs_max_a,delta_r_a,what,source";
+    let row =
+        |cells: &str| format!("{header}\nFe,2,N,any,{cells},typical,invented for this test\n");
+    assert!(BondLengthTable::from_csv(&row("1.95,2.00,2.15,2.20,0.20")).is_ok());
+    assert!(BondLengthTable::from_csv(&row("1.85,1.89,1.89,1.93,0.04")).is_ok());
+    let e = BondLengthTable::from_csv(&row("1.95,2.16,2.15,2.20,0.20"))
+        .unwrap_err()
+        .to_string();
+    assert!(
+        e.contains("row 2, column ls_max_a") && e.contains("overlaps"),
+        "{e}"
+    );
+    let e = BondLengthTable::from_csv(&row("1.95,2.00,2.15,2.20,-0.20"))
+        .unwrap_err()
+        .to_string();
+    assert!(
+        e.contains("delta_r_a") && e.contains("opposite sign"),
+        "{e}"
+    );
+}

@@ -179,6 +179,18 @@ impl BondLengthTable {
                     "give both the low-spin and the high-spin range, or neither".into(),
                 ));
             }
+            // Relations between columns: the two ranges may touch but not overlap, or a bond
+            // length inside both would be read as either spin state.
+            if let (Some((ls_min, ls_max)), Some((hs_min, hs_max))) = (low_spin, high_spin) {
+                if ls_min.max(hs_min) < ls_max.min(hs_max) {
+                    return Err(at(
+                        5,
+                        format!(
+                            "the low-spin range {ls_min}–{ls_max} Å overlaps the high-spin range {hs_min}–{hs_max} Å; the ranges may touch but not overlap"
+                        ),
+                    ));
+                }
+            }
             let delta_r = match cell(8) {
                 t if t.is_empty() => None,
                 t => Some(
@@ -188,6 +200,20 @@ impl BondLengthTable {
                         .ok_or_else(|| at(8, format!("'{t}' is not a change in -0.5..=0.5 Å")))?,
                 ),
             };
+            // The change must go the way the ranges go (high spin minus low spin).
+            if let (Some((ls_min, ls_max)), Some((hs_min, hs_max)), Some(dr)) =
+                (low_spin, high_spin, delta_r)
+            {
+                let mid = (hs_min + hs_max - ls_min - ls_max) / 2.0;
+                if dr * mid < 0.0 {
+                    return Err(at(
+                        8,
+                        format!(
+                            "{dr} Å has the opposite sign to the ranges (high-spin middle minus low-spin middle = {mid:.3} Å)"
+                        ),
+                    ));
+                }
+            }
             if low_spin.is_none() && delta_r.is_none() {
                 return Err(at(
                     8,
