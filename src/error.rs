@@ -6,27 +6,32 @@ use thiserror::Error;
 #[derive(Debug, Error, Clone, PartialEq)]
 pub enum Error {
     /// A value given by the user is outside what the model accepts.
-    #[error("{name} = {value} is not accepted: {accepted}")]
+    #[error(
+        "{} = {} is not accepted: {}",
+        one_line(name),
+        one_line(value),
+        one_line(accepted)
+    )]
     InvalidParameter {
         name: String,
         value: String,
         accepted: String,
     },
     /// A name (metal, ligand, geometry, element…) is not known.
-    #[error("{}", unknown_text(.kind, .name, .suggestions))]
+    #[error("{}", one_line(&unknown_text(.kind, .name, .suggestions)))]
     Unknown {
         kind: String,
         name: String,
         suggestions: Vec<String>,
     },
     /// Malformed input text (a number, a formula, a CSV cell).
-    #[error("{0}")]
+    #[error("{}", one_line(.0))]
     Parse(String),
     /// A data table could not be read or fails its checks.
-    #[error("data table {table}: {message}")]
+    #[error("data table {}: {}", one_line(table), one_line(message))]
     Data { table: String, message: String },
     /// A numerical procedure did not finish (no convergence, singular matrix…).
-    #[error("computation did not finish: {0}")]
+    #[error("computation did not finish: {}", one_line(.0))]
     Computation(String),
 }
 
@@ -81,6 +86,24 @@ impl Error {
             _ => 2,
         }
     }
+}
+
+/// Text for a one-line message: line breaks and other control characters (which a quoted input
+/// can carry) are shown escaped, as `\n`, `\r`, `\t` or `\u{…}`.
+pub fn one_line(text: &str) -> std::borrow::Cow<'_, str> {
+    let unsafe_char = |c: char| c.is_control() || c == '\u{2028}' || c == '\u{2029}';
+    if !text.chars().any(unsafe_char) {
+        return std::borrow::Cow::Borrowed(text);
+    }
+    let mut out = String::with_capacity(text.len() + 8);
+    for c in text.chars() {
+        if unsafe_char(c) {
+            out.extend(c.escape_default());
+        } else {
+            out.push(c);
+        }
+    }
+    std::borrow::Cow::Owned(out)
 }
 
 /// Result with the library's error type.

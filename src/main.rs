@@ -11,7 +11,7 @@ fn main() -> ExitCode {
     match cli::run(args) {
         Ok(out) => {
             for w in &out.warnings {
-                eprintln!("{w}");
+                eprintln!("{}", spinstate::error::one_line(w));
             }
             let mut stdout = std::io::stdout().lock();
             // A closed pipe (e.g. `| head`) is not an error.
@@ -20,7 +20,7 @@ fn main() -> ExitCode {
             ExitCode::from(out.code)
         }
         Err(f) => {
-            eprintln!("error: {}", f.message);
+            eprintln!("error: {}", spinstate::error::one_line(&f.message));
             ExitCode::from(f.code)
         }
     }
