@@ -41,6 +41,16 @@ impl Stroke {
     }
 }
 
+/// Shape of a data marker.
+#[derive(Debug, Clone, Copy, PartialEq, Eq)]
+pub enum Shape {
+    Circle,
+    /// Triangle pointing up (e.g. heating).
+    Up,
+    /// Triangle pointing down (e.g. cooling).
+    Down,
+}
+
 /// Horizontal anchoring of a text.
 #[derive(Debug, Clone, Copy, PartialEq, Eq)]
 pub enum Anchor {
@@ -199,6 +209,47 @@ impl Svg {
             fill,
             stroke.attrs()
         );
+    }
+
+    /// A data marker of radius `r` (pt) centred at (x, y): a circle, or a triangle pointing up or
+    /// down (its centroid at the point), outlined with `stroke` and filled with `fill` ("white"
+    /// for open markers).
+    pub fn marker(
+        &mut self,
+        shape: Shape,
+        (x, y): (f64, f64),
+        r: f64,
+        fill: &str,
+        stroke: &Stroke,
+        class: &str,
+    ) {
+        let tri = |dir: f64| {
+            // Equilateral triangle with circumradius r·1.25 (same visual weight as the circle).
+            let k = r * 1.25;
+            [
+                (x, y - dir * k),
+                (x - k * 0.866, y + dir * k * 0.5),
+                (x + k * 0.866, y + dir * k * 0.5),
+            ]
+        };
+        match shape {
+            Shape::Circle => self.circle((x, y), r, fill, stroke, class),
+            Shape::Up | Shape::Down => {
+                let pts = tri(if shape == Shape::Up { 1.0 } else { -1.0 });
+                let p: Vec<String> = pts
+                    .iter()
+                    .map(|(a, b)| format!("{},{}", num(*a), num(*b)))
+                    .collect();
+                let _ = writeln!(
+                    self.body,
+                    "<polygon class=\"{}\" points=\"{}\" fill=\"{}\" {} stroke-linejoin=\"round\"/>",
+                    escape(class),
+                    p.join(" "),
+                    fill,
+                    stroke.attrs()
+                );
+            }
+        }
     }
 
     /// A filled polygon.
