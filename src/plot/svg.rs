@@ -283,13 +283,21 @@ impl Svg {
         );
     }
 
-    /// The figure's title at the top left, for a figure whose body text is `size` pt.
+    /// The figure's title at the top left, for a figure whose body text is `size` pt; a title
+    /// wider than the figure is set smaller until it fits.
     pub fn title(&mut self, text: &Rich, size: f64) {
+        let room = self.width - size * 1.2;
+        let wide = text.width(size * 1.05);
+        let title_size = if wide > room && wide > 0.0 {
+            size * 1.05 * room / wide
+        } else {
+            size * 1.05
+        };
         self.text(&Label {
             x: size * 0.6,
             y: size * 1.25,
             text,
-            size: size * 1.05,
+            size: title_size,
             anchor: Anchor::Start,
             colour: super::style::INK,
             class: "figure-title",

@@ -173,7 +173,7 @@ pub fn sample_figures(input: &CheckInput, result: &CheckResult) -> Result<Sample
             push("computed", &p.bands_high_spin);
         }
         sticks_svg(
-            &format!("{name}: observed band maxima and spin-allowed transitions"),
+            &format!("{name}: observed bands and spin-allowed transitions"),
             &rows,
             Column::Single,
         )
