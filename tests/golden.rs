@@ -402,6 +402,8 @@ fn spin_transition_legend_matches_the_series() {
 /// with two columns: 170 mm wide, the γ axis in steps of 0.2 from 0 to 1.
 #[test]
 fn spin_transition_curve_in_two_columns() {
+    let dir = tempfile::tempdir().unwrap();
+    let png = dir.path().join("curve.png");
     let svg = run_svg(&[
         "sco-curve",
         "--dh",
@@ -412,7 +414,14 @@ fn spin_transition_curve_in_two_columns() {
         "gamma",
         "--column",
         "double",
+        "--png",
+        png.to_str().unwrap(),
     ]);
+    // 170 mm at 300 dpi is about 2008 pixels wide.
+    let bytes = std::fs::read(&png).unwrap();
+    assert_eq!(&bytes[1..4], b"PNG");
+    let w = u32::from_be_bytes([bytes[16], bytes[17], bytes[18], bytes[19]]);
+    assert!((2000..=2015).contains(&w), "{w}");
     assert_no_overlap(&svg, "sco-curve");
     let s = structure(&svg);
     assert_eq!(s.size.0, "170mm");

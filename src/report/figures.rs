@@ -127,9 +127,9 @@ pub fn sample_figures(input: &CheckInput, result: &CheckResult) -> Result<Sample
         let curves = curve
             .map(|m| Curve {
                 name: format!(
-                    "model, *S* = {} (Δ = {} cm⁻¹, *ζ* = {} cm⁻¹)",
+                    "model, *S* = {} (Δ = {}, *ζ* = {} cm⁻¹)",
                     super::magnetism::spin_text(m.two_s),
-                    super::fmt_num(m.delta, 0),
+                    marks::wavenumber_text(m.delta),
                     super::fmt_num(m.zeta, 0)
                 ),
                 t: m.points.iter().map(|q| q.t).collect(),
