@@ -388,6 +388,48 @@ pub fn predict_with(complex: &ResolvedComplex, options: PredictOptions) -> Resul
     })
 }
 
+/// The computed moment of the predicted spin state over temperature.
+#[derive(Debug, Clone, PartialEq)]
+pub struct MomentCurve {
+    /// Twice the spin of the state.
+    pub two_s: i32,
+    /// Δ of the calculation (cm⁻¹): that spin state's own Δ.
+    pub delta: f64,
+    /// ζ of the calculation (cm⁻¹): the ion table's free-ion value.
+    pub zeta: f64,
+    pub points: Vec<crate::susceptibility::SusceptibilityPoint>,
+}
+
+/// χ_M·T and μ_eff of the predicted ground spin state at `temperatures` (K): the van Vleck sum
+/// over the full d^n levels with spin–orbit coupling ([`ZeemanLevels`]) at that state's own Δ,
+/// with the ion's free-ion ζ and κ = 1. None for d⁰ and d¹⁰, for an ion without ζ in the table,
+/// and where a single field at that Δ puts another spin lowest (the curve would then describe
+/// the other state).
+pub fn moment_curve(p: &Prediction, temperatures: &[f64]) -> Result<Option<MomentCurve>> {
+    let c = &p.complex;
+    let dn = c.ion.dn;
+    let Some(zeta) = c.ion.zeta.filter(|_| dn > 0 && dn < 10) else {
+        return Ok(None);
+    };
+    let two_s = p.ground.two_s;
+    let delta = match &p.crossover.low_spin {
+        Some(ls) if ls.two_s == two_s => c.delta_low_spin.value,
+        _ if p.crossover.high_spin.two_s == two_s => c.delta_high_spin.value,
+        _ => c.delta.value,
+    };
+    let calc = c.calculation_at(delta)?;
+    if calc.levels()?.ground().two_s != two_s {
+        return Ok(None);
+    }
+    let z = ZeemanLevels::compute(&calc, &MagneticModel::new(zeta))?;
+    Ok(Some(MomentCurve {
+        two_s,
+        delta,
+        zeta,
+        points: z.curve(temperatures)?,
+    }))
+}
+
 #[cfg(test)]
 mod tests {
     use super::*;

@@ -503,3 +503,56 @@ fn check_report_holds_every_evidence_line() {
     let figures = svgs_in(&page);
     assert_eq!(figures.len(), 3);
 }
+
+/// The report's moment figure draws the computed χ_M·T(T) of the predicted spin state with the
+/// measured point. For high-spin octahedral iron(II) (⁵T₂g ground, first-order orbital moment)
+/// the van Vleck curve lies above the spin-only 3.00 cm³ K mol⁻¹ at 300 K and falls on cooling
+/// as spin–orbit coupling splits the ground term (Figgis & Hitchman, Ligand Field Theory and Its
+/// Applications, 2000, ch. on magnetism; from memory). Spin-only χT = 0.125 g² S(S+1) (Kahn,
+/// Molecular Magnetism, 1993, ch. 1).
+#[test]
+fn report_moment_figure_draws_the_model_curve() {
+    use spinstate::complex::{ComplexSpec, Overrides};
+    let spec = ComplexSpec {
+        metal: "Fe".into(),
+        oxidation_state: 2,
+        geometry: Geometry::Octahedral,
+        ligands: ["NCS:2", "py:4"]
+            .iter()
+            .map(|l| l.parse().unwrap())
+            .collect(),
+        overrides: Overrides::default(),
+    };
+    let complex = spec
+        .resolve(spinstate::tables::Tables::bundled().unwrap())
+        .unwrap();
+    let p = spinstate::predict::predict(&complex).unwrap();
+    assert_eq!(p.ground.two_s, 4);
+    let curve = spinstate::predict::moment_curve(&p, &[5.0, 300.0])
+        .unwrap()
+        .expect("a curve for high-spin iron(II)");
+    assert_eq!(curve.two_s, 4);
+    let (cold, warm) = (curve.points[0].chi_t, curve.points[1].chi_t);
+    assert!(warm > 3.0 && warm < 4.2, "{warm}");
+    assert!(cold < warm, "{cold} {warm}");
+    // The page of the same complex with a measured moment.
+    let dir = tempfile::tempdir().unwrap();
+    let html = dir.path().join("one.html");
+    bin()
+        .args(["check", "--metal", "Fe", "--ox", "2", "--geometry", "oct"])
+        .args(["--ligand", "NCS:2", "--ligand", "py:4"])
+        .args(["--mu-eff", "5.3", "--moment-temp", "300"])
+        .args(["--html", html.to_str().unwrap()])
+        .assert()
+        .success();
+    let page = std::fs::read_to_string(&html).unwrap();
+    let moment = svgs_in(&page)
+        .into_iter()
+        .find(|s| s.contains("class=\"measured-point\""))
+        .expect("a moment figure");
+    assert_no_overlap(&moment);
+    assert!(count(&moment, "path", "model") >= 1);
+    let legend = texts(&moment, "legend-label");
+    assert!(legend[0].starts_with("model, S = 2 (Δ = "), "{legend:?}");
+    assert_eq!(count(&moment, "circle", "measured-point"), 1);
+}

@@ -2,7 +2,7 @@
 
 use super::common::{emit, Format, Renderings};
 use super::{Failure, Output};
-use spinstate::report::sco::CurveReport;
+use spinstate::report::sco::{CurveReport, TransitionPlot};
 use spinstate::report::to_json;
 use spinstate::sco::model::Transition;
 use spinstate::susceptibility::temperature_grid;
@@ -73,6 +73,12 @@ pub struct Args {
     /// Write an SVG plot of χ_M·T (and γ_HS) against T to FILE.
     #[arg(long, value_name = "FILE")]
     pub svg: Option<PathBuf>,
+    /// What the figure shows against T: chit (χ_M·T, with γ_HS on a right-hand axis) or gamma
+    /// (the high-spin fraction γ_HS).
+    #[arg(long, value_name = "Q", default_value = "chit", value_parser = ["chit", "gamma"])]
+    pub plot: String,
+    #[command(flatten)]
+    pub figure: super::figure::FigureArgs,
     #[command(flatten)]
     pub format: Format,
 }
@@ -93,15 +99,24 @@ pub fn run(args: &Args) -> Result<Output, Failure> {
     }
     let temps = temperature_grid(args.tmin, args.tmax, args.points)?;
     let report = CurveReport::new(&tr, &temps, args.chit_hs, args.chit_ls)?;
-    emit(
+    let plot = TransitionPlot {
+        column: args.figure.column(),
+        fraction: args.plot == "gamma",
+    };
+    let svg = || report.to_svg_with(&plot);
+    let mut out = emit(
         args.csv.as_deref(),
         args.svg.as_deref(),
         args.format.json,
         Renderings {
             csv: || report.to_csv(),
-            svg: || report.to_svg(),
+            svg: || Ok(svg()),
             json: || to_json(&report),
             table: || report.to_table(),
         },
-    )
+    )?;
+    if let Some(path) = &args.figure.png {
+        out.warnings.push(super::figure::write_png(&svg(), path)?);
+    }
+    Ok(out)
 }

@@ -3,7 +3,7 @@
 use super::common::{emit, load_tables, parse_geometry, Format, Renderings};
 use super::{Failure, Output};
 use spinstate::magnetism::evans::MagnetGeometry;
-use spinstate::report::sco::FitReport;
+use spinstate::report::sco::{FitReport, TransitionPlot};
 use spinstate::report::to_json;
 use spinstate::sco::data::{read_curve, read_evans_series, EvansSeries};
 use spinstate::sco::fit::{fit, FitRequest, ModelKind, PureState};
@@ -67,6 +67,12 @@ pub struct Args {
     /// Write an SVG plot of the data, the fitted curve and the residuals to FILE.
     #[arg(long, value_name = "FILE")]
     pub svg: Option<PathBuf>,
+    /// What the figure shows against T: chit (χ_M·T, with γ_HS on a right-hand axis) or gamma
+    /// (the high-spin fraction γ_HS).
+    #[arg(long, value_name = "Q", default_value = "chit", value_parser = ["chit", "gamma"])]
+    pub plot: String,
+    #[command(flatten)]
+    pub figure: super::figure::FigureArgs,
     #[command(flatten)]
     pub format: Format,
 }
@@ -168,15 +174,24 @@ pub fn run(args: &Args, data: Option<&Path>) -> Result<Output, Failure> {
         two_s: ranges.as_ref().map(|r| r.two_s),
     })?;
     let report = FitReport::new(&result, &curve.source, &notes);
-    emit(
+    let plot = TransitionPlot {
+        column: args.figure.column(),
+        fraction: args.plot == "gamma",
+    };
+    let svg = || report.to_svg_with(&plot);
+    let mut out = emit(
         args.csv.as_deref(),
         args.svg.as_deref(),
         args.format.json,
         Renderings {
             csv: || report.to_csv(),
-            svg: || report.to_svg(),
+            svg: || Ok(svg()),
             json: || to_json(&report),
             table: || report.to_table(),
         },
-    )
+    )?;
+    if let Some(path) = &args.figure.png {
+        out.warnings.push(super::figure::write_png(&svg(), path)?);
+    }
+    Ok(out)
 }

@@ -125,6 +125,21 @@ pub fn tick_text(v: f64, step: f64) -> String {
 /// `gutter` (pt) moves the y tick labels further left, leaving room beside the axis (the energy
 /// diagram puts its free-ion terms there).
 pub fn draw_axes(svg: &mut Svg, f: &Frame, x_title: &Rich, y_title: &Rich, size: f64, gutter: f64) {
+    draw_axes_with(svg, f, Some(x_title), y_title, size, gutter, 5);
+}
+
+/// As [`draw_axes`]; with `x_title` None the x axis keeps its ticks but has neither tick labels
+/// nor a title (an upper panel sharing its x axis with the panel below); the y axis gets about
+/// `y_target` tick intervals.
+pub fn draw_axes_with(
+    svg: &mut Svg,
+    f: &Frame,
+    x_title: Option<&Rich>,
+    y_title: &Rich,
+    size: f64,
+    gutter: f64,
+    y_target: usize,
+) {
     let axis = Stroke::solid(INK, 0.6);
     svg.open_group("axes");
     svg.rect(
@@ -141,6 +156,9 @@ pub fn draw_axes(svg: &mut Svg, f: &Frame, x_title: &Rich, y_title: &Rich, size:
     for &v in &xt {
         let x = f.px(v);
         svg.line((x, f.bottom()), (x, f.bottom() + tick_len), &axis);
+        if x_title.is_none() {
+            continue;
+        }
         let t = Rich::parse(&tick_text(v, xstep));
         svg.text(&Label {
             x,
@@ -153,7 +171,7 @@ pub fn draw_axes(svg: &mut Svg, f: &Frame, x_title: &Rich, y_title: &Rich, size:
             rotate: 0.0,
         });
     }
-    let yt = ticks(f.y.0, f.y.1, 5);
+    let yt = ticks(f.y.0, f.y.1, y_target);
     let ystep = if yt.len() > 1 { yt[1] - yt[0] } else { 1.0 };
     let mut widest: f64 = 0.0;
     for &v in &yt {
@@ -172,16 +190,18 @@ pub fn draw_axes(svg: &mut Svg, f: &Frame, x_title: &Rich, y_title: &Rich, size:
             rotate: 0.0,
         });
     }
-    svg.text(&Label {
-        x: f.left + f.width / 2.0,
-        y: f.bottom() + tick_len + size * 2.35,
-        text: x_title,
-        size,
-        anchor: Anchor::Middle,
-        colour: INK,
-        class: "axis-title",
-        rotate: 0.0,
-    });
+    if let Some(x_title) = x_title {
+        svg.text(&Label {
+            x: f.left + f.width / 2.0,
+            y: f.bottom() + tick_len + size * 2.35,
+            text: x_title,
+            size,
+            anchor: Anchor::Middle,
+            colour: INK,
+            class: "axis-title",
+            rotate: 0.0,
+        });
+    }
     svg.text(&Label {
         x: f.left - tick_len - size * 0.6 - widest - size * 0.35 - gutter,
         y: f.top + f.height / 2.0,
@@ -193,6 +213,69 @@ pub fn draw_axes(svg: &mut Svg, f: &Frame, x_title: &Rich, y_title: &Rich, size:
         rotate: -90.0,
     });
     svg.close_group();
+}
+
+/// Width (pt) of the widest y tick label [`draw_axes_with`] writes for this y range and target.
+pub fn y_tick_width(y: (f64, f64), size: f64, y_target: usize) -> f64 {
+    let yt = ticks(y.0, y.1, y_target);
+    let ystep = if yt.len() > 1 { yt[1] - yt[0] } else { 1.0 };
+    yt.iter()
+        .map(|&v| Rich::parse(&tick_text(v, ystep)).width(size))
+        .fold(0.0, f64::max)
+}
+
+/// A second y axis on the right edge: outward ticks at the given positions (in the frame's y
+/// units) with their labels, and a title read from bottom to top. Returns the width (pt) it
+/// takes right of the frame.
+pub fn draw_right_axis(
+    svg: &mut Svg,
+    f: &Frame,
+    marks: &[(f64, String)],
+    title: &Rich,
+    size: f64,
+) -> f64 {
+    let axis = Stroke::solid(INK, 0.6);
+    let tick_len = size * 0.35;
+    svg.open_group("right-axis");
+    let mut widest: f64 = 0.0;
+    for (v, text) in marks {
+        let y = f.py(*v);
+        svg.line((f.right(), y), (f.right() + tick_len, y), &axis);
+        let t = Rich::parse(text);
+        widest = widest.max(t.width(size));
+        svg.text(&Label {
+            x: f.right() + tick_len + size * 0.3,
+            y: y + size * 0.35,
+            text: &t,
+            size,
+            anchor: Anchor::Start,
+            colour: INK,
+            class: "tick-label",
+            rotate: 0.0,
+        });
+    }
+    let x = f.right() + tick_len + size * 0.6 + widest + size * 0.35;
+    svg.text(&Label {
+        x,
+        y: f.top + f.height / 2.0,
+        text: title,
+        size,
+        anchor: Anchor::Middle,
+        colour: INK,
+        class: "axis-title",
+        rotate: -90.0,
+    });
+    svg.close_group();
+    x + size * 0.5 - f.right()
+}
+
+/// Width (pt) [`draw_right_axis`] takes right of the frame for these tick texts.
+pub fn right_axis_width(texts: &[String], size: f64) -> f64 {
+    let widest = texts
+        .iter()
+        .map(|t| Rich::parse(t).width(size))
+        .fold(0.0, f64::max);
+    size * 0.35 + size * 0.6 + widest + size * 0.35 + size * 0.5
 }
 
 #[cfg(test)]

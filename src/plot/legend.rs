@@ -2,7 +2,7 @@
 //! very stroke, swatch or marker of its series, so the legend matches what it explains.
 
 use super::style::INK;
-use super::svg::{Anchor, Label, Stroke, Svg};
+use super::svg::{Anchor, Label, Shape, Stroke, Svg};
 use super::text::Rich;
 
 /// What a legend entry shows beside its text.
@@ -14,6 +14,8 @@ pub enum Key {
     Swatch(&'static str, f64),
     /// A marker: circle with this stroke and fill.
     Marker(Stroke, &'static str),
+    /// A marker of the given shape with this stroke and fill (as drawn on the plot).
+    Shape(Shape, Stroke, &'static str),
 }
 
 fn key_width(size: f64) -> f64 {
@@ -76,6 +78,14 @@ pub fn draw_flow_legend(
                 Key::Marker(s, fill) => {
                     svg.circle((kx + kw / 2.0, cy), size * 0.3, fill, s, "legend-key")
                 }
+                Key::Shape(shape, s, fill) => svg.marker(
+                    *shape,
+                    (kx + kw / 2.0, cy),
+                    size * 0.3,
+                    fill,
+                    s,
+                    "legend-key",
+                ),
             }
             svg.text(&Label {
                 x: kx + kw + size * 0.5,

@@ -42,10 +42,13 @@ pub fn sticks_svg(title: &str, rows: &[Row], column: Column) -> String {
         xmax_data
     };
     let xmax = (xmax_data * 1.08 / step).ceil() * step;
+    // Room right of the frame for half the last tick label, centred on the frame's edge.
+    let right =
+        (Rich::parse(&tick_text(xmax, step)).width(size) / 2.0 + size * 0.4).max(size * 1.2);
     let f = Frame {
         left,
         top,
-        width: width - left - size * 1.2,
+        width: width - left - right,
         height: row_h * rows.len().max(1) as f64,
         x: (0.0, xmax),
         y: (0.0, rows.len().max(1) as f64),

@@ -41,6 +41,16 @@ impl Stroke {
     }
 }
 
+/// Shape of a data marker.
+#[derive(Debug, Clone, Copy, PartialEq, Eq)]
+pub enum Shape {
+    Circle,
+    /// Triangle pointing up (e.g. heating).
+    Up,
+    /// Triangle pointing down (e.g. cooling).
+    Down,
+}
+
 /// Horizontal anchoring of a text.
 #[derive(Debug, Clone, Copy, PartialEq, Eq)]
 pub enum Anchor {
@@ -201,6 +211,47 @@ impl Svg {
         );
     }
 
+    /// A data marker of radius `r` (pt) centred at (x, y): a circle, or a triangle pointing up or
+    /// down (its centroid at the point), outlined with `stroke` and filled with `fill` ("white"
+    /// for open markers).
+    pub fn marker(
+        &mut self,
+        shape: Shape,
+        (x, y): (f64, f64),
+        r: f64,
+        fill: &str,
+        stroke: &Stroke,
+        class: &str,
+    ) {
+        let tri = |dir: f64| {
+            // Equilateral triangle with circumradius r·1.25 (same visual weight as the circle).
+            let k = r * 1.25;
+            [
+                (x, y - dir * k),
+                (x - k * 0.866, y + dir * k * 0.5),
+                (x + k * 0.866, y + dir * k * 0.5),
+            ]
+        };
+        match shape {
+            Shape::Circle => self.circle((x, y), r, fill, stroke, class),
+            Shape::Up | Shape::Down => {
+                let pts = tri(if shape == Shape::Up { 1.0 } else { -1.0 });
+                let p: Vec<String> = pts
+                    .iter()
+                    .map(|(a, b)| format!("{},{}", num(*a), num(*b)))
+                    .collect();
+                let _ = writeln!(
+                    self.body,
+                    "<polygon class=\"{}\" points=\"{}\" fill=\"{}\" {} stroke-linejoin=\"round\"/>",
+                    escape(class),
+                    p.join(" "),
+                    fill,
+                    stroke.attrs()
+                );
+            }
+        }
+    }
+
     /// A filled polygon.
     pub fn polygon(&mut self, points: &[(f64, f64)], fill: &str, class: &str) {
         let pts: Vec<String> = points
@@ -232,13 +283,21 @@ impl Svg {
         );
     }
 
-    /// The figure's title at the top left, for a figure whose body text is `size` pt.
+    /// The figure's title at the top left, for a figure whose body text is `size` pt; a title
+    /// wider than the figure is set smaller until it fits.
     pub fn title(&mut self, text: &Rich, size: f64) {
+        let room = self.width - size * 1.2;
+        let wide = text.width(size * 1.05);
+        let title_size = if wide > room && wide > 0.0 {
+            size * 1.05 * room / wide
+        } else {
+            size * 1.05
+        };
         self.text(&Label {
             x: size * 0.6,
             y: size * 1.25,
             text,
-            size: size * 1.05,
+            size: title_size,
             anchor: Anchor::Start,
             colour: super::style::INK,
             class: "figure-title",

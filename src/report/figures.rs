@@ -9,10 +9,12 @@ use crate::error::Result;
 use crate::magnetism::evans::evans;
 use crate::plot::energy::{energy_svg, EnergyOptions};
 use crate::plot::marks;
-use crate::plot::moment::{moment_svg, MomentFigure, Point, Quantity, Reference};
+use crate::plot::moment::{moment_svg, Curve, MomentFigure, Point, Quantity, Reference};
 use crate::plot::sticks::{sticks_svg, Row};
 use crate::plot::style::Column;
 use crate::plot::text::formula_markup;
+use crate::predict::moment_curve;
+use crate::susceptibility::temperature_grid;
 use crate::units;
 
 /// SVG figures of one sample; None where the input has nothing to show.
@@ -25,6 +27,9 @@ pub struct SampleFigures {
 
 /// Points of the diagram along Δ/B (enough for smooth curves at print size).
 const DIAGRAM_POINTS: usize = 121;
+
+/// Temperatures of the model moment curve, 2 K to the highest measured (at least 300 K).
+const MOMENT_POINTS: usize = 100;
 
 /// Measured χ_M·T points (cm³ K mol⁻¹) of a check input: the Evans value, the magnetometer
 /// value and every point of a χ_M·T(T) curve.
@@ -109,11 +114,34 @@ pub fn sample_figures(input: &CheckInput, result: &CheckResult) -> Result<Sample
                 }
             })
             .collect();
+        let tmax = measured
+            .iter()
+            .map(|q| q.t)
+            .filter(|t| t.is_finite())
+            .fold(300.0f64, f64::max);
+        // A measured temperature outside the model's range leaves the curve out.
+        let curve = match temperature_grid(2.0, tmax, MOMENT_POINTS) {
+            Ok(grid) => moment_curve(p, &grid)?,
+            Err(_) => None,
+        };
+        let curves = curve
+            .map(|m| Curve {
+                name: format!(
+                    "model, *S* = {} (Δ = {}, *ζ* = {} cm⁻¹)",
+                    super::magnetism::spin_text(m.two_s),
+                    marks::wavenumber_text(m.delta),
+                    super::fmt_num(m.zeta, 0)
+                ),
+                t: m.points.iter().map(|q| q.t).collect(),
+                y: m.points.iter().map(|q| q.chi_t).collect(),
+            })
+            .into_iter()
+            .collect();
         Some(moment_svg(
             &MomentFigure {
                 title: format!("{name}: measured *χ*_{{M}}*T*"),
                 quantity: Quantity::ChiT { si: false },
-                curves: Vec::new(),
+                curves,
                 measured,
                 measured_name: "measured (diamagnetism corrected)".into(),
                 references,
@@ -145,7 +173,7 @@ pub fn sample_figures(input: &CheckInput, result: &CheckResult) -> Result<Sample
             push("computed", &p.bands_high_spin);
         }
         sticks_svg(
-            &format!("{name}: observed band maxima and spin-allowed transitions"),
+            &format!("{name}: observed bands and spin-allowed transitions"),
             &rows,
             Column::Single,
         )

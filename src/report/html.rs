@@ -182,7 +182,7 @@ fn section(out: &mut String, i: usize, s: &Section) {
     fig(
         out,
         &s.figures.moment,
-        "Measured χ_M·T against T with the spin-only values of each spin state (g = 2).",
+        "Measured χ_M·T against T with the computed χ_M·T of the predicted spin state (full d^n levels with spin–orbit coupling at that state's Δ and the free-ion ζ, κ = 1; left out where the ion has no ζ or where one field at that Δ puts the other spin lowest) and the spin-only values of each spin state (g = 2).",
         "No magnetic measurement given: no moment figure.",
     );
     fig(out, &s.figures.bands, "Observed band maxima (top row) against the computed spin-allowed transitions of each spin state at its own Δ.", "No band maxima given: no band figure.");

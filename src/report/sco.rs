@@ -6,9 +6,13 @@
 //! (1σ; null when fixed or not determined).
 
 use super::{fmt_num, new_table};
+use crate::plot::moment::Curve;
+use crate::plot::style::Column;
+use crate::plot::transition::{
+    transition_svg, Direction, Marker, TransitionFigure, TransitionPoint, TransitionQuantity,
+};
 use crate::sco::fit::{Estimate, FitResult};
 use crate::sco::model::{simulate, Branch, Transition, GAS_CONSTANT};
-use plotters::prelude::*;
 use serde::Serialize;
 
 /// One data point with the fitted value.
@@ -285,39 +289,163 @@ impl FitReport {
         String::from_utf8(w.into_inner().unwrap_or_default()).unwrap_or_default()
     }
 
-    /// SVG: the data (cooling ▼, heating ▲, other ●) with the fitted curve on both branches,
-    /// a γ_HS axis on the right and a residual panel below.
+    /// SVG: the data (cooling ▼, heating △, other ○) with the fitted curve on both branches,
+    /// a γ_HS axis on the right and a residual panel below; one journal column wide.
     pub fn to_svg(&self) -> Result<String, String> {
-        let tmin = self
+        Ok(self.to_svg_with(&TransitionPlot::default()))
+    }
+
+    /// The figure at the width and in the quantity asked for.
+    pub fn to_svg_with(&self, plot: &TransitionPlot) -> String {
+        let (lo, hi) = self
             .residuals
             .iter()
             .map(|r| r.t)
-            .fold(f64::INFINITY, f64::min);
-        let tmax = self
+            .fold((f64::INFINITY, f64::NEG_INFINITY), |(a, b), t| {
+                (a.min(t), b.max(t))
+            });
+        let title = if self.model == "cooperative" {
+            format!(
+                "Cooperative fit: Δ*H* = {:.1} kJ mol⁻¹, *Γ* = {:.2} kJ mol⁻¹",
+                self.dh, self.gamma
+            )
+        } else {
+            format!(
+                "Ideal fit: Δ*H* = {:.1} kJ mol⁻¹, Δ*S* = {:.0} J K⁻¹ mol⁻¹",
+                self.dh, self.ds
+            )
+        };
+        let points: Vec<(f64, f64, Direction, Option<f64>)> = self
             .residuals
             .iter()
-            .map(|r| r.t)
-            .fold(f64::NEG_INFINITY, f64::max);
-        let points: Vec<(f64, f64, &str)> = self
-            .residuals
-            .iter()
-            .map(|r| (r.t, r.observed, r.branch.as_str()))
+            .map(|r| (r.t, r.observed, direction(&r.branch), Some(r.residual)))
             .collect();
-        let resid: Vec<(f64, f64)> = self.residuals.iter().map(|r| (r.t, r.residual)).collect();
-        draw(
-            &format!(
-                "χ_M·T fit ({} model), T½ = {:.1} K",
-                self.model, self.t_half
-            ),
+        figure(
+            title,
             &self.transition,
-            self.chit_hs,
-            self.chit_ls,
-            tmin,
-            tmax,
+            (self.chit_hs, self.chit_ls),
+            (lo, hi),
             &points,
-            Some(&resid),
+            (self.t_down.zip(self.t_up), self.t_half),
+            plot,
         )
     }
+}
+
+/// How the spin-transition figure is drawn.
+#[derive(Debug, Clone, Copy, PartialEq)]
+pub struct TransitionPlot {
+    pub column: Column,
+    /// Plot γ_HS instead of χ_M·T (χ_M·T is kept when the pure states' χ_M·T are equal).
+    pub fraction: bool,
+}
+
+impl Default for TransitionPlot {
+    fn default() -> Self {
+        TransitionPlot {
+            column: Column::Single,
+            fraction: false,
+        }
+    }
+}
+
+fn direction(branch: &str) -> Direction {
+    match branch {
+        "cooling" => Direction::Cooling,
+        "heating" => Direction::Heating,
+        _ => Direction::Other,
+    }
+}
+
+/// Points of the model curve across the plotted range (smooth at print size).
+const CURVE_POINTS: usize = 400;
+
+/// The figure of a transition with χ_M·T `hs`/`ls` of the pure states over `range` (K), with
+/// measured (T, χ_M·T, direction, residual) points and the loop's turning points or T½.
+fn figure(
+    title: String,
+    tr: &Transition,
+    (hs, ls): (f64, f64),
+    (tmin, tmax): (f64, f64),
+    points: &[(f64, f64, Direction, Option<f64>)],
+    (turning, t_half): (Option<(f64, f64)>, f64),
+    plot: &TransitionPlot,
+) -> String {
+    let fraction = plot.fraction && hs - ls > 1e-9;
+    let (tmin, tmax) = if tmin.is_finite() && tmax > tmin {
+        (tmin, tmax)
+    } else {
+        (50.0, 350.0)
+    };
+    let span = tmax - tmin;
+    let (a, b) = ((tmin - 0.03 * span).max(1.0), tmax + 0.03 * span);
+    let grid: Vec<f64> = (0..=CURVE_POINTS)
+        .map(|i| a + (b - a) * i as f64 / CURVE_POINTS as f64)
+        .collect();
+    // The model is only ever evaluated at checked parameters; a failure leaves the curve out.
+    let sim = simulate(tr, &grid).unwrap_or_default();
+    let y = |g: f64| if fraction { g } else { g * hs + (1.0 - g) * ls };
+    let scale = if fraction { hs - ls } else { 1.0 };
+    let of_chit = |v: f64| if fraction { (v - ls) / (hs - ls) } else { v };
+    let mut curves = Vec::new();
+    if !sim.is_empty() {
+        let t: Vec<f64> = sim.iter().map(|p| p.t).collect();
+        curves.push(Curve {
+            name: if turning.is_some() {
+                "model, heating branch".into()
+            } else {
+                "model".into()
+            },
+            t: t.clone(),
+            y: sim.iter().map(|p| y(p.heating)).collect(),
+        });
+        if turning.is_some() {
+            curves.push(Curve {
+                name: "model, cooling branch".into(),
+                t,
+                y: sim.iter().map(|p| y(p.cooling)).collect(),
+            });
+        }
+    }
+    let markers = match turning {
+        Some((d, u)) => vec![
+            Marker {
+                symbol: "*T*↓".into(),
+                t: d,
+            },
+            Marker {
+                symbol: "*T*↑".into(),
+                t: u,
+            },
+        ],
+        None => vec![Marker {
+            symbol: "*T*_{½}".into(),
+            t: t_half,
+        }],
+    };
+    transition_svg(
+        &TransitionFigure {
+            title,
+            quantity: if fraction {
+                TransitionQuantity::Fraction
+            } else {
+                TransitionQuantity::ChiT { hs, ls }
+            },
+            curves,
+            measured: points
+                .iter()
+                .map(|&(t, v, direction, residual)| TransitionPoint {
+                    t,
+                    y: of_chit(v),
+                    direction,
+                    residual: residual.map(|r| r / scale),
+                })
+                .collect(),
+            markers,
+            residual_panel: points.iter().any(|p| p.3.is_some()),
+        },
+        plot.column,
+    )
 }
 
 /// One simulated point.
@@ -442,169 +570,34 @@ impl CurveReport {
         String::from_utf8(w.into_inner().unwrap_or_default()).unwrap_or_default()
     }
 
+    /// SVG of χ_M·T (and γ_HS) against T on both branches, one journal column wide.
     pub fn to_svg(&self) -> Result<String, String> {
-        let tmin = self.points.first().map_or(1.0, |p| p.t);
-        let tmax = self.points.last().map_or(400.0, |p| p.t);
-        draw(
-            &format!(
-                "simulated transition, T½ = {:.1} K, Γ/2RT½ = {:.2}",
-                self.t_half, self.gamma_over_2rt_half
-            ),
+        Ok(self.to_svg_with(&TransitionPlot::default()))
+    }
+
+    /// The figure at the width and in the quantity asked for.
+    pub fn to_svg_with(&self, plot: &TransitionPlot) -> String {
+        let tmin = self.points.first().map_or(50.0, |p| p.t);
+        let tmax = self.points.last().map_or(350.0, |p| p.t);
+        let title = if self.gamma > 0.0 {
+            format!(
+                "Simulated: Δ*H* = {:.1} kJ mol⁻¹, *Γ* = {:.2} kJ mol⁻¹",
+                self.dh, self.gamma
+            )
+        } else {
+            format!(
+                "Simulated: Δ*H* = {:.1} kJ mol⁻¹, Δ*S* = {:.0} J K⁻¹ mol⁻¹",
+                self.dh, self.ds
+            )
+        };
+        figure(
+            title,
             &self.transition,
-            self.chit_hs,
-            self.chit_ls,
-            tmin,
-            tmax,
+            (self.chit_hs, self.chit_ls),
+            (tmin, tmax),
             &[],
-            None,
+            (self.t_down.zip(self.t_up), self.t_half),
+            plot,
         )
     }
-}
-
-const COOL: RGBColor = RGBColor(31, 96, 168);
-const HEAT: RGBColor = RGBColor(196, 78, 38);
-const GREY: RGBColor = RGBColor(90, 90, 90);
-
-#[allow(clippy::too_many_arguments)]
-fn draw(
-    title: &str,
-    tr: &Transition,
-    hs: f64,
-    ls: f64,
-    tmin: f64,
-    tmax: f64,
-    points: &[(f64, f64, &str)],
-    residuals: Option<&[(f64, f64)]>,
-) -> Result<String, String> {
-    let e = |e: &dyn std::fmt::Display| e.to_string();
-    let mut out = String::new();
-    {
-        let height = if residuals.is_some() { 640 } else { 520 };
-        let root = SVGBackend::with_string(&mut out, (820, height)).into_drawing_area();
-        root.fill(&WHITE).map_err(|x| e(&x))?;
-        let (top, bottom) = match residuals {
-            Some(_) => root.split_vertically(470),
-            None => (root.clone(), root.clone()),
-        };
-        let span = (tmax - tmin).max(1.0);
-        let (x0, x1) = ((tmin - 0.03 * span).max(0.1), tmax + 0.03 * span);
-        let obs_max = points.iter().map(|p| p.1).fold(hs.max(ls), f64::max);
-        let y1 = obs_max * 1.08 + 0.05;
-        let y0 = ls
-            .min(0.0)
-            .min(points.iter().map(|p| p.1).fold(0.0, f64::min))
-            - 0.05;
-        let mut chart = ChartBuilder::on(&top)
-            .caption(title, ("sans-serif", 19))
-            .margin(14)
-            .x_label_area_size(40)
-            .y_label_area_size(60)
-            .right_y_label_area_size(56)
-            .build_cartesian_2d(x0..x1, y0..y1)
-            .map_err(|x| e(&x))?
-            .set_secondary_coord(x0..x1, ((y0 - ls) / (hs - ls))..((y1 - ls) / (hs - ls)));
-        chart
-            .configure_mesh()
-            .x_desc("T / K")
-            .y_desc("χ_M·T / cm³ K mol⁻¹")
-            .light_line_style(RGBColor(236, 236, 236))
-            .draw()
-            .map_err(|x| e(&x))?;
-        chart
-            .configure_secondary_axes()
-            .y_desc("γ_HS")
-            .draw()
-            .map_err(|x| e(&x))?;
-        let n = 400;
-        let grid: Vec<f64> = (0..=n)
-            .map(|i| x0 + (x1 - x0) * i as f64 / n as f64)
-            .collect();
-        let sim = simulate(tr, &grid).map_err(|x| e(&x))?;
-        let line = |g: f64| g * hs + (1.0 - g) * ls;
-        let looped = tr.turning_points().is_some();
-        chart
-            .draw_series(LineSeries::new(
-                sim.iter().map(|p| (p.t, line(p.heating))),
-                HEAT.stroke_width(2),
-            ))
-            .map_err(|x| e(&x))?
-            .label(if looped {
-                "model, heating branch"
-            } else {
-                "model"
-            })
-            .legend(|(x, y)| PathElement::new(vec![(x, y), (x + 18, y)], HEAT.stroke_width(2)));
-        if looped {
-            chart
-                .draw_series(LineSeries::new(
-                    sim.iter().map(|p| (p.t, line(p.cooling))),
-                    COOL.stroke_width(2),
-                ))
-                .map_err(|x| e(&x))?
-                .label("model, cooling branch")
-                .legend(|(x, y)| PathElement::new(vec![(x, y), (x + 18, y)], COOL.stroke_width(2)));
-        }
-        for (kind, color, label) in [
-            ("cooling", COOL, "measured, cooling"),
-            ("heating", HEAT, "measured, heating"),
-            ("equilibrium", GREY, "measured"),
-        ] {
-            let these: Vec<(f64, f64)> = points
-                .iter()
-                .filter(|p| p.2 == kind)
-                .map(|p| (p.0, p.1))
-                .collect();
-            if these.is_empty() {
-                continue;
-            }
-            let series = these.iter().map(move |&(x, y)| {
-                EmptyElement::at((x, y))
-                    + match kind {
-                        "cooling" => TriangleMarker::new((0, 0), 5, color.filled()).into_dyn(),
-                        "heating" => {
-                            TriangleMarker::new((0, 0), 5, color.stroke_width(1)).into_dyn()
-                        }
-                        _ => Circle::new((0, 0), 3, color.filled()).into_dyn(),
-                    }
-            });
-            chart
-                .draw_series(series)
-                .map_err(|x| e(&x))?
-                .label(label)
-                .legend(move |(x, y)| TriangleMarker::new((x + 9, y), 5, color.filled()));
-        }
-        chart
-            .configure_series_labels()
-            .background_style(WHITE.mix(0.85))
-            .border_style(BLACK)
-            .position(SeriesLabelPosition::UpperLeft)
-            .draw()
-            .map_err(|x| e(&x))?;
-        if let Some(res) = residuals {
-            let r = res.iter().map(|p| p.1.abs()).fold(0.0, f64::max).max(1e-3) * 1.2;
-            let mut rc = ChartBuilder::on(&bottom)
-                .margin(14)
-                .x_label_area_size(36)
-                .y_label_area_size(60)
-                .right_y_label_area_size(56)
-                .build_cartesian_2d(x0..x1, -r..r)
-                .map_err(|x| e(&x))?;
-            rc.configure_mesh()
-                .x_desc("T / K")
-                .y_desc("residual")
-                .y_labels(5)
-                .light_line_style(RGBColor(236, 236, 236))
-                .draw()
-                .map_err(|x| e(&x))?;
-            rc.draw_series(LineSeries::new(vec![(x0, 0.0), (x1, 0.0)], GREY))
-                .map_err(|x| e(&x))?;
-            rc.draw_series(
-                res.iter()
-                    .map(|&(x, y)| Circle::new((x, y), 2, GREY.filled())),
-            )
-            .map_err(|x| e(&x))?;
-        }
-        root.present().map_err(|x| e(&x))?;
-    }
-    Ok(out)
 }
