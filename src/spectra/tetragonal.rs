@@ -851,9 +851,16 @@ mod tests {
 
     #[test]
     fn monotone_assignment_picks_nearest_in_order() {
-        let (cost, idx) = best_monotone(&[10.0, 30.0], &[9.0, 20.0, 31.0]).unwrap();
-        assert_eq!(idx, vec![0, 2]);
+        let (cost, idx) = best_monotone(&[10.0, 30.0], &[9.0, 31.0, 40.0]).unwrap();
+        assert_eq!(idx, vec![0, 1]);
         assert!((cost - 2.0).abs() < 1e-12);
+        // Passing over a level below the highest band costs SKIP_COST: a 10 cm⁻¹ miss is
+        // preferred to a skip.
+        let (cost, idx) = best_monotone(&[10.0, 30.0], &[9.0, 20.0, 31.0]).unwrap();
+        assert_eq!(idx, vec![0, 1]);
+        assert!((cost - 101.0).abs() < 1e-9);
+        let (_, idx) = best_monotone(&[10.0, 3000.0], &[9.0, 1000.0, 3001.0]).unwrap();
+        assert_eq!(idx, vec![0, 2]);
         assert!(best_monotone(&[1.0, 2.0, 3.0], &[1.0, 2.0]).is_none());
     }
 }
