@@ -627,6 +627,7 @@ fn parse_row(
             bands,
             bond_length,
             curve: None,
+            structure: None,
         },
     })
 }
@@ -679,6 +680,7 @@ pub fn columns_of(e: &CheckError) -> String {
         Part::Bands => "bands".into(),
         Part::BondLength => "bond_length".into(),
         Part::Curve => "chit_file".into(),
+        Part::Structure => "structure".into(),
     }
 }
 

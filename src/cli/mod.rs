@@ -63,7 +63,7 @@ pub enum Command {
     Bands(bands::Args),
     /// One verdict on the spin state from all the evidence (Evans, magnetometer, bands, bond
     /// length) for one complex or every row of a CSV file.
-    Check(check::Args),
+    Check(Box<check::Args>),
     /// Run the invented screening scenario of data/demo end to end.
     Demo(demo::Args),
     /// Fit a spin transition (T½, ΔH, ΔS, Γ, hysteresis) to χ_M·T(T) or variable-temperature
