@@ -325,3 +325,63 @@ fn bad_structures_are_one_line_errors_for_predict_and_check() {
     let v = check_json(p, &["--metal-label", "Fe2"]);
     assert_eq!(v["structure"]["centre"], "Fe2");
 }
+
+/// With Δ and B given, the composition (each spin state at its own bond length) can sit on the
+/// low-spin side while the field at the high-spin form's long bonds (e ∝ r⁻ⁿ) is on the
+/// high-spin side: the report says they disagree, and the measured bonds decide.
+#[test]
+fn composition_and_field_disagreeing_is_said() {
+    let given = ["--delta", "17000", "--b", "700"];
+    let mut extra = vec!["--geometry", "oct"];
+    extra.extend_from_slice(&given);
+    let v = check_json(HS, &extra);
+    assert_eq!(v["evidence"][0]["supports"], "low-spin", "{v}");
+    assert_eq!(lines(&v, "structure-field")[0]["supports"], "high-spin");
+    assert_eq!(v["structure"]["field_disagrees_with_composition"], true);
+    let reasons = v["reasons"].to_string();
+    assert!(
+        reasons.contains("disagrees with the composition"),
+        "{reasons}"
+    );
+    assert_eq!(v["verdict"], "high-spin");
+    // Without --geometry the field is the prediction, and the note says the composition
+    // differs.
+    let v = check_json(HS, &given);
+    assert_eq!(v["evidence"][0]["supports"], "high-spin", "{v}");
+    assert!(
+        v["reasons"]
+            .to_string()
+            .contains("the structure's field is used as the prediction"),
+        "{v}"
+    );
+}
+
+/// Co(II) has no absolute bond-length ranges in the table (only the change on going high spin,
+/// [Co(tpy)2](CF3SO3)2: Crystals 2018, 8, 155): the bond line takes no side and says so, and
+/// the per-element means are listed for the mixed N4O2 set.
+#[test]
+fn cobalt_bonds_take_no_side_without_absolute_ranges() {
+    let v = run_json(&[
+        "check",
+        "--structure",
+        "tests/structures/triclinic_co.cif",
+        "--ox",
+        "2",
+        "--ligand",
+        "py:4",
+        "--ligand",
+        "H2O:2",
+        "--json",
+    ]);
+    let b = lines(&v, "bond-length")[0];
+    assert_eq!(b["supports"], "none", "{b}");
+    let detail = b["detail"].as_str().unwrap();
+    assert!(detail.contains("only the change"), "{detail}");
+    assert!(detail.contains("Crystals 2018"), "{detail}");
+    let measured = b["measured"].as_str().unwrap();
+    assert!(
+        measured.contains("Co–N") && measured.contains("Co–O"),
+        "{measured}"
+    );
+    assert_eq!(v["structure"]["spin_state_from_bonds"], "none");
+}

@@ -1012,11 +1012,33 @@ pub fn structure_bonds(
     let no_row = if without.is_empty() {
         String::new()
     } else {
-        format!(
+        // Rows with only the change on going high spin say so (they cannot classify a mean).
+        let changes: Vec<String> = without
+            .iter()
+            .flat_map(|e| table.rows_for(&ion.symbol, ion.oxidation_state, e))
+            .filter_map(|r| {
+                r.delta_r.filter(|_| r.low_spin.is_none()).map(|d| {
+                    format!(
+                        "{}–{} changes by {d:+.2} Å on going high spin ({})",
+                        ion.name(),
+                        r.donor,
+                        r.source
+                    )
+                })
+            })
+            .collect();
+        let mut t = format!(
             "data/bond_lengths.csv has no low- and high-spin range for {}–{}",
             ion.name(),
             without.join(", ")
-        )
+        );
+        if !changes.is_empty() {
+            t.push_str(&format!(
+                " (only the change: {}; compare structures at two temperatures with `structure`)",
+                changes.join("; ")
+            ));
+        }
+        t
     };
     let decided: Vec<&(String, Evidence)> = lines
         .iter()
