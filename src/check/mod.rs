@@ -3,12 +3,15 @@
 //! [`check`] takes a complex (composition, optionally with measured Δ, B, C) and any of an
 //! Evans-method measurement, a magnetometer value (χ_M, χ_M·T or μ_eff at a temperature), the
 //! observed d–d band maxima in a spectrometer window, and the mean metal–donor bond length of a
-//! crystal structure. Each piece becomes one [`Evidence`] line (what is predicted, what was
+//! crystal structure, typed or read from the structure itself ([`StructureInput`]: its centre's
+//! bonds against the reference table, and the field at its real geometry as a second model line
+//! or as the prediction). Each piece becomes one [`Evidence`] line (what is predicted, what was
 //! measured, which spin state it supports and how strongly); [`decide`] then weighs them into a
 //! [`Verdict`] with its reasons and what to re-check.
 //!
 //! # How the verdict is reached (rules of this tool)
-//! - The ligand-field prediction is a model, not a measurement: it never outweighs one. It is used
+//! - The ligand-field prediction is a model, not a measurement: it never outweighs one. The same
+//!   holds for the field at a structure's geometry (`structure-field`). It is used
 //!   alone only when nothing was measured or no measurement takes a side.
 //! - Measured evidence of at least moderate strength decides. If any measurement fits neither
 //!   spin state, the verdict is `inconsistent` and names it.
