@@ -639,6 +639,7 @@ fn parse_row(
             bands,
             bond_length,
             curve: None,
+            structure: None,
         },
     })
 }
@@ -691,6 +692,7 @@ pub fn columns_of(e: &CheckError) -> String {
         Part::Bands => "bands".into(),
         Part::BondLength => "bond_length".into(),
         Part::Curve => "chit_file".into(),
+        Part::Structure => "structure".into(),
     }
 }
 

@@ -826,6 +826,282 @@ fn classify(
     }
 }
 
+/// The spin state of the field at a structure's real geometry ([`crate::structure::spin`]) as
+/// a model line of evidence, like [`prediction`]: weak (moderate with Δ and B measured), no side
+/// within the complex's Δ/B uncertainty of the spin change, never decisive. `kind` is
+/// [`EvidenceKind::Prediction`] when it stands for the prediction, else
+/// [`EvidenceKind::StructureField`].
+///
+/// The side comes from the margin search: the ground spin is on the high-spin side when the
+/// field must grow (scale λ > 1) to change it to a lower spin. Scaling the field by λ moves
+/// Δ/B by the same factor, so 1/λ − 1 is the margin in the units of the composition's
+/// `margin_percent`.
+pub fn structure_field(
+    spin: &crate::structure::spin::StructureSpin,
+    p: &Prediction,
+    centre: &str,
+    kind: EvidenceKind,
+) -> Evidence {
+    let cx = &p.complex;
+    let given = cx.delta.origin == Origin::Given && cx.b.origin == Origin::Given;
+    let ground = spin.levels.first().map(|l| l.label()).unwrap_or_default();
+    let s = spin.two_s as f64 / 2.0;
+    let measured = format!(
+        "geometry of {centre}; e_σ, e_π per donor from Δ {:.0} cm⁻¹ ({}), B {:.0} cm⁻¹",
+        cx.delta.value,
+        if cx.delta.origin == Origin::Given {
+            "given"
+        } else {
+            "estimated"
+        },
+        cx.b.value
+    );
+    let uncertainty = 100.0 * cx.delta_over_b_uncertainty();
+    let (predicted, supports, strength, detail) = match spin.margin {
+        _ if p.spin_state == SpinState::Fixed => (
+            format!("{ground} (S = {s}), one ground spin state only"),
+            Support::Only,
+            Strength::Weak,
+            format!(
+                "d{} {} has a single ground spin state; the structure's field gives {ground}",
+                cx.ion.dn,
+                cx.geometry.name()
+            ),
+        ),
+        None => {
+            let max_two_s = cx.ion.dn.min(10 - cx.ion.dn) as i32;
+            let side = if spin.two_s == max_two_s {
+                Support::High
+            } else {
+                Support::Low
+            };
+            (
+                format!("{ground} (S = {s}); the ground spin does not change between ×1/4 and ×4 of the field"),
+                side,
+                if given { Strength::Moderate } else { Strength::Weak },
+                format!(
+                    "{} far from any spin change at this geometry (the field scaled by 1/4 to 4 keeps S = {s})",
+                    side.name()
+                ),
+            )
+        }
+        Some((lambda, other)) => {
+            let percent = (1.0 / lambda - 1.0) * 100.0;
+            let side = if spin.two_s > other {
+                Support::High
+            } else {
+                Support::Low
+            };
+            let predicted = format!(
+                "{ground} (S = {s}); the ground spin changes to S = {} at ×{lambda:.3} of the field ({percent:+.0} %)",
+                other as f64 / 2.0
+            );
+            if percent.abs() <= uncertainty {
+                (
+                    predicted,
+                    Support::Both,
+                    Strength::None,
+                    format!(
+                        "within the assumed ±{uncertainty:.0} % of the spin change at this geometry: both spin states are candidates"
+                    ),
+                )
+            } else {
+                (
+                    predicted,
+                    side,
+                    if given { Strength::Moderate } else { Strength::Weak },
+                    format!(
+                        "{} side of the spin change at this geometry, outside the assumed ±{uncertainty:.0} % (field scaled at fixed bond lengths)",
+                        side.name()
+                    ),
+                )
+            }
+        }
+    };
+    Evidence {
+        kind,
+        predicted,
+        measured,
+        supports,
+        strength,
+        detail,
+        temperature: None,
+        high_spin_fraction: None,
+    }
+}
+
+/// The bond lengths of a structure's centre as one line of evidence: each donor element's mean
+/// distance against its reference ranges (as [`classify_mean`] does for a typed mean), combined
+/// as [`crate::structure::centre::spin_state_from_bonds`] combines them. Elements without a
+/// reference take no side; elements that disagree make the line take no side either (and say
+/// so). The strength is the weakest of the elements that decide.
+pub fn structure_bonds(
+    input: &super::StructureInput,
+    complex: &ResolvedComplex,
+    table: &BondLengthTable,
+) -> Evidence {
+    let c = &input.centre;
+    let ion = &complex.ion;
+    let mean = c.mean_distance.unwrap_or(f64::NAN);
+    let per_element: Vec<String> = c
+        .means
+        .iter()
+        .map(|m| {
+            format!(
+                "{}–{} {:.3} Å ({})",
+                c.metal, m.element, m.mean_distance, m.count
+            )
+        })
+        .collect();
+    let mut measured = format!(
+        "{} in {}: mean {mean:.3} Å over {} bonds",
+        c.label,
+        input.source,
+        c.bonds.len()
+    );
+    if c.means.len() > 1 || c.means.first().is_some_and(|m| m.count != c.bonds.len()) {
+        measured.push_str(&format!(" ({})", per_element.join(", ")));
+    } else if let Some(m) = c.means.first() {
+        measured = format!(
+            "{} in {}: mean {}–{} {mean:.3} Å over {} bonds",
+            c.label,
+            input.source,
+            c.metal,
+            m.element,
+            c.bonds.len()
+        );
+    }
+    if let Some(t) = input.temperature {
+        measured.push_str(&format!(" at {t:.0} K"));
+    }
+    let lines: Vec<(String, Evidence)> = c
+        .means
+        .iter()
+        .filter_map(|m| {
+            let r = table.reference(&ion.symbol, ion.oxidation_state, &m.element)?;
+            Some((
+                m.element.clone(),
+                classify_mean(
+                    Measured {
+                        value: m.mean_distance,
+                        err: 0.0,
+                    },
+                    &r,
+                    ion.name(),
+                    &m.element,
+                ),
+            ))
+        })
+        .collect();
+    let without: Vec<&str> = c
+        .means
+        .iter()
+        .filter(|m| !lines.iter().any(|(e, _)| *e == m.element))
+        .map(|m| m.element.as_str())
+        .collect();
+    let mut ev = Evidence {
+        kind: EvidenceKind::BondLength,
+        predicted: "no reference range".into(),
+        measured,
+        supports: Support::Nothing,
+        strength: Strength::None,
+        detail: String::new(),
+        temperature: input.temperature,
+        high_spin_fraction: None,
+    };
+    let no_row = if without.is_empty() {
+        String::new()
+    } else {
+        // Rows with only the change on going high spin say so (they cannot classify a mean).
+        let changes: Vec<String> = without
+            .iter()
+            .flat_map(|e| table.rows_for(&ion.symbol, ion.oxidation_state, e))
+            .filter_map(|r| {
+                r.delta_r.filter(|_| r.low_spin.is_none()).map(|d| {
+                    format!(
+                        "{}–{} changes by {d:+.2} Å on going high spin ({})",
+                        ion.name(),
+                        r.donor,
+                        r.source
+                    )
+                })
+            })
+            .collect();
+        let mut t = format!(
+            "data/bond_lengths.csv has no low- and high-spin range for {}–{}",
+            ion.name(),
+            without.join(", ")
+        );
+        if !changes.is_empty() {
+            t.push_str(&format!(
+                " (only the change: {}; compare structures at two temperatures with `structure`)",
+                changes.join("; ")
+            ));
+        }
+        t
+    };
+    let decided: Vec<&(String, Evidence)> = lines
+        .iter()
+        .filter(|(_, e)| e.supports != Support::Nothing)
+        .collect();
+    if lines.is_empty() {
+        ev.detail = no_row;
+        return ev;
+    }
+    ev.predicted = lines
+        .iter()
+        .map(|(_, e)| e.predicted.clone())
+        .collect::<Vec<_>>()
+        .join("; ");
+    let agree = decided
+        .first()
+        .is_some_and(|(_, f)| decided.iter().all(|(_, e)| e.supports == f.supports));
+    if agree {
+        let first = &decided[0].1;
+        ev.supports = first.supports;
+        ev.strength = decided
+            .iter()
+            .map(|(_, e)| e.strength)
+            .min()
+            .unwrap_or(Strength::None);
+        ev.high_spin_fraction = if decided.len() == 1 {
+            first.high_spin_fraction
+        } else {
+            None
+        };
+        ev.detail = decided
+            .iter()
+            .map(|(el, e)| {
+                if decided.len() > 1 {
+                    format!("{el}: {}", e.detail)
+                } else {
+                    e.detail.clone()
+                }
+            })
+            .collect::<Vec<_>>()
+            .join("; ");
+    } else if decided.is_empty() {
+        ev.detail = lines
+            .iter()
+            .map(|(_, e)| e.detail.clone())
+            .collect::<Vec<_>>()
+            .join("; ");
+    } else {
+        ev.detail = format!(
+            "the donor elements disagree ({}); the bonds take no side",
+            decided
+                .iter()
+                .map(|(el, e)| format!("{el}: {}", e.supports.name()))
+                .collect::<Vec<_>>()
+                .join(", ")
+        );
+    }
+    if !no_row.is_empty() {
+        ev.detail.push_str(&format!("; {no_row}"));
+    }
+    ev
+}
+
 #[cfg(test)]
 mod tests {
     use super::*;

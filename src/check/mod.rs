@@ -3,12 +3,15 @@
 //! [`check`] takes a complex (composition, optionally with measured Δ, B, C) and any of an
 //! Evans-method measurement, a magnetometer value (χ_M, χ_M·T or μ_eff at a temperature), the
 //! observed d–d band maxima in a spectrometer window, and the mean metal–donor bond length of a
-//! crystal structure. Each piece becomes one [`Evidence`] line (what is predicted, what was
+//! crystal structure, typed or read from the structure itself ([`StructureInput`]: its centre's
+//! bonds against the reference table, and the field at its real geometry as a second model line
+//! or as the prediction). Each piece becomes one [`Evidence`] line (what is predicted, what was
 //! measured, which spin state it supports and how strongly); [`decide`] then weighs them into a
 //! [`Verdict`] with its reasons and what to re-check.
 //!
 //! # How the verdict is reached (rules of this tool)
-//! - The ligand-field prediction is a model, not a measurement: it never outweighs one. It is used
+//! - The ligand-field prediction is a model, not a measurement: it never outweighs one. The same
+//!   holds for the field at a structure's geometry (`structure-field`). It is used
 //!   alone only when nothing was measured or no measurement takes a side.
 //! - Measured evidence of at least moderate strength decides. If any measurement fits neither
 //!   spin state, the verdict is `inconsistent` and names it.
@@ -55,6 +58,9 @@ pub enum EvidenceKind {
     BondLength,
     /// A χ_M·T(T) curve (magnetometer sweep or variable-temperature Evans series).
     Curve,
+    /// The field at a structure's real geometry (angular overlap model), beside the
+    /// composition's prediction: a model, like [`EvidenceKind::Prediction`].
+    StructureField,
 }
 
 impl EvidenceKind {
@@ -67,7 +73,17 @@ impl EvidenceKind {
             EvidenceKind::Bands => "bands",
             EvidenceKind::BondLength => "bond-length",
             EvidenceKind::Curve => "chit-curve",
+            EvidenceKind::StructureField => "structure-field",
         }
+    }
+
+    /// True for the model lines (the prediction and the structure's field): they never
+    /// decide against a measurement.
+    pub fn is_model(self) -> bool {
+        matches!(
+            self,
+            EvidenceKind::Prediction | EvidenceKind::StructureField
+        )
     }
 
     /// What to re-check when this evidence disagrees with the rest.
@@ -87,6 +103,9 @@ impl EvidenceKind {
             }
             EvidenceKind::BondLength => {
                 "the structure: its temperature, which donor atoms were averaged, and disorder; a structure at another temperature may show the other spin state"
+            }
+            EvidenceKind::StructureField => {
+                "the structure's field: the donors' assignment to ligands and their e_σ, e_π (from the f·g estimate); give Δ and B measured from a band fit"
             }
             EvidenceKind::Curve => {
                 "the χ_M·T(T) file: its units (χ_M or χ_M·T), the molar mass, the diamagnetic correction, and the temperature sensor; a sample can change on cycling"
@@ -176,7 +195,7 @@ pub struct Evidence {
 
 impl Evidence {
     fn decisive(&self) -> bool {
-        self.kind != EvidenceKind::Prediction && self.strength >= Strength::Moderate
+        !self.kind.is_model() && self.strength >= Strength::Moderate
     }
 }
 
@@ -247,6 +266,21 @@ pub struct BondLengthInput {
     pub temperature: Option<f64>,
 }
 
+/// A crystal structure's (or coordinate file's) metal centre as evidence: its bond lengths
+/// against the reference table and the field at its real geometry.
+#[derive(Debug, Clone, PartialEq)]
+pub struct StructureInput {
+    /// The file it came from, for the report.
+    pub source: String,
+    /// The centre, analysed with the complex's oxidation state.
+    pub centre: crate::structure::centre::Centre,
+    /// Temperature of the data collection (K), when known.
+    pub temperature: Option<f64>,
+    /// True when the structure's field stands for the prediction (no named geometry was
+    /// given); false: it is listed beside the composition's prediction.
+    pub field_is_prediction: bool,
+}
+
 /// A χ_M·T(T) curve.
 #[derive(Debug, Clone, PartialEq)]
 pub struct CurveInput {
@@ -264,6 +298,7 @@ pub struct CheckInput {
     pub bands: Option<BandInput>,
     pub bond_length: Option<BondLengthInput>,
     pub curve: Option<CurveInput>,
+    pub structure: Option<StructureInput>,
 }
 
 /// The data tables `check` uses.
@@ -283,6 +318,7 @@ pub enum Part {
     Bands,
     BondLength,
     Curve,
+    Structure,
 }
 
 /// An error of [`check`] with the part of the input it concerns.
@@ -310,6 +346,33 @@ pub struct CheckResult {
     pub reasons: Vec<String>,
     /// What to re-check (empty unless evidence disagrees).
     pub recheck: Vec<String>,
+    /// The structure's field and centre, when a structure was given.
+    pub structure: Option<StructureOutcome>,
+}
+
+/// What a structure gave `check`.
+#[derive(Debug, Clone, PartialEq)]
+pub struct StructureOutcome {
+    pub source: String,
+    pub centre: String,
+    /// Mean metal–donor distance (Å).
+    pub mean_distance: Option<f64>,
+    /// The bond-length verdict of the centre (see
+    /// [`crate::structure::centre::spin_state_from_bonds`]).
+    pub spin_state_from_bonds: &'static str,
+    /// Label of the ground level of the field at the real geometry.
+    pub ground: String,
+    /// Twice the ground spin of that field.
+    pub two_s: i32,
+    /// Field scale λ at which the ground spin changes, with the new 2S (see
+    /// [`crate::structure::spin`]); None within 1/4..4.
+    pub margin: Option<(f64, i32)>,
+    /// Point group of the labels.
+    pub point_group: crate::engine::PointGroup,
+    /// What the field's line supports.
+    pub field_supports: Support,
+    /// True when the field's side (high or low) is the opposite of the composition's.
+    pub disagrees: bool,
 }
 
 impl CheckResult {
@@ -358,11 +421,61 @@ pub fn check(
                 .map_err(at(Part::BondLength))?,
         );
     }
+    let mut outcome = None;
+    if let Some(s) = &input.structure {
+        let spin = crate::structure::spin::structure_spin(&s.centre, &complex, &[])
+            .map_err(at(Part::Structure))?;
+        let composition = evidence[0].clone();
+        let kind = if s.field_is_prediction {
+            EvidenceKind::Prediction
+        } else {
+            EvidenceKind::StructureField
+        };
+        let line = evidence::structure_field(&spin, &prediction, &s.centre.label, kind);
+        let disagrees = matches!(
+            (composition.supports, line.supports),
+            (Support::High, Support::Low) | (Support::Low, Support::High)
+        );
+        outcome = Some(StructureOutcome {
+            source: s.source.clone(),
+            centre: s.centre.label.clone(),
+            mean_distance: s.centre.mean_distance,
+            spin_state_from_bonds: s.centre.spin_state_from_bonds,
+            ground: spin.levels.first().map(|l| l.label()).unwrap_or_default(),
+            two_s: spin.two_s,
+            margin: spin.margin,
+            point_group: spin.field.group,
+            field_supports: line.supports,
+            disagrees,
+        });
+        if s.field_is_prediction {
+            evidence[0] = line;
+        } else {
+            evidence.insert(1, line);
+        }
+        evidence.push(evidence::structure_bonds(s, &complex, tables.bond_lengths));
+    }
     if let Some(c) = &input.curve {
         evidence.push(evidence::curve(c, &complex, tables.moment_ranges).map_err(at(Part::Curve))?);
     }
     let single = prediction.spin_state == SpinState::Fixed;
-    let decision = decide(&evidence, single);
+    let mut decision = decide(&evidence, single);
+    if let Some(o) = outcome.as_ref().filter(|o| o.disagrees) {
+        let field_side = o.field_supports.name();
+        decision.reasons.push(if input.structure.as_ref().is_some_and(|s| s.field_is_prediction) {
+            format!(
+                "the field at the structure's geometry ({}) supports {field_side}, but the composition's estimate at the idealised {} geometry supports the other state; the structure's field is used as the prediction",
+                o.centre,
+                complex.geometry.name()
+            )
+        } else {
+            format!(
+                "the field at the structure's geometry ({}) supports {field_side} and disagrees with the composition's prediction for the idealised {} geometry; both are models and neither outweighs a measurement",
+                o.centre,
+                complex.geometry.name()
+            )
+        });
+    }
     Ok(CheckResult {
         prediction,
         evidence,
@@ -370,6 +483,7 @@ pub fn check(
         confidence: decision.confidence,
         reasons: decision.reasons,
         recheck: decision.recheck,
+        structure: outcome,
     })
 }
 
@@ -417,10 +531,8 @@ fn temperatures(items: &[&Evidence]) -> Option<Vec<f64>> {
 /// d^n and geometry allow one ground spin only.
 pub fn decide(evidence: &[Evidence], single: bool) -> Decision {
     let prediction = evidence.iter().find(|e| e.kind == EvidenceKind::Prediction);
-    let measured: Vec<&Evidence> = evidence
-        .iter()
-        .filter(|e| e.kind != EvidenceKind::Prediction)
-        .collect();
+    let measured: Vec<&Evidence> = evidence.iter().filter(|e| !e.kind.is_model()).collect();
+    let models: Vec<&Evidence> = evidence.iter().filter(|e| e.kind.is_model()).collect();
     let with = |s: Support| -> Vec<&Evidence> {
         measured
             .iter()
@@ -586,8 +698,9 @@ pub fn decide(evidence: &[Evidence], single: bool) -> Decision {
             .filter(|e| e.strength == Strength::Weak)
             .filter(|e| matches!(e.supports, Support::High | Support::Low))
             .chain(
-                prediction
-                    .into_iter()
+                models
+                    .iter()
+                    .copied()
                     .filter(|p| p.strength >= Strength::Weak)
                     .filter(|p| matches!(p.supports, Support::High | Support::Low)),
             )

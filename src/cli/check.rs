@@ -28,14 +28,23 @@ pub struct Args {
     #[arg(long, value_name = "FILE", conflicts_with_all = ["metal", "ligands"])]
     pub input: Option<PathBuf>,
     /// Metal element symbol, e.g. Fe.
-    #[arg(long, value_name = "SYMBOL", required_unless_present = "input", requires_all = ["ox", "geometry", "ligands"])]
+    #[arg(long, value_name = "SYMBOL", required_unless_present_any = ["input", "structure"], requires_all = ["ox", "ligands"])]
     pub metal: Option<String>,
     /// Oxidation state of the metal.
     #[arg(long, value_name = "N", allow_hyphen_values = true)]
     pub ox: Option<i32>,
-    /// Geometry: oct, tet, sqpl, sqpy (square pyramid) or tbp (trigonal bipyramid).
+    /// Geometry: oct, tet, sqpl, sqpy (square pyramid) or tbp (trigonal bipyramid). With
+    /// --structure it may be left out: the structure's field is then the prediction (and the
+    /// closest named shape is used for Δ/B); given, both predictions are listed.
     #[arg(long, value_name = "G")]
     pub geometry: Option<String>,
+    /// A crystal structure (.cif) or coordinates (.xyz) of the complex: its bond lengths become
+    /// evidence and the field at its geometry a prediction. Needs --ox and --ligand; the metal
+    /// is the structure's. Replaces --bond-length (give one of the two).
+    #[arg(long, value_name = "FILE", conflicts_with = "input")]
+    pub structure: Option<PathBuf>,
+    #[command(flatten)]
+    pub centre: super::structure::CentreArgs,
     /// A ligand, NAME[:COUNT] (repeatable), as in `predict`.
     #[arg(long = "ligand", value_name = "NAME[:COUNT]")]
     pub ligands: Vec<String>,
@@ -123,7 +132,7 @@ pub struct Args {
     /// Uncertainty of --bond-length in Å.
     #[arg(long, value_name = "ANGSTROM")]
     pub bond_length_err: Option<f64>,
-    /// Temperature of the structure in K.
+    /// Temperature of the structure in K (with --structure: instead of the one in the CIF).
     #[arg(long, value_name = "K", allow_hyphen_values = true)]
     pub structure_temp: Option<f64>,
     /// A χ_M·T(T) CSV file (the `sco-fit` layout: T and one of chiT, chi_m, mu_eff, optional
@@ -202,6 +211,81 @@ impl Args {
         f.extend(optional.into_iter().filter_map(|(c, v)| v.map(|v| (c, v))));
         f
     }
+}
+
+/// A structure as `check` weighs it: the centre chosen (analysed with --ox), the metal and
+/// geometry it implies, and the reader's notes.
+struct StructureGiven {
+    input: spinstate::check::StructureInput,
+    metal: String,
+    geometry: String,
+    notes: Vec<String>,
+}
+
+fn read_structure_input(
+    args: &Args,
+    path: &Path,
+    data: Option<&Path>,
+) -> Result<StructureGiven, Failure> {
+    if args.bond_length.is_some() || args.bond_length_err.is_some() {
+        return Err(Failure::usage(
+            "--bond-length and --structure both give the bond length: give one of them (with --structure the structure's own distances are used)",
+        ));
+    }
+    let (Some(ox), false) = (args.ox, args.ligands.is_empty()) else {
+        return Err(Failure::usage(
+            "--structure needs --ox N and --ligand NAME[:COUNT] (the field and the reference bond lengths depend on them)",
+        ));
+    };
+    let s = super::structure::read_structure(path)?;
+    let centre = super::structure::one_centre(&s, &args.centre, Some(ox), data)?;
+    if let Some(m) = &args.metal {
+        if !m.eq_ignore_ascii_case(&centre.metal) {
+            return Err(Failure::usage(format!(
+                "--metal {m}: the chosen centre {} of {} is {}; leave --metal out or choose another centre with --metal-index or --metal-label",
+                centre.label, s.name, centre.metal
+            )));
+        }
+    }
+    let geometry = match (&args.geometry, centre.named_geometry()) {
+        (Some(g), _) => g.clone(),
+        (None, Some(g)) => g.name().to_string(),
+        (None, None) => {
+            return Err(Failure::usage(format!(
+                "{}: centre {} has {} donors and no named shape; give --geometry (oct, tet, sqpl, sqpy or tbp)",
+                s.name,
+                centre.label,
+                centre.coordination_number()
+            )))
+        }
+    };
+    let mut notes: Vec<String> = s
+        .notes
+        .iter()
+        .map(|n| format!("note: {}: {n}", s.name))
+        .collect();
+    notes.extend(
+        centre
+            .notes
+            .iter()
+            .map(|n| format!("note: {}: {n}", centre.label)),
+    );
+    if args.geometry.is_none() {
+        notes.push(format!(
+            "note: the prediction is the field at the structure's geometry; Δ/B and the crossover are those of the closest named shape ({geometry})"
+        ));
+    }
+    Ok(StructureGiven {
+        metal: centre.metal.clone(),
+        geometry,
+        input: spinstate::check::StructureInput {
+            source: s.name.clone(),
+            temperature: args.structure_temp.or(s.temperature),
+            field_is_prediction: args.geometry.is_none(),
+            centre,
+        },
+        notes,
+    })
 }
 
 /// The tables `check` needs, from the bundled copies or `--data DIR`.
@@ -548,8 +632,34 @@ pub fn run(args: &Args, data: Option<&Path>) -> Result<Output, Failure> {
             code: if bad.is_empty() { 0 } else { 2 },
         });
     }
-    let mut sample = batch::from_fields(&args.fields())
+    let given = match &args.structure {
+        Some(path) => Some(read_structure_input(args, path, data)?),
+        None => None,
+    };
+    if given.is_none() && args.geometry.is_none() {
+        return Err(Failure::usage(
+            "--geometry is needed (oct, tet, sqpl, sqpy or tbp), or --structure FILE",
+        ));
+    }
+    let mut fields = args.fields();
+    if let Some(g) = &given {
+        // The metal and geometry come from the structure; its temperature goes with it.
+        fields.retain(|(c, _)| *c != "structure_temp");
+        for (c, v) in fields.iter_mut() {
+            match *c {
+                "metal" => *v = g.metal.clone(),
+                "geometry" => *v = g.geometry.clone(),
+                _ => {}
+            }
+        }
+    }
+    let mut sample = batch::from_fields(&fields)
         .map_err(|e| Failure::usage(format!("{}: {}", option_of(&e.column), e.message)))?;
+    let mut structure_notes = Vec::new();
+    if let Some(g) = given {
+        sample.input.structure = Some(g.input);
+        structure_notes = g.notes;
+    }
     attach_curve(&mut sample, None).map_err(|m| Failure::usage(format!("--chit-file: {m}")))?;
     let loaded = Loaded::new(data)?;
     let result = check(&sample.input, loaded.tables()).map_err(|e| Failure {
@@ -570,6 +680,7 @@ pub fn run(args: &Args, data: Option<&Path>) -> Result<Output, Failure> {
     } else {
         report.to_table()
     });
+    out.warnings.extend(structure_notes);
     if let Some(file) = &args.html {
         let section = html_section(&sample.input, &result, report.clone())?;
         let title = format!("Spin-state check of {}", report.complex);

@@ -62,8 +62,8 @@ pub enum Command {
     /// Band-count check: spin-allowed bands of each spin state inside a spectrometer window.
     Bands(bands::Args),
     /// One verdict on the spin state from all the evidence (Evans, magnetometer, bands, bond
-    /// length) for one complex or every row of a CSV file.
-    Check(check::Args),
+    /// length or a whole structure) for one complex or every row of a CSV file.
+    Check(Box<check::Args>),
     /// Run the invented screening scenario of data/demo end to end.
     Demo(demo::Args),
     /// Fit a spin transition (T½, ΔH, ΔS, Γ, hysteresis) to χ_M·T(T) or variable-temperature

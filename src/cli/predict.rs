@@ -10,8 +10,6 @@ use spinstate::report::predict::PredictReport;
 use spinstate::report::structure_spin::StructureSpinReport;
 use spinstate::report::to_json;
 use spinstate::spectra::count;
-use spinstate::structure::centre::Centre;
-use spinstate::structure::shape::IdealShape;
 use spinstate::structure::spin::structure_spin;
 use std::path::Path;
 
@@ -95,32 +93,11 @@ impl Args {
     }
 }
 
-/// The named geometry closest to a centre's shape (for the composition estimate).
-fn geometry_of(centre: &Centre) -> Option<Geometry> {
-    match centre.best_shape? {
-        IdealShape::Octahedron | IdealShape::TrigonalPrism => Some(Geometry::Octahedral),
-        IdealShape::Tetrahedron => Some(Geometry::Tetrahedral),
-        IdealShape::SquarePlane => Some(Geometry::SquarePlanar),
-        IdealShape::SquarePyramid => Some(Geometry::SquarePyramidal),
-        IdealShape::TrigonalBipyramid => Some(Geometry::TrigonalBipyramidal),
-    }
-}
-
 fn run_structure(args: &Args, path: &Path, data: Option<&Path>) -> Result<Output, Failure> {
     let tables = load_tables(data)?;
     let s = super::structure::read_structure(path)?;
-    let centres = super::structure::centres(&s, &args.centre, Some(args.ox), data)?;
-    let centre = match centres.as_slice() {
-        [c] => c,
-        _ => {
-            return Err(Failure::usage(format!(
-                "{}: {} metal centres; choose one with --metal-index N or --metal-label LABEL",
-                s.name,
-                centres.len()
-            )))
-        }
-    };
-    let complex = args.spec_in(geometry_of(centre))?.resolve(&tables)?;
+    let centre = &super::structure::one_centre(&s, &args.centre, Some(args.ox), data)?;
+    let complex = args.spec_in(centre.named_geometry())?.resolve(&tables)?;
     let spin = structure_spin(centre, &complex, &[])?;
     let mut notes = vec![
         format!(

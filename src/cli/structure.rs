@@ -93,6 +93,25 @@ pub fn centres(
     Ok(out)
 }
 
+/// The one centre a command that needs a single metal uses (an error when the options leave
+/// several).
+pub fn one_centre(
+    s: &Structure,
+    args: &CentreArgs,
+    ox: Option<i32>,
+    data: Option<&Path>,
+) -> Result<Centre, Failure> {
+    let mut found = centres(s, args, ox, data)?;
+    if found.len() != 1 {
+        return Err(Failure::usage(format!(
+            "{}: {} metal centres; choose one with --metal-index N or --metal-label LABEL",
+            s.name,
+            found.len()
+        )));
+    }
+    Ok(found.remove(0))
+}
+
 /// A metal-choice error with the options that fix it.
 pub fn with_options(s: &Structure, e: spinstate::Error) -> Failure {
     let hint = match &e {

@@ -5,7 +5,8 @@
 //! `{"name", "row", "complex", "ion", "dn", "geometry", "delta_over_b", "crossover_delta_over_b",
 //! "margin_percent", "borderline", "predicted_spin_state", "verdict", "confidence", "reasons",
 //! "recheck", "evidence": [{"kind", "predicted", "measured", "supports", "strength", "detail",
-//! "temperature_k", "high_spin_fraction"}], "cautions", "safety"}`; a batch
+//! "temperature_k", "high_spin_fraction"}], "cautions", "structure", "safety"}` (`structure`: null unless
+//! `--structure` was given); a batch
 //! `{"samples": [<one complex without "safety">], "errors": [{"row", "name", "column",
 //! "message"}], "safety"}`.
 
@@ -20,7 +21,8 @@ pub const SAFETY: &str = "Safety: cyanide salts are very toxic and release HCN w
 /// One line of evidence.
 #[derive(Debug, Clone, Serialize)]
 pub struct EvidenceRow {
-    /// "prediction", "evans", "moment", "bands" or "bond-length".
+    /// "prediction", "structure-field", "evans", "moment", "bands", "bond-length" or
+    /// "chit-curve".
     pub kind: String,
     /// What the model expects (μB, cm⁻¹ or Å as stated in the text).
     pub predicted: String,
@@ -35,6 +37,33 @@ pub struct EvidenceRow {
     pub temperature_k: Option<f64>,
     /// Estimated high-spin fraction (0–1) for evidence between the states; else null.
     pub high_spin_fraction: Option<f64>,
+}
+
+/// What a structure (`check --structure`) gave: its centre, bonds and field.
+#[derive(Debug, Clone, Serialize)]
+pub struct StructureRow {
+    /// The structure file.
+    pub file: String,
+    /// Label of the metal centre used.
+    pub centre: String,
+    /// Mean metal–donor distance in Å.
+    pub mean_distance: Option<f64>,
+    /// Bond-length verdict of the centre against data/bond_lengths.csv: "high-spin",
+    /// "low-spin", "mixture", "both", "neither", "conflicting" or "none".
+    pub spin_state_from_bonds: String,
+    /// Ground level of the field at the real geometry (angular overlap model).
+    pub field_ground: String,
+    /// Total spin S of that ground level.
+    pub field_spin: f64,
+    /// Factor by which that field must be scaled for the ground spin to change (null: not
+    /// within 1/4..4); > 1 on the high-spin side.
+    pub field_margin_scale: Option<f64>,
+    /// Point group of the field's labels (Oh, Td, D4h or C1).
+    pub field_point_group: String,
+    /// What the field's line supports ("high-spin", "low-spin", "both", "only-state").
+    pub field_supports: String,
+    /// True when the field and the composition's estimate take opposite sides.
+    pub field_disagrees_with_composition: bool,
 }
 
 /// The verdict on one complex.
@@ -74,6 +103,8 @@ pub struct CheckReport {
     pub evidence: Vec<EvidenceRow>,
     /// Handling cautions for the metal and ligands.
     pub cautions: Vec<String>,
+    /// The structure's centre and field; null unless a structure was given.
+    pub structure: Option<StructureRow>,
     #[serde(skip_serializing_if = "Option::is_none")]
     pub safety: Option<String>,
 }
@@ -114,6 +145,18 @@ impl CheckReport {
                 })
                 .collect(),
             cautions: cx.cautions.clone(),
+            structure: r.structure.as_ref().map(|s| StructureRow {
+                file: s.source.clone(),
+                centre: s.centre.clone(),
+                mean_distance: s.mean_distance,
+                spin_state_from_bonds: s.spin_state_from_bonds.to_string(),
+                field_ground: s.ground.clone(),
+                field_spin: s.two_s as f64 / 2.0,
+                field_margin_scale: s.margin.map(|m| m.0),
+                field_point_group: super::structure_spin::group_name(s.point_group).to_string(),
+                field_supports: s.field_supports.name().to_string(),
+                field_disagrees_with_composition: s.disagrees,
+            }),
             safety: None,
         }
     }
@@ -142,6 +185,18 @@ impl CheckReport {
     /// Human-readable table of one complex.
     pub fn to_table(&self) -> String {
         let mut out = format!("{}\n", self.title());
+        if let Some(st) = &self.structure {
+            out.push_str(&format!(
+                "structure: {} centre {}: mean M–L {} Å, bonds: {}; field at this geometry: {} (S = {}, labels in {})\n",
+                st.file,
+                st.centre,
+                st.mean_distance.map_or("—".into(), |d| format!("{d:.3}")),
+                st.spin_state_from_bonds,
+                st.field_ground,
+                st.field_spin,
+                st.field_point_group
+            ));
+        }
         let mut t = new_table(["evidence", "predicted", "measured", "supports", "strength"]);
         for e in &self.evidence {
             t.add_row(vec![

@@ -54,7 +54,8 @@ pub struct StructureSpinReport {
     pub notes: Vec<String>,
 }
 
-fn group_name(g: PointGroup) -> &'static str {
+/// Short name of a point group, e.g. "D4h".
+pub fn group_name(g: PointGroup) -> &'static str {
     match g {
         PointGroup::Oh => "Oh",
         PointGroup::Td => "Td",

@@ -65,6 +65,19 @@ impl Centre {
     pub fn coordination_number(&self) -> usize {
         self.bonds.len()
     }
+
+    /// The named geometry closest to the centre's shape (a trigonal prism counts as
+    /// octahedral), for the composition estimate; None when no shape was measured.
+    pub fn named_geometry(&self) -> Option<crate::engine::Geometry> {
+        use crate::engine::Geometry;
+        match self.best_shape? {
+            IdealShape::Octahedron | IdealShape::TrigonalPrism => Some(Geometry::Octahedral),
+            IdealShape::Tetrahedron => Some(Geometry::Tetrahedral),
+            IdealShape::SquarePlane => Some(Geometry::SquarePlanar),
+            IdealShape::SquarePyramid => Some(Geometry::SquarePyramidal),
+            IdealShape::TrigonalBipyramid => Some(Geometry::TrigonalBipyramidal),
+        }
+    }
 }
 
 /// Combines the verdicts of each donor element: the common one when all elements with a

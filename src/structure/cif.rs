@@ -375,10 +375,25 @@ pub fn read(text: &str, name: &str) -> Result<Structure> {
         atoms,
         lattice: Some(Lattice { cell, ops }),
         notes,
+        temperature: temperature(block),
     };
     s.keep_major_disorder_part();
     s.note_partial_occupancies();
     Ok(s)
+}
+
+/// The data-collection temperature (K): `_diffrn_ambient_temperature`, else
+/// `_cell_measurement_temperature`; a value with an uncertainty, e.g. "100(2)", is read as 100.
+/// Not a positive number: None.
+fn temperature(block: &Block) -> Option<f64> {
+    [
+        "_diffrn_ambient_temperature",
+        "_cell_measurement_temperature",
+    ]
+    .iter()
+    .filter_map(|tag| block.item(tag))
+    .filter_map(|(text, _)| number(text))
+    .find(|t| t.is_finite() && *t > 0.0)
 }
 
 fn symmetry_operators(block: &Block, notes: &mut Vec<String>) -> Result<Vec<SymOp>> {

@@ -58,6 +58,9 @@ pub struct Structure {
     pub atoms: Vec<Atom>,
     pub lattice: Option<Lattice>,
     pub notes: Vec<String>,
+    /// Temperature of the data collection (K), from `_diffrn_ambient_temperature` or
+    /// `_cell_measurement_temperature` of a CIF; None when not stated (always for XYZ).
+    pub temperature: Option<f64>,
 }
 
 /// The file formats read.

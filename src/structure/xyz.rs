@@ -77,5 +77,6 @@ pub fn read(text: &str, name: &str) -> Result<Structure> {
         atoms,
         lattice: None,
         notes: Vec::new(),
+        temperature: None,
     })
 }
