@@ -8,6 +8,7 @@ pub mod engine;
 pub mod error;
 pub mod estimate;
 pub mod formula;
+pub mod input_file;
 pub mod least_squares;
 pub mod magnetism;
 pub mod predict;

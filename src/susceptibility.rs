@@ -82,8 +82,14 @@ impl MagneticModel {
                 "an orbital reduction factor in 0..=1",
             ));
         }
-        if self.g_spin <= 0.0 {
-            return Err(Error::invalid("g", self.g_spin, "a spin g value > 0"));
+        // Spin g values of d-block ions lie near 2; 10 bounds every effective g (common
+        // practice) and keeps χ finite.
+        if !(self.g_spin > 0.0 && self.g_spin <= 10.0) {
+            return Err(Error::invalid(
+                "g",
+                self.g_spin,
+                "a spin g value in 0 < g ≤ 10",
+            ));
         }
         Ok(())
     }

@@ -323,7 +323,7 @@ fn attach_curve(sample: &mut Sample, base: Option<&Path>) -> Result<(), String> 
         Some(dir) if Path::new(name).is_relative() => dir.join(name),
         _ => PathBuf::from(name),
     };
-    let text = std::fs::read_to_string(&path)
+    let text = spinstate::input_file::read_text(&path)
         .map_err(|e| format!("cannot read {}: {e}", path.display()))?;
     let dia = sample.input.moment.map_or(0.0, |m| m.dia.value);
     let curve = spinstate::sco::data::read_curve(&text, dia).map_err(|e| e.to_string())?;
@@ -602,7 +602,7 @@ pub fn run(args: &Args, data: Option<&Path>) -> Result<Output, Failure> {
         return stream_batch(args, path, data);
     }
     if let Some(path) = &args.input {
-        let text = std::fs::read_to_string(path)
+        let text = spinstate::input_file::read_text(path)
             .map_err(|e| Failure::usage(format!("--input: cannot read {}: {e}", path.display())))?;
         let (report, bad, sections) =
             run_batch_with(&text, path.parent(), data, args.html.is_some())?;

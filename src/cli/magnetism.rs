@@ -190,7 +190,7 @@ fn read_measured(
     quantity: Quantity,
     units: units::SusceptibilityUnits,
 ) -> Result<Vec<Point>, Failure> {
-    let text = std::fs::read_to_string(path)
+    let text = spinstate::input_file::read_text(path)
         .map_err(|e| Failure::usage(format!("--measured: cannot read {}: {e}", path.display())))?;
     let curve = spinstate::sco::data::read_curve(&text, 0.0)
         .map_err(|e| Failure::usage(format!("--measured {}: {e}", path.display())))?;

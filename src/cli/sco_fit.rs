@@ -78,7 +78,7 @@ pub struct Args {
 }
 
 pub fn run(args: &Args, data: Option<&Path>) -> Result<Output, Failure> {
-    let text = std::fs::read_to_string(&args.input).map_err(|e| {
+    let text = spinstate::input_file::read_text(&args.input).map_err(|e| {
         Failure::usage(format!(
             "--input: cannot read {}: {e}",
             args.input.display()

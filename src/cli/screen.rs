@@ -175,7 +175,7 @@ pub fn run(args: &Args, data: Option<&Path>) -> Result<Output, Failure> {
             0,
         ),
         (Some(path), true) => {
-            let text = std::fs::read_to_string(path).map_err(|e| {
+            let text = spinstate::input_file::read_text(path).map_err(|e| {
                 Failure::usage(format!("--candidates: cannot read {}: {e}", path.display()))
             })?;
             let (screen, errors) =

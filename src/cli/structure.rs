@@ -66,7 +66,7 @@ pub struct Args {
 /// Reads a structure file; errors name the file.
 pub fn read_structure(path: &Path) -> Result<Structure, Failure> {
     let name = path.display().to_string();
-    let text = std::fs::read_to_string(path)
+    let text = spinstate::input_file::read_text(path)
         .map_err(|e| Failure::usage(format!("cannot read {name}: {e}")))?;
     spinstate::structure::read(&text, &name).map_err(|e| Failure::usage(format!("{name}: {e}")))
 }

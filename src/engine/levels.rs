@@ -158,9 +158,16 @@ impl Calculation {
                 "finite values in cm⁻¹",
             ));
         }
-        let field = LigandField {
-            matrix: (field.matrix + field.matrix.transpose()) * 0.5,
-        };
+        // Field elements far below the energy scale cannot change any sum with B or C in
+        // double precision; they are set to zero so that subnormal values (which stall the
+        // eigen-solver's convergence test) never reach it.
+        let scale = b + c + field.magnitude();
+        let mut matrix = (field.matrix + field.matrix.transpose()) * 0.5;
+        matrix
+            .iter_mut()
+            .filter(|x| x.abs() < 1e-18 * scale)
+            .for_each(|x| *x = 0.0);
+        let field = LigandField { matrix };
         Ok(Calculation {
             dn,
             b,

@@ -108,6 +108,10 @@ pub const MAX_RESIDUAL: f64 = 0.6;
 /// Top. Curr. Chem. 2004, 233, 1; from memory); the range leaves room on both sides.
 pub const DH_RANGE: (f64, f64) = (0.5, 100.0);
 
+/// Largest pure-state χ_M·T accepted (cm³ K mol⁻¹): a mononuclear 3d ion has at most about 5,
+/// a dinuclear complex about 10 (common practice).
+pub const MAX_PURE_CHI_T: f64 = 20.0;
+
 /// Range of Γ/(2RT½) searched.
 pub const GAMMA_RANGE: (f64, f64) = (-2.0, 6.0);
 
@@ -296,17 +300,18 @@ pub fn fit(req: &FitRequest) -> Result<FitResult> {
         PureState::Within { lo, hi, .. } => (*lo, *hi),
     };
     for (what, state) in [("high-spin", &req.chit_hs), ("low-spin", &req.chit_ls)] {
+        let possible = |v: f64| (0.0..=MAX_PURE_CHI_T).contains(&v);
         let ok = match state {
-            PureState::Fixed(v) => v.is_finite() && *v >= 0.0,
-            PureState::Within { lo, hi, .. } => {
-                lo.is_finite() && hi.is_finite() && *lo >= 0.0 && lo <= hi
-            }
+            PureState::Fixed(v) => possible(*v),
+            PureState::Within { lo, hi, .. } => possible(*lo) && possible(*hi) && lo <= hi,
         };
         if !ok {
             return Err(Error::invalid(
                 format!("χ_M·T of the {what} state"),
                 format!("{state:?}"),
-                "a finite value ≥ 0 cm³ K mol⁻¹ (or a range lo ≤ hi)",
+                format!(
+                    "a value in 0..={MAX_PURE_CHI_T} cm³ K mol⁻¹ (or a range lo ≤ hi within it)"
+                ),
             ));
         }
     }

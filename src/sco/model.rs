@@ -54,6 +54,9 @@ pub struct Transition {
     pub residual: f64,
 }
 
+/// Largest |Γ| accepted (J/mol).
+pub const MAX_GAMMA: f64 = 100_000.0;
+
 impl Transition {
     /// Checks the parameters: finite, ΔS > 0 (a transition needs an entropy gain), ΔH > 0,
     /// 0 ≤ r < 1.
@@ -80,6 +83,15 @@ impl Transition {
                 "ΔS",
                 format!("{} J/mol/K", self.ds),
                 "ΔS > 0 (the high-spin state has the larger entropy)",
+            ));
+        }
+        // Interaction parameters of spin-crossover solids are a few kJ/mol; ±100 kJ/mol bounds
+        // them generously (common practice) and keeps the equilibrium equation solvable.
+        if self.gamma.abs() > MAX_GAMMA {
+            return Err(Error::invalid(
+                "Γ",
+                format!("{} kJ/mol", self.gamma / 1000.0),
+                format!("|Γ| ≤ {} kJ/mol", MAX_GAMMA / 1000.0),
             ));
         }
         if !(0.0..1.0).contains(&self.residual) {

@@ -79,7 +79,7 @@ impl BondLengthTable {
         if let Some(dir) = data_dir {
             let path = dir.join(FILE);
             if path.is_file() {
-                let text = std::fs::read_to_string(&path).map_err(|e| Error::Data {
+                let text = crate::input_file::read_text(&path).map_err(|e| Error::Data {
                     table: path.display().to_string(),
                     message: format!("cannot be read: {e}"),
                 })?;

@@ -94,7 +94,7 @@ impl Tables {
         let read = |name: &str, bundled: &'static str| -> Result<String> {
             let path = dir.join(name);
             if path.exists() {
-                std::fs::read_to_string(&path).map_err(|e| Error::Data {
+                crate::input_file::read_text(&path).map_err(|e| Error::Data {
                     table: path.display().to_string(),
                     message: format!("cannot be read: {e}"),
                 })
@@ -138,7 +138,7 @@ pub(crate) fn read_override(data_dir: Option<&Path>, file: &str) -> Result<Optio
     if !path.is_file() {
         return Ok(None);
     }
-    std::fs::read_to_string(&path)
+    crate::input_file::read_text(&path)
         .map(Some)
         .map_err(|e| Error::Data {
             table: path.display().to_string(),
