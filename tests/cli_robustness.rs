@@ -198,6 +198,40 @@ fn hostile(dir: &Path) -> Vec<OsString> {
     v
 }
 
+/// A word of the output that shows a non-finite number ("inf", "NaN", "∞"), with its
+/// surroundings, if any.
+/// A needle that one of the arguments carries (a formula "NaN" is sodium nitride, echoed) is
+/// not a finding.
+fn non_finite(text: &str, args: &[OsString]) -> Option<String> {
+    let bytes = text.as_bytes();
+    for needle in ["inf", "NaN", "nan", "∞"] {
+        if args.iter().any(|a| a.to_string_lossy().contains(needle)) {
+            continue;
+        }
+        let mut from = 0;
+        while let Some(i) = text[from..].find(needle) {
+            let at = from + i;
+            let end = at + needle.len();
+            let letter = |b: Option<&u8>| b.is_some_and(|b| b.is_ascii_alphabetic());
+            let before = at.checked_sub(1).and_then(|j| bytes.get(j));
+            if !letter(before) && !letter(bytes.get(end)) {
+                let lo = text[..at]
+                    .char_indices()
+                    .rev()
+                    .nth(30)
+                    .map_or(0, |(j, _)| j);
+                let hi = text[end..]
+                    .char_indices()
+                    .nth(30)
+                    .map_or(text.len(), |(j, _)| end + j);
+                return Some(text[lo..hi].to_string());
+            }
+            from = end;
+        }
+    }
+    None
+}
+
 /// Runs one argument list and checks the contract; returns a description of a breach.
 fn breach(args: &[OsString], dir: &Path) -> Option<String> {
     let out = assert_cmd::Command::cargo_bin("spinstate")
@@ -229,8 +263,10 @@ fn breach(args: &[OsString], dir: &Path) -> Option<String> {
     if err.contains("panicked") || err.contains("RUST_BACKTRACE") {
         return Some(format!("{shown:?}: panic: {err}"));
     }
+    let stdout = String::from_utf8_lossy(&out.stdout);
     match code {
-        0 => None,
+        0 => non_finite(&stdout, args)
+            .map(|w| format!("{shown:?}: a non-finite number in the output: …{w}…")),
         2 => {
             let lines = err.lines().filter(|l| !l.trim().is_empty()).count();
             if lines == 1 && err.starts_with("error: ") {

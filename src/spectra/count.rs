@@ -265,11 +265,13 @@ fn check_inputs(req: &CountRequest) -> Result<()> {
     }
     if let Some(ct) = &req.charge_transfer {
         require_finite("charge-transfer onset", ct.onset)?;
-        if ct.onset <= 0.0 {
+        // Charge-transfer bands of d-block complexes start between the near infrared and the
+        // far ultraviolet (common practice); outside 1000–200 000 cm⁻¹ a value is a typing error.
+        if !(1_000.0..=200_000.0).contains(&ct.onset) {
             return Err(Error::invalid(
                 "charge-transfer onset",
                 ct.onset,
-                "a wavenumber > 0 cm⁻¹",
+                "a wavenumber in 1000..=200000 cm⁻¹",
             ));
         }
     }

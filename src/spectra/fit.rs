@@ -501,6 +501,9 @@ pub fn fit_bands(req: &FitRequest) -> Result<FitOutcome> {
     if req.bands.is_empty() {
         return Err(Error::invalid("bands", "none", "at least one band maximum"));
     }
+    if let Some(b0) = req.b0 {
+        check_b0(b0)?;
+    }
     for &nu in &req.bands {
         require_finite("band", nu)?;
         if nu <= 0.0 {
@@ -1356,11 +1359,24 @@ fn covariance_to_sigmas(free: &[Parameter], cov: &DMatrix<f64>, dq: f64, b: f64)
 
 /// Nephelauxetic ratio β = B/B₀ (B₀ the free-ion value in cm⁻¹, > 0).
 pub fn nephelauxetic_ratio(b: f64, b0: f64) -> Result<f64> {
-    require_finite("B0", b0)?;
-    if b0 <= 0.0 {
-        return Err(Error::invalid("B0", b0, "a free-ion Racah B > 0 cm⁻¹"));
-    }
+    check_b0(b0)?;
     Ok(b / b0)
+}
+
+/// A free-ion B₀ (cm⁻¹) must be finite and inside [`POSSIBLE_B`].
+pub fn check_b0(b0: f64) -> Result<()> {
+    require_finite("B0", b0)?;
+    if !(POSSIBLE_B.0..=POSSIBLE_B.1).contains(&b0) {
+        return Err(Error::invalid(
+            "B0",
+            b0,
+            format!(
+                "a free-ion Racah B in {}..={} cm⁻¹",
+                POSSIBLE_B.0, POSSIBLE_B.1
+            ),
+        ));
+    }
+    Ok(())
 }
 
 /// Where a fitted Δ/B lies relative to the spin crossover.

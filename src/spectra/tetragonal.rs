@@ -325,6 +325,9 @@ pub fn fit_tetragonal(req: &TetragonalRequest) -> Result<TetragonalOutcome> {
             ));
         }
     }
+    if let Some(b0) = req.b0 {
+        super::fit::check_b0(b0)?;
+    }
     let (default_ratio, _) = default_c_over_b(req.dn);
     let c_over_b = req.c_over_b.unwrap_or(default_ratio);
     if !(c_over_b.is_finite() && (1.0..=20.0).contains(&c_over_b)) {
