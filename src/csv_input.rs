@@ -117,6 +117,42 @@ pub fn unclosed_message(line: usize) -> String {
     )
 }
 
+/// True line numbers of CSV records held in memory. The `csv` crate's own line count is one
+/// short after each CRLF line end, and a record's byte position can point at the blank lines
+/// skipped before it; this index maps a record's byte position to the first non-blank line at
+/// or after it.
+#[derive(Debug, Clone)]
+pub struct LineIndex {
+    /// (byte offset, 1-based line) of every line that holds more than a line end.
+    starts: Vec<(u64, usize)>,
+    lines: usize,
+}
+
+impl LineIndex {
+    /// The index of `text`; lines that start with `comment` (when given) are skipped like
+    /// blank ones.
+    pub fn new(text: &str, comment: Option<u8>) -> Self {
+        let mut starts = Vec::new();
+        let mut offset = 0u64;
+        let mut lines = 0;
+        for (i, line) in text.split('\n').enumerate() {
+            lines = i + 1;
+            let is_comment = comment.is_some_and(|c| line.as_bytes().first() == Some(&c));
+            if !line.trim_end_matches('\r').is_empty() && !is_comment {
+                starts.push((offset, i + 1));
+            }
+            offset += line.len() as u64 + 1;
+        }
+        LineIndex { starts, lines }
+    }
+
+    /// The line of a record that starts at byte `offset`.
+    pub fn line_of(&self, offset: u64) -> usize {
+        let i = self.starts.partition_point(|&(o, _)| o < offset);
+        self.starts.get(i).map_or(self.lines, |&(_, l)| l)
+    }
+}
+
 #[cfg(test)]
 mod tests {
     use super::*;
@@ -141,6 +177,16 @@ mod tests {
             Some(3)
         );
         assert_eq!(unclosed_quote("a,b\n1, \"x\n", None), Some(2));
+    }
+
+    #[test]
+    fn line_index_counts_crlf_and_skips_blank_lines() {
+        let text = "a,b\r\n1,2\r\n\r\n3,4\r\n";
+        let idx = LineIndex::new(text, None);
+        assert_eq!(idx.line_of(0), 1);
+        assert_eq!(idx.line_of(5), 2);
+        // A position at the blank line belongs to the record after it.
+        assert_eq!(idx.line_of(10), 4);
     }
 
     #[test]

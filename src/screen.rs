@@ -1202,12 +1202,13 @@ impl Screen {
         let mut errors: Vec<RowError> = Vec::new();
         let mut rows: Vec<(Runs, Option<String>)> = Vec::new();
         let cn = geometry.coordination_number();
+        let lines = crate::csv_input::LineIndex::new(csv_text, Some(b'#'));
         for (i, rec) in reader.records().enumerate() {
             let row = i + 1;
             let rec = match rec {
                 Ok(r) => r,
                 Err(e) => {
-                    let line = e.position().map_or(0, |p| p.line() as usize);
+                    let line = e.position().map_or(0, |p| lines.line_of(p.byte()));
                     errors.push(RowError {
                         row,
                         line,
@@ -1217,7 +1218,7 @@ impl Screen {
                     continue;
                 }
             };
-            let line = rec.position().map_or(0, |p| p.line() as usize);
+            let line = rec.position().map_or(0, |p| lines.line_of(p.byte()));
             let err = |message: String| RowError {
                 row,
                 line,

@@ -113,10 +113,11 @@ fn records(text: &str) -> Result<(Vec<String>, Rows)> {
         .iter()
         .map(str::to_string)
         .collect();
+    let lines = crate::csv_input::LineIndex::new(text, Some(b'#'));
     let mut rows = Vec::new();
     for rec in reader.records() {
         let rec = rec.map_err(|e| Error::Parse(format!("curve file: {e}")))?;
-        let line = rec.position().map_or(0, |p| p.line() as usize);
+        let line = rec.position().map_or(0, |p| lines.line_of(p.byte()));
         rows.push((line, rec));
     }
     Ok((headers, rows))

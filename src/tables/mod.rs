@@ -175,10 +175,11 @@ pub(crate) fn records(
             ),
         });
     }
+    let lines = crate::csv_input::LineIndex::new(text, None);
     let mut out = Vec::new();
     for rec in reader.records() {
         let rec = rec.map_err(|e| data_error(table, e))?;
-        let line = rec.position().map_or(0, |p| p.line() as usize);
+        let line = rec.position().map_or(0, |p| lines.line_of(p.byte()));
         out.push((line, rec));
     }
     if out.is_empty() {
