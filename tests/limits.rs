@@ -269,3 +269,88 @@ fn bond_length_table_rows_must_keep_the_two_ranges_apart() {
         "{e}"
     );
 }
+
+#[test]
+fn options_that_do_not_apply_are_refused() {
+    // Each option below only means something with another one; given alone it is refused,
+    // naming both, instead of being accepted without a word.
+    let fe = [
+        "--metal",
+        "Fe",
+        "--ox",
+        "2",
+        "--geometry",
+        "oct",
+        "--ligand",
+        "H2O:6",
+    ];
+    let with = |head: &[&str], tail: &[&str]| -> Vec<String> {
+        head.iter().chain(tail).map(|s| s.to_string()).collect()
+    };
+    let magnetism = [
+        "magnetism",
+        "--dn",
+        "6",
+        "--geometry",
+        "oct",
+        "--b",
+        "600",
+        "--c",
+        "2800",
+        "--dq",
+        "1000",
+    ];
+    let cases: Vec<(Vec<String>, &str)> = vec![
+        (
+            with(&["check"], &[&fe[..], &["--jsonl"]].concat()),
+            "--jsonl",
+        ),
+        (
+            with(&["predict"], &[&fe[..], &["--cutoff", "2.5"]].concat()),
+            "--cutoff",
+        ),
+        (
+            with(&["predict"], &[&fe[..], &["--metal-index", "2"]].concat()),
+            "--metal-index",
+        ),
+        (with(&magnetism, &["--plot", "chit"]), "--plot"),
+        (with(&magnetism, &["--column", "double"]), "--column"),
+        (
+            with(&magnetism, &["--measured", "data/demo/sco_curve.csv"]),
+            "--measured",
+        ),
+        (
+            with(
+                &["sco-curve", "--dh", "12", "--ds", "80"],
+                &["--plot", "gamma"],
+            ),
+            "--plot",
+        ),
+        (
+            with(
+                &["sco-fit", "--input", "data/demo/sco_curve.csv"],
+                &["--magnet", "transverse"],
+            ),
+            "--magnet",
+        ),
+        (
+            with(
+                &[
+                    "diagram",
+                    "--dn",
+                    "6",
+                    "--geometry",
+                    "oct",
+                    "--c-over-b",
+                    "4.8",
+                ],
+                &["--highlight-spins"],
+            ),
+            "--highlight-spins",
+        ),
+    ];
+    for (args, option) in cases {
+        let args: Vec<&str> = args.iter().map(String::as_str).collect();
+        expect_usage_error(&args, &format!("{option} applies only with"));
+    }
+}

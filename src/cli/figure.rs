@@ -13,15 +13,39 @@ pub struct FigureArgs {
     /// Also render the figure as PNG (300 dpi) to FILE, with the embedded font.
     #[arg(long, value_name = "FILE")]
     pub png: Option<PathBuf>,
-    /// Figure width: single (8.5 cm journal column) or double (17 cm).
-    #[arg(long, value_name = "WIDTH", default_value = "single", value_parser = ["single", "double"])]
-    pub column: String,
+    /// Figure width: single (8.5 cm journal column, the default) or double (17 cm).
+    #[arg(long, value_name = "WIDTH", value_parser = ["single", "double"])]
+    pub column: Option<String>,
 }
 
 impl FigureArgs {
     pub fn column(&self) -> Column {
-        Column::parse(&self.column).unwrap_or(Column::Single)
+        self.column
+            .as_deref()
+            .and_then(Column::parse)
+            .unwrap_or(Column::Single)
     }
+
+    /// Refuses figure options when no figure is written (`svg`: the command's --svg).
+    pub fn check_used(&self, svg: bool) -> Result<(), Failure> {
+        only_with(
+            self.column.is_some(),
+            "--column",
+            svg || self.png.is_some(),
+            "--svg FILE or --png FILE",
+        )
+    }
+}
+
+/// An option that only means something with another: a usage error naming both when `given`
+/// without `needed`.
+pub fn only_with(given: bool, option: &str, needed: bool, needs: &str) -> Result<(), Failure> {
+    if given && !needed {
+        return Err(Failure::usage(format!(
+            "{option} applies only with {needs}; add it or drop {option}"
+        )));
+    }
+    Ok(())
 }
 
 /// Writes `svg` rendered as PNG to `path`.

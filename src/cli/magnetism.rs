@@ -57,9 +57,9 @@ pub struct Args {
     /// Write an SVG figure to FILE (μ_eff against T unless --plot chit).
     #[arg(long, value_name = "FILE")]
     pub svg: Option<PathBuf>,
-    /// What the figure shows against T: chit (χ_M·T) or mu (μ_eff).
-    #[arg(long, value_name = "Q", default_value = "mu", value_parser = ["chit", "mu"])]
-    pub plot: String,
+    /// What the figure shows against T: chit (χ_M·T) or mu (μ_eff, the default).
+    #[arg(long, value_name = "Q", value_parser = ["chit", "mu"])]
+    pub plot: Option<String>,
     /// Measured points to overlay: CSV with a temperature column (T) and χ_M·T, χ_M (already
     /// corrected for diamagnetism) or μ_eff, optionally with an error column.
     #[arg(long, value_name = "FILE.csv")]
@@ -71,6 +71,14 @@ pub struct Args {
 }
 
 pub fn run(args: &Args, data: Option<&Path>) -> Result<Output, Failure> {
+    let picture = args.svg.is_some() || args.figure.png.is_some();
+    for (given, option) in [
+        (args.plot.is_some(), "--plot"),
+        (args.measured.is_some(), "--measured"),
+    ] {
+        super::figure::only_with(given, option, picture, "--svg FILE or --png FILE")?;
+    }
+    args.figure.check_used(args.svg.is_some())?;
     let mut notes = Vec::new();
     let geometry = super::common::parse_geometry(&args.field.geometry)?;
     let field = match args.complex.resolve(geometry, data)? {
@@ -137,7 +145,7 @@ pub fn run(args: &Args, data: Option<&Path>) -> Result<Output, Failure> {
             .collect(),
         notes,
     };
-    let quantity = if args.plot == "chit" {
+    let quantity = if args.plot.as_deref() == Some("chit") {
         Quantity::ChiT {
             si: units == units::SusceptibilityUnits::Si,
         }

@@ -75,8 +75,9 @@ pub struct Args {
     pub svg: Option<PathBuf>,
     /// What the figure shows against T: chit (χ_M·T, with γ_HS on a right-hand axis) or gamma
     /// (the high-spin fraction γ_HS).
-    #[arg(long, value_name = "Q", default_value = "chit", value_parser = ["chit", "gamma"])]
-    pub plot: String,
+    /// [default: chit]
+    #[arg(long, value_name = "Q", value_parser = ["chit", "gamma"])]
+    pub plot: Option<String>,
     #[command(flatten)]
     pub figure: super::figure::FigureArgs,
     #[command(flatten)]
@@ -84,6 +85,14 @@ pub struct Args {
 }
 
 pub fn run(args: &Args) -> Result<Output, Failure> {
+    let picture = args.svg.is_some() || args.figure.png.is_some();
+    super::figure::only_with(
+        args.plot.is_some(),
+        "--plot",
+        picture,
+        "--svg FILE or --png FILE",
+    )?;
+    args.figure.check_used(args.svg.is_some())?;
     let tr = Transition {
         dh: args.dh * 1000.0,
         ds: args.ds,
@@ -101,7 +110,7 @@ pub fn run(args: &Args) -> Result<Output, Failure> {
     let report = CurveReport::new(&tr, &temps, args.chit_hs, args.chit_ls)?;
     let plot = TransitionPlot {
         column: args.figure.column(),
-        fraction: args.plot == "gamma",
+        fraction: args.plot.as_deref() == Some("gamma"),
     };
     let svg = || report.to_svg_with(&plot);
     let mut out = emit(

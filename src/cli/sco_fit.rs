@@ -55,9 +55,9 @@ pub struct Args {
         allow_hyphen_values = true
     )]
     pub dia: f64,
-    /// Evans: magnet geometry (solenoid or transverse).
-    #[arg(long, value_name = "M", default_value = "solenoid")]
-    pub magnet: String,
+    /// Evans: magnet geometry (solenoid, the default, or transverse).
+    #[arg(long, value_name = "M")]
+    pub magnet: Option<String>,
     /// Evans: mass susceptibility of the solvent (cm³/g) for the solvent term.
     #[arg(long, value_name = "CM3/G", allow_hyphen_values = true)]
     pub chi0: Option<f64>,
@@ -69,8 +69,9 @@ pub struct Args {
     pub svg: Option<PathBuf>,
     /// What the figure shows against T: chit (χ_M·T, with γ_HS on a right-hand axis) or gamma
     /// (the high-spin fraction γ_HS).
-    #[arg(long, value_name = "Q", default_value = "chit", value_parser = ["chit", "gamma"])]
-    pub plot: String,
+    /// [default: chit]
+    #[arg(long, value_name = "Q", value_parser = ["chit", "gamma"])]
+    pub plot: Option<String>,
     #[command(flatten)]
     pub figure: super::figure::FigureArgs,
     #[command(flatten)]
@@ -78,6 +79,20 @@ pub struct Args {
 }
 
 pub fn run(args: &Args, data: Option<&Path>) -> Result<Output, Failure> {
+    let picture = args.svg.is_some() || args.figure.png.is_some();
+    super::figure::only_with(
+        args.plot.is_some(),
+        "--plot",
+        picture,
+        "--svg FILE or --png FILE",
+    )?;
+    args.figure.check_used(args.svg.is_some())?;
+    for (given, option) in [
+        (args.magnet.is_some(), "--magnet"),
+        (args.chi0.is_some(), "--chi0"),
+    ] {
+        super::figure::only_with(given, option, args.evans, "--evans")?;
+    }
     let text = spinstate::input_file::read_text(&args.input).map_err(|e| {
         Failure::usage(format!(
             "--input: cannot read {}: {e}",
@@ -93,6 +108,8 @@ pub fn run(args: &Args, data: Option<&Path>) -> Result<Output, Failure> {
     let curve = if args.evans {
         let magnet: MagnetGeometry = args
             .magnet
+            .as_deref()
+            .unwrap_or("solenoid")
             .parse()
             .map_err(|e| Failure::usage(format!("--magnet: {e}")))?;
         read_evans_series(
@@ -176,7 +193,7 @@ pub fn run(args: &Args, data: Option<&Path>) -> Result<Output, Failure> {
     let report = FitReport::new(&result, &curve.source, &notes);
     let plot = TransitionPlot {
         column: args.figure.column(),
-        fraction: args.plot == "gamma",
+        fraction: args.plot.as_deref() == Some("gamma"),
     };
     let svg = || report.to_svg_with(&plot);
     let mut out = emit(
