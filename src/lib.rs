@@ -11,6 +11,8 @@ pub mod formula;
 pub mod input_file;
 pub mod least_squares;
 pub mod magnetism;
+#[doc = include_str!("manual.md")]
+pub mod manual {}
 pub mod predict;
 pub mod report;
 pub mod sco;

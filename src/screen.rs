@@ -1223,7 +1223,8 @@ impl Screen {
                 row,
                 line,
                 column: "ligands".into(),
-                message,
+                // Messages quote cells, which a quoted field can fill with line breaks.
+                message: crate::error::one_line(&message).into_owned(),
             };
             let text = rec.get(lig_col).unwrap_or("");
             if text.is_empty() {

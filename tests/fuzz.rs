@@ -6,7 +6,7 @@
 //! parser's own alphabet, and random edits (insertions, deletions, replacements, truncation) of
 //! a valid example. The number of cases per property is proptest's default (256) in the normal
 //! suite; a long round is `PROPTEST_CASES=100000 cargo test --release --test fuzz` (see the
-//! README section on guarantees).
+//! manual section on guarantees, src/manual.md).
 
 use proptest::prelude::*;
 use spinstate::engine::Geometry;

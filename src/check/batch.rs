@@ -316,7 +316,11 @@ impl<R: std::io::Read> Iterator for BatchReader<R> {
                         continue; // a blank line
                     }
                     self.rows += 1;
-                    return Some(parse_row(row, &self.header, &self.record));
+                    // A message quotes cells, which a quoted field can fill with line breaks.
+                    return Some(parse_row(row, &self.header, &self.record).map_err(|mut e| {
+                        e.message = crate::error::one_line(&e.message).into_owned();
+                        e
+                    }));
                 }
                 Err(e) => {
                     let row = self.line_at(e.position().map(|p| p.byte()));

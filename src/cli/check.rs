@@ -24,7 +24,7 @@ const PROGRESS_FROM: usize = 20;
 #[derive(Debug, clap::Args)]
 #[command(after_help = SAFETY)]
 pub struct Args {
-    /// CSV file with one sample per row (columns: see the README or `data/demo/samples.csv`).
+    /// CSV file with one sample per row (columns: see the manual, `cargo doc` → spinstate::manual, or `data/demo/samples.csv`).
     #[arg(long, value_name = "FILE", conflicts_with_all = ["metal", "ligands"])]
     pub input: Option<PathBuf>,
     /// Metal element symbol, e.g. Fe.
@@ -389,9 +389,30 @@ pub fn html_section(
     })
 }
 
-fn write_csv(path: &Path, text: &str) -> Result<(), Failure> {
+/// Writes CSV text to `path`; `-` means stdout, which the caller then prints instead of the
+/// table or JSON (returns true).
+fn write_csv(path: &Path, text: &str) -> Result<bool, Failure> {
+    if path.as_os_str() == "-" {
+        return Ok(true);
+    }
     std::fs::write(path, text)
-        .map_err(|e| Failure::usage(format!("--csv: cannot write {}: {e}", path.display())))
+        .map_err(|e| Failure::usage(format!("--csv: cannot write {}: {e}", path.display())))?;
+    Ok(false)
+}
+
+/// CSV records as text, without a header row of their own.
+fn csv_text(records: &[Vec<String>]) -> Result<String, Failure> {
+    let mut w = csv::WriterBuilder::new()
+        .has_headers(false)
+        .from_writer(Vec::new());
+    for r in records {
+        w.write_record(r)
+            .map_err(|e| Failure::usage(format!("--csv: {e}")))?;
+    }
+    let bytes = w
+        .into_inner()
+        .map_err(|e| Failure::usage(format!("--csv: {e}")))?;
+    String::from_utf8(bytes).map_err(|e| Failure::usage(format!("--csv: {e}")))
 }
 
 /// Rows checked together (in parallel) before their results are written: memory stays bounded
@@ -404,6 +425,8 @@ enum Stream {
     Table,
     Json,
     JsonLines,
+    /// `--csv -`: the CSV rows are the output.
+    Csv,
 }
 
 fn write_failed(e: std::io::Error) -> Failure {
@@ -463,7 +486,10 @@ fn stream_batch(args: &Args, path: &Path, data: Option<&Path>) -> Result<Output,
     let mut reader = batch::BatchReader::new(std::io::BufReader::new(file)).map_err(input_error)?;
     let loaded = Loaded::new(data)?;
     let base = path.parent();
-    let mode = if args.jsonl {
+    let csv_to_stdout = args.csv.as_deref().is_some_and(|p| p.as_os_str() == "-");
+    let mode = if csv_to_stdout {
+        Stream::Csv
+    } else if args.jsonl {
         Stream::JsonLines
     } else if args.format.json {
         Stream::Json
@@ -471,7 +497,7 @@ fn stream_batch(args: &Args, path: &Path, data: Option<&Path>) -> Result<Output,
         Stream::Table
     };
     let mut csv_out = match &args.csv {
-        Some(file) => {
+        Some(file) if !csv_to_stdout => {
             let mut w = csv::Writer::from_path(file).map_err(|e| {
                 Failure::usage(format!("--csv: cannot write {}: {e}", file.display()))
             })?;
@@ -479,7 +505,7 @@ fn stream_batch(args: &Args, path: &Path, data: Option<&Path>) -> Result<Output,
                 .map_err(|e| Failure::usage(format!("--csv: {e}")))?;
             Some(w)
         }
-        None => None,
+        _ => None,
     };
     let bar = if std::io::stdout().is_terminal() {
         let bar = ProgressBar::no_length();
@@ -508,6 +534,10 @@ fn stream_batch(args: &Args, path: &Path, data: Option<&Path>) -> Result<Output,
         if !started && mode == Stream::Json {
             out.write_all(b"{\"samples\":[").map_err(write_failed)?;
         }
+        if !started && mode == Stream::Csv {
+            out.write_all(csv_text(&[spinstate::report::check::csv_header()])?.as_bytes())
+                .map_err(write_failed)?;
+        }
         started = true;
         let rows: Vec<Result<CheckReport, RowErrorRow>> = results
             .into_iter()
@@ -527,6 +557,14 @@ fn stream_batch(args: &Args, path: &Path, data: Option<&Path>) -> Result<Output,
             }
         }
         match mode {
+            Stream::Csv => {
+                let records: Vec<_> = refs
+                    .iter()
+                    .map(|&row| spinstate::report::check::csv_record(row))
+                    .collect();
+                out.write_all(csv_text(&records)?.as_bytes())
+                    .map_err(write_failed)?;
+            }
             Stream::Table => {
                 out.write_all(rows_table(&refs).as_bytes())
                     .map_err(write_failed)?;
@@ -576,7 +614,7 @@ fn stream_batch(args: &Args, path: &Path, data: Option<&Path>) -> Result<Output,
             );
             writeln!(out, "],\"errors\":{rows},\"safety\":{safety}}}").map_err(write_failed)?;
         }
-        Stream::JsonLines => {}
+        Stream::JsonLines | Stream::Csv => {}
     }
     out.flush().map_err(write_failed)?;
     if let Some(mut w) = csv_out {
@@ -615,16 +653,19 @@ pub fn run(args: &Args, data: Option<&Path>) -> Result<Output, Failure> {
             .map_err(|e| Failure::usage(format!("--input: cannot read {}: {e}", path.display())))?;
         let (report, bad, sections) =
             run_batch_with(&text, path.parent(), data, args.html.is_some())?;
-        if let Some(csv) = &args.csv {
-            write_csv(csv, &report.to_csv())?;
-        }
+        let csv_to_stdout = match &args.csv {
+            Some(csv) => write_csv(csv, &report.to_csv())?,
+            None => false,
+        };
         let mut notes = Vec::new();
         if let Some(file) = &args.html {
             let title = format!("Spin-state check of {}", path.display());
             let page = html::page(&title, None, &sections, &report.errors, SAFETY);
             notes.push(write_html(&page, file)?);
         }
-        let stdout = if args.format.json {
+        let stdout = if csv_to_stdout {
+            report.to_csv()
+        } else if args.format.json {
             to_json(&report)
         } else {
             format!("{}{}\n", report.to_table(), SAFETY)
@@ -680,11 +721,14 @@ pub fn run(args: &Args, data: Option<&Path>) -> Result<Output, Failure> {
         ),
     })?;
     let report = CheckReport::new(&result, None, None).with_safety();
-    if let Some(csv) = &args.csv {
-        let one = BatchReport::new(vec![report.clone()], Vec::new());
-        write_csv(csv, &one.to_csv())?;
-    }
-    let mut out = Output::text(if args.format.json {
+    let one_csv = || BatchReport::new(vec![report.clone()], Vec::new()).to_csv();
+    let csv_to_stdout = match &args.csv {
+        Some(csv) => write_csv(csv, &one_csv())?,
+        None => false,
+    };
+    let mut out = Output::text(if csv_to_stdout {
+        one_csv()
+    } else if args.format.json {
         to_json(&report)
     } else {
         report.to_table()
