@@ -1,8 +1,7 @@
 //! `spinstate levels`: output contract and bad input.
 
-mod common;
 use approx::assert_abs_diff_eq;
-use common::*;
+use crate::common::*;
 
 #[test]
 fn json_has_the_contract_fields() {

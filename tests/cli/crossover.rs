@@ -1,7 +1,6 @@
 //! `spinstate crossover`: JSON contract, table and bad input.
 
-mod common;
-use common::*;
+use crate::common::*;
 
 #[test]
 fn all_octahedral_dn_in_json() {

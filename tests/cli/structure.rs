@@ -3,10 +3,9 @@
 //! and analytically distorted polyhedra, the bond-length verdict, the comparison of two
 //! structures and bad input.
 
-mod common;
 
 use approx::assert_abs_diff_eq;
-use common::{expect_usage_error, number, run, run_json};
+use crate::common::{expect_usage_error, number, run, run_json};
 use nalgebra::Vector3;
 use serde_json::Value;
 use std::io::Write;

@@ -1,7 +1,6 @@
 //! `spinstate diagram`: CSV, SVG, JSON and bad input.
 
-mod common;
-use common::*;
+use crate::common::*;
 
 #[test]
 fn csv_has_one_column_per_level_and_ground_at_zero() {

@@ -65,7 +65,7 @@ fn ligands_are_listed_with_sources() {
 #[test]
 fn data_directory_adds_a_ligand() {
     let dir = tempfile::tempdir().unwrap();
-    let mut text = include_str!("../data/ligands.csv").to_string();
+    let mut text = include_str!("../../data/ligands.csv").to_string();
     text.push_str(
         "Lx,invented-ligand,N,1,0,1.10,printed,,,,none,oct tet sqpl,,invented test row\n",
     );
@@ -86,7 +86,7 @@ fn data_directory_adds_a_ligand() {
 #[test]
 fn bad_tables_and_options_fail_with_exit_code_2() {
     let dir = tempfile::tempdir().unwrap();
-    let mut text = include_str!("../data/ions.csv").to_string();
+    let mut text = include_str!("../../data/ions.csv").to_string();
     text.push_str("Fe,7,5000,,,,,hs,,,,bad row\n");
     std::fs::write(dir.path().join("ions.csv"), text).unwrap();
     Command::cargo_bin("spinstate")

@@ -3,12 +3,11 @@
 //! text is refused instead of being read into memory. (Row accounting — rows in = reported +
 //! rejected — is common practice for batch tools.)
 
-mod common;
-use common::*;
+use crate::common::*;
 
 /// The demo rows repeated past two chunks, every 97th row made bad (an unknown metal).
 fn big_batch(rows: usize) -> (tempfile::TempDir, std::path::PathBuf, Vec<bool>) {
-    let demo = include_str!("../data/demo/samples.csv");
+    let demo = include_str!("../../data/demo/samples.csv");
     let mut lines = demo.lines();
     let header = lines.next().unwrap();
     let body: Vec<&str> = lines.filter(|l| !l.trim().is_empty()).collect();

@@ -1,9 +1,8 @@
 //! Integration tests of `spinstate sco-fit`, `spinstate sco-curve` and the χ_M·T(T) evidence
 //! of `check`, running the real binary.
 
-mod common;
 
-use common::{expect_usage_error, run, run_json};
+use crate::common::{expect_usage_error, run, run_json};
 use std::io::Write;
 
 fn temp_file(text: &str) -> tempfile::NamedTempFile {

@@ -1,8 +1,7 @@
 //! Integration tests of `spinstate screen`, running the real binary.
 
-mod common;
 
-use common::{expect_usage_error, run, run_json};
+use crate::common::{expect_usage_error, run, run_json};
 use serde_json::Value;
 use std::io::Write;
 

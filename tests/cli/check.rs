@@ -2,9 +2,8 @@
 //! files with good and bad rows, and a verdict for each kind of evidence disagreeing with the
 //! others.
 
-mod common;
 
-use common::{expect_usage_error, run, run_json};
+use crate::common::{expect_usage_error, run, run_json};
 use serde_json::Value;
 use std::io::Write;
 

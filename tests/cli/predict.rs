@@ -362,7 +362,7 @@ fn bad_input_is_explained() {
 #[test]
 fn data_directory_replaces_the_bundled_ions() {
     let dir = tempfile::tempdir().unwrap();
-    let bundled = include_str!("../data/ions.csv");
+    let bundled = include_str!("../../data/ions.csv");
     let edited = bundled.replace("Fe,2,917,,410,10400,", "Fe,2,917,,410,8500,");
     assert_ne!(bundled, edited);
     std::fs::write(dir.path().join("ions.csv"), edited).unwrap();

@@ -1,9 +1,8 @@
 //! Integration tests of `spinstate evans`, running the real binary.
 
-mod common;
 
 use approx::assert_relative_eq;
-use common::{command_json, number as f, spinstate};
+use crate::common::{command_json, number as f, spinstate};
 use predicates::prelude::*;
 use serde_json::Value;
 use std::f64::consts::PI;

@@ -1,7 +1,6 @@
 //! `spinstate bands`: band counts per spin state, verdicts, notes and bad input.
 
-mod common;
-use common::*;
+use crate::common::*;
 
 fn bands(args: &[&str]) -> serde_json::Value {
     let mut all = vec!["bands", "--json"];

@@ -8,9 +8,8 @@
 //! the low-spin form one inside the low-spin range, so the calls are fixed by the table, not by
 //! this code.
 
-mod common;
 
-use common::{run, run_json};
+use crate::common::{run, run_json};
 use serde_json::Value;
 use std::io::Write;
 

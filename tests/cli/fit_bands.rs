@@ -1,8 +1,7 @@
 //! `spinstate fit-bands`: published examples, output contract and bad input.
 
-mod common;
 use approx::assert_abs_diff_eq;
-use common::*;
+use crate::common::*;
 
 fn fit(dn: &str, bands: &str, extra: &[&str]) -> serde_json::Value {
     let mut args = vec![

@@ -1,9 +1,8 @@
 //! Integration tests of `spinstate demo`: the invented scenario of data/demo runs end to end from
 //! the embedded copy and exercises every verdict.
 
-mod common;
 
-use common::{run, run_json};
+use crate::common::{run, run_json};
 
 #[test]
 fn demo_runs_and_prints_the_verdicts_and_the_crossover_table() {

@@ -2,8 +2,8 @@
 //! rejection names its line (and the sample, where there is one); and the results do not
 //! depend on row order, line endings (LF or CRLF), a byte-order mark or blank lines.
 
-mod common;
 
+use crate::common;
 use serde_json::Value;
 use std::collections::BTreeMap;
 use std::path::Path;

@@ -2,9 +2,8 @@
 //! one line that states the limit, and exit code 2. The limits themselves are design choices
 //! (stated beside each); the chemistry behind them is common practice.
 
-mod common;
 
-use common::{expect_usage_error, run};
+use crate::common::{expect_usage_error, run};
 
 #[test]
 fn ligand_counts_are_bounded_where_they_are_parsed() {

@@ -1,7 +1,6 @@
 //! `spinstate magnetism`: JSON contract, CSV/SVG files and bad input.
 
-mod common;
-use common::*;
+use crate::common::*;
 
 #[test]
 fn json_points_have_the_contract_names() {

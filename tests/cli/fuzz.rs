@@ -5,7 +5,7 @@
 //! Inputs come from three generators per target: arbitrary Unicode text, text over the
 //! parser's own alphabet, and random edits (insertions, deletions, replacements, truncation) of
 //! a valid example. The number of cases per property is proptest's default (256) in the normal
-//! suite; a long round is `PROPTEST_CASES=100000 cargo test --release --test fuzz` (see the
+//! suite; a long round is `PROPTEST_CASES=1000000 cargo test --release --test cli fuzz::` (see the
 //! manual section on guarantees, src/manual.md).
 
 use proptest::prelude::*;
@@ -79,17 +79,17 @@ fn inputs(alphabet: &'static str, seed: &'static str) -> impl Strategy<Value = S
     ]
 }
 
-const SAMPLES: &str = include_str!("../data/demo/samples.csv");
-const CURVE: &str = include_str!("../data/demo/sco_curve.csv");
-const EVANS_SERIES: &str = include_str!("../data/demo/sco_evans.csv");
-const CIF: &str = include_str!("structures/triclinic_co.cif");
+const SAMPLES: &str = include_str!("../../data/demo/samples.csv");
+const CURVE: &str = include_str!("../../data/demo/sco_curve.csv");
+const EVANS_SERIES: &str = include_str!("../../data/demo/sco_evans.csv");
+const CIF: &str = include_str!("../structures/triclinic_co.cif");
 const XYZ: &str = "7\nan invented FeN6 centre\nFe 0 0 0\nN 2.0 0 0\nN -2.0 0 0\nN 0 2.0 0\nN 0 -2.0 0\nN 0 0 2.0\nN 0 0 -2.0\n";
-const LIGANDS: &str = include_str!("../data/ligands.csv");
-const IONS: &str = include_str!("../data/ions.csv");
-const BOND_LENGTHS: &str = include_str!("../data/bond_lengths.csv");
-const PASCAL: &str = include_str!("../data/pascal.csv");
-const MOMENT_RANGES: &str = include_str!("../data/moment_ranges.csv");
-const RADII: &str = include_str!("../data/covalent_radii.csv");
+const LIGANDS: &str = include_str!("../../data/ligands.csv");
+const IONS: &str = include_str!("../../data/ions.csv");
+const BOND_LENGTHS: &str = include_str!("../../data/bond_lengths.csv");
+const PASCAL: &str = include_str!("../../data/pascal.csv");
+const MOMENT_RANGES: &str = include_str!("../../data/moment_ranges.csv");
+const RADII: &str = include_str!("../../data/covalent_radii.csv");
 const CANDIDATES: &str = "name,ligands\nA,NCS:2 py:4\nB,bpy:3\nC,H2O:6\n";
 
 proptest! {
@@ -197,7 +197,7 @@ proptest! {
         match spinstate::tables::ligands::LigandTable::parse(&ligands) {
             Ok(t) => {
                 if let Err(e) = spinstate::tables::reported::ReportedTable::parse(
-                    include_str!("../data/reported_spin_states.csv"),
+                    include_str!("../../data/reported_spin_states.csv"),
                     &t,
                 ) {
                     one_line(&e)?;
