@@ -2,7 +2,6 @@
 //! rejection names its line (and the sample, where there is one); and the results do not
 //! depend on row order, line endings (LF or CRLF), a byte-order mark or blank lines.
 
-
 use crate::common;
 use serde_json::Value;
 use std::collections::BTreeMap;

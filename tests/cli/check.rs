@@ -2,7 +2,6 @@
 //! files with good and bad rows, and a verdict for each kind of evidence disagreeing with the
 //! others.
 
-
 use crate::common::{expect_usage_error, run, run_json};
 use serde_json::Value;
 use std::io::Write;

@@ -8,7 +8,6 @@
 //! the low-spin form one inside the low-spin range, so the calls are fixed by the table, not by
 //! this code.
 
-
 use crate::common::{run, run_json};
 use serde_json::Value;
 use std::io::Write;

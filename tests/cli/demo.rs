@@ -1,7 +1,6 @@
 //! Integration tests of `spinstate demo`: the invented scenario of data/demo runs end to end from
 //! the embedded copy and exercises every verdict.
 
-
 use crate::common::{run, run_json};
 
 #[test]

@@ -1,8 +1,7 @@
 //! Integration tests of `spinstate evans`, running the real binary.
 
-
-use approx::assert_relative_eq;
 use crate::common::{command_json, number as f, spinstate};
+use approx::assert_relative_eq;
 use predicates::prelude::*;
 use serde_json::Value;
 use std::f64::consts::PI;

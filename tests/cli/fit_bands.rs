@@ -1,7 +1,7 @@
 //! `spinstate fit-bands`: published examples, output contract and bad input.
 
-use approx::assert_abs_diff_eq;
 use crate::common::*;
+use approx::assert_abs_diff_eq;
 
 fn fit(dn: &str, bands: &str, extra: &[&str]) -> serde_json::Value {
     let mut args = vec![

@@ -1,7 +1,7 @@
 //! `spinstate levels`: output contract and bad input.
 
-use approx::assert_abs_diff_eq;
 use crate::common::*;
+use approx::assert_abs_diff_eq;
 
 #[test]
 fn json_has_the_contract_fields() {

@@ -2,7 +2,6 @@
 //! one line that states the limit, and exit code 2. The limits themselves are design choices
 //! (stated beside each); the chemistry behind them is common practice.
 
-
 use crate::common::{expect_usage_error, run};
 
 #[test]

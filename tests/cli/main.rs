@@ -2,13 +2,13 @@
 //! library relinks one test binary, not one per file). Modules by topic; `common` holds the
 //! helpers that run the real binary.
 
-mod common;
 mod bands;
 mod batch_integrity;
 mod batch_stream;
 mod check;
 mod check_structure;
 mod cli_robustness;
+mod common;
 mod crossover;
 mod data;
 mod demo;

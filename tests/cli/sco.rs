@@ -1,7 +1,6 @@
 //! Integration tests of `spinstate sco-fit`, `spinstate sco-curve` and the χ_M·T(T) evidence
 //! of `check`, running the real binary.
 
-
 use crate::common::{expect_usage_error, run, run_json};
 use std::io::Write;
 

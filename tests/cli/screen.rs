@@ -1,6 +1,5 @@
 //! Integration tests of `spinstate screen`, running the real binary.
 
-
 use crate::common::{expect_usage_error, run, run_json};
 use serde_json::Value;
 use std::io::Write;

@@ -3,9 +3,8 @@
 //! and analytically distorted polyhedra, the bond-length verdict, the comparison of two
 //! structures and bad input.
 
-
-use approx::assert_abs_diff_eq;
 use crate::common::{expect_usage_error, number, run, run_json};
+use approx::assert_abs_diff_eq;
 use nalgebra::Vector3;
 use serde_json::Value;
 use std::io::Write;
