@@ -92,23 +92,29 @@ impl DiagramReport {
 
     /// CSV: first column Δ/B, then one column of E/B per level (full precision).
     pub fn to_csv(&self) -> String {
+        use std::fmt::Write;
+        // The header goes through the CSV writer (level keys are quoted if they ever need it);
+        // the numbers never need quoting and are written straight into one buffer, which keeps
+        // a 1000-point d⁵ diagram's CSV from dominating the command's time.
         let mut w = csv::Writer::from_writer(Vec::new());
         let mut header = vec!["delta_over_b".to_string()];
         header.extend(self.series.iter().map(|s| s.key.clone()));
         w.write_record(&header).expect("CSV to memory");
+        let mut out =
+            String::from_utf8(w.into_inner().expect("CSV to memory")).expect("CSV is UTF-8");
+        out.reserve(self.delta_over_b.len() * (self.series.len() + 1) * 12);
         for (i, x) in self.delta_over_b.iter().enumerate() {
-            let mut row = vec![x.to_string()];
-            row.extend(self.series.iter().map(|s| {
+            let _ = write!(out, "{x}");
+            for s in &self.series {
+                out.push(',');
                 let e = s.energies[i];
                 if e.is_finite() {
-                    e.to_string()
-                } else {
-                    String::new()
+                    let _ = write!(out, "{e}");
                 }
-            }));
-            w.write_record(&row).expect("CSV to memory");
+            }
+            out.push('\n');
         }
-        String::from_utf8(w.into_inner().expect("CSV to memory")).expect("CSV is UTF-8")
+        out
     }
 
     /// The default caption: d^n, geometry and C/B.
