@@ -11,6 +11,7 @@ pub mod formula;
 pub mod input_file;
 pub mod least_squares;
 pub mod magnetism;
+pub mod measured;
 #[doc = include_str!("manual.md")]
 pub mod manual {}
 pub mod predict;
@@ -19,7 +20,6 @@ pub mod sco;
 pub mod screen;
 pub mod spectra;
 pub mod structure;
-pub mod susceptibility;
 pub mod tables;
 pub mod units;
 

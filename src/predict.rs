@@ -11,7 +11,7 @@ use crate::complex::ResolvedComplex;
 use crate::engine::levels::L_LETTERS;
 use crate::engine::{Crossover, Level, PointGroup, Spectrum};
 use crate::error::{Error, Result};
-use crate::susceptibility::{MagneticModel, ZeemanLevels};
+use crate::magnetism::{MagneticModel, ZeemanLevels};
 
 pub use crate::estimate::SpinState;
 
@@ -397,7 +397,7 @@ pub struct MomentCurve {
     pub delta: f64,
     /// ζ of the calculation (cm⁻¹): the ion table's free-ion value.
     pub zeta: f64,
-    pub points: Vec<crate::susceptibility::SusceptibilityPoint>,
+    pub points: Vec<crate::magnetism::SusceptibilityPoint>,
 }
 
 /// χ_M·T and μ_eff of the predicted ground spin state at `temperatures` (K): the van Vleck sum

@@ -26,8 +26,8 @@ use super::{
 use crate::complex::{ComplexSpec, LigandCount, Overrides};
 use crate::engine::Geometry;
 use crate::error::{closest_names, Error, Result};
-use crate::magnetism::evans::{EvansInput, MagnetGeometry, Shift, SolventTerms};
-use crate::magnetism::Measured;
+use crate::measured::evans::{EvansInput, MagnetGeometry, Shift, SolventTerms};
+use crate::measured::Measured;
 use crate::spectra::count::{DEFAULT_RESOLUTION, DEFAULT_WINDOW_NM};
 
 /// Columns every file needs.

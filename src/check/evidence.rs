@@ -7,9 +7,9 @@ use super::{
 };
 use crate::complex::{Origin, ResolvedComplex};
 use crate::error::{Error, Result};
-use crate::magnetism::compare::{self, ComplexSpec as MomentSpec, SpinOrbit, StateExpectation};
-use crate::magnetism::evans::{self, EvansInput};
-use crate::magnetism::{Measured, MomentResult};
+use crate::measured::compare::{self, ComplexSpec as MomentSpec, SpinOrbit, StateExpectation};
+use crate::measured::evans::{self, EvansInput};
+use crate::measured::{Measured, MomentResult};
 use crate::predict::{Prediction, SpinState};
 use crate::spectra::count::{count_bands, CountRequest};
 use crate::spectra::fit::{fit_bands, FitRequest};

@@ -36,8 +36,8 @@ pub mod evidence;
 
 use crate::complex::{ComplexSpec, ResolvedComplex};
 use crate::error::Error;
-use crate::magnetism::evans::EvansInput;
-use crate::magnetism::Measured;
+use crate::measured::evans::EvansInput;
+use crate::measured::Measured;
 use crate::predict::{predict_with, PredictOptions, Prediction, SpinState};
 use crate::tables::bond_lengths::BondLengthTable;
 use crate::tables::moment_ranges::MomentRangeTable;

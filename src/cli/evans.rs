@@ -3,7 +3,7 @@
 use super::common::Format;
 use super::measured::{measured, positive, CompareArgs, DiaArgs, UnitArgs};
 use super::{Failure, Output};
-use spinstate::magnetism::evans::{self, EvansInput, MagnetGeometry, Shift, SolventTerms};
+use spinstate::measured::evans::{self, EvansInput, MagnetGeometry, Shift, SolventTerms};
 use spinstate::report::measured::{MeasuredMomentReport, EVANS_SAFETY};
 use spinstate::report::to_json;
 use std::path::Path;

@@ -2,10 +2,10 @@
 
 use super::common::{emit, ComplexArgs, FieldArgs, Format, Renderings};
 use super::{Failure, Output};
+use spinstate::magnetism::{temperature_grid, MagneticModel, ZeemanLevels, G_ELECTRON};
 use spinstate::plot::moment::{Point, Quantity};
 use spinstate::report::magnetism::{MagnetismPoint, MagnetismReport, MomentPlot};
 use spinstate::report::to_json;
-use spinstate::susceptibility::{temperature_grid, MagneticModel, ZeemanLevels, G_ELECTRON};
 use spinstate::units;
 use std::path::{Path, PathBuf};
 

@@ -4,9 +4,9 @@
 use super::Failure;
 use spinstate::engine::Geometry;
 use spinstate::formula::Formula;
-use spinstate::magnetism::compare::{self, Comparison, ComplexSpec, SpinOrbit};
-use spinstate::magnetism::pascal::{self, DiamagneticCorrection};
-use spinstate::magnetism::Measured;
+use spinstate::measured::compare::{self, Comparison, ComplexSpec, SpinOrbit};
+use spinstate::measured::pascal::{self, DiamagneticCorrection};
+use spinstate::measured::Measured;
 use spinstate::tables::moment_ranges::MomentRangeTable;
 use spinstate::tables::pascal::PascalTable;
 use spinstate::units::SusceptibilityUnits;

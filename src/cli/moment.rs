@@ -4,8 +4,8 @@
 use super::common::Format;
 use super::measured::{measured, positive, CompareArgs, DiaArgs, UnitArgs};
 use super::{Failure, Output};
-use spinstate::magnetism::moment::{chi_from_magnetometer, MagnetometerReading};
-use spinstate::magnetism::{Measured, MomentResult};
+use spinstate::measured::moment::{chi_from_magnetometer, MagnetometerReading};
+use spinstate::measured::{Measured, MomentResult};
 use spinstate::report::measured::{MeasuredMomentReport, MOMENT_SAFETY};
 use spinstate::report::to_json;
 use spinstate::units::SusceptibilityUnits;

@@ -2,10 +2,10 @@
 
 use super::common::{emit, Format, Renderings};
 use super::{Failure, Output};
+use spinstate::magnetism::temperature_grid;
 use spinstate::report::sco::{CurveReport, TransitionPlot};
 use spinstate::report::to_json;
 use spinstate::sco::model::Transition;
-use spinstate::susceptibility::temperature_grid;
 use std::path::PathBuf;
 
 #[derive(Debug, clap::Args)]

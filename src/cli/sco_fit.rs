@@ -2,7 +2,7 @@
 
 use super::common::{emit, load_tables, parse_geometry, Format, Renderings};
 use super::{Failure, Output};
-use spinstate::magnetism::evans::MagnetGeometry;
+use spinstate::measured::evans::MagnetGeometry;
 use spinstate::report::sco::{FitReport, TransitionPlot};
 use spinstate::report::to_json;
 use spinstate::sco::data::{read_curve, read_evans_series, EvansSeries};

@@ -6,7 +6,8 @@ use super::diagram::DiagramReport;
 use crate::check::{CheckInput, CheckResult, MomentQuantity};
 use crate::engine::diagram;
 use crate::error::Result;
-use crate::magnetism::evans::evans;
+use crate::magnetism::temperature_grid;
+use crate::measured::evans::evans;
 use crate::plot::energy::{energy_svg, EnergyOptions};
 use crate::plot::marks;
 use crate::plot::moment::{moment_svg, Curve, MomentFigure, Point, Quantity, Reference};
@@ -14,7 +15,6 @@ use crate::plot::sticks::{sticks_svg, Row};
 use crate::plot::style::Column;
 use crate::plot::text::formula_markup;
 use crate::predict::moment_curve;
-use crate::susceptibility::temperature_grid;
 use crate::units;
 
 /// SVG figures of one sample; None where the input has nothing to show.

@@ -2,10 +2,10 @@
 //! with uncertainties, the diamagnetic correction and the spin-state comparison.
 
 use super::{fmt_num, new_table};
-use crate::magnetism::compare::{spin_text, Comparison, Orbital, Verdict};
-use crate::magnetism::evans::EvansResult;
-use crate::magnetism::pascal::DiamagneticCorrection;
-use crate::magnetism::MomentResult;
+use crate::measured::compare::{spin_text, Comparison, Orbital, Verdict};
+use crate::measured::evans::EvansResult;
+use crate::measured::pascal::DiamagneticCorrection;
+use crate::measured::MomentResult;
 use crate::units::SusceptibilityUnits;
 use serde::Serialize;
 

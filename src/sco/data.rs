@@ -10,8 +10,8 @@
 
 use super::model::Branch;
 use crate::error::{Error, Result};
-use crate::magnetism::evans::{evans, EvansInput, MagnetGeometry, Shift, SolventTerms};
-use crate::magnetism::Measured;
+use crate::measured::evans::{evans, EvansInput, MagnetGeometry, Shift, SolventTerms};
+use crate::measured::Measured;
 use crate::units::{chi_t_from_mu_eff, moment_factor_cgs, SusceptibilityUnits};
 
 /// One point of a χ_M·T(T) curve.

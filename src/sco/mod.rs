@@ -8,7 +8,7 @@ pub mod model;
 
 use crate::engine::{crossover, tanabe_sugano_c_over_b, Geometry};
 use crate::error::{Error, Result};
-use crate::magnetism::compare::{self, ComplexSpec as MomentSpec, SpinOrbit};
+use crate::measured::compare::{self, ComplexSpec as MomentSpec, SpinOrbit};
 use crate::tables::moment_ranges::MomentRangeTable;
 use crate::units::{moment_factor_cgs, spin_only_chi_t_cgs};
 

@@ -7,7 +7,7 @@ use super::sphere::Sphere;
 use super::Structure;
 use crate::check::evidence::classify_mean;
 use crate::check::Support;
-use crate::magnetism::Measured;
+use crate::measured::Measured;
 use crate::tables::bond_lengths::BondLengthTable;
 use nalgebra::Vector3;
 

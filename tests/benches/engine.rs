@@ -89,7 +89,7 @@ fn bench_crossover(c: &mut Criterion) {
 }
 
 fn bench_magnetism(c: &mut Criterion) {
-    use spinstate::susceptibility::{temperature_grid, MagneticModel, ZeemanLevels};
+    use spinstate::magnetism::{temperature_grid, MagneticModel, ZeemanLevels};
     let calc = Calculation::new(
         7,
         800.0,

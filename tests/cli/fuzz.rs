@@ -169,7 +169,7 @@ proptest! {
     #[test]
     fn evans_series(text in inputs("[A-Za-z0-9,._\n#-]{0,200}", EVANS_SERIES)) {
         let opts = spinstate::sco::data::EvansSeries {
-            magnet: spinstate::magnetism::evans::MagnetGeometry::Solenoid,
+            magnet: spinstate::measured::evans::MagnetGeometry::Solenoid,
             dia: -2.5e-4,
             chi0: None,
         };

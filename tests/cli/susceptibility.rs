@@ -2,7 +2,7 @@
 //! published limits and closed forms.
 
 use spinstate::engine::{Calculation, LigandField, PointGroup};
-use spinstate::susceptibility::{curie_prefactor, finite_field_chi, MagneticModel, ZeemanLevels};
+use spinstate::magnetism::{curie_prefactor, finite_field_chi, MagneticModel, ZeemanLevels};
 
 fn model(zeta: f64, kappa: f64, g: f64) -> MagneticModel {
     MagneticModel {

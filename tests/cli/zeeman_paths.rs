@@ -6,7 +6,7 @@
 
 use nalgebra::Vector3;
 use spinstate::engine::{Calculation, LigandField, PointGroup};
-use spinstate::susceptibility::{finite_field_chi, MagneticModel, ZeemanLevels};
+use spinstate::magnetism::{finite_field_chi, MagneticModel, ZeemanLevels};
 
 fn model(zeta: f64, kappa: f64) -> MagneticModel {
     MagneticModel {

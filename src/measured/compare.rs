@@ -268,7 +268,7 @@ fn zeta_of(spec: &ComplexSpec, two_s_high: i32) -> Result<Option<f64>> {
 /// The field is the given Dq when it lies on this state's side of the crossover, otherwise a
 /// representative field on that side (0.75 or 1.3 times the crossover Δ/B).
 fn full_moment(spec: &ComplexSpec, two_s: i32, zeta: f64, t: f64) -> Result<(f64, f64, f64)> {
-    use crate::susceptibility::{MagneticModel, ZeemanLevels};
+    use crate::magnetism::{MagneticModel, ZeemanLevels};
     let b = spec.b.unwrap_or(DEFAULT_B);
     let c_over_b = crate::engine::tanabe_sugano_c_over_b(spec.dn);
     let cross = crate::engine::crossover(spec.dn, spec.geometry, c_over_b)?;
