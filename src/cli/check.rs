@@ -637,14 +637,7 @@ fn stream_batch(args: &Args, path: &Path, data: Option<&Path>) -> Result<Output,
 
 pub fn run(args: &Args, data: Option<&Path>) -> Result<Output, Failure> {
     super::figure::only_with(args.jsonl, "--jsonl", args.input.is_some(), "--input FILE")?;
-    let c = &args.centre;
-    for (given, option) in [
-        (c.metal_index.is_some(), "--metal-index"),
-        (c.metal_label.is_some(), "--metal-label"),
-        (c.cutoff.is_some(), "--cutoff"),
-    ] {
-        super::figure::only_with(given, option, args.structure.is_some(), "--structure FILE")?;
-    }
+    args.centre.check_used(args.structure.is_some())?;
     if let (Some(path), None) = (&args.input, &args.html) {
         return stream_batch(args, path, data);
     }

@@ -70,14 +70,10 @@ pub struct Args {
 }
 
 pub fn run(args: &Args, data: Option<&Path>) -> Result<Output, Failure> {
-    let picture = args.svg.is_some() || args.figure.png.is_some();
-    super::figure::only_with(
-        args.highlight_spins,
-        "--highlight-spins",
-        picture,
-        "--svg FILE or --png FILE",
+    args.figure.check_used(
+        args.svg.is_some(),
+        &[(args.highlight_spins, "--highlight-spins")],
     )?;
-    args.figure.check_used(args.svg.is_some())?;
     let geometry = parse_geometry(&args.geometry)?;
     let complex = args.complex.resolve(geometry, data)?;
     let prediction = match &complex {

@@ -26,14 +26,14 @@ impl FigureArgs {
             .unwrap_or(Column::Single)
     }
 
-    /// Refuses figure options when no figure is written (`svg`: the command's --svg).
-    pub fn check_used(&self, svg: bool) -> Result<(), Failure> {
-        only_with(
-            self.column.is_some(),
-            "--column",
-            svg || self.png.is_some(),
-            "--svg FILE or --png FILE",
-        )
+    /// Refuses figure options when no figure is written (`svg`: the command's --svg given):
+    /// --column and the command's own figure-only `options` (given, name).
+    pub fn check_used(&self, svg: bool, options: &[(bool, &str)]) -> Result<(), Failure> {
+        let picture = svg || self.png.is_some();
+        for &(given, option) in [(self.column.is_some(), "--column")].iter().chain(options) {
+            only_with(given, option, picture, "--svg FILE or --png FILE")?;
+        }
+        Ok(())
     }
 }
 

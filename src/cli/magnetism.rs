@@ -71,14 +71,13 @@ pub struct Args {
 }
 
 pub fn run(args: &Args, data: Option<&Path>) -> Result<Output, Failure> {
-    let picture = args.svg.is_some() || args.figure.png.is_some();
-    for (given, option) in [
-        (args.plot.is_some(), "--plot"),
-        (args.measured.is_some(), "--measured"),
-    ] {
-        super::figure::only_with(given, option, picture, "--svg FILE or --png FILE")?;
-    }
-    args.figure.check_used(args.svg.is_some())?;
+    args.figure.check_used(
+        args.svg.is_some(),
+        &[
+            (args.plot.is_some(), "--plot"),
+            (args.measured.is_some(), "--measured"),
+        ],
+    )?;
     let mut notes = Vec::new();
     let geometry = super::common::parse_geometry(&args.field.geometry)?;
     let field = match args.complex.resolve(geometry, data)? {

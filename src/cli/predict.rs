@@ -126,14 +126,7 @@ fn run_structure(args: &Args, path: &Path, data: Option<&Path>) -> Result<Output
 }
 
 pub fn run(args: &Args, data: Option<&Path>) -> Result<Output, Failure> {
-    let c = &args.centre;
-    for (given, option) in [
-        (c.metal_index.is_some(), "--metal-index"),
-        (c.metal_label.is_some(), "--metal-label"),
-        (c.cutoff.is_some(), "--cutoff"),
-    ] {
-        super::figure::only_with(given, option, args.structure.is_some(), "--structure FILE")?;
-    }
+    args.centre.check_used(args.structure.is_some())?;
     if let Some(path) = &args.structure {
         return run_structure(args, path, data);
     }

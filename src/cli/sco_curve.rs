@@ -85,14 +85,8 @@ pub struct Args {
 }
 
 pub fn run(args: &Args) -> Result<Output, Failure> {
-    let picture = args.svg.is_some() || args.figure.png.is_some();
-    super::figure::only_with(
-        args.plot.is_some(),
-        "--plot",
-        picture,
-        "--svg FILE or --png FILE",
-    )?;
-    args.figure.check_used(args.svg.is_some())?;
+    args.figure
+        .check_used(args.svg.is_some(), &[(args.plot.is_some(), "--plot")])?;
     let tr = Transition {
         dh: args.dh * 1000.0,
         ds: args.ds,

@@ -79,14 +79,8 @@ pub struct Args {
 }
 
 pub fn run(args: &Args, data: Option<&Path>) -> Result<Output, Failure> {
-    let picture = args.svg.is_some() || args.figure.png.is_some();
-    super::figure::only_with(
-        args.plot.is_some(),
-        "--plot",
-        picture,
-        "--svg FILE or --png FILE",
-    )?;
-    args.figure.check_used(args.svg.is_some())?;
+    args.figure
+        .check_used(args.svg.is_some(), &[(args.plot.is_some(), "--plot")])?;
     for (given, option) in [
         (args.magnet.is_some(), "--magnet"),
         (args.chi0.is_some(), "--chi0"),

@@ -31,6 +31,18 @@ pub struct CentreArgs {
 }
 
 impl CentreArgs {
+    /// Refuses the centre options where no structure is read (`structure`: --structure given).
+    pub fn check_used(&self, structure: bool) -> Result<(), Failure> {
+        for (given, option) in [
+            (self.metal_index.is_some(), "--metal-index"),
+            (self.metal_label.is_some(), "--metal-label"),
+            (self.cutoff.is_some(), "--cutoff"),
+        ] {
+            super::figure::only_with(given, option, structure, "--structure FILE")?;
+        }
+        Ok(())
+    }
+
     pub fn choice(&self) -> MetalChoice {
         match (&self.metal_index, &self.metal_label) {
             (Some(n), _) => MetalChoice::Index(*n),
