@@ -159,7 +159,7 @@ pub fn run(args: &Args, data: Option<&Path>) -> Result<Output, Failure> {
     let filters = args.filters()?;
     let pool = clean(&args.pool);
     let mut out = Output::default();
-    let (screen, bad_rows) = match (&args.candidates, pool.is_empty()) {
+    let (screen, rejected) = match (&args.candidates, pool.is_empty()) {
         (Some(_), false) => {
             return Err(Failure::usage(
                 "give either --pool or --candidates FILE, not both",
@@ -172,7 +172,7 @@ pub fn run(args: &Args, data: Option<&Path>) -> Result<Output, Failure> {
         }
         (None, false) => (
             Screen::from_pool(&tables, &ions, geometry, &pool, &filters, target)?,
-            0,
+            Vec::new(),
         ),
         (Some(path), true) => {
             let text = spinstate::input_file::read_text(path).map_err(|e| {
@@ -187,7 +187,7 @@ pub fn run(args: &Args, data: Option<&Path>) -> Result<Output, Failure> {
             if !errors.is_empty() {
                 out.code = 2;
             }
-            (screen, errors.len())
+            (screen, errors)
         }
     };
     let full_list = args.format.json || args.csv.is_some();
@@ -227,11 +227,17 @@ pub fn run(args: &Args, data: Option<&Path>) -> Result<Output, Failure> {
         to_json(&ScreenReport::new(
             &screen,
             &outcome,
-            bad_rows,
+            &rejected,
             outcome.hits.len(),
         ))
     } else {
-        ScreenReport::new(&screen, &outcome, bad_rows, args.top.unwrap_or(DEFAULT_TOP)).to_table()
+        ScreenReport::new(
+            &screen,
+            &outcome,
+            &rejected,
+            args.top.unwrap_or(DEFAULT_TOP),
+        )
+        .to_table()
     };
     Ok(out)
 }

@@ -228,6 +228,8 @@ pub struct ScreenReport {
     pub skipped: u64,
     /// Rows of the candidates file that could not be used (reported on stderr).
     pub bad_rows: usize,
+    /// Those rows: data row number, line of the file, column and what is wrong.
+    pub rejected: Vec<RejectedRow>,
     /// Number of entries in `results`.
     pub shown: usize,
     /// Ranked candidates, best first.
@@ -238,9 +240,27 @@ pub struct ScreenReport {
     pub cautions: Vec<String>,
 }
 
+/// A row of a candidates file that could not be used.
+#[derive(Debug, Clone, Serialize)]
+pub struct RejectedRow {
+    /// Data row number (1 = the first row after the header).
+    pub row: usize,
+    /// Line of the file.
+    pub line: usize,
+    pub column: String,
+    pub message: String,
+}
+
 impl ScreenReport {
-    /// Builds the report with the first `limit` hits of the outcome.
-    pub fn new(screen: &Screen, outcome: &Outcome, bad_rows: usize, limit: usize) -> Self {
+    /// Builds the report with the first `limit` hits of the outcome; `rejected` are the rows
+    /// of a candidates file that could not be used.
+    pub fn new(
+        screen: &Screen,
+        outcome: &Outcome,
+        rejected: &[crate::screen::RowError],
+        limit: usize,
+    ) -> Self {
+        let bad_rows = rejected.len();
         let results: Vec<ScreenRow> = outcome
             .hits
             .iter()
@@ -315,6 +335,15 @@ impl ScreenReport {
             evaluated: outcome.evaluated,
             skipped: outcome.skipped,
             bad_rows,
+            rejected: rejected
+                .iter()
+                .map(|e| RejectedRow {
+                    row: e.row,
+                    line: e.line,
+                    column: e.column.clone(),
+                    message: e.message.clone(),
+                })
+                .collect(),
             shown: results.len(),
             results,
             notes,

@@ -173,6 +173,18 @@ fn candidate_files_keep_every_row_whatever_the_layout() {
             "{what}: rows in = evaluated + rejected"
         );
         assert_eq!(err.lines().count(), bad, "{what}: one line per bad row");
+        // The JSON names the rejected rows too, at their true lines.
+        let rejected = v["rejected"].as_array().unwrap();
+        assert_eq!(rejected.len(), bad, "{what}");
+        let mut lines: Vec<usize> = rejected
+            .iter()
+            .map(|r| r["line"].as_u64().unwrap() as usize)
+            .collect();
+        lines.sort();
+        let mut expected = vec![line_of(&text, "B"), line_of(&text, "D")];
+        expected.sort();
+        assert_eq!(lines, expected, "{what}: rejected rows at their lines");
+        assert!(rejected.iter().all(|r| r["column"] == "ligands"));
         for (name, l) in [("B", line_of(&text, "B")), ("D", line_of(&text, "D"))] {
             assert!(
                 err.contains(&format!("(line {l}), column ligands")),
