@@ -415,7 +415,7 @@ const LOG_STEP: f64 = 1e-6;
 
 /// Whether the minimiser's stop counts as converged: its own success criteria, or tolerances
 /// already at machine precision.
-fn converged(t: &TerminationReason) -> bool {
+pub(crate) fn converged(t: &TerminationReason) -> bool {
     t.was_successful() || matches!(t, TerminationReason::NoImprovementPossible(_))
 }
 

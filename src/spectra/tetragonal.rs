@@ -20,7 +20,10 @@
 //! with the parameter to hold, and a Jacobian of lower rank than the free parameters (bands that
 //! depend on fewer combinations of Dq, Ds, Dt, B than are free) is reported as undetermined.
 
-use super::fit::{near_equal_tolerance, PLAUSIBLE_B, POSSIBLE_B};
+use super::fit::{
+    converged, near_equal_tolerance, CONCERN_PENALTY, DEFAULT_PATIENCE, FAR_ABSOLUTE, FAR_FRACTION,
+    PLAUSIBLE_B, POSSIBLE_B,
+};
 use super::transitions::{
     band_manifold, default_c_over_b, select_spin, spin_states, SpinChoice, SpinState, TransitionKey,
 };
@@ -166,10 +169,6 @@ pub struct TetragonalOutcome {
     pub notes: Vec<String>,
 }
 
-/// Penalty (cm⁻¹) added to the rms per concern when ranking assignments (a ranking heuristic
-/// of this tool).
-const CONCERN_PENALTY: f64 = 1000.0;
-
 /// Penalty (cm⁻¹) per unassigned transition below the highest observed band (a ranking
 /// heuristic of this tool: a missing component may be unresolved, so it weighs less than a
 /// concern).
@@ -185,8 +184,6 @@ const DT_RATIOS: [f64; 8] = [-0.4, -0.25, -0.12, -0.04, 0.04, 0.12, 0.25, 0.4];
 const DQ_POINTS: usize = 16;
 /// Assignments refined per spin state.
 const REFINED: usize = 8;
-/// Default cap on evaluations per refinement, × (free parameters + 1).
-pub const DEFAULT_PATIENCE: usize = 60;
 /// B used to seed a fit when neither B nor B₀ is given (cm⁻¹; a typical 3d complex, common
 /// practice).
 const NOMINAL_B: f64 = 750.0;
@@ -198,7 +195,11 @@ struct Model {
 }
 
 impl Model {
-    fn spectrum(&self, dq: f64, ds: f64, dt: f64, b: f64) -> Option<Spectrum> {
+    /// The levels at one point. Every Ds/Dt ratio is a new field direction, whose parent table
+    /// (the levels followed down to zero field) is a calculation of its own; the grid and the
+    /// minimiser need only energies and (2S, irrep, index) keys, so only the solution asks for
+    /// `parents`.
+    fn spectrum(&self, dq: f64, ds: f64, dt: f64, b: f64, parents: bool) -> Option<Spectrum> {
         if !(dq.is_finite() && ds.is_finite() && dt.is_finite() && b.is_finite())
             || dq <= 0.0
             || b <= 0.0
@@ -214,7 +215,11 @@ impl Model {
             Geometry::Tetragonal.point_group(ds, dt),
         )
         .ok()?;
-        calc.levels().ok()
+        if parents {
+            calc.levels().ok()
+        } else {
+            calc.levels_with(&Vec::new(), true).ok()
+        }
     }
 
     /// Energies of `keys` above `reference` (cm⁻¹).
@@ -224,7 +229,7 @@ impl Model {
         reference: &TransitionKey,
         keys: &[TransitionKey],
     ) -> Option<Vec<f64>> {
-        let s = self.spectrum(p[0], p[1], p[2], p[3])?;
+        let s = self.spectrum(p[0], p[1], p[2], p[3], false)?;
         let e0 = reference.find(&s)?.energy;
         keys.iter()
             .map(|k| k.find(&s).map(|l| l.energy - e0))
@@ -483,7 +488,7 @@ fn fit_spin(
         for &rs in &DS_RATIOS {
             for &rt in &DT_RATIOS {
                 let (ds, dt) = (rs * dq, rt * dq);
-                let Some(s) = model.spectrum(dq, ds, dt, b_seed) else {
+                let Some(s) = model.spectrum(dq, ds, dt, b_seed, false) else {
                     continue;
                 };
                 // Only points where the assumed spin is the ground state seed a fit.
@@ -615,13 +620,9 @@ fn refine(
             .with_gtol(1e-12)
             .with_patience(req.patience.unwrap_or(DEFAULT_PATIENCE).max(1)),
     );
-    let converged = report.termination.was_successful()
-        || matches!(
-            report.termination,
-            levenberg_marquardt::TerminationReason::NoImprovementPossible(_)
-        );
+    let converged = converged(&report.termination);
     let p = space.natural(&solved);
-    let Some(spectrum) = model.spectrum(p[0], p[1], p[2], p[3]) else {
+    let Some(spectrum) = model.spectrum(p[0], p[1], p[2], p[3], true) else {
         return Ok(None);
     };
     let Some(manifold) = band_manifold(&spectrum, state.two_s) else {
@@ -734,9 +735,12 @@ fn refine(
     }
     let far = assigned
         .iter()
-        .any(|a| a.residual.abs() > 2000.0_f64.max(0.10 * a.observed));
+        .any(|a| a.residual.abs() > FAR_ABSOLUTE.max(FAR_FRACTION * a.observed));
     if far {
-        concerns.push("a band is more than 2000 cm⁻¹ and 10 % from its transition".into());
+        concerns.push(format!(
+            "a band is more than {FAR_ABSOLUTE:.0} cm⁻¹ and {:.0} % from its transition",
+            100.0 * FAR_FRACTION
+        ));
     }
     if !converged {
         concerns.push(format!("the minimiser stopped: {:?}", report.termination));
