@@ -115,9 +115,14 @@ impl BondLengthTable {
             return Err(data_err(format!("header must be {}", HEADER.join(","))));
         }
         let mut rows = Vec::new();
-        for (i, record) in reader.records().enumerate() {
-            let row = i + 2;
-            let record = record.map_err(|e| data_err(format!("row {row}: {e}")))?;
+        // "row N" is the line of the file (header = 1), true after CRLF and blank lines.
+        let lines = crate::csv_input::LineIndex::new(text, None);
+        for record in reader.records() {
+            let record = record.map_err(|e| {
+                let row = e.position().map_or(0, |p| lines.line_of(p.byte()));
+                data_err(format!("row {row}: {e}"))
+            })?;
+            let row = record.position().map_or(0, |p| lines.line_of(p.byte()));
             let cell = |col: usize| record.get(col).unwrap_or("").to_string();
             let at = |col: usize, msg: String| {
                 data_err(format!("row {row}, column {}: {msg}", HEADER[col]))

@@ -266,6 +266,12 @@ fn bond_length_table_rows_must_keep_the_two_ranges_apart() {
         e.contains("delta_r_a") && e.contains("opposite sign"),
         "{e}"
     );
+    // The row is named by its true line after CRLF line ends and a blank line.
+    let crlf = format!(
+        "{header}\r\nFe,2,N,any,1.95,2.00,2.15,2.20,0.20,typical,invented for this test\r\n\r\nFe,3,N,any,1.95,2.16,2.15,2.20,0.20,typical,invented for this test\r\n"
+    );
+    let e = BondLengthTable::from_csv(&crlf).unwrap_err().to_string();
+    assert!(e.contains("row 4, column ls_max_a"), "{e}");
 }
 
 #[test]
