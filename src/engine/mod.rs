@@ -16,6 +16,7 @@ pub mod projection;
 pub mod shell;
 pub mod spin_orbit;
 pub mod symmetry;
+pub mod terms;
 
 pub use crossover::{
     crossover, ground_spin_map, spin_from_map, tanabe_sugano_c_over_b, Crossover, SpinGround,

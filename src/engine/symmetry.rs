@@ -353,6 +353,32 @@ impl PointGroup {
         }
     }
 
+    /// The irreps that a free-ion term of orbital angular momentum `l` splits into, with their
+    /// dimensions (the branching rule, e.g. F → A2g + T1g + T2g in O_h), from the character
+    /// χ_l(θ) = Σ_m cos mθ of the rotations by θ in the (2l+1)-dimensional representation. Every
+    /// d^n state is even under inversion, so the g labels follow from the proper rotations alone
+    /// (and T_d, isomorphic to O, takes the same characters). Standard group theory (e.g.
+    /// F. A. Cotton, Chemical Applications of Group Theory, 3rd ed., 1990, ch. 9).
+    pub fn term_irreps(self, l: usize) -> Vec<(String, usize)> {
+        let chi = |theta: f64| -> f64 {
+            let sum: f64 = (-(l as i64)..=l as i64)
+                .map(|m| (m as f64 * theta).cos())
+                .sum();
+            sum.round()
+        };
+        let two_fold = if l % 2 == 0 { 1.0 } else { -1.0 };
+        let ch = Characters {
+            e: (2 * l + 1) as f64,
+            c4z: chi(std::f64::consts::FRAC_PI_2),
+            c2z: two_fold,
+            c3: chi(2.0 * std::f64::consts::PI / 3.0),
+            c2_face: two_fold,
+            c2_x: two_fold,
+        };
+        self.decompose(&ch)
+            .expect("the characters of a rotation representation decompose exactly")
+    }
+
     /// Decomposes a (possibly reducible) character into irreducible labels with their
     /// dimensions, e.g. [("T1g", 3)]. Returns None when the character is not a sum of irreps
     /// (which signals a numerical grouping problem).
@@ -418,6 +444,41 @@ mod tests {
             let tr: C64 = (0..5).map(|i| d[i][i]).sum();
             assert_abs_diff_eq!(tr.re, expected, epsilon = 1e-12);
             assert_abs_diff_eq!(tr.im, 0.0, epsilon = 1e-12);
+        }
+    }
+
+    #[test]
+    fn free_ion_terms_branch_as_tabulated() {
+        // Splitting of the free-ion terms S…I in O_h and of P, D in D_4h, as tabulated in
+        // F. A. Cotton, Chemical Applications of Group Theory, 3rd ed. (1990), ch. 9 (the
+        // table of terms in O_h; entries from memory).
+        let names = |g: PointGroup, l: usize| -> Vec<String> {
+            g.term_irreps(l).into_iter().map(|p| p.0).collect()
+        };
+        assert_eq!(names(PointGroup::Oh, 0), ["A1g"]);
+        assert_eq!(names(PointGroup::Oh, 1), ["T1g"]);
+        assert_eq!(names(PointGroup::Oh, 2), ["Eg", "T2g"]);
+        assert_eq!(names(PointGroup::Oh, 3), ["A2g", "T1g", "T2g"]);
+        assert_eq!(names(PointGroup::Oh, 4), ["A1g", "Eg", "T1g", "T2g"]);
+        assert_eq!(names(PointGroup::Oh, 5), ["Eg", "T1g", "T1g", "T2g"]);
+        assert_eq!(
+            names(PointGroup::Oh, 6),
+            ["A1g", "A2g", "Eg", "T1g", "T2g", "T2g"]
+        );
+        assert_eq!(names(PointGroup::Td, 3), ["A2", "T1", "T2"]);
+        assert_eq!(names(PointGroup::D4h, 1), ["A2g", "Eg"]);
+        assert_eq!(names(PointGroup::D4h, 2), ["A1g", "B1g", "B2g", "Eg"]);
+        assert_eq!(names(PointGroup::C1, 2).len(), 5);
+        for g in [
+            PointGroup::Oh,
+            PointGroup::Td,
+            PointGroup::D4h,
+            PointGroup::C1,
+        ] {
+            for l in 0..=12 {
+                let dim: usize = g.term_irreps(l).iter().map(|p| p.1).sum();
+                assert_eq!(dim, 2 * l + 1, "{g:?} L = {l}");
+            }
         }
     }
 
