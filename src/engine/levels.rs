@@ -778,8 +778,8 @@ mod parent_tests {
         for dn in 0..=10 {
             for c_over_b in [3.5, 4.477, 4.8, 6.0] {
                 for (field, group) in &fields {
-                    let calc = Calculation::new(dn, 800.0, 800.0 * c_over_b, field.clone(), *group)
-                        .unwrap();
+                    let calc =
+                        Calculation::new(dn, 800.0, 800.0 * c_over_b, *field, *group).unwrap();
                     let mut fast = calc.compute_parent_table().unwrap();
                     let mut slow = calc.parent_table_at_small_field().unwrap();
                     fast.sort();

@@ -366,7 +366,7 @@ impl PointGroup {
                 .sum();
             sum.round()
         };
-        let two_fold = if l % 2 == 0 { 1.0 } else { -1.0 };
+        let two_fold = if l.is_multiple_of(2) { 1.0 } else { -1.0 };
         let ch = Characters {
             e: (2 * l + 1) as f64,
             c4z: chi(std::f64::consts::FRAC_PI_2),
