@@ -133,7 +133,15 @@ pub struct ZeemanLevels {
     pub trace: Vec<[f64; 3]>,
     /// Σ_{a∈i} Σ_{j∉i} |m_aj|²/(E_i − E_j) per level and axis (μB² per cm⁻¹).
     pub second_order: Vec<[f64; 3]>,
+    /// Highest temperature (K) at which [`ZeemanLevels::at`] may be used: the sums are complete
+    /// for every level with a Boltzmann weight above e^−[`WEIGHT_CUTOFF`] there (the sums of
+    /// higher levels are left at zero). [`MAX_TEMPERATURE`] when every level was summed.
+    pub highest_temperature: f64,
 }
+
+/// Boltzmann exponent E/kT beyond which [`ZeemanLevels::compute_up_to`] leaves a level's
+/// sums out: its weight e^−40 ≈ 4·10⁻¹⁸ is below double precision relative to the ground level.
+pub const WEIGHT_CUTOFF: f64 = 40.0;
 
 /// Sub-blocks of L and S between two spin–orbit blocks, for one axis: over the complex orbitals
 /// with Condon–Shortley phases L_x, S_x, L_z and S_z are real and L_y, S_y purely imaginary, so
@@ -233,6 +241,31 @@ impl ZeemanLevels {
         Self::from_solution(calc, &solution, model)
     }
 
+    /// As [`ZeemanLevels::compute`], for temperatures up to `t_max` (K) only: levels more than
+    /// [`WEIGHT_CUTOFF`]·k·t_max above the ground level are populated by less than e^−40 and
+    /// their sums are skipped, which makes a room-temperature moment several times cheaper.
+    /// The matrix elements from the summed levels to every other state are still all taken.
+    pub fn compute_up_to(calc: &Calculation, model: &MagneticModel, t_max: f64) -> Result<Self> {
+        model.check()?;
+        require_finite("temperature", t_max)?;
+        if !(MIN_TEMPERATURE..=MAX_TEMPERATURE).contains(&t_max) {
+            return Err(Error::invalid(
+                "temperature",
+                format!("{} K", num(t_max)),
+                format!("{MIN_TEMPERATURE} K ≤ T ≤ {MAX_TEMPERATURE} K"),
+            ));
+        }
+        let solution = calc.spin_orbit(model.effective_zeta())?;
+        let mut all = Self::sums(
+            calc,
+            &solution,
+            std::slice::from_ref(model),
+            false,
+            Some(t_max),
+        )?;
+        Ok(all.remove(0))
+    }
+
     /// The Zeeman sums for eigenstates already computed with ζ = `model.effective_zeta()`
     /// (lets several κ or g values share one diagonalisation).
     pub fn from_solution(
@@ -254,7 +287,7 @@ impl ZeemanLevels {
         solution: &SpinOrbitSolution,
         models: &[MagneticModel],
     ) -> Result<Vec<Self>> {
-        Self::sums(calc, solution, models, false)
+        Self::sums(calc, solution, models, false, None)
     }
 
     /// As [`ZeemanLevels::from_solution`], always in complex arithmetic (the reference for the
@@ -264,7 +297,7 @@ impl ZeemanLevels {
         solution: &SpinOrbitSolution,
         model: &MagneticModel,
     ) -> Result<Self> {
-        let mut all = Self::sums(calc, solution, std::slice::from_ref(model), true)?;
+        let mut all = Self::sums(calc, solution, std::slice::from_ref(model), true, None)?;
         Ok(all.remove(0))
     }
 
@@ -273,6 +306,7 @@ impl ZeemanLevels {
         solution: &SpinOrbitSolution,
         models: &[MagneticModel],
         force_complex: bool,
+        t_max: Option<f64>,
     ) -> Result<Vec<Self>> {
         for model in models {
             model.check()?;
@@ -361,36 +395,68 @@ impl ZeemanLevels {
         } else {
             (Vec::new(), Vec::new())
         };
+        // The columns (states a) whose sums are needed: every state, or those of levels within
+        // WEIGHT_CUTOFF·kT_max of the ground level.
+        let e_max = t_max.map_or(f64::INFINITY, |t| WEIGHT_CUTOFF * boltzmann_cm() * t);
+        let kept: Vec<Vec<usize>> = solution
+            .blocks
+            .iter()
+            .enumerate()
+            .map(|(bi, b)| {
+                (0..b.energies.len())
+                    .filter(|&a| energies[level_of[index[bi][a]]] <= e_max)
+                    .collect()
+            })
+            .collect();
+        let kept_real: Vec<DMatrix<f64>> = real_vectors
+            .iter()
+            .zip(&kept)
+            .map(|(v, k)| v.select_columns(k))
+            .collect();
+        let kept_complex: Vec<DMatrix<C64>> = if real {
+            Vec::new()
+        } else {
+            solution
+                .blocks
+                .iter()
+                .zip(&kept)
+                .map(|(b, k)| b.vectors.select_columns(k))
+                .collect()
+        };
         let nlev = energies.len();
         let mut first_order = vec![vec![[0.0; 3]; nlev]; models.len()];
         let mut trace = vec![vec![[0.0; 3]; nlev]; models.len()];
         let mut second_order = vec![vec![[0.0; 3]; nlev]; models.len()];
         for (b2, blk2) in solution.blocks.iter().enumerate() {
-            for (b1, blk1) in solution.blocks.iter().enumerate() {
+            for b1 in 0..solution.blocks.len() {
                 for (axis, pair) in moments.pairs[b2][b1].iter().enumerate() {
                     let Some(pair) = pair else {
                         continue;
                     };
+                    if kept[b1].is_empty() {
+                        continue;
+                    }
                     let x = if real {
-                        let (v2t, v1) = (&real_transposed[b2], &real_vectors[b1]);
+                        let (v2t, v1) = (&real_transposed[b2], &kept_real[b1]);
                         Transformed::Real(v2t * (&pair.l * v1), v2t * (&pair.s * v1))
                     } else {
                         let to_c = |m: &DMatrix<f64>| m.map(|x| C64::new(x, 0.0));
-                        let (v2, v1) = (&blk2.vectors, &blk1.vectors);
+                        let (v2, v1) = (&blk2.vectors, &kept_complex[b1]);
                         Transformed::Complex(
                             v2.adjoint() * (to_c(&pair.l) * v1),
                             v2.adjoint() * (to_c(&pair.s) * v1),
                         )
                     };
                     let y_axis = axis == 1;
-                    for a in 0..blk1.energies.len() {
+                    for (col, &a) in kept[b1].iter().enumerate() {
                         let ga = index[b1][a];
                         let la = level_of[ga];
                         for (j, &gj) in index[b2].iter().enumerate() {
                             let lj = level_of[gj];
                             let gap = energies[la] - energies[lj];
                             for (mi, model) in models.iter().enumerate() {
-                                let (w, diag) = x.element(y_axis, model.kappa, model.g_spin, j, a);
+                                let (w, diag) =
+                                    x.element(y_axis, model.kappa, model.g_spin, j, col);
                                 if la == lj {
                                     first_order[mi][la][axis] += w;
                                     if ga == gj {
@@ -412,6 +478,7 @@ impl ZeemanLevels {
                 first_order: std::mem::take(&mut first_order[mi]),
                 trace: std::mem::take(&mut trace[mi]),
                 second_order: std::mem::take(&mut second_order[mi]),
+                highest_temperature: t_max.unwrap_or(MAX_TEMPERATURE),
             })
             .collect())
     }
@@ -424,6 +491,16 @@ impl ZeemanLevels {
                 "temperature",
                 format!("{} K", num(t)),
                 format!("{MIN_TEMPERATURE} K ≤ T ≤ {MAX_TEMPERATURE} K"),
+            ));
+        }
+        if t > self.highest_temperature {
+            return Err(Error::invalid(
+                "temperature",
+                format!("{} K", num(t)),
+                format!(
+                    "T ≤ {} K, the highest temperature these Zeeman sums were computed for",
+                    num(self.highest_temperature)
+                ),
             ));
         }
         let kt = boltzmann_cm() * t; // cm⁻¹

@@ -315,7 +315,7 @@ pub fn predict_with(complex: &ResolvedComplex, options: PredictOptions) -> Resul
     let moment_300k = match complex.ion.zeta {
         _ if !options.moment_300k => None,
         Some(zeta) if dn > 0 && dn < 10 => {
-            let z = ZeemanLevels::compute(&calc, &MagneticModel::new(zeta))?;
+            let z = ZeemanLevels::compute_up_to(&calc, &MagneticModel::new(zeta), 300.0)?;
             Some(z.at(300.0)?.mu_eff)
         }
         _ if dn == 0 || dn == 10 => Some(0.0),

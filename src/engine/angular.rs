@@ -57,6 +57,24 @@ pub fn gaunt(l: i64, m: i64, k: i64, lp: i64, mp: i64) -> f64 {
         * wigner_3j(l, k, lp, -m, m - mp, mp)
 }
 
+/// c^k(2 m, 2 m′) for the d shell, k = 0, 2, 4 (index k/2) and m, m′ = −2…2 (index m+2): the
+/// only Gaunt coefficients the electron repulsion of d^n needs, computed once.
+pub fn d_shell_gaunt(k: usize, m: i32, mp: i32) -> f64 {
+    static TABLE: std::sync::OnceLock<[[[f64; 5]; 5]; 3]> = std::sync::OnceLock::new();
+    let table = TABLE.get_or_init(|| {
+        let mut t = [[[0.0; 5]; 5]; 3];
+        for (ki, row) in t.iter_mut().enumerate() {
+            for (i, cols) in row.iter_mut().enumerate() {
+                for (j, c) in cols.iter_mut().enumerate() {
+                    *c = gaunt(2, i as i64 - 2, 2 * ki as i64, 2, j as i64 - 2);
+                }
+            }
+        }
+        t
+    });
+    table[k / 2][(m + 2) as usize][(mp + 2) as usize]
+}
+
 #[cfg(test)]
 mod tests {
     use super::*;

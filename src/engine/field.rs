@@ -290,6 +290,24 @@ impl LigandField {
         true
     }
 
+    /// True when the field has the full symmetry of `group` in the engine's axes (to 10⁻¹²
+    /// of its largest element): diagonal over the real d orbitals with e (z², x²−y²) and t₂
+    /// (xz, yz, xy) each degenerate for O_h and T_d, or with xz and yz degenerate for D_4h
+    /// (z the fourfold axis). Always true for C1.
+    pub fn is_invariant_under(&self, group: super::symmetry::PointGroup) -> bool {
+        use super::symmetry::PointGroup;
+        let m = &self.matrix;
+        let tol = 1e-12 * m.amax();
+        let diagonal = (0..5).all(|i| (0..5).all(|j| i == j || m[(i, j)].abs() <= tol));
+        let same = |a: usize, b: usize| (m[(a, a)] - m[(b, b)]).abs() <= tol;
+        // Real orbitals in the order z², xz, yz, x²−y², xy.
+        match group {
+            PointGroup::Oh | PointGroup::Td => diagonal && same(0, 3) && same(1, 2) && same(1, 4),
+            PointGroup::D4h => diagonal && same(1, 2),
+            PointGroup::C1 => true,
+        }
+    }
+
     /// True when the matrix over complex orbitals has no imaginary part.
     pub fn is_real_in_complex_basis(&self) -> bool {
         let v = self.complex_matrix();

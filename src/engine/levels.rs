@@ -587,8 +587,17 @@ impl Calculation {
     }
 
     /// All spin-free levels, lowest first, labelled and with their free-ion parents.
+    ///
+    /// A field with the full symmetry of the group is solved in the symmetry-projected blocks
+    /// of [`super::projection::Projection`] (eigenvalues only, labels from the block); any
+    /// other field by diagonalising the spin blocks and labelling from the eigenvectors.
     pub fn levels(&self) -> Result<Spectrum> {
         let parents = self.parent_table()?;
+        if self.field.magnitude() > 0.0 && self.field.is_invariant_under(self.group) {
+            if let Some(p) = super::projection::Projection::for_group(self.dn, self.group)? {
+                return p.levels(self, &parents);
+            }
+        }
         // d⁰ and d¹⁰ have one state, the totally symmetric one in any group: label it by the
         // group (¹A₁g, ¹A₁) rather than as a free-ion ¹S even when no field is given.
         let single_state = self.dn == 0 || self.dn == 10;

@@ -1,6 +1,6 @@
 //! Many-electron matrices of one- and two-electron operators on lists of determinants.
 
-use super::angular::gaunt;
+use super::angular::d_shell_gaunt;
 use super::basis::{annihilate, create, excite, m_of, two_ms_of, Determinant, SPIN_ORBITALS};
 use nalgebra::DMatrix;
 
@@ -84,14 +84,14 @@ impl Slater {
 /// Spatial two-electron integral ⟨m1 m2|1/r12|m3 m4⟩ for d electrons:
 /// δ(m1+m2, m3+m4) Σ_k c^k(2m1, 2m3) c^k(2m4, 2m2) F^k (Condon & Shortley 1935, ch. 6).
 pub fn coulomb_integral(m: [i32; 4], f: &Slater) -> f64 {
-    if m[0] + m[1] != m[2] + m[3] {
+    if m[0] + m[1] != m[2] + m[3] || m.iter().any(|x| x.abs() > 2) {
         return 0.0;
     }
-    let [a, b, c, d] = m.map(i64::from);
+    let [a, b, c, d] = m;
     let mut s = 0.0;
     for (k, fk) in [(0, f.f0), (2, f.f2), (4, f.f4)] {
         if fk != 0.0 {
-            s += gaunt(2, a, k, 2, c) * gaunt(2, d, k, 2, b) * fk;
+            s += d_shell_gaunt(k, a, c) * d_shell_gaunt(k, d, b) * fk;
         }
     }
     s

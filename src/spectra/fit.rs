@@ -287,6 +287,9 @@ pub struct FitOutcome {
     pub notes: Vec<String>,
 }
 
+/// Scores (cm⁻¹) closer than this differ only by rounding.
+const SCORE_ROUNDING: f64 = 1e-6;
+
 /// Tolerance (cm⁻¹) within which another assignment's score counts as near-equal.
 pub fn near_equal_tolerance(best_rms: f64) -> f64 {
     (0.25 * best_rms).max(100.0)
@@ -590,16 +593,25 @@ pub fn fit_bands(req: &FitRequest) -> Result<FitOutcome> {
     }
     fits.sort_by(|a, b| a.score.total_cmp(&b.score));
     // Among near-equal fits prefer the one leaving the fewest strong bands unassigned below the
-    // highest observed band (bands are usually assigned to the lowest transitions).
+    // highest observed band (bands are usually assigned to the lowest transitions). Fits whose
+    // scores differ only by rounding (exactly determined fits all reach rms ≈ 0) are told apart
+    // by C/B: the one nearer the free-ion ratio of the Tanabe–Sugano diagrams is preferred (C/B
+    // of complexes stays close to it; common practice).
     let tol = near_equal_tolerance(fits[0].rms);
     let top_score = fits[0].score;
+    let typical_c_over_b = crate::engine::tanabe_sugano_c_over_b(req.dn);
+    let c_distance = |f: &BandFit| (f.c_over_b - typical_c_over_b).abs();
     let pick = (0..fits.len())
         .filter(|&i| fits[i].score <= top_score + tol)
         .min_by(|&i, &j| {
-            fits[i]
-                .skipped_below
-                .cmp(&fits[j].skipped_below)
-                .then(fits[i].score.total_cmp(&fits[j].score))
+            let (a, b) = (&fits[i], &fits[j]);
+            a.skipped_below.cmp(&b.skipped_below).then_with(|| {
+                if (a.score - b.score).abs() <= SCORE_ROUNDING {
+                    c_distance(a).total_cmp(&c_distance(b))
+                } else {
+                    a.score.total_cmp(&b.score)
+                }
+            })
         })
         .unwrap_or(0);
     let best = fits.remove(pick);

@@ -129,3 +129,45 @@ fn low_symmetry_field_agrees_with_finite_field() {
         }
     }
 }
+
+#[test]
+fn sums_up_to_a_temperature_agree_with_complete_sums() {
+    // Levels weighted by less than e^-40 at T_max are left out; every χ at or below T_max must
+    // agree with the complete sums to 1e-10 (matrix products of other shapes round differently),
+    // and a higher T must be refused.
+    let mut checked_truncation = false;
+    for (calc, zeta) in cases().into_iter().chain(std::iter::once((
+        Calculation::new(
+            6,
+            844.0,
+            4049.0,
+            LigandField::octahedral(1040.0),
+            PointGroup::Oh,
+        )
+        .unwrap(),
+        400.0,
+    ))) {
+        let m = model(zeta, 0.9);
+        let full = ZeemanLevels::compute(&calc, &m).unwrap();
+        let partial = ZeemanLevels::compute_up_to(&calc, &m, 300.0).unwrap();
+        assert_eq!(partial.highest_temperature, 300.0);
+        checked_truncation |= partial
+            .first_order
+            .iter()
+            .zip(&full.first_order)
+            .any(|(p, f)| p != f);
+        for t in [2.0, 77.0, 300.0] {
+            let (a, b) = (full.at(t).unwrap(), partial.at(t).unwrap());
+            assert!(
+                (a.chi - b.chi).abs() <= 1e-10 * a.chi.abs(),
+                "d{} {:?} at {t} K: {} vs {}",
+                calc.dn,
+                calc.group,
+                a.chi,
+                b.chi
+            );
+        }
+        assert!(partial.at(301.0).is_err());
+    }
+    assert!(checked_truncation, "no case left a level out");
+}
