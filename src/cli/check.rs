@@ -166,6 +166,28 @@ fn option_of(column: &str) -> String {
     }
 }
 
+/// " (options: …)" or " (columns: …)" naming how to set what a check error needs (batch columns or the options
+/// named after them, by `name`); empty when it needs nothing.
+fn needed(e: &spinstate::check::CheckError, word: &str, name: impl Fn(&str) -> String) -> String {
+    let spinstate::Error::InvalidParameter { needs, .. } = &e.error else {
+        return String::new();
+    };
+    let mut names: Vec<String> = Vec::new();
+    for p in needs {
+        if let Some(c) = batch::column_of(e.part, p) {
+            let n = name(c);
+            if !names.contains(&n) {
+                names.push(n);
+            }
+        }
+    }
+    if names.is_empty() {
+        String::new()
+    } else {
+        format!(" ({word}: {})", names.join(", "))
+    }
+}
+
 impl Args {
     /// The options as (column, value) pairs of the batch layout.
     fn fields(&self) -> Vec<(&'static str, String)> {
@@ -460,7 +482,7 @@ fn check_sample(
             row,
             name: Some(name),
             column: batch::columns_of(&e),
-            message: e.to_string().replace("--magnet", "evans_magnet"),
+            message: format!("{}{}", e.error, needed(&e, "columns", str::to_string)),
         }),
     }
 }
@@ -708,10 +730,12 @@ pub fn run(args: &Args, data: Option<&Path>) -> Result<Output, Failure> {
     let result = check(&sample.input, loaded.tables()).map_err(|e| Failure {
         code: e.error.exit_code(),
         message: format!(
-            "{}: {}",
+            "{}: {}{}",
             option_of(&batch::columns_of(&e)),
-            e.error.to_string().replace("--magnet", "--evans-magnet")
+            e.error,
+            needed(&e, "options", option_of)
         ),
+        error: None,
     })?;
     let report = CheckReport::new(&result, None, None).with_safety();
     let one_csv = || BatchReport::new(vec![report.clone()], Vec::new()).to_csv();
@@ -734,4 +758,42 @@ pub fn run(args: &Args, data: Option<&Path>) -> Result<Output, Failure> {
         out.warnings.push(write_html(&page, file)?);
     }
     Ok(out)
+}
+
+#[cfg(test)]
+mod tests {
+    use super::*;
+    use spinstate::check::Part;
+    use spinstate::Param;
+
+    /// The options of `check` are named after the batch columns: a quantity's column and its
+    /// option agree wherever both exist.
+    #[test]
+    fn flags_of_check_follow_the_batch_columns() {
+        let mut compared = 0;
+        for part in [Part::Complex, Part::Evans, Part::Moment, Part::Bands] {
+            for p in [
+                Param::Delta,
+                Param::RacahB,
+                Param::RacahC,
+                Param::Dia,
+                Param::Magnet,
+                Param::SpectrometerFrequency,
+                Param::Concentration,
+                Param::ChiMT,
+                Param::ChiM,
+                Param::MuEff,
+                Param::BondLength,
+            ] {
+                if let (Some(column), Some(flag)) = (
+                    batch::column_of(part, &p),
+                    super::super::common::flag_of(&p, super::super::common::Cmd::Check),
+                ) {
+                    assert_eq!(option_of(column), flag, "{p:?}");
+                    compared += 1;
+                }
+            }
+        }
+        assert!(compared >= 40, "{compared}");
+    }
 }

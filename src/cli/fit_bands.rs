@@ -140,13 +140,7 @@ pub fn run(args: &Args, data: Option<&Path>) -> Result<Output, Failure> {
             b0,
             patience: Some(args.max_evaluations),
         };
-        let out = fit_tetragonal(&req).map_err(|e| {
-            let mut f = Failure::from(e);
-            if f.code == 2 && f.message.contains("hold B") {
-                f.message.push_str(" (option --b)");
-            }
-            f
-        })?;
+        let out = fit_tetragonal(&req)?;
         let mut report = TetragonalFitReport::new(&out, unit, b0, args.b.is_some());
         if let Some(c) = ion.and_then(|i| i.caution.as_ref()) {
             report.notes.push(format!(
@@ -174,16 +168,7 @@ pub fn run(args: &Args, data: Option<&Path>) -> Result<Output, Failure> {
     if args.max_evaluations == 0 {
         return Err(Failure::usage("--max-evaluations 0 must be at least 1"));
     }
-    let out = fit_bands(&req).map_err(|e| {
-        let mut f = Failure::from(e.clone());
-        if f.code == 2 && f.message.contains("hold B fixed") {
-            f.message.push_str(" (option --b)");
-        } else if f.code == 2 && f.message.contains("hold C/B fixed") {
-            f.message
-                .push_str(" (drop --fit-c; --c-over-b sets the ratio)");
-        }
-        f
-    })?;
+    let out = fit_bands(&req)?;
     let b0 = match (args.b0, ion) {
         (Some(b0), _) => Some((b0, "given with --b0".to_string())),
         (None, Some(ion)) => ion.b0.map(|b0| {

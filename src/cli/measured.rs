@@ -84,11 +84,14 @@ impl DiaArgs {
             pascal::rough_correction(mw)?
         } else if let Some(f) = &formula {
             let table = PascalTable::load(data)?;
-            pascal::pascal_sum(f, &table).map_err(|e| Failure::usage(format!("--formula: {e}")))?
+            pascal::pascal_sum(f, &table).map_err(|e| match e {
+                e @ spinstate::Error::InvalidParameter { .. } => Failure::from(e),
+                e => Failure::usage(format!("--formula: {e}")),
+            })?
         } else {
             DiamagneticCorrection::none()
         };
-        let dia_measured = Measured::new("χ_D", dia.value, self.dia_err)?;
+        let dia_measured = Measured::new(spinstate::Param::Dia, dia.value, self.dia_err)?;
         Ok(Resolved {
             dia,
             dia_measured,

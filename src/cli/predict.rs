@@ -151,6 +151,17 @@ pub fn run(args: &Args, data: Option<&Path>) -> Result<Output, Failure> {
     Ok(Output::text(if args.format.json {
         to_json(&report)
     } else {
-        report.to_table()
+        let mut table = report.to_table();
+        let omitted = [
+            Some(&report.bands_high_spin),
+            report.bands_low_spin.as_ref(),
+        ]
+        .into_iter()
+        .flatten()
+        .any(|s| s.omitted > 0);
+        if omitted {
+            table.push_str("note: --all lists the bands above the window too\n");
+        }
+        table
     }))
 }

@@ -261,7 +261,10 @@ fn bad_single_input() {
         "--evans-temp",
         "298",
     ]);
-    expect_usage_error(&a, "--evans-magnet transverse");
+    expect_usage_error(
+        &a,
+        "use the transverse magnet geometry (options: --evans-magnet)",
+    );
 }
 
 const HEAD: &str = "name,metal,ox,geometry,ligands,mu_eff,moment_temp,bond_length,structure_temp";
