@@ -40,6 +40,13 @@ pub struct LigandCount {
 /// practice), so every later donor sum stays small and cannot wrap.
 pub const MAX_LIGAND_COUNT: usize = 12;
 
+impl std::fmt::Display for LigandCount {
+    /// `NAME:COUNT`, which [`FromStr`] reads back.
+    fn fmt(&self, f: &mut std::fmt::Formatter<'_>) -> std::fmt::Result {
+        write!(f, "{}:{}", self.name, self.count)
+    }
+}
+
 impl FromStr for LigandCount {
     type Err = Error;
 

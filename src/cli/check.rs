@@ -36,8 +36,8 @@ pub struct Args {
     /// Geometry: oct, tet, sqpl, sqpy (square pyramid) or tbp (trigonal bipyramid). With
     /// --structure it may be left out: the structure's field is then the prediction (and the
     /// closest named shape is used for Δ/B); given, both predictions are listed.
-    #[arg(long, value_name = "G")]
-    pub geometry: Option<String>,
+    #[arg(long, value_name = "G", value_parser = super::common::parsed::<spinstate::engine::Geometry>)]
+    pub geometry: Option<spinstate::engine::Geometry>,
     /// A crystal structure (.cif) or coordinates (.xyz) of the complex: its bond lengths become
     /// evidence and the field at its geometry a prediction. Needs --ox and --ligand; the metal
     /// is the structure's. Replaces --bond-length (give one of the two).
@@ -46,8 +46,8 @@ pub struct Args {
     #[command(flatten)]
     pub centre: super::structure::CentreArgs,
     /// A ligand, NAME[:COUNT] (repeatable), as in `predict`.
-    #[arg(long = "ligand", value_name = "NAME[:COUNT]")]
-    pub ligands: Vec<String>,
+    #[arg(long = "ligand", value_name = "NAME[:COUNT]", value_parser = super::common::parsed::<spinstate::complex::LigandCount>)]
+    pub ligands: Vec<spinstate::complex::LigandCount>,
     /// Measured Δ in cm⁻¹ (instead of the f·g estimate).
     #[arg(long, value_name = "CM-1", allow_hyphen_values = true)]
     pub delta: Option<f64>,
@@ -195,8 +195,20 @@ impl Args {
             ("name", "command line".into()),
             ("metal", self.metal.clone().unwrap_or_default()),
             ("ox", self.ox.map(|o| o.to_string()).unwrap_or_default()),
-            ("geometry", self.geometry.clone().unwrap_or_default()),
-            ("ligands", self.ligands.join(" ")),
+            (
+                "geometry",
+                self.geometry
+                    .map(|g| g.name().to_string())
+                    .unwrap_or_default(),
+            ),
+            (
+                "ligands",
+                self.ligands
+                    .iter()
+                    .map(ToString::to_string)
+                    .collect::<Vec<_>>()
+                    .join(" "),
+            ),
         ];
         let num = |x: Option<f64>| x.map(|v| v.to_string());
         let optional: [(&'static str, Option<String>); 26] = [
@@ -270,7 +282,7 @@ fn read_structure_input(
         }
     }
     let geometry = match (&args.geometry, centre.named_geometry()) {
-        (Some(g), _) => g.clone(),
+        (Some(g), _) => g.name().to_string(),
         (None, Some(g)) => g.name().to_string(),
         (None, None) => {
             return Err(Failure::usage(format!(

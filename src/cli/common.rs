@@ -1,6 +1,7 @@
 //! Options shared by several commands, declared once.
 
 use super::Failure;
+use spinstate::complex::LigandCount;
 use spinstate::engine::{Calculation, Geometry};
 use spinstate::tables::Tables;
 use spinstate::Param;
@@ -22,8 +23,8 @@ pub struct FieldArgs {
     #[arg(long, value_name = "N")]
     pub dn: Option<usize>,
     /// Geometry: oct, tet, sqpl or tetragonal.
-    #[arg(long, value_name = "G")]
-    pub geometry: String,
+    #[arg(long, value_name = "G", value_parser = parsed::<Geometry>)]
+    pub geometry: Geometry,
     /// Racah B in cm⁻¹ (needs --c).
     #[arg(long, value_name = "CM-1", allow_hyphen_values = true)]
     pub b: Option<f64>,
@@ -94,8 +95,8 @@ pub struct ComplexArgs {
     #[arg(long, value_name = "N", allow_hyphen_values = true, requires = "metal")]
     pub ox: Option<i32>,
     /// A ligand, NAME[:COUNT] (repeatable; e.g. --ligand NCS:2 --ligand py:4).
-    #[arg(long = "ligand", value_name = "NAME[:COUNT]", requires = "metal")]
-    pub ligands: Vec<String>,
+    #[arg(long = "ligand", value_name = "NAME[:COUNT]", requires = "metal", value_parser = parsed::<LigandCount>)]
+    pub ligands: Vec<LigandCount>,
 }
 
 impl ComplexArgs {
@@ -180,18 +181,12 @@ pub fn resolve_complex(
     metal: &str,
     ox: i32,
     geometry: Geometry,
-    ligands: &[String],
+    ligands: &[LigandCount],
     data: Option<&Path>,
 ) -> Result<spinstate::complex::ResolvedComplex, Failure> {
-    use spinstate::complex::{ComplexSpec, LigandCount, Overrides};
+    use spinstate::complex::{ComplexSpec, Overrides};
     let tables = load_tables(data)?;
-    let ligands = ligands
-        .iter()
-        .map(|l| {
-            l.parse::<LigandCount>()
-                .map_err(|e| Failure::usage(format!("--ligand: {e}")))
-        })
-        .collect::<Result<Vec<_>, _>>()?;
+    let ligands = ligands.to_vec();
     let spec = ComplexSpec {
         metal: metal.to_string(),
         oxidation_state: ox,
@@ -202,10 +197,13 @@ pub fn resolve_complex(
     Ok(spec.resolve(&tables)?)
 }
 
-/// Parses a geometry name into a failure with exit code 2.
-pub fn parse_geometry(s: &str) -> Result<Geometry, Failure> {
-    s.parse::<Geometry>()
-        .map_err(|e| Failure::usage(format!("--geometry: {e}")))
+/// A clap value parser through the library's `FromStr` (`value_parser = parsed::<Geometry>`):
+/// a bad value fails while the arguments are parsed, with the library's one-line message.
+pub fn parsed<T>(s: &str) -> Result<T, String>
+where
+    T: std::str::FromStr<Err = spinstate::Error>,
+{
+    s.parse::<T>().map_err(|e| e.to_string())
 }
 
 impl FieldArgs {
@@ -273,7 +271,7 @@ impl FieldArgs {
 
     /// Checks the combination of options and builds the calculation.
     pub fn resolve(&self) -> Result<Resolved, Failure> {
-        let geometry = parse_geometry(&self.geometry)?;
+        let geometry = self.geometry;
         let Some(dn) = self.dn else {
             return Err(Failure::usage(
                 "give --dn N (0..=10), the number of d electrons",
