@@ -442,8 +442,7 @@ fn band_positions_decide_when_the_count_fits_both_states() {
 
 /// A row's Evans shift with the wrong sign for its magnet geometry: the row names the shift
 /// columns and the column that fixes it (`evans_magnet`), never a command-line option; the same
-/// sample from the command line names the options instead (common practice of CSV tools: a
-/// file's errors speak of its columns).
+/// sample from the command line names the options instead.
 #[test]
 fn batch_errors_name_columns_and_options_name_options() {
     let f = file(
