@@ -20,6 +20,7 @@ use crate::error::{Error, Result};
 use crate::estimate::{
     self, BondChange, Calibration, Reliability, SpinChoice, SpinGeometry, CALIBRATION,
 };
+use crate::param::Param;
 use crate::tables::{
     FieldBasis, Ion, Ligand, Provenance, ReferenceState, Tables, TransitionSeries,
 };
@@ -39,6 +40,13 @@ pub struct LigandCount {
 /// practice), so every later donor sum stays small and cannot wrap.
 pub const MAX_LIGAND_COUNT: usize = 12;
 
+impl std::fmt::Display for LigandCount {
+    /// `NAME:COUNT`, which [`FromStr`] reads back.
+    fn fmt(&self, f: &mut std::fmt::Formatter<'_>) -> std::fmt::Result {
+        write!(f, "{}:{}", self.name, self.count)
+    }
+}
+
 impl FromStr for LigandCount {
     type Err = Error;
 
@@ -48,7 +56,7 @@ impl FromStr for LigandCount {
             Some((n, c)) => {
                 let count: usize = c.trim().parse().map_err(|_| {
                     Error::invalid(
-                        "ligand count",
+                        Param::LigandCount,
                         format!("'{c}' in '{s}'"),
                         "a whole number from 1 to 12 after the colon, as in py:4",
                     )
@@ -59,14 +67,14 @@ impl FromStr for LigandCount {
         };
         if name.is_empty() {
             return Err(Error::invalid(
-                "ligand",
+                Param::Ligand,
                 format!("'{s}'"),
                 "NAME or NAME:COUNT, as in NCS:2",
             ));
         }
         if count == 0 || count > MAX_LIGAND_COUNT {
             return Err(Error::invalid(
-                "ligand count",
+                Param::LigandCount,
                 format!("{count} in '{s}'"),
                 "a whole number from 1 to 12 (a coordination sphere holds at most 12 donor atoms)",
             ));
@@ -274,14 +282,14 @@ impl ComplexSpec {
         let geometry = self.geometry;
         if !geometry.estimable() {
             return Err(Error::invalid(
-                "geometry",
+                Param::Geometry,
                 "tetragonal",
                 "oct, tet or sqpl (a tetragonal field needs Ds and Dt: use `spinstate levels`)",
             ));
         }
         if self.ligands.is_empty() {
             return Err(Error::invalid(
-                "ligands",
+                Param::Ligands,
                 "none",
                 "at least one ligand as NAME[:COUNT], e.g. H2O:6",
             ));
@@ -292,7 +300,7 @@ impl ComplexSpec {
             if !ligand.binds_in(geometry) {
                 let can: Vec<&str> = ligand.binds.iter().map(|g| g.name()).collect();
                 return Err(Error::invalid(
-                    format!("ligand {}", ligand.name),
+                    Param::NamedLigand(ligand.name.clone()),
                     format!(
                         "{} in a {} complex",
                         denticity_word(ligand),
@@ -322,7 +330,7 @@ impl ComplexSpec {
                 .map(|b| format!("{} {} × {}", b.count, b.ligand.name, b.ligand.denticity()))
                 .collect();
             return Err(Error::invalid(
-                "donor-atom count",
+                Param::DonorAtomCount,
                 format!("{donor_count} ({})", parts.join(" + ")),
                 format!("exactly {needed} for {}", geometry.name()),
             ));
@@ -348,9 +356,9 @@ impl ComplexSpec {
 
         // Δ
         for (name, v) in [
-            ("--delta", self.overrides.delta),
-            ("--b", self.overrides.b),
-            ("--c", self.overrides.c),
+            (Param::Delta, self.overrides.delta),
+            (Param::RacahB, self.overrides.b),
+            (Param::RacahC, self.overrides.c),
         ] {
             if let Some(v) = v {
                 if !v.is_finite() || v <= 0.0 || v > 200_000.0 {
@@ -377,10 +385,11 @@ impl ComplexSpec {
             && ion.dn != 10
         {
             return Err(Error::invalid(
-                "Δ",
+                Param::Delta,
                 format!("unknown (no Jørgensen g for {} in ions.csv)", ion.name()),
-                "a measured value: give --delta in cm⁻¹ (e.g. from a band fit), or add g to ions.csv with --data",
-            ));
+                "a measured Δ in cm⁻¹ (e.g. from a band fit), or g added to an edited copy of ions.csv in a data directory",
+            )
+            .needing([Param::DataDir]));
         }
         if back_bonding && self.overrides.delta.is_none() {
             let acceptors: Vec<&str> = bound
@@ -482,19 +491,19 @@ impl ComplexSpec {
             geometry,
         };
         let b_uncertainty = reliability.b();
-        let b = match Parameter::choose(b_estimate, self.overrides.b, b_uncertainty) {
-            Some(p) => p,
-            None if one_electron(ion.dn) || ion.dn == 0 || ion.dn == 10 => {
-                Parameter::nominal(NOMINAL_B)
-            }
-            None => {
-                return Err(Error::invalid(
-                    "B",
+        let b =
+            match Parameter::choose(b_estimate, self.overrides.b, b_uncertainty) {
+                Some(p) => p,
+                None if one_electron(ion.dn) || ion.dn == 0 || ion.dn == 10 => {
+                    Parameter::nominal(NOMINAL_B)
+                }
+                None => return Err(Error::invalid(
+                    Param::RacahB,
                     format!("unknown (no free-ion B0 for {} in ions.csv)", ion.name()),
-                    "a measured value: give --b in cm⁻¹ (and --c, or C/B is taken from the Tanabe–Sugano ratio)",
-                ))
-            }
-        };
+                    "a measured B in cm⁻¹ (and C, or C/B is taken from the Tanabe–Sugano ratio)",
+                )
+                .needing([Param::RacahC])),
+            };
         let c_over_b = match (ion.c0, ion.b0) {
             (Some(c0), Some(b0)) => c0 / b0,
             _ => {

@@ -2,20 +2,27 @@
 
 use thiserror::Error;
 
+pub use crate::param::Param;
+
 /// Everything that can go wrong in spinstate's library code.
 #[derive(Debug, Error, Clone, PartialEq)]
 pub enum Error {
     /// A value given by the user is outside what the model accepts.
     #[error(
         "{} = {} is not accepted: {}",
-        one_line(name),
+        one_line(&param.label()),
         one_line(value),
         one_line(accepted)
     )]
     InvalidParameter {
-        name: String,
+        /// The quantity refused.
+        param: Param,
         value: String,
+        /// What is accepted instead, in words.
         accepted: String,
+        /// Other quantities the user may give to fix it (a caller can name how to set them;
+        /// the message already says it in words).
+        needs: Vec<Param>,
     },
     /// A name (metal, ligand, geometry, element…) is not known.
     #[error("{}", one_line(&unknown_text(.kind, .name, .suggestions)))]
@@ -61,7 +68,7 @@ fn suggestion_text(s: &[String]) -> String {
 impl Error {
     /// Shorthand for [`Error::InvalidParameter`].
     pub fn invalid(
-        name: impl Into<String>,
+        param: Param,
         value: impl std::fmt::Display,
         accepted: impl Into<String>,
     ) -> Self {
@@ -73,9 +80,27 @@ impl Error {
             _ => value,
         };
         Error::InvalidParameter {
-            name: name.into(),
+            param,
             value,
             accepted: accepted.into(),
+            needs: Vec::new(),
+        }
+    }
+
+    /// The same error, naming other quantities that would fix it (see
+    /// [`Error::InvalidParameter`]'s `needs`); other kinds of error are returned unchanged.
+    pub fn needing(mut self, params: impl IntoIterator<Item = Param>) -> Self {
+        if let Error::InvalidParameter { needs, .. } = &mut self {
+            needs.extend(params);
+        }
+        self
+    }
+
+    /// The quantity an [`Error::InvalidParameter`] concerns.
+    pub fn param(&self) -> Option<&Param> {
+        match self {
+            Error::InvalidParameter { param, .. } => Some(param),
+            _ => None,
         }
     }
 
@@ -119,11 +144,11 @@ pub fn num(x: f64) -> String {
 }
 
 /// Rejects NaN and infinities with a one-line message naming the parameter.
-pub fn require_finite(name: &str, value: f64) -> Result<f64> {
+pub fn require_finite(param: Param, value: f64) -> Result<f64> {
     if value.is_finite() {
         Ok(value)
     } else {
-        Err(Error::invalid(name, value, "a finite number"))
+        Err(Error::invalid(param, value, "a finite number"))
     }
 }
 
@@ -183,9 +208,162 @@ mod tests {
         );
     }
 
+    /// The string literals of Rust source `text`, with the line each starts on (comments,
+    /// char literals and lifetimes skipped; raw and byte strings included).
+    fn string_literals(text: &str) -> Vec<(usize, String)> {
+        let c: Vec<char> = text.chars().collect();
+        let (mut i, mut line, mut out) = (0, 1, Vec::new());
+        let count_lines = |s: &[char]| s.iter().filter(|&&x| x == '\n').count();
+        while i < c.len() {
+            let rest = &c[i..];
+            if rest.starts_with(&['/', '/']) {
+                while i < c.len() && c[i] != '\n' {
+                    i += 1;
+                }
+            } else if rest.starts_with(&['/', '*']) {
+                let end = (i + 2..c.len().saturating_sub(1))
+                    .find(|&j| c[j] == '*' && c[j + 1] == '/')
+                    .map_or(c.len(), |j| j + 2);
+                line += count_lines(&c[i..end]);
+                i = end;
+            } else if c[i] == '\'' {
+                // A char literal ('x', '\n', '\u{..}') or a lifetime ('a).
+                let close = if c.get(i + 1) == Some(&'\\') {
+                    (i + 2..c.len()).find(|&j| c[j] == '\'')
+                } else {
+                    (c.get(i + 2) == Some(&'\'')).then_some(i + 2)
+                };
+                i = close.map_or(i + 1, |j| j + 1);
+            } else if c[i] == '"' || (c[i] == 'r' && matches!(c.get(i + 1), Some('"' | '#'))) {
+                let ident_before = i > 0 && (c[i - 1].is_alphanumeric() || c[i - 1] == '_');
+                if c[i] == 'r' && ident_before {
+                    i += 1;
+                    continue;
+                }
+                let start_line = line;
+                let (body_start, end, hashes) = if c[i] == 'r' {
+                    let hashes = c[i + 1..].iter().take_while(|&&x| x == '#').count();
+                    let open = i + 1 + hashes;
+                    if c.get(open) != Some(&'"') {
+                        i += 1;
+                        continue;
+                    }
+                    let closing: Vec<char> = std::iter::once('"')
+                        .chain(std::iter::repeat_n('#', hashes))
+                        .collect();
+                    let end = (open + 1..c.len())
+                        .find(|&j| c[j..].starts_with(&closing))
+                        .unwrap_or(c.len());
+                    (open + 1, end, hashes)
+                } else {
+                    let mut j = i + 1;
+                    while j < c.len() && c[j] != '"' {
+                        j += if c[j] == '\\' { 2 } else { 1 };
+                    }
+                    (i + 1, j.min(c.len()), 0)
+                };
+                let body: String = c[body_start..end].iter().collect();
+                line += count_lines(&c[i..end.min(c.len())]);
+                out.push((start_line, body));
+                i = end + 1 + hashes;
+            } else {
+                if c[i] == '\n' {
+                    line += 1;
+                }
+                i += 1;
+            }
+        }
+        out
+    }
+
+    /// The command-line flags (`--name`) a string literal names. CSS custom properties of the
+    /// HTML report (`var(--ink)`, `{ --ink: …; }`) are not flags.
+    fn flags_in(literal: &str) -> Vec<String> {
+        let c: Vec<char> = literal.chars().collect();
+        let mut found = Vec::new();
+        for i in 0..c.len().saturating_sub(2) {
+            if !(c[i] == '-' && c[i + 1] == '-' && c[i + 2].is_ascii_lowercase()) {
+                continue;
+            }
+            if i > 0 && (c[i - 1].is_alphanumeric() || c[i - 1] == '-') {
+                continue;
+            }
+            let before: String = c[..i].iter().collect();
+            let end = (i + 2..c.len())
+                .find(|&j| !(c[j].is_ascii_alphanumeric() || c[j] == '-'))
+                .unwrap_or(c.len());
+            let declaration = c.get(end) == Some(&':')
+                && matches!(before.trim_end().chars().last(), Some('{' | ';'));
+            if before.ends_with("var(") || declaration {
+                continue;
+            }
+            found.push(c[i..end].iter().collect());
+        }
+        found
+    }
+
+    #[test]
+    fn the_flag_scanner_finds_flags_in_literals_only() {
+        let dashes = "-".repeat(2);
+        let source = format!(
+            "// give {d}dia in a comment\nlet a = \"give {d}dia\";\nlet b = r#\"a {d}molar-mass\"#;\nlet c = '\"'; let d: &'static str = \"x\";\nlet css = \":root {{ {d}ink: #000; }} p {{ color: var({d}ink); }}\";\nlet e = \"{d}formula: bad\";",
+            d = dashes
+        );
+        let flags: Vec<(usize, String)> = string_literals(&source)
+            .into_iter()
+            .flat_map(|(l, s)| flags_in(&s).into_iter().map(move |f| (l, f)))
+            .collect();
+        let want = |l: usize, f: &str| (l, format!("{dashes}{f}"));
+        assert_eq!(
+            flags,
+            vec![want(2, "dia"), want(3, "molar-mass"), want(6, "formula")]
+        );
+    }
+
+    /// Library messages name quantities, never command-line options: the CLI alone maps a
+    /// [`Param`] to its option. Scans every library source file's string literals.
+    #[test]
+    fn library_strings_name_no_command_line_flag() {
+        fn walk(dir: &std::path::Path, files: &mut Vec<std::path::PathBuf>) {
+            for entry in std::fs::read_dir(dir).unwrap() {
+                let path = entry.unwrap().path();
+                if path.is_dir() {
+                    walk(&path, files);
+                } else if path.extension().is_some_and(|e| e == "rs") {
+                    files.push(path);
+                }
+            }
+        }
+        let src = std::path::Path::new(env!("CARGO_MANIFEST_DIR")).join("src");
+        let mut files = Vec::new();
+        walk(&src, &mut files);
+        let library: Vec<_> = files
+            .into_iter()
+            .filter(|p| !p.starts_with(src.join("cli")) && *p != src.join("main.rs"))
+            .collect();
+        assert!(
+            library.len() > 50,
+            "only {} library files found",
+            library.len()
+        );
+        let mut offending = Vec::new();
+        for path in &library {
+            let text = std::fs::read_to_string(path).unwrap();
+            for (line, literal) in string_literals(&text) {
+                for flag in flags_in(&literal) {
+                    offending.push(format!("{}:{line}: {flag}", path.display()));
+                }
+            }
+        }
+        assert!(offending.is_empty(), "{}", offending.join("\n"));
+    }
+
     #[test]
     fn exit_codes() {
         assert_eq!(Error::Computation("x".into()).exit_code(), 1);
-        assert_eq!(Error::invalid("dn", 11, "0..=10").exit_code(), 2);
+        assert_eq!(
+            Error::invalid(Param::DElectronCount, 11, "0..=10").exit_code(),
+            2
+        );
     }
 }

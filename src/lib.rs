@@ -12,6 +12,7 @@ pub mod input_file;
 pub mod least_squares;
 pub mod magnetism;
 pub mod measured;
+pub mod param;
 #[doc = include_str!("manual.md")]
 pub mod manual {}
 pub mod predict;
@@ -24,4 +25,5 @@ pub mod tables;
 pub mod units;
 
 pub use error::{Error, Result};
+pub use param::Param;
 pub mod plot;

@@ -17,6 +17,7 @@ use crate::engine::operators::{angular_momentum, one_body_complex, Axis, DetList
 use crate::engine::shell::shell;
 use crate::engine::{Calculation, SpinOrbitSolution};
 use crate::error::{num, require_finite, Error, Result};
+use crate::param::Param;
 use crate::units;
 use nalgebra::{Complex, DMatrix, SymmetricEigen};
 use std::sync::OnceLock;
@@ -65,19 +66,19 @@ impl MagneticModel {
     }
 
     fn check(&self) -> Result<()> {
-        require_finite("ζ", self.zeta)?;
-        require_finite("κ", self.kappa)?;
-        require_finite("g", self.g_spin)?;
+        require_finite(Param::Zeta, self.zeta)?;
+        require_finite(Param::Kappa, self.kappa)?;
+        require_finite(Param::GFactor, self.g_spin)?;
         if self.zeta < 0.0 {
             return Err(Error::invalid(
-                "ζ",
+                Param::Zeta,
                 self.zeta,
                 "a spin–orbit constant ≥ 0 cm⁻¹",
             ));
         }
         if !(0.0..=1.0).contains(&self.kappa) {
             return Err(Error::invalid(
-                "κ",
+                Param::Kappa,
                 self.kappa,
                 "an orbital reduction factor in 0..=1",
             ));
@@ -86,7 +87,7 @@ impl MagneticModel {
         // practice) and keeps χ finite.
         if !(self.g_spin > 0.0 && self.g_spin <= 10.0) {
             return Err(Error::invalid(
-                "g",
+                Param::GFactor,
                 self.g_spin,
                 "a spin g value in 0 < g ≤ 10",
             ));
@@ -313,7 +314,7 @@ impl ZeemanLevels {
             if (solution.zeta - model.effective_zeta()).abs() > 1e-12 * (1.0 + solution.zeta.abs())
             {
                 return Err(Error::invalid(
-                    "ζ of the eigenstates",
+                    Param::ZetaOfEigenstates,
                     solution.zeta,
                     format!("the model's ζ = {}", model.effective_zeta()),
                 ));
@@ -485,10 +486,10 @@ impl ZeemanLevels {
 
     /// χ, χT and μ_eff at temperature `t` (K > 0).
     pub fn at(&self, t: f64) -> Result<SusceptibilityPoint> {
-        require_finite("temperature", t)?;
+        require_finite(Param::Temperature, t)?;
         if !(MIN_TEMPERATURE..=MAX_TEMPERATURE).contains(&t) {
             return Err(Error::invalid(
-                "temperature",
+                Param::Temperature,
                 format!("{} K", num(t)),
                 format!("{MIN_TEMPERATURE} K ≤ T ≤ {MAX_TEMPERATURE} K"),
             ));
@@ -555,18 +556,18 @@ pub const MAX_POINTS: usize = 100_000;
 
 /// `points` temperatures evenly spaced from `tmin` to `tmax`, both included.
 pub fn temperature_grid(tmin: f64, tmax: f64, points: usize) -> Result<Vec<f64>> {
-    require_finite("tmin", tmin)?;
-    require_finite("tmax", tmax)?;
+    require_finite(Param::LowestTemperature, tmin)?;
+    require_finite(Param::HighestTemperature, tmax)?;
     if tmin < MIN_TEMPERATURE || tmax < tmin || tmax > MAX_TEMPERATURE {
         return Err(Error::invalid(
-            "temperature range",
+            Param::TemperatureRange,
             format!("{}..{} K", num(tmin), num(tmax)),
             format!("0 < tmin ≤ tmax with {MIN_TEMPERATURE} K ≤ T ≤ {MAX_TEMPERATURE} K"),
         ));
     }
     if points == 0 || (points == 1 && tmax != tmin) || points > MAX_POINTS {
         return Err(Error::invalid(
-            "points",
+            Param::Points,
             points,
             format!("2 to {MAX_POINTS} (or 1 when tmin = tmax)"),
         ));

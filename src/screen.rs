@@ -47,6 +47,7 @@ use crate::complex::default_c_over_b;
 use crate::engine::{crossover, Crossover, Geometry};
 use crate::error::{Error, Result};
 use crate::estimate::{self, Calibration, Reliability, SpinGeometry, SpinState, CALIBRATION};
+use crate::param::Param;
 use crate::tables::{FieldBasis, Ion, Ligand, Tables, TransitionSeries};
 use mendeleev::Element;
 use std::cmp::Ordering;
@@ -107,7 +108,7 @@ impl FromStr for Target {
             "crossover" | "sco" => Ok(Target::Crossover),
             "high" | "hs" | "high-spin" => Ok(Target::High),
             "low" | "ls" | "low-spin" => Ok(Target::Low),
-            _ => Err(Error::invalid("target", s, "crossover, high or low")),
+            _ => Err(Error::invalid(Param::Target, s, "crossover, high or low")),
         }
     }
 }
@@ -140,7 +141,7 @@ impl FromStr for SizeRange {
     fn from_str(s: &str) -> Result<Self> {
         let bad = || {
             Error::invalid(
-                "range",
+                Param::SizeRange,
                 format!("'{s}'"),
                 "N or MIN..MAX with whole numbers, MIN ≤ MAX (both included), e.g. 1..2",
             )
@@ -210,13 +211,13 @@ impl FromStr for DonorSet {
         let accepted = "element symbols with counts, e.g. N6 or N4O2";
         let chars: Vec<char> = s.trim().chars().filter(|c| !c.is_whitespace()).collect();
         if chars.is_empty() {
-            return Err(Error::invalid("donor set", "''", accepted));
+            return Err(Error::invalid(Param::DonorSet, "''", accepted));
         }
         let mut counts: Vec<(String, usize)> = Vec::new();
         let mut i = 0;
         while i < chars.len() {
             if !chars[i].is_ascii_uppercase() {
-                return Err(Error::invalid("donor set", format!("'{s}'"), accepted));
+                return Err(Error::invalid(Param::DonorSet, format!("'{s}'"), accepted));
             }
             let mut sym = chars[i].to_string();
             i += 1;
@@ -235,18 +236,18 @@ impl FromStr for DonorSet {
                     .iter()
                     .collect::<String>()
                     .parse()
-                    .map_err(|_| Error::invalid("donor set", format!("'{s}'"), accepted))?
+                    .map_err(|_| Error::invalid(Param::DonorSet, format!("'{s}'"), accepted))?
             };
             if !Element::iter().any(|e| e.symbol() == sym) {
                 return Err(Error::invalid(
-                    "donor set",
+                    Param::DonorSet,
                     format!("'{s}' ('{sym}' is not an element symbol)"),
                     accepted,
                 ));
             }
             if n == 0 {
                 return Err(Error::invalid(
-                    "donor set",
+                    Param::DonorSet,
                     format!("'{s}' (count 0 for {sym})"),
                     accepted,
                 ));
@@ -761,7 +762,7 @@ fn prepare_ion(tables: &Tables, spec: &IonSpec, geometry: Geometry) -> Result<Sc
     let cross = crossover(ion.dn, geometry, c_over_b)?;
     let (Some(xc), Some(slope)) = (cross.delta_over_b, cross.slope) else {
         return Err(Error::invalid(
-            format!("metal {}", ion.name()),
+            Param::MetalIon(ion.name()),
             format!(
                 "d{} in {} (one ground spin at every Δ/B)",
                 ion.dn,
@@ -772,16 +773,16 @@ fn prepare_ion(tables: &Tables, spec: &IonSpec, geometry: Geometry) -> Result<Sc
     };
     let g = ion.g.ok_or_else(|| {
         Error::invalid(
-            format!("metal {}", ion.name()),
+            Param::MetalIon(ion.name()),
             "no Jørgensen g in ions.csv",
-            "an ion with g (`spinstate data ions` lists them), or a --data copy of ions.csv that adds it",
+            "an ion with g (`spinstate data ions` lists them), or an edited copy of ions.csv in a data directory that adds it",
         )
     })?;
     let b0 = ion.b0.ok_or_else(|| {
         Error::invalid(
-            format!("metal {}", ion.name()),
+            Param::MetalIon(ion.name()),
             "no free-ion B0 in ions.csv",
-            "an ion with B0 (`spinstate data ions` lists them), or a --data copy of ions.csv that adds it",
+            "an ion with B0 (`spinstate data ions` lists them), or an edited copy of ions.csv in a data directory that adds it",
         )
     })?;
     let spin_geometry = SpinGeometry::new(&ion, geometry, &cross, &CALIBRATION);
@@ -878,7 +879,7 @@ fn pool_ligand(
     let (h, h_defaulted) = h_used(tables, l);
     if h.is_none() && ion_needs_h {
         return Err(Error::invalid(
-            format!("ligand {}", l.name),
+            Param::NamedLigand(l.name.clone()),
             "no h and no ligand in the table with one to default from",
             "a ligands.csv with Jørgensen h for at least one ligand",
         ));
@@ -917,13 +918,17 @@ impl Screen {
     ) -> Result<Vec<ScreenIon>> {
         if ions.is_empty() {
             return Err(Error::invalid(
-                "metal",
+                Param::Metal,
                 "none",
                 "at least one metal ion, e.g. Fe with oxidation state 2",
             ));
         }
         if !geometry.estimable() {
-            return Err(Error::invalid("geometry", "tetragonal", "oct, tet or sqpl"));
+            return Err(Error::invalid(
+                Param::Geometry,
+                "tetragonal",
+                "oct, tet or sqpl",
+            ));
         }
         let mut out: Vec<ScreenIon> = Vec::new();
         for spec in ions {
@@ -934,7 +939,7 @@ impl Screen {
         }
         if out.len() > u16::MAX as usize {
             return Err(Error::invalid(
-                "metal list",
+                Param::MetalList,
                 out.len(),
                 "at most 65535 ions",
             ));
@@ -946,7 +951,7 @@ impl Screen {
         if let Some(d) = &filters.donors {
             if d.total() != geometry.coordination_number() {
                 return Err(Error::invalid(
-                    "donor set",
+                    Param::DonorSet,
                     format!("{d} ({} donor atoms)", d.total()),
                     format!(
                         "exactly {} donor atoms for {}, e.g. N{}",
@@ -960,7 +965,7 @@ impl Screen {
         if let Some(q) = filters.max_abs_charge {
             if q < 0 {
                 return Err(Error::invalid(
-                    "maximum charge",
+                    Param::MaxCharge,
                     q,
                     "a whole number ≥ 0 (a bound on |charge|)",
                 ));
@@ -982,7 +987,7 @@ impl Screen {
                 None => {
                     if matches!(self.source, Source::Pool) {
                         return Err(Error::invalid(
-                            "required ligand",
+                            Param::RequiredLigand,
                             &l.name,
                             "a ligand of the pool (and not forbidden)",
                         ));
@@ -996,7 +1001,7 @@ impl Screen {
         for l in Self::resolve_names(tables, &self.filters.forbid)? {
             if self.filters.require.iter().any(|r| l.is_called(r)) {
                 return Err(Error::invalid(
-                    "ligand filter",
+                    Param::LigandFilter,
                     format!("{} both required and forbidden", l.name),
                     "each ligand in at most one of the two lists",
                 ));
@@ -1093,7 +1098,7 @@ impl Screen {
         }
         if !problems.is_empty() {
             return Err(Error::invalid(
-                "pool",
+                Param::Pool,
                 problems.join("; "),
                 "ligands with a Jørgensen f that bind in the geometry (`spinstate data ligands` lists them)",
             ));
@@ -1101,14 +1106,14 @@ impl Screen {
         chosen.retain(|l| !forbidden.iter().any(|f| f.name == l.name));
         if chosen.is_empty() {
             return Err(Error::invalid(
-                "pool",
+                Param::Pool,
                 "empty (after removing forbidden ligands)",
                 "at least one ligand name, e.g. H2O,NH3,py,NCS",
             ));
         }
         if chosen.len() > MAX_POOL {
             return Err(Error::invalid(
-                "pool",
+                Param::Pool,
                 format!("{} ligands", chosen.len()),
                 format!("at most {MAX_POOL} ligands"),
             ));
@@ -1139,7 +1144,7 @@ impl Screen {
                 .map(|p| format!("{} ({} sites)", p.ligand.name, p.denticity))
                 .collect();
             return Err(Error::invalid(
-                "pool",
+                Param::Pool,
                 format!(
                     "{} cannot fill the {} donor sites of {}",
                     parts.join(", "),
@@ -1151,7 +1156,7 @@ impl Screen {
         }
         if count > MAX_CANDIDATES {
             return Err(Error::invalid(
-                "pool",
+                Param::Pool,
                 format!("{} ligands give {count} spheres", screen.pool.len()),
                 format!("at most {MAX_CANDIDATES} spheres: use a smaller pool"),
             ));
@@ -1193,7 +1198,7 @@ impl Screen {
         let col = |name: &str| header.iter().position(|h| h.eq_ignore_ascii_case(name));
         let Some(lig_col) = col("ligands") else {
             return Err(Error::invalid(
-                "candidates file header",
+                Param::CandidatesHeader,
                 format!("'{}'", header.iter().collect::<Vec<_>>().join(",")),
                 "a header row with a 'ligands' column (NAME[:COUNT] items separated by spaces or ';') and optionally 'name'",
             ));
@@ -1286,7 +1291,7 @@ impl Screen {
         }
         if rows.is_empty() && errors.is_empty() {
             return Err(Error::invalid(
-                "candidates file",
+                Param::CandidatesFile,
                 "no rows",
                 "a header row and one row per candidate sphere",
             ));
@@ -1300,7 +1305,7 @@ impl Screen {
         used.dedup();
         if used.len() > MAX_POOL {
             return Err(Error::invalid(
-                "candidates file",
+                Param::CandidatesFile,
                 format!("{} distinct ligands", used.len()),
                 format!("at most {MAX_POOL}"),
             ));

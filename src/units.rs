@@ -11,6 +11,7 @@
 //! m³ mol⁻¹; χ_M(SI) = 4π×10⁻⁶ χ_M(cgs).
 
 use crate::error::{closest_names, Error, Result};
+use crate::param::Param;
 use std::f64::consts::PI;
 use std::fmt;
 use std::str::FromStr;
@@ -179,7 +180,7 @@ pub fn volume_si_to_cgs(kappa: f64) -> f64 {
 pub fn mu_eff_from_chi_t(chi_t: f64, units: SusceptibilityUnits) -> Result<f64> {
     if !chi_t.is_finite() || chi_t < 0.0 {
         return Err(Error::invalid(
-            "χ_M·T",
+            Param::ChiMT,
             chi_t,
             "a finite value ≥ 0 (a negative χ_M·T has no real effective moment)",
         ));
@@ -216,7 +217,7 @@ pub fn unpaired_from_moment(mu_eff: f64) -> f64 {
 pub fn cm1_nm(x: f64) -> Result<f64> {
     if !x.is_finite() || x <= 0.0 {
         return Err(Error::invalid(
-            "wavenumber or wavelength",
+            Param::Wavenumber,
             x,
             "a finite value > 0 (cm⁻¹ or nm)",
         ));

@@ -28,6 +28,7 @@ use crate::engine::Geometry;
 use crate::error::{closest_names, Error, Result};
 use crate::measured::evans::{EvansInput, MagnetGeometry, Shift, SolventTerms};
 use crate::measured::Measured;
+use crate::param::Param;
 use crate::spectra::count::{DEFAULT_RESOLUTION, DEFAULT_WINDOW_NM};
 
 /// Columns every file needs.
@@ -230,7 +231,7 @@ impl<R: std::io::Read> BatchReader<R> {
             .map(|h| h.to_lowercase())
             .collect();
         if header.iter().all(String::is_empty) {
-            return Err(Error::invalid("input file", "empty", accepted()));
+            return Err(Error::invalid(Param::InputFile, "empty", accepted()));
         }
         let known: Vec<&str> = REQUIRED.iter().chain(OPTIONAL.iter()).copied().collect();
         for (i, h) in header.iter().enumerate() {
@@ -249,7 +250,7 @@ impl<R: std::io::Read> BatchReader<R> {
             }
             if header[..i].contains(h) {
                 return Err(Error::invalid(
-                    "column",
+                    Param::Column,
                     format!("'{h}' twice"),
                     "each column once",
                 ));
@@ -262,7 +263,7 @@ impl<R: std::io::Read> BatchReader<R> {
             .collect();
         if !missing.is_empty() {
             return Err(Error::invalid(
-                "input file",
+                Param::InputFile,
                 format!("missing column(s) {}", missing.join(", ")),
                 accepted(),
             ));
@@ -284,7 +285,7 @@ impl<R: std::io::Read> BatchReader<R> {
         }
         if self.rows == 0 {
             return Err(Error::invalid(
-                "input file",
+                Param::InputFile,
                 "a header without rows",
                 "one sample per row below the header",
             ));
@@ -682,15 +683,15 @@ pub fn parse_window(s: &str) -> Option<(f64, f64)> {
 pub fn columns_of(e: &CheckError) -> String {
     match e.part {
         Part::Complex => complex_column(&e.error).to_string(),
-        Part::Evans => match parameter_name(&e.error).as_str() {
-            "shift" => "evans_shift_ppm, evans_shift_hz".into(),
-            "spectrometer frequency" => "evans_freq_mhz".into(),
-            "concentration" => "evans_conc".into(),
-            "temperature" => "evans_temp".into(),
+        Part::Evans => match e.error.param() {
+            Some(Param::Shift) => "evans_shift_ppm, evans_shift_hz".into(),
+            Some(Param::SpectrometerFrequency) => "evans_freq_mhz".into(),
+            Some(Param::Concentration) => "evans_conc".into(),
+            Some(Param::Temperature) => "evans_temp".into(),
             _ => "evans_shift_ppm, evans_shift_hz, evans_conc, evans_temp".into(),
         },
-        Part::Moment => match parameter_name(&e.error).as_str() {
-            "temperature" => "moment_temp".into(),
+        Part::Moment => match e.error.param() {
+            Some(Param::Temperature) => "moment_temp".into(),
             _ => "mu_eff, chi_m, chi_m_t".into(),
         },
         Part::Bands => "bands".into(),
@@ -700,35 +701,50 @@ pub fn columns_of(e: &CheckError) -> String {
     }
 }
 
-fn parameter_name(e: &Error) -> String {
-    match e {
-        Error::InvalidParameter { name, .. } => name.to_lowercase(),
-        _ => String::new(),
-    }
+/// The batch column that sets `param` in `part` of a sample, when one does: how a caller names
+/// what an error [`needs`](Error::InvalidParameter).
+pub fn column_of(part: Part, param: &Param) -> Option<&'static str> {
+    Some(match (part, param) {
+        (_, Param::Delta) => "delta",
+        (_, Param::RacahB) => "b",
+        (_, Param::RacahC) => "c",
+        (_, Param::Dia) => "dia",
+        (_, Param::Magnet) => "evans_magnet",
+        (_, Param::SpectrometerFrequency) => "evans_freq_mhz",
+        (_, Param::Concentration) => "evans_conc",
+        (_, Param::ChiMT) => "chi_m_t",
+        (_, Param::MuEff) => "mu_eff",
+        (_, Param::ChiM) => "chi_m",
+        (_, Param::BondLength) => "bond_length",
+        (Part::Evans, Param::Temperature) => "evans_temp",
+        (Part::Moment, Param::Temperature) => "moment_temp",
+        (Part::Bands, Param::Temperature) => "band_temp",
+        (Part::BondLength | Part::Structure, Param::Temperature) => "structure_temp",
+        _ => return None,
+    })
 }
 
 fn complex_column(e: &Error) -> &'static str {
     match e {
         Error::Unknown { kind, .. } if kind.starts_with("metal") => "metal",
         Error::Unknown { kind, .. } if kind.starts_with("ligand") => "ligands",
-        Error::InvalidParameter { name, .. } => {
-            let n = name.to_lowercase();
-            if n.starts_with("oxidation") {
-                "ox"
-            } else if n.starts_with("--delta") || n == "δ" {
-                "delta"
-            } else if n.starts_with("--b") || n == "b" {
-                "b"
-            } else if n.starts_with("--c") || n == "c" {
-                "c"
-            } else if n.contains("ligand") || n.contains("donor") {
-                "ligands"
-            } else if n.contains("geometry") {
-                "geometry"
-            } else {
-                "metal, ox, geometry, ligands"
-            }
-        }
+        Error::InvalidParameter { param, .. } => match param {
+            Param::OxidationState(_) => "ox",
+            Param::Delta => "delta",
+            Param::RacahB => "b",
+            Param::RacahC => "c",
+            Param::Ligand
+            | Param::NamedLigand(_)
+            | Param::LigandCount
+            | Param::Ligands
+            | Param::DonorAtomCount
+            | Param::DonorSet
+            | Param::DonorAssignment
+            | Param::RequiredLigand
+            | Param::LigandFilter => "ligands",
+            Param::Geometry => "geometry",
+            _ => "metal, ox, geometry, ligands",
+        },
         _ => "metal, ox, geometry, ligands",
     }
 }

@@ -8,8 +8,7 @@ pub const INTRO: &str =
 of the fictional Tallowmere Institute screens new iron(II) and cobalt(II) complexes for a \
 thermochromic sensor, which needs a complex that changes spin state near room temperature. \
 For each candidate the group has some of: an Evans-method shift in solution, a magnetometer value \
-on the solid, the d–d band maxima, and the mean metal–donor bond length of a crystal structure. \
-`spinstate check --input data/demo/samples.csv` gives the same table.";
+on the solid, the d–d band maxima, and the mean metal–donor bond length of a crystal structure.";
 
 /// The sample sheet (the layout of `spinstate check --input`).
 pub const SAMPLES: &str = include_str!("../../data/demo/samples.csv");

@@ -10,6 +10,7 @@ use crate::error::{Error, Result};
 use crate::measured::compare::{self, ComplexSpec as MomentSpec, SpinOrbit, StateExpectation};
 use crate::measured::evans::{self, EvansInput};
 use crate::measured::{Measured, MomentResult};
+use crate::param::Param;
 use crate::predict::{Prediction, SpinState};
 use crate::spectra::count::{count_bands, CountRequest};
 use crate::spectra::fit::{fit_bands, FitRequest};
@@ -250,7 +251,7 @@ pub fn moment(
     complex: &ResolvedComplex,
     ranges: &MomentRangeTable,
 ) -> Result<Evidence> {
-    let t = Measured::new("temperature", input.temperature, 0.0)?;
+    let t = Measured::new(Param::Temperature, input.temperature, 0.0)?;
     let r = match input.quantity {
         MomentQuantity::ChiM => MomentResult::from_chi(input.value, input.dia, t)?,
         MomentQuantity::ChiMT => MomentResult::from_chi_t(input.value, input.dia, t)?,
@@ -274,14 +275,18 @@ pub fn bands(
 ) -> Result<Evidence> {
     if input.maxima.is_empty() {
         return Err(Error::invalid(
-            "bands",
+            Param::Bands,
             "none",
             "one or more band maxima in cm⁻¹, e.g. \"11800 17200\"",
         ));
     }
     for &m in &input.maxima {
         if !m.is_finite() || m <= 0.0 {
-            return Err(Error::invalid("band maximum", m, "a wavenumber > 0 cm⁻¹"));
+            return Err(Error::invalid(
+                Param::BandMaximum,
+                m,
+                "a wavenumber > 0 cm⁻¹",
+            ));
         }
     }
     let window_cm = (1e7 / input.window_nm.1, 1e7 / input.window_nm.0);
@@ -485,9 +490,9 @@ pub fn curve(
     let pts = &input.points;
     if pts.len() < 2 {
         return Err(Error::invalid(
-            "χ_M·T curve",
+            Param::ChiMTCurve,
             format!("{} point(s) in {}", pts.len(), input.source),
-            "at least two temperatures (for one, use --chi-m-t with --moment-temp)",
+            "at least two temperatures (for one, give χ_M·T with its temperature as a magnetometer value)",
         ));
     }
     let t_lo = pts.iter().map(|p| p.t).fold(f64::INFINITY, f64::min);
@@ -626,14 +631,14 @@ pub fn bond_length(
     let (lo, hi) = crate::tables::bond_lengths::SENSIBLE_A;
     if !x.is_finite() || !(lo..=hi).contains(&x) {
         return Err(Error::invalid(
-            "bond length",
+            Param::BondLength,
             format!("{x} Å"),
             format!("a mean metal–donor distance in {lo}..={hi} Å"),
         ));
     }
     if !u.is_finite() || u < 0.0 {
         return Err(Error::invalid(
-            "uncertainty of the bond length",
+            Param::Uncertainty(Box::new(Param::BondLength)),
             format!("{u} Å"),
             "a value ≥ 0 Å",
         ));

@@ -1,6 +1,6 @@
 //! `spinstate bands`: which spin-allowed bands each spin state puts in a spectrometer window.
 
-use super::common::{load_tables, parse_geometry, ComplexArgs, Format};
+use super::common::{load_tables, ComplexArgs, Format};
 use super::fit_bands::SAFETY;
 use super::{Failure, Output};
 use spinstate::report::bands::BandsReport;
@@ -19,8 +19,8 @@ pub struct Args {
     #[command(flatten)]
     pub complex: ComplexArgs,
     /// Geometry: oct, tet, sqpl or tetragonal.
-    #[arg(long, value_name = "G")]
-    pub geometry: String,
+    #[arg(long, value_name = "G", value_parser = super::common::parsed::<spinstate::engine::Geometry>)]
+    pub geometry: spinstate::engine::Geometry,
     /// Racah B in cm⁻¹ (required without --metal).
     #[arg(long, value_name = "CM-1", allow_hyphen_values = true)]
     pub b: Option<f64>,
@@ -84,7 +84,7 @@ fn parse_window(s: &str) -> Result<(f64, f64), Failure> {
 }
 
 pub fn run(args: &Args, data: Option<&std::path::Path>) -> Result<Output, Failure> {
-    let geometry = parse_geometry(&args.geometry)?;
+    let geometry = args.geometry;
     // From a complex: d^n and estimates of Δ, B, C (each replaced by a value given here).
     let complex = args.complex.resolve(geometry, data)?;
     let dn = match (&complex, args.dn) {

@@ -36,8 +36,8 @@ pub struct Args {
     /// Geometry: oct, tet, sqpl, sqpy (square pyramid) or tbp (trigonal bipyramid). With
     /// --structure it may be left out: the structure's field is then the prediction (and the
     /// closest named shape is used for Δ/B); given, both predictions are listed.
-    #[arg(long, value_name = "G")]
-    pub geometry: Option<String>,
+    #[arg(long, value_name = "G", value_parser = super::common::parsed::<spinstate::engine::Geometry>)]
+    pub geometry: Option<spinstate::engine::Geometry>,
     /// A crystal structure (.cif) or coordinates (.xyz) of the complex: its bond lengths become
     /// evidence and the field at its geometry a prediction. Needs --ox and --ligand; the metal
     /// is the structure's. Replaces --bond-length (give one of the two).
@@ -46,8 +46,8 @@ pub struct Args {
     #[command(flatten)]
     pub centre: super::structure::CentreArgs,
     /// A ligand, NAME[:COUNT] (repeatable), as in `predict`.
-    #[arg(long = "ligand", value_name = "NAME[:COUNT]")]
-    pub ligands: Vec<String>,
+    #[arg(long = "ligand", value_name = "NAME[:COUNT]", value_parser = super::common::parsed::<spinstate::complex::LigandCount>)]
+    pub ligands: Vec<spinstate::complex::LigandCount>,
     /// Measured Δ in cm⁻¹ (instead of the f·g estimate).
     #[arg(long, value_name = "CM-1", allow_hyphen_values = true)]
     pub delta: Option<f64>,
@@ -166,6 +166,28 @@ fn option_of(column: &str) -> String {
     }
 }
 
+/// " (options: …)" or " (columns: …)" naming how to set what a check error needs (batch columns or the options
+/// named after them, by `name`); empty when it needs nothing.
+fn needed(e: &spinstate::check::CheckError, word: &str, name: impl Fn(&str) -> String) -> String {
+    let spinstate::Error::InvalidParameter { needs, .. } = &e.error else {
+        return String::new();
+    };
+    let mut names: Vec<String> = Vec::new();
+    for p in needs {
+        if let Some(c) = batch::column_of(e.part, p) {
+            let n = name(c);
+            if !names.contains(&n) {
+                names.push(n);
+            }
+        }
+    }
+    if names.is_empty() {
+        String::new()
+    } else {
+        format!(" ({word}: {})", names.join(", "))
+    }
+}
+
 impl Args {
     /// The options as (column, value) pairs of the batch layout.
     fn fields(&self) -> Vec<(&'static str, String)> {
@@ -173,8 +195,20 @@ impl Args {
             ("name", "command line".into()),
             ("metal", self.metal.clone().unwrap_or_default()),
             ("ox", self.ox.map(|o| o.to_string()).unwrap_or_default()),
-            ("geometry", self.geometry.clone().unwrap_or_default()),
-            ("ligands", self.ligands.join(" ")),
+            (
+                "geometry",
+                self.geometry
+                    .map(|g| g.name().to_string())
+                    .unwrap_or_default(),
+            ),
+            (
+                "ligands",
+                self.ligands
+                    .iter()
+                    .map(ToString::to_string)
+                    .collect::<Vec<_>>()
+                    .join(" "),
+            ),
         ];
         let num = |x: Option<f64>| x.map(|v| v.to_string());
         let optional: [(&'static str, Option<String>); 26] = [
@@ -248,7 +282,7 @@ fn read_structure_input(
         }
     }
     let geometry = match (&args.geometry, centre.named_geometry()) {
-        (Some(g), _) => g.clone(),
+        (Some(g), _) => g.name().to_string(),
         (None, Some(g)) => g.name().to_string(),
         (None, None) => {
             return Err(Failure::usage(format!(
@@ -460,7 +494,7 @@ fn check_sample(
             row,
             name: Some(name),
             column: batch::columns_of(&e),
-            message: e.to_string().replace("--magnet", "evans_magnet"),
+            message: format!("{}{}", e.error, needed(&e, "columns", str::to_string)),
         }),
     }
 }
@@ -708,10 +742,12 @@ pub fn run(args: &Args, data: Option<&Path>) -> Result<Output, Failure> {
     let result = check(&sample.input, loaded.tables()).map_err(|e| Failure {
         code: e.error.exit_code(),
         message: format!(
-            "{}: {}",
+            "{}: {}{}",
             option_of(&batch::columns_of(&e)),
-            e.error.to_string().replace("--magnet", "--evans-magnet")
+            e.error,
+            needed(&e, "options", option_of)
         ),
+        error: None,
     })?;
     let report = CheckReport::new(&result, None, None).with_safety();
     let one_csv = || BatchReport::new(vec![report.clone()], Vec::new()).to_csv();
@@ -734,4 +770,42 @@ pub fn run(args: &Args, data: Option<&Path>) -> Result<Output, Failure> {
         out.warnings.push(write_html(&page, file)?);
     }
     Ok(out)
+}
+
+#[cfg(test)]
+mod tests {
+    use super::*;
+    use spinstate::check::Part;
+    use spinstate::Param;
+
+    /// The options of `check` are named after the batch columns: a quantity's column and its
+    /// option agree wherever both exist.
+    #[test]
+    fn flags_of_check_follow_the_batch_columns() {
+        let mut compared = 0;
+        for part in [Part::Complex, Part::Evans, Part::Moment, Part::Bands] {
+            for p in [
+                Param::Delta,
+                Param::RacahB,
+                Param::RacahC,
+                Param::Dia,
+                Param::Magnet,
+                Param::SpectrometerFrequency,
+                Param::Concentration,
+                Param::ChiMT,
+                Param::ChiM,
+                Param::MuEff,
+                Param::BondLength,
+            ] {
+                if let (Some(column), Some(flag)) = (
+                    batch::column_of(part, &p),
+                    super::super::common::flag_of(&p, super::super::common::Cmd::Check),
+                ) {
+                    assert_eq!(option_of(column), flag, "{p:?}");
+                    compared += 1;
+                }
+            }
+        }
+        assert!(compared >= 40, "{compared}");
+    }
 }

@@ -1,8 +1,10 @@
 //! Options shared by several commands, declared once.
 
 use super::Failure;
+use spinstate::complex::LigandCount;
 use spinstate::engine::{Calculation, Geometry};
 use spinstate::tables::Tables;
+use spinstate::Param;
 use std::borrow::Cow;
 use std::path::Path;
 
@@ -21,8 +23,8 @@ pub struct FieldArgs {
     #[arg(long, value_name = "N")]
     pub dn: Option<usize>,
     /// Geometry: oct, tet, sqpl or tetragonal.
-    #[arg(long, value_name = "G")]
-    pub geometry: String,
+    #[arg(long, value_name = "G", value_parser = parsed::<Geometry>)]
+    pub geometry: Geometry,
     /// Racah B in cm⁻¹ (needs --c).
     #[arg(long, value_name = "CM-1", allow_hyphen_values = true)]
     pub b: Option<f64>,
@@ -93,8 +95,8 @@ pub struct ComplexArgs {
     #[arg(long, value_name = "N", allow_hyphen_values = true, requires = "metal")]
     pub ox: Option<i32>,
     /// A ligand, NAME[:COUNT] (repeatable; e.g. --ligand NCS:2 --ligand py:4).
-    #[arg(long = "ligand", value_name = "NAME[:COUNT]", requires = "metal")]
-    pub ligands: Vec<String>,
+    #[arg(long = "ligand", value_name = "NAME[:COUNT]", requires = "metal", value_parser = parsed::<LigandCount>)]
+    pub ligands: Vec<LigandCount>,
 }
 
 impl ComplexArgs {
@@ -179,18 +181,12 @@ pub fn resolve_complex(
     metal: &str,
     ox: i32,
     geometry: Geometry,
-    ligands: &[String],
+    ligands: &[LigandCount],
     data: Option<&Path>,
 ) -> Result<spinstate::complex::ResolvedComplex, Failure> {
-    use spinstate::complex::{ComplexSpec, LigandCount, Overrides};
+    use spinstate::complex::{ComplexSpec, Overrides};
     let tables = load_tables(data)?;
-    let ligands = ligands
-        .iter()
-        .map(|l| {
-            l.parse::<LigandCount>()
-                .map_err(|e| Failure::usage(format!("--ligand: {e}")))
-        })
-        .collect::<Result<Vec<_>, _>>()?;
+    let ligands = ligands.to_vec();
     let spec = ComplexSpec {
         metal: metal.to_string(),
         oxidation_state: ox,
@@ -201,10 +197,13 @@ pub fn resolve_complex(
     Ok(spec.resolve(&tables)?)
 }
 
-/// Parses a geometry name into a failure with exit code 2.
-pub fn parse_geometry(s: &str) -> Result<Geometry, Failure> {
-    s.parse::<Geometry>()
-        .map_err(|e| Failure::usage(format!("--geometry: {e}")))
+/// A clap value parser through the library's `FromStr` (`value_parser = parsed::<Geometry>`):
+/// a bad value fails while the arguments are parsed, with the library's one-line message.
+pub fn parsed<T>(s: &str) -> Result<T, String>
+where
+    T: std::str::FromStr<Err = spinstate::Error>,
+{
+    s.parse::<T>().map_err(|e| e.to_string())
 }
 
 impl FieldArgs {
@@ -272,7 +271,7 @@ impl FieldArgs {
 
     /// Checks the combination of options and builds the calculation.
     pub fn resolve(&self) -> Result<Resolved, Failure> {
-        let geometry = parse_geometry(&self.geometry)?;
+        let geometry = self.geometry;
         let Some(dn) = self.dn else {
             return Err(Failure::usage(
                 "give --dn N (0..=10), the number of d electrons",
@@ -352,5 +351,209 @@ impl FieldArgs {
             zeta,
             ratio_mode,
         })
+    }
+}
+
+/// A command, as far as its option names are concerned.
+#[derive(Debug, Clone, Copy, PartialEq, Eq)]
+pub enum Cmd {
+    Levels,
+    Diagram,
+    Crossover,
+    Evans,
+    Moment,
+    Magnetism,
+    Predict,
+    Screen,
+    Data,
+    FitBands,
+    Bands,
+    Check,
+    Demo,
+    ScoFit,
+    ScoCurve,
+    Structure,
+}
+
+/// The option of `cmd` that sets `param`, when exactly one does. The one place that maps the
+/// library's quantities to option names: library messages never name an option.
+pub fn flag_of(param: &Param, cmd: Cmd) -> Option<&'static str> {
+    use Cmd::*;
+    // Commands that take a complex as --metal/--ox/--ligand (ComplexArgs or their own).
+    let composition = matches!(
+        cmd,
+        Predict | Check | Screen | Magnetism | Diagram | Bands | FitBands | ScoFit | Evans | Moment
+    );
+    // Commands with the ligand-field options of FieldArgs or their own --b/--c.
+    let field = matches!(cmd, Levels | Magnetism | Predict | Check | Bands | Diagram);
+    let measured = matches!(cmd, Evans | Moment);
+    Some(match param {
+        Param::DataDir => "--data",
+        Param::Metal | Param::MetalIon(_) | Param::MetalList if composition => "--metal",
+        Param::OxidationState(_) if composition || cmd == Structure => "--ox",
+        Param::Geometry if cmd != Structure && cmd != Data && cmd != Demo => "--geometry",
+        Param::Ligand
+        | Param::NamedLigand(_)
+        | Param::LigandCount
+        | Param::Ligands
+        | Param::DonorAtomCount
+            if composition && cmd != Screen =>
+        {
+            "--ligand"
+        }
+        Param::Delta if matches!(cmd, Predict | Check | Bands) => "--delta",
+        Param::RacahB if field => "--b",
+        Param::RacahC if field => "--c",
+        Param::FixedB if cmd == FitBands => "--b",
+        Param::FreeIonB if cmd == FitBands => "--b0",
+        Param::COverB
+            if matches!(
+                cmd,
+                Levels | Magnetism | Diagram | Crossover | Bands | FitBands
+            ) =>
+        {
+            "--c-over-b"
+        }
+        Param::DeltaOverB if matches!(cmd, Levels | Magnetism | Diagram) => "--delta-over-b",
+        Param::MaxDeltaOverB if cmd == Diagram => "--max",
+        Param::Dq if matches!(cmd, Levels | Magnetism | Bands) || measured => "--dq",
+        Param::DElectronCount
+            if matches!(
+                cmd,
+                Levels | Diagram | Crossover | Magnetism | Bands | FitBands | ScoFit
+            ) || measured =>
+        {
+            "--dn"
+        }
+        Param::Zeta if matches!(cmd, Levels | Magnetism) || measured => "--zeta",
+        Param::Lambda if measured => "--lambda",
+        Param::Kappa if cmd == Magnetism => "--kappa",
+        Param::GFactor if cmd == Magnetism => "--g",
+        Param::Points if matches!(cmd, Magnetism | Diagram | ScoCurve) => "--points",
+        Param::LowestTemperature if matches!(cmd, Magnetism | ScoCurve) => "--tmin",
+        Param::HighestTemperature if matches!(cmd, Magnetism | ScoCurve) => "--tmax",
+        Param::Temperature if measured => "--temp",
+        // Evans method
+        Param::SpectrometerFrequency if cmd == Evans => "--freq-mhz",
+        Param::SpectrometerFrequency if cmd == Check => "--evans-freq-mhz",
+        Param::Concentration if cmd == Evans => "--conc",
+        Param::Concentration if cmd == Check => "--evans-conc",
+        Param::Magnet if matches!(cmd, Evans | ScoFit) => "--magnet",
+        Param::Magnet if cmd == Check => "--evans-magnet",
+        Param::SoluteMass if cmd == Evans => "--mass",
+        Param::SolutionVolume if cmd == Evans => "--volume",
+        Param::SolventChi if cmd == Evans => "--solvent-chi",
+        Param::SolventChi if cmd == ScoFit => "--chi0",
+        Param::SolventDensity if cmd == Evans => "--solvent-density",
+        Param::SolutionDensity if cmd == Evans => "--solution-density",
+        // Magnetometer and diamagnetic correction
+        Param::Dia if measured || matches!(cmd, Check | ScoFit) => "--dia",
+        Param::Formula | Param::PascalFormula if measured => "--formula",
+        Param::MolarMass if measured => "--molar-mass",
+        Param::Field if cmd == Moment => "--field",
+        Param::Background if cmd == Moment => "--background",
+        Param::SampleMass if cmd == Moment => "--sample-mass",
+        Param::ChiM if cmd == Moment => "--chi",
+        Param::ChiM if cmd == Check => "--chi-m",
+        Param::ChiMT if cmd == Moment => "--chi-t",
+        Param::ChiMT if cmd == Check => "--chi-m-t",
+        Param::MuEff if matches!(cmd, Moment | Check) => "--mu-eff",
+        // Spin transitions
+        Param::Enthalpy if cmd == ScoCurve => "--dh",
+        Param::Entropy if cmd == ScoCurve => "--ds",
+        Param::Cooperativity if cmd == ScoCurve => "--gamma",
+        Param::ResidualFraction if matches!(cmd, ScoCurve | ScoFit) => "--residual",
+        Param::ChiMTOfState("high-spin") if matches!(cmd, ScoCurve | ScoFit) => "--chit-hs",
+        Param::ChiMTOfState("low-spin") if matches!(cmd, ScoCurve | ScoFit) => "--chit-ls",
+        Param::Curve | Param::InputFile if matches!(cmd, ScoFit | Check) => "--input",
+        // Bands
+        Param::Bands | Param::Band | Param::BandPosition(_) | Param::NumberOfBands
+            if cmd == FitBands =>
+        {
+            "--bands"
+        }
+        Param::Bands | Param::BandMaximum if cmd == Check => "--bands",
+        Param::SpinForbiddenBand if cmd == FitBands => "--forbidden",
+        Param::FitC if cmd == FitBands => "--fit-c",
+        Param::Spin if cmd == FitBands => "--spin",
+        Param::Window if cmd == Bands => "--window",
+        Param::Resolution if cmd == Bands => "--resolution",
+        Param::ChargeTransferOnset if cmd == Bands => "--ct-onset",
+        Param::BondLength if cmd == Check => "--bond-length",
+        // Structures
+        Param::Cutoff if cmd == Structure => "--cutoff",
+        Param::MetalIndex if cmd == Structure => "--metal-index",
+        // Screening
+        Param::Target if cmd == Screen => "--target",
+        Param::DonorSet if cmd == Screen => "--donors",
+        Param::MaxCharge if cmd == Screen => "--max-charge",
+        Param::RequiredLigand if cmd == Screen => "--require",
+        Param::Pool if cmd == Screen => "--pool",
+        Param::CandidatesFile | Param::CandidatesHeader if cmd == Screen => "--candidates",
+        _ => return None,
+    })
+}
+
+/// A library error as one line for `cmd`: the option that sets the refused quantity first,
+/// and the options of the quantities that would fix it last.
+pub fn render_error(e: &spinstate::Error, cmd: Cmd) -> String {
+    let text = e.to_string();
+    let spinstate::Error::InvalidParameter { param, needs, .. } = e else {
+        return text;
+    };
+    let mut line = match flag_of(param, cmd) {
+        Some(flag) => format!("{flag}: {text}"),
+        None => text,
+    };
+    let mut flags: Vec<&str> = Vec::new();
+    for p in needs {
+        if let Some(f) = flag_of(p, cmd) {
+            if !flags.contains(&f) {
+                flags.push(f);
+            }
+        }
+    }
+    if !flags.is_empty() {
+        line.push_str(&format!(" (options: {})", flags.join(", ")));
+    }
+    line
+}
+
+#[cfg(test)]
+mod tests {
+    use super::*;
+    use spinstate::Error;
+
+    #[test]
+    fn errors_name_the_option_of_the_command() {
+        let e = Error::invalid(Param::Delta, -5, "a value in cm⁻¹ above 0");
+        assert_eq!(
+            render_error(&e, Cmd::Predict),
+            "--delta: Δ = -5 is not accepted: a value in cm⁻¹ above 0"
+        );
+        // A command without such an option keeps the library's words.
+        assert_eq!(
+            render_error(&e, Cmd::Levels),
+            "Δ = -5 is not accepted: a value in cm⁻¹ above 0"
+        );
+        let e = Error::invalid(Param::Shift, "-0.4 ppm", "a positive shift")
+            .needing([Param::Magnet, Param::Magnet]);
+        assert_eq!(
+            render_error(&e, Cmd::Evans),
+            "shift = -0.4 ppm is not accepted: a positive shift (options: --magnet)"
+        );
+        assert!(render_error(&e, Cmd::Check).ends_with("(options: --evans-magnet)"));
+    }
+
+    #[test]
+    fn the_same_quantity_has_each_commands_own_option() {
+        assert_eq!(flag_of(&Param::Magnet, Cmd::Evans), Some("--magnet"));
+        assert_eq!(flag_of(&Param::Magnet, Cmd::Check), Some("--evans-magnet"));
+        assert_eq!(flag_of(&Param::FixedB, Cmd::FitBands), Some("--b"));
+        assert_eq!(flag_of(&Param::RacahB, Cmd::Crossover), None);
+        assert_eq!(
+            flag_of(&Param::OxidationState("Fe".into()), Cmd::Screen),
+            Some("--ox")
+        );
     }
 }

@@ -1,6 +1,6 @@
 //! `spinstate crossover`: the Δ/B where the ground-state spin changes.
 
-use super::common::{parse_geometry, Format};
+use super::common::Format;
 use super::{Failure, Output};
 use spinstate::engine::{crossover, tanabe_sugano_c_over_b, Geometry};
 use spinstate::report::crossover::{CrossoverReport, CrossoverRow};
@@ -12,8 +12,8 @@ pub struct Args {
     #[arg(long, value_name = "N")]
     pub dn: Option<usize>,
     /// Geometry: oct, tet, sqpl or tetragonal.
-    #[arg(long, value_name = "G", default_value = "oct")]
-    pub geometry: String,
+    #[arg(long, value_name = "G", default_value = "oct", value_parser = super::common::parsed::<spinstate::engine::Geometry>)]
+    pub geometry: spinstate::engine::Geometry,
     /// C/B ratio; default: the ratio of the original Tanabe–Sugano diagram for each d^n.
     #[arg(long, value_name = "R", allow_hyphen_values = true)]
     pub c_over_b: Option<f64>,
@@ -22,7 +22,7 @@ pub struct Args {
 }
 
 pub fn run(args: &Args) -> Result<Output, Failure> {
-    let geometry: Geometry = parse_geometry(&args.geometry)?;
+    let geometry: Geometry = args.geometry;
     let dns: Vec<usize> = match args.dn {
         Some(n) if n > 10 => return Err(Failure::usage(format!("--dn {n} is outside 0..=10"))),
         Some(n) => vec![n],

@@ -21,13 +21,18 @@ pub struct Args {
     pub format: Format,
 }
 
+/// The scenario's introduction with how to run the same sheet by hand.
+fn intro() -> String {
+    format!("{INTRO} `spinstate check --input data/demo/samples.csv` gives the same table.")
+}
+
 pub fn run(args: &Args, data: Option<&Path>) -> Result<Output, Failure> {
     let (report, bad, sections) = run_batch_with(SAMPLES, None, data, args.html.is_some())?;
     let mut notes = Vec::new();
     if let Some(file) = &args.html {
         let page = html::page(
             "Spin-state demo: the invented Tallowmere screening set",
-            Some(INTRO),
+            Some(&intro()),
             &sections,
             &report.errors,
             SAFETY,
@@ -38,9 +43,10 @@ pub fn run(args: &Args, data: Option<&Path>) -> Result<Output, Failure> {
         to_json(&report)
     } else {
         format!(
-            "{INTRO}\n\n{}\nWhere each sample sits against the spin crossover (the mean Δ̄/B of its two spin states, \
+            "{}\n\n{}\nWhere each sample sits against the spin crossover (the mean Δ̄/B of its two spin states, \
 each at its own bond length, estimated or measured, against the engine's crossover for its d^n and C/B; \
 the estimate's uncertainty is wide, so near the crossover this is a guide):\n{}\n{SAFETY}\n",
+            intro(),
             report.to_table(),
             report.crossover_table()
         )

@@ -1,6 +1,6 @@
 //! `spinstate diagram`: E/B of every level against Δ/B, optionally with a sample marked on it.
 
-use super::common::{emit, parse_geometry, ComplexArgs, Format, Renderings};
+use super::common::{emit, ComplexArgs, Format, Renderings};
 use super::figure::{write_png, FigureArgs};
 use super::{Failure, Output};
 use spinstate::engine::diagram;
@@ -17,8 +17,8 @@ pub struct Args {
     #[arg(long, value_name = "N")]
     pub dn: Option<usize>,
     /// Geometry: oct, tet, sqpl or tetragonal.
-    #[arg(long, value_name = "G")]
-    pub geometry: String,
+    #[arg(long, value_name = "G", value_parser = super::common::parsed::<spinstate::engine::Geometry>)]
+    pub geometry: spinstate::engine::Geometry,
     /// C/B ratio (e.g. 4.8 for d6 as in the original diagrams; with --metal the complex's own).
     #[arg(long, value_name = "R", allow_hyphen_values = true)]
     pub c_over_b: Option<f64>,
@@ -74,7 +74,7 @@ pub fn run(args: &Args, data: Option<&Path>) -> Result<Output, Failure> {
         args.svg.is_some(),
         &[(args.highlight_spins, "--highlight-spins")],
     )?;
-    let geometry = parse_geometry(&args.geometry)?;
+    let geometry = args.geometry;
     let complex = args.complex.resolve(geometry, data)?;
     let prediction = match &complex {
         Some(c) => Some(predict(c)?),

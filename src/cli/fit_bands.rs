@@ -1,6 +1,6 @@
 //! `spinstate fit-bands`: fit Dq, B (and C) to observed band maxima.
 
-use super::common::{load_tables, parse_geometry, Format};
+use super::common::{load_tables, parsed, Format};
 use super::{Failure, Output};
 use spinstate::engine::Geometry;
 use spinstate::report::fit_bands::{Context, FitBandsReport};
@@ -29,8 +29,8 @@ pub struct Args {
     pub ox: Option<i32>,
     /// Geometry: oct, tet or sqpl; tetragonal fits Dq, Ds and Dt (and B where the bands allow)
     /// to split bands of a tetragonally distorted or trans-[MX2L4] centre (at least three bands).
-    #[arg(long, value_name = "G")]
-    pub geometry: String,
+    #[arg(long, value_name = "G", value_parser = super::common::parsed::<spinstate::engine::Geometry>)]
+    pub geometry: spinstate::engine::Geometry,
     /// Observed d–d band maxima, comma-separated, in --units (e.g. 17400,24600,37800).
     #[arg(long, value_name = "LIST", allow_hyphen_values = true)]
     pub bands: String,
@@ -41,11 +41,11 @@ pub struct Args {
     #[arg(long, value_name = "LIST", allow_hyphen_values = true)]
     pub forbidden: Option<String>,
     /// Unit of --bands: cm-1, nm, kK or eV.
-    #[arg(long, value_name = "UNIT", default_value = "cm-1")]
-    pub units: String,
+    #[arg(long, value_name = "UNIT", default_value = "cm-1", value_parser = parsed::<EnergyUnit>)]
+    pub units: EnergyUnit,
     /// Spin state to assume: high, low or auto (try each and keep the best consistent fit).
-    #[arg(long, value_name = "S", default_value = "auto")]
-    pub spin: String,
+    #[arg(long, value_name = "S", default_value = "auto", value_parser = parsed::<SpinChoice>)]
+    pub spin: SpinChoice,
     /// Hold C/B at this ratio (default: the Tanabe–Sugano ratio for d2–d8).
     #[arg(
         long,
@@ -73,7 +73,7 @@ pub struct Args {
 }
 
 pub fn run(args: &Args, data: Option<&Path>) -> Result<Output, Failure> {
-    let geometry = parse_geometry(&args.geometry)?;
+    let geometry = args.geometry;
     // The ion, when named: d^n, B0 (with its table source) and a handling caution.
     let tables = match (&args.metal, args.ox) {
         (Some(_), Some(_)) => Some(load_tables(data)?),
@@ -100,14 +100,8 @@ pub fn run(args: &Args, data: Option<&Path>) -> Result<Output, Failure> {
             "--dn {dn} is outside 1..=9 (d0 and d10 have no d–d bands)"
         )));
     }
-    let unit: EnergyUnit = args
-        .units
-        .parse()
-        .map_err(|e| Failure::usage(format!("--units: {e}")))?;
-    let spin: SpinChoice = args
-        .spin
-        .parse()
-        .map_err(|e| Failure::usage(format!("--spin: {e}")))?;
+    let unit = args.units;
+    let spin = args.spin;
     let bands =
         parse_bands(&args.bands, unit).map_err(|e| Failure::usage(format!("--bands: {e}")))?;
     let forbidden = match &args.forbidden {
@@ -140,13 +134,7 @@ pub fn run(args: &Args, data: Option<&Path>) -> Result<Output, Failure> {
             b0,
             patience: Some(args.max_evaluations),
         };
-        let out = fit_tetragonal(&req).map_err(|e| {
-            let mut f = Failure::from(e);
-            if f.code == 2 && f.message.contains("hold B") {
-                f.message.push_str(" (option --b)");
-            }
-            f
-        })?;
+        let out = fit_tetragonal(&req)?;
         let mut report = TetragonalFitReport::new(&out, unit, b0, args.b.is_some());
         if let Some(c) = ion.and_then(|i| i.caution.as_ref()) {
             report.notes.push(format!(
@@ -174,16 +162,7 @@ pub fn run(args: &Args, data: Option<&Path>) -> Result<Output, Failure> {
     if args.max_evaluations == 0 {
         return Err(Failure::usage("--max-evaluations 0 must be at least 1"));
     }
-    let out = fit_bands(&req).map_err(|e| {
-        let mut f = Failure::from(e.clone());
-        if f.code == 2 && f.message.contains("hold B fixed") {
-            f.message.push_str(" (option --b)");
-        } else if f.code == 2 && f.message.contains("hold C/B fixed") {
-            f.message
-                .push_str(" (drop --fit-c; --c-over-b sets the ratio)");
-        }
-        f
-    })?;
+    let out = fit_bands(&req)?;
     let b0 = match (args.b0, ion) {
         (Some(b0), _) => Some((b0, "given with --b0".to_string())),
         (None, Some(ion)) => ion.b0.map(|b0| {

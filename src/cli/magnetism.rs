@@ -79,7 +79,7 @@ pub fn run(args: &Args, data: Option<&Path>) -> Result<Output, Failure> {
         ],
     )?;
     let mut notes = Vec::new();
-    let geometry = super::common::parse_geometry(&args.field.geometry)?;
+    let geometry = args.field.geometry;
     let field = match args.complex.resolve(geometry, data)? {
         Some(complex) => {
             let (field, complex_notes) = args.field.completed_by(&complex)?;

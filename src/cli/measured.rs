@@ -84,11 +84,14 @@ impl DiaArgs {
             pascal::rough_correction(mw)?
         } else if let Some(f) = &formula {
             let table = PascalTable::load(data)?;
-            pascal::pascal_sum(f, &table).map_err(|e| Failure::usage(format!("--formula: {e}")))?
+            pascal::pascal_sum(f, &table).map_err(|e| match e {
+                e @ spinstate::Error::InvalidParameter { .. } => Failure::from(e),
+                e => Failure::usage(format!("--formula: {e}")),
+            })?
         } else {
             DiamagneticCorrection::none()
         };
-        let dia_measured = Measured::new("χ_D", dia.value, self.dia_err)?;
+        let dia_measured = Measured::new(spinstate::Param::Dia, dia.value, self.dia_err)?;
         Ok(Resolved {
             dia,
             dia_measured,
@@ -126,8 +129,8 @@ pub struct CompareArgs {
     )]
     pub dn: Option<usize>,
     /// Geometry for the comparison: oct, tet, sqpl or tetragonal.
-    #[arg(long, value_name = "G")]
-    pub geometry: Option<String>,
+    #[arg(long, value_name = "G", value_parser = super::common::parsed::<spinstate::engine::Geometry>)]
+    pub geometry: Option<spinstate::engine::Geometry>,
     /// Dq in cm⁻¹ (Δ = 10Dq; Δt/10 for tet), for the A/E-term spin–orbit correction.
     #[arg(
         long,
@@ -174,7 +177,7 @@ impl CompareArgs {
             }
             return Ok(None);
         };
-        let geometry: Geometry = super::common::parse_geometry(g)?;
+        let geometry: Geometry = *g;
         let mut zeta = self.zeta;
         let mut dq = self.dq;
         let mut dq_low_spin = None;

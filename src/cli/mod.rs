@@ -81,6 +81,9 @@ pub enum Command {
 pub struct Failure {
     pub code: u8,
     pub message: String,
+    /// The library error it came from, kept until [`run`] renders it with the options of the
+    /// command ([`common::render_error`]).
+    pub error: Option<Box<spinstate::Error>>,
 }
 
 impl Failure {
@@ -88,7 +91,16 @@ impl Failure {
         Failure {
             code: 2,
             message: message.into(),
+            error: None,
         }
+    }
+
+    /// The message, with the command's options named when it came from a library error.
+    fn rendered(mut self, cmd: common::Cmd) -> Self {
+        if let Some(e) = self.error.take() {
+            self.message = common::render_error(&e, cmd);
+        }
+        self
     }
 }
 
@@ -97,6 +109,7 @@ impl From<spinstate::Error> for Failure {
         Failure {
             code: e.exit_code(),
             message: e.to_string(),
+            error: Some(Box::new(e)),
         }
     }
 }
@@ -136,12 +149,37 @@ pub fn run(cli: Cli) -> Result<Output, Failure> {
         Command::Levels(_) | Command::Diagram(_) | Command::Crossover(_) | Command::ScoCurve(_)
     );
     let data_unused = cli.data.is_some() && reads_no_table;
-    let mut out = dispatch(cli)?;
+    let cmd = Command::name_of(&cli.command);
+    let mut out = dispatch(cli).map_err(|f| f.rendered(cmd))?;
     if data_unused {
         out.warnings
             .push("note: --data is not used by this command (it reads no data table)".into());
     }
     Ok(out)
+}
+
+impl Command {
+    fn name_of(c: &Command) -> common::Cmd {
+        use common::Cmd;
+        match c {
+            Command::Levels(_) => Cmd::Levels,
+            Command::Diagram(_) => Cmd::Diagram,
+            Command::Crossover(_) => Cmd::Crossover,
+            Command::Evans(_) => Cmd::Evans,
+            Command::Moment(_) => Cmd::Moment,
+            Command::Magnetism(_) => Cmd::Magnetism,
+            Command::Predict(_) => Cmd::Predict,
+            Command::Screen(_) => Cmd::Screen,
+            Command::Data(_) => Cmd::Data,
+            Command::FitBands(_) => Cmd::FitBands,
+            Command::Bands(_) => Cmd::Bands,
+            Command::Check(_) => Cmd::Check,
+            Command::Demo(_) => Cmd::Demo,
+            Command::ScoFit(_) => Cmd::ScoFit,
+            Command::ScoCurve(_) => Cmd::ScoCurve,
+            Command::Structure(_) => Cmd::Structure,
+        }
+    }
 }
 
 fn dispatch(cli: Cli) -> Result<Output, Failure> {

@@ -1,7 +1,7 @@
 //! `spinstate predict`: spin state, ground term, moments and bands of a complex from its
 //! composition.
 
-use super::common::{load_tables, parse_geometry, Format};
+use super::common::{load_tables, Format};
 use super::{Failure, Output};
 use spinstate::complex::{ComplexSpec, LigandCount, Overrides};
 use spinstate::engine::Geometry;
@@ -23,8 +23,8 @@ pub struct Args {
     pub ox: i32,
     /// Geometry: oct, tet, sqpl, sqpy (square pyramid) or tbp (trigonal bipyramid). With
     /// --structure it defaults to the centre's closest shape.
-    #[arg(long, value_name = "G", required_unless_present = "structure")]
-    pub geometry: Option<String>,
+    #[arg(long, value_name = "G", required_unless_present = "structure", value_parser = super::common::parsed::<spinstate::engine::Geometry>)]
+    pub geometry: Option<spinstate::engine::Geometry>,
     /// Use the field of a real centre: a crystal structure (.cif) or coordinates (.xyz). The
     /// ligands are still needed: each donor atom is assigned to a ligand by its element.
     #[arg(long, value_name = "FILE")]
@@ -33,8 +33,8 @@ pub struct Args {
     pub centre: super::structure::CentreArgs,
     /// A ligand and how many of it are bound, NAME[:COUNT] (repeatable; e.g. --ligand NCS:2
     /// --ligand py:4). The donor atoms must fill the geometry exactly.
-    #[arg(long = "ligand", value_name = "NAME[:COUNT]", required = true)]
-    pub ligands: Vec<String>,
+    #[arg(long = "ligand", value_name = "NAME[:COUNT]", required = true, value_parser = super::common::parsed::<LigandCount>)]
+    pub ligands: Vec<LigandCount>,
     /// Measured Δ in cm⁻¹ to use instead of the estimate (Δo for oct, Δt for tet, the
     /// octahedral 10Dq of the same ligands for sqpl).
     #[arg(long, value_name = "CM-1", allow_hyphen_values = true)]
@@ -56,19 +56,12 @@ impl Args {
     /// The complex described by the options; `default_geometry` is used when --geometry is
     /// not given.
     pub fn spec_in(&self, default_geometry: Option<Geometry>) -> Result<ComplexSpec, Failure> {
-        let ligands = self
-            .ligands
-            .iter()
-            .map(|l| {
-                l.parse::<LigandCount>()
-                    .map_err(|e| Failure::usage(format!("--ligand: {e}")))
-            })
-            .collect::<Result<Vec<_>, _>>()?;
+        let ligands = self.ligands.clone();
         Ok(ComplexSpec {
             metal: self.metal.clone(),
             oxidation_state: self.ox,
             geometry: match (&self.geometry, default_geometry) {
-                (Some(g), _) => parse_geometry(g)?,
+                (Some(g), _) => *g,
                 (None, Some(g)) => g,
                 (None, None) => {
                     return Err(Failure::usage(
@@ -151,6 +144,17 @@ pub fn run(args: &Args, data: Option<&Path>) -> Result<Output, Failure> {
     Ok(Output::text(if args.format.json {
         to_json(&report)
     } else {
-        report.to_table()
+        let mut table = report.to_table();
+        let omitted = [
+            Some(&report.bands_high_spin),
+            report.bands_low_spin.as_ref(),
+        ]
+        .into_iter()
+        .flatten()
+        .any(|s| s.omitted > 0);
+        if omitted {
+            table.push_str("note: --all lists the bands above the window too\n");
+        }
+        table
     }))
 }

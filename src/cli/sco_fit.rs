@@ -1,6 +1,6 @@
 //! `spinstate sco-fit`: fit a spin transition to χ_M·T(T) or variable-temperature Evans data.
 
-use super::common::{emit, load_tables, parse_geometry, Format, Renderings};
+use super::common::{emit, load_tables, Format, Renderings};
 use super::{Failure, Output};
 use spinstate::measured::evans::MagnetGeometry;
 use spinstate::report::sco::{FitReport, TransitionPlot};
@@ -45,8 +45,8 @@ pub struct Args {
     #[arg(long, value_name = "N", conflicts_with = "metal")]
     pub dn: Option<usize>,
     /// Geometry for the pure-state ranges.
-    #[arg(long, value_name = "G", default_value = "oct")]
-    pub geometry: String,
+    #[arg(long, value_name = "G", default_value = "oct", value_parser = super::common::parsed::<spinstate::engine::Geometry>)]
+    pub geometry: spinstate::engine::Geometry,
     /// Diamagnetic correction χ_D (cm³/mol, ≤ 0) subtracted from χ_M (χ_M files and Evans).
     #[arg(
         long,
@@ -56,8 +56,8 @@ pub struct Args {
     )]
     pub dia: f64,
     /// Evans: magnet geometry (solenoid, the default, or transverse).
-    #[arg(long, value_name = "M")]
-    pub magnet: Option<String>,
+    #[arg(long, value_name = "M", value_parser = super::common::parsed::<MagnetGeometry>)]
+    pub magnet: Option<MagnetGeometry>,
     /// Evans: mass susceptibility of the solvent (cm³/g) for the solvent term.
     #[arg(long, value_name = "CM3/G", allow_hyphen_values = true)]
     pub chi0: Option<f64>,
@@ -100,12 +100,7 @@ pub fn run(args: &Args, data: Option<&Path>) -> Result<Output, Failure> {
         )));
     }
     let curve = if args.evans {
-        let magnet: MagnetGeometry = args
-            .magnet
-            .as_deref()
-            .unwrap_or("solenoid")
-            .parse()
-            .map_err(|e| Failure::usage(format!("--magnet: {e}")))?;
+        let magnet = args.magnet.unwrap_or(MagnetGeometry::Solenoid);
         read_evans_series(
             &text,
             &EvansSeries {
@@ -117,7 +112,7 @@ pub fn run(args: &Args, data: Option<&Path>) -> Result<Output, Failure> {
     } else {
         read_curve(&text, args.dia)?
     };
-    let geometry = parse_geometry(&args.geometry)?;
+    let geometry = args.geometry;
     let (dn, zeta) = match (&args.metal, args.ox, args.dn) {
         (Some(m), Some(ox), _) => {
             let tables = load_tables(data)?;

@@ -1,6 +1,6 @@
 //! `spinstate screen`: rank candidate coordination spheres by their distance to the crossover.
 
-use super::common::{load_tables, parse_geometry, Format};
+use super::common::{load_tables, parsed, Format};
 use super::{Failure, Output};
 use indicatif::{ProgressBar, ProgressStyle};
 use spinstate::report::screen::{write_csv, ScreenReport};
@@ -21,8 +21,8 @@ pub struct Args {
     #[arg(long, value_name = "N", allow_hyphen_values = true)]
     pub ox: Option<i32>,
     /// Geometry: oct, tet or sqpl.
-    #[arg(long, value_name = "G")]
-    pub geometry: String,
+    #[arg(long, value_name = "G", value_parser = super::common::parsed::<spinstate::engine::Geometry>)]
+    pub geometry: spinstate::engine::Geometry,
     /// Ligands to combine, comma-separated (e.g. H2O,NH3,py,NCS,CN,en); `all` adds every ligand
     /// with a Jørgensen f that binds in the geometry. Every multiset whose donor atoms fill the
     /// geometry is screened.
@@ -35,8 +35,8 @@ pub struct Args {
     pub candidates: Option<PathBuf>,
     /// What to rank for: crossover (closest to the crossover), high or low (safely high- or
     /// low-spin).
-    #[arg(long, value_name = "T", default_value = "crossover")]
-    pub target: String,
+    #[arg(long, value_name = "T", default_value = "crossover", value_parser = parsed::<Target>)]
+    pub target: Target,
     /// Keep the best N (default: 20 for the table; every candidate for --json and --csv).
     #[arg(long, value_name = "N")]
     pub top: Option<usize>,
@@ -51,14 +51,14 @@ pub struct Args {
     #[arg(long, value_name = "Q", allow_hyphen_values = true)]
     pub max_charge: Option<i32>,
     /// Exact donor-atom set, e.g. N6 or N4O2.
-    #[arg(long, value_name = "SET")]
-    pub donors: Option<String>,
+    #[arg(long, value_name = "SET", value_parser = parsed::<DonorSet>)]
+    pub donors: Option<DonorSet>,
     /// Number of ligands bound, N or MIN..MAX (a chelate counts once), e.g. 2..4.
-    #[arg(long, value_name = "RANGE")]
-    pub size: Option<String>,
+    #[arg(long, value_name = "RANGE", value_parser = parsed::<SizeRange>)]
+    pub size: Option<SizeRange>,
     /// Number of distinct ligands, N or MIN..MAX, e.g. 1..2.
-    #[arg(long, value_name = "RANGE")]
-    pub kinds: Option<String>,
+    #[arg(long, value_name = "RANGE", value_parser = parsed::<SizeRange>)]
+    pub kinds: Option<SizeRange>,
     /// Write the ranked list as CSV to FILE ('-' for stdout).
     #[arg(long, value_name = "FILE")]
     pub csv: Option<PathBuf>,
@@ -99,28 +99,13 @@ impl Args {
     }
 
     fn filters(&self) -> Result<Filters, Failure> {
-        let range = |opt: &str, v: &Option<String>| -> Result<Option<SizeRange>, Failure> {
-            v.as_deref()
-                .map(|s| {
-                    s.parse::<SizeRange>()
-                        .map_err(|e| Failure::usage(format!("--{opt}: {e}")))
-                })
-                .transpose()
-        };
         Ok(Filters {
             require: clean(&self.require),
             forbid: clean(&self.forbid),
             max_abs_charge: self.max_charge,
-            donors: self
-                .donors
-                .as_deref()
-                .map(|s| {
-                    s.parse::<DonorSet>()
-                        .map_err(|e| Failure::usage(format!("--donors: {e}")))
-                })
-                .transpose()?,
-            size: range("size", &self.size)?,
-            kinds: range("kinds", &self.kinds)?,
+            donors: self.donors.clone(),
+            size: self.size,
+            kinds: self.kinds,
         })
     }
 }
@@ -147,11 +132,8 @@ fn progress_bar(total: u64) -> ProgressBar {
 
 pub fn run(args: &Args, data: Option<&Path>) -> Result<Output, Failure> {
     let tables = load_tables(data)?;
-    let geometry = parse_geometry(&args.geometry)?;
-    let target: Target = args
-        .target
-        .parse()
-        .map_err(|e| Failure::usage(format!("--target: {e}")))?;
+    let geometry = args.geometry;
+    let target = args.target;
     if args.top == Some(0) {
         return Err(Failure::usage("--top 0: give N ≥ 1"));
     }

@@ -5,6 +5,7 @@ use super::field::LigandField;
 use super::geometry::Geometry;
 use super::levels::Calculation;
 use crate::error::{require_finite, Error, Result};
+use crate::param::Param;
 use std::collections::HashMap;
 use std::sync::{Mutex, OnceLock};
 
@@ -131,16 +132,16 @@ fn ground_state(dn: usize, geometry: Geometry, c_over_b: f64, x: f64) -> Result<
 /// change of ground-state spin, and refines the root of E_HS − E_LS by bisection followed by
 /// the Illinois variant of regula falsi to |ΔX| < 1e-9.
 pub fn crossover(dn: usize, geometry: Geometry, c_over_b: f64) -> Result<Crossover> {
-    require_finite("C/B", c_over_b)?;
+    require_finite(Param::COverB, c_over_b)?;
     if c_over_b <= 0.0 {
         return Err(Error::invalid(
-            "C/B",
+            Param::COverB,
             c_over_b,
             "a ratio > 0 (usually 3.5–5)",
         ));
     }
     if dn > 10 {
-        return Err(Error::invalid("d-electron count", dn, "0..=10"));
+        return Err(Error::invalid(Param::DElectronCount, dn, "0..=10"));
     }
     let key = (dn, geometry, c_over_b.to_bits());
     if let Some(hit) = cache().lock().ok().and_then(|c| c.get(&key).cloned()) {

@@ -6,6 +6,7 @@ use super::geometry::Geometry;
 use super::levels::Calculation;
 use super::projection::Projection;
 use crate::error::{require_finite, Error, Result};
+use crate::param::Param;
 
 /// One level followed across the diagram.
 #[derive(Debug, Clone, PartialEq)]
@@ -96,12 +97,16 @@ fn diagram_with(
     points: usize,
     project: bool,
 ) -> Result<Diagram> {
-    require_finite("maximum Δ/B", max)?;
+    require_finite(Param::MaxDeltaOverB, max)?;
     if max <= 0.0 {
-        return Err(Error::invalid("maximum Δ/B", max, "a value > 0 (e.g. 40)"));
+        return Err(Error::invalid(
+            Param::MaxDeltaOverB,
+            max,
+            "a value > 0 (e.g. 40)",
+        ));
     }
     if points < 2 {
-        return Err(Error::invalid("points", points, "at least 2"));
+        return Err(Error::invalid(Param::Points, points, "at least 2"));
     }
     let group = geometry.point_group(0.0, 0.0);
     let at = |x: f64| -> Result<Calculation> {

@@ -4,6 +4,7 @@
 use super::field::{LigandField, DS_MIXING};
 use super::symmetry::PointGroup;
 use crate::error::{closest_names, Error, Result};
+use crate::param::Param;
 use nalgebra::Vector3;
 use std::fmt;
 use std::str::FromStr;
@@ -68,7 +69,7 @@ impl Geometry {
         let no_ds_dt = || {
             if ds != 0.0 || dt != 0.0 {
                 return Err(Error::invalid(
-                    "Ds/Dt",
+                    Param::DsDt,
                     format!("{ds}/{dt}"),
                     format!(
                         "zero for {} (Ds and Dt apply to oct, tetragonal and sqpl)",

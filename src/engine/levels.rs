@@ -9,6 +9,7 @@ use super::hermitian::{add_field, add_scaled, eigen_unsorted, eigenvalues};
 use super::shell::{shell, Shell, SpinBlock};
 use super::symmetry::{Characters, PointGroup};
 use crate::error::{num, require_finite, Error, Result};
+use crate::param::Param;
 use nalgebra::{Complex, DMatrix, SMatrix};
 use std::collections::HashMap;
 use std::sync::{Mutex, OnceLock};
@@ -122,26 +123,26 @@ impl Calculation {
     /// A checked calculation. `dn` must lie in 0..=10, B > 0, C ≥ 0, all finite.
     pub fn new(dn: usize, b: f64, c: f64, field: LigandField, group: PointGroup) -> Result<Self> {
         if dn > 10 {
-            return Err(Error::invalid("d-electron count", dn, "0..=10"));
+            return Err(Error::invalid(Param::DElectronCount, dn, "0..=10"));
         }
-        require_finite("B", b)?;
-        require_finite("C", c)?;
+        require_finite(Param::RacahB, b)?;
+        require_finite(Param::RacahC, c)?;
         // B also sets the tolerances and the small shifts that separate terms: a subnormal or
         // vanishing B would make them underflow to zero.
         if b < MIN_B {
             return Err(Error::invalid(
-                "B",
+                Param::RacahB,
                 b,
                 "a Racah B > 0 cm⁻¹ and at least 1e-100 (usually 100–1200)",
             ));
         }
         if c < 0.0 {
-            return Err(Error::invalid("C", c, "a Racah C ≥ 0 cm⁻¹"));
+            return Err(Error::invalid(Param::RacahC, c, "a Racah C ≥ 0 cm⁻¹"));
         }
         const LIMIT: f64 = MAX_ENERGY;
         if b > LIMIT || c > LIMIT || field.magnitude() > LIMIT {
             return Err(Error::invalid(
-                "B, C or field",
+                Param::EnergyScale,
                 format!(
                     "B = {}, C = {}, largest field element {}",
                     num(b),
@@ -153,7 +154,7 @@ impl Calculation {
         }
         if field.matrix.iter().any(|x| !x.is_finite()) {
             return Err(Error::invalid(
-                "ligand field",
+                Param::LigandField,
                 "a non-finite matrix element",
                 "finite values in cm⁻¹",
             ));

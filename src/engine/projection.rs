@@ -16,6 +16,7 @@ use super::levels::{assemble, Calculation, ParentTable, RawLevel, Spectrum};
 use super::shell::shell;
 use super::symmetry::PointGroup;
 use crate::error::{Error, Result};
+use crate::param::Param;
 use nalgebra::DMatrix;
 use std::sync::OnceLock;
 
@@ -61,7 +62,7 @@ impl Projection {
             PointGroup::C1 => return Ok(None),
         };
         if dn > 10 {
-            return Err(Error::invalid("d-electron count", dn, "0..=10"));
+            return Err(Error::invalid(Param::DElectronCount, dn, "0..=10"));
         }
         Ok(CACHE[dn][gi]
             .get_or_init(|| Self::build(dn, group))

@@ -13,6 +13,7 @@ use super::levels::Calculation;
 use super::shell::{shell, SpinOrbitBlock};
 use super::symmetry::{double_group_labels, Characters, PointGroup, Rotation};
 use crate::error::{require_finite, Error, Result};
+use crate::param::Param;
 use nalgebra::{Complex, DMatrix};
 
 type C64 = Complex<f64>;
@@ -153,10 +154,10 @@ impl Calculation {
 
     /// Every eigenstate with spin–orbit coupling ζ Σ l·s (ζ in cm⁻¹, ≥ 0).
     pub fn spin_orbit(&self, zeta: f64) -> Result<SpinOrbitSolution> {
-        require_finite("ζ", zeta)?;
+        require_finite(Param::Zeta, zeta)?;
         if !(0.0..=super::levels::MAX_ENERGY).contains(&zeta) {
             return Err(Error::invalid(
-                "ζ",
+                Param::Zeta,
                 zeta,
                 "a one-electron spin–orbit constant from 0 to 1e12 cm⁻¹ (free ions: ≈ 100–5000)",
             ));

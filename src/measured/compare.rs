@@ -22,6 +22,7 @@ use super::Measured;
 use crate::engine::levels::L_LETTERS;
 use crate::engine::{Calculation, Geometry};
 use crate::error::{Error, Result};
+use crate::param::Param;
 use crate::tables::moment_ranges::MomentRangeTable;
 
 /// C/B used to find the ground terms (a typical 3d value; the ground terms do not depend on it
@@ -215,7 +216,7 @@ fn zeta_of(spec: &ComplexSpec, two_s_high: i32) -> Result<Option<f64>> {
         Some(SpinOrbit::Zeta(z)) => {
             if !z.is_finite() || z <= 0.0 {
                 return Err(Error::invalid(
-                    "ζ",
+                    Param::Zeta,
                     format!("{z} cm⁻¹"),
                     "a one-electron spin–orbit constant > 0 cm⁻¹",
                 ));
@@ -225,22 +226,23 @@ fn zeta_of(spec: &ComplexSpec, two_s_high: i32) -> Result<Option<f64>> {
         Some(SpinOrbit::Lambda(l)) => {
             if !l.is_finite() || l == 0.0 {
                 return Err(Error::invalid(
-                    "λ",
+                    Param::Lambda,
                     format!("{l} cm⁻¹"),
                     "a non-zero finite λ in cm⁻¹",
                 ));
             }
             if spec.dn == 5 || two_s_high == 0 {
                 return Err(Error::invalid(
-                    "λ",
+                    Param::Lambda,
                     format!("{l} cm⁻¹ for d{}", spec.dn),
-                    "--zeta instead: λ = ±ζ/2S is undefined for a half-full shell or S = 0",
-                ));
+                    "ζ instead: λ = ±ζ/2S is undefined for a half-full shell or S = 0",
+                )
+                .needing([Param::Zeta]));
             }
             let expected_positive = spec.dn < 5;
             if (l > 0.0) != expected_positive {
                 return Err(Error::invalid(
-                    "λ",
+                    Param::Lambda,
                     format!("{l} cm⁻¹ for d{}", spec.dn),
                     format!(
                         "a {} λ: λ = {}ζ/2S for a shell {} half full",
@@ -308,12 +310,12 @@ pub fn expectations(
     ranges: &MomentRangeTable,
 ) -> Result<Vec<StateExpectation>> {
     if spec.dn > 10 {
-        return Err(Error::invalid("d-electron count", spec.dn, "0..=10"));
+        return Err(Error::invalid(Param::DElectronCount, spec.dn, "0..=10"));
     }
     for dq in [spec.dq, spec.dq_low_spin].into_iter().flatten() {
         if !dq.is_finite() || dq <= 0.0 {
             return Err(Error::invalid(
-                "Dq",
+                Param::Dq,
                 format!("{dq} cm⁻¹"),
                 "a Dq > 0 cm⁻¹ (Δ = 10Dq)",
             ));
@@ -371,7 +373,7 @@ pub fn expectations(
                 level.label()
             )),
             Orbital::SecondOrder { alpha } if alpha > 0.0 && spin_orbit_corrected.is_none() => notes.push(
-                "A/E term: give --dq and --zeta (or --lambda) for the spin–orbit corrected value".into(),
+                "A/E term: give Dq and ζ (or λ) for the spin–orbit corrected value".into(),
             ),
             _ => {}
         }
@@ -606,22 +608,22 @@ mod tests {
     #[test]
     fn verdicts() {
         let e = || expectations(&spec(6, Geometry::Octahedral, None, None), &ranges()).unwrap();
-        let c = compare(Measured::new("mu", 5.3, 0.1).unwrap(), e());
+        let c = compare(Measured::new(Param::MuEff, 5.3, 0.1).unwrap(), e());
         assert_eq!(c.verdict, Verdict::Supports(0));
         assert!(c.message.contains("high-spin state"));
-        let c = compare(Measured::new("mu", 0.2, 0.1).unwrap(), e());
+        let c = compare(Measured::new(Param::MuEff, 0.2, 0.1).unwrap(), e());
         assert_eq!(c.verdict, Verdict::Supports(1));
-        let c = compare(Measured::new("mu", 3.5, 0.1).unwrap(), e());
+        let c = compare(Measured::new(Param::MuEff, 3.5, 0.1).unwrap(), e());
         assert_eq!(c.verdict, Verdict::Between);
         assert!(c.message.contains("crossover"));
-        let c = compare(Measured::new("mu", 7.5, 0.1).unwrap(), e());
+        let c = compare(Measured::new(Param::MuEff, 7.5, 0.1).unwrap(), e());
         assert_eq!(c.verdict, Verdict::Outside);
         assert!(c.message.contains("above") && c.message.contains("concentration"));
         // d8 octahedral has one spin state only.
         let d8 = expectations(&spec(8, Geometry::Octahedral, None, None), &ranges()).unwrap();
         assert_eq!(d8.len(), 1);
         assert_eq!(d8[0].state, "only spin state");
-        let c = compare(Measured::new("mu", 1.0, 0.1).unwrap(), d8);
+        let c = compare(Measured::new(Param::MuEff, 1.0, 0.1).unwrap(), d8);
         assert_eq!(c.verdict, Verdict::Outside);
         assert!(c.message.contains("below"));
     }

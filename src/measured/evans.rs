@@ -30,6 +30,7 @@
 
 use super::{Measured, MomentResult};
 use crate::error::{Error, Result};
+use crate::param::Param;
 use std::f64::consts::PI;
 use std::fmt;
 use std::str::FromStr;
@@ -108,7 +109,7 @@ impl Shift {
             Shift::Hertz { shift, freq_mhz } => {
                 if !freq_mhz.is_finite() || freq_mhz <= 0.0 {
                     return Err(Error::invalid(
-                        "spectrometer frequency",
+                        Param::SpectrometerFrequency,
                         format!("{freq_mhz} MHz"),
                         "a frequency > 0 MHz (e.g. 400)",
                     ));
@@ -191,11 +192,11 @@ pub fn concentration_from_mass(
     volume_ml: Measured,
     molar_mass: f64,
 ) -> Result<Measured> {
-    let mass_mg = mass_mg.require_positive("mass of solute", "mg")?;
-    let volume_ml = volume_ml.require_positive("solution volume", "mL")?;
+    let mass_mg = mass_mg.require_positive(Param::SoluteMass, "mg")?;
+    let volume_ml = volume_ml.require_positive(Param::SolutionVolume, "mL")?;
     if !molar_mass.is_finite() || molar_mass <= 0.0 {
         return Err(Error::invalid(
-            "molar mass",
+            Param::MolarMass,
             format!("{molar_mass} g/mol"),
             "a molar mass > 0 g/mol",
         ));
@@ -212,10 +213,10 @@ pub fn concentration_from_mass(
 pub fn evans(input: &EvansInput) -> Result<EvansResult> {
     let c = input
         .concentration
-        .require_positive("concentration", "mol/L")?;
+        .require_positive(Param::Concentration, "mol/L")?;
     if input.temperature.value <= 0.0 {
         return Err(Error::invalid(
-            "temperature",
+            Param::Temperature,
             format!("{} K", input.temperature.value),
             "a temperature > 0 K (e.g. 298.15)",
         ));
@@ -230,15 +231,16 @@ pub fn evans(input: &EvansInput) -> Result<EvansResult> {
                 MagnetGeometry::Transverse => ("negative", "solenoid"),
             };
             return Err(Error::invalid(
-                "shift",
+                Param::Shift,
                 input.shift.describe(),
                 format!(
-                    "a {expected} shift for --magnet {}: a paramagnet moves the solution's reference line to {} frequency. Give the shift as (solution line − insert line); if you subtracted the other way, change its sign; if the field runs {} the tube, use --magnet {other}",
+                    "a {expected} shift for the {} magnet geometry: a paramagnet moves the solution's reference line to {} frequency. Give the shift as (solution line − insert line); if you subtracted the other way, change its sign; if the field runs {} the tube, use the {other} magnet geometry",
                     input.magnet,
                     if expected == "positive" { "higher" } else { "lower" },
                     if other == "transverse" { "across" } else { "along" },
                 ),
-            ));
+            )
+            .needing([Param::Magnet]));
         }
         notes.push("the shift has the diamagnetic sign but is zero within its uncertainty".into());
     }
@@ -252,7 +254,7 @@ pub fn evans(input: &EvansInput) -> Result<EvansResult> {
     if let Some(chi0) = input.solvent.chi0 {
         if !chi0.is_finite() {
             return Err(Error::invalid(
-                "solvent χ₀",
+                Param::SolventChi,
                 chi0,
                 "a finite mass susceptibility in cm³/g",
             ));
@@ -264,14 +266,15 @@ pub fn evans(input: &EvansInput) -> Result<EvansResult> {
         }
         let mw = input.molar_mass.ok_or_else(|| {
             Error::invalid(
-                "solvent χ₀ term",
+                Param::SolventChiTerm,
                 "no molar mass",
-                "a molar mass of the paramagnet (--molar-mass or --formula)",
+                "a molar mass of the paramagnet (given, or from its formula)",
             )
+            .needing([Param::MolarMass, Param::Formula])
         })?;
         solvent_term = chi0 * mw;
         if let Some((d0, ds)) = input.solvent.densities {
-            for (name, d) in [("solvent density", d0), ("solution density", ds)] {
+            for (name, d) in [(Param::SolventDensity, d0), (Param::SolutionDensity, ds)] {
                 if !d.is_finite() || d <= 0.0 {
                     return Err(Error::invalid(
                         name,
@@ -288,10 +291,11 @@ pub fn evans(input: &EvansInput) -> Result<EvansResult> {
         );
     } else if input.solvent.densities.is_some() {
         return Err(Error::invalid(
-            "density term",
+            Param::DensityTerm,
             "densities without χ₀",
-            "the solvent mass susceptibility χ₀ as well (--solvent-chi)",
-        ));
+            "the solvent mass susceptibility χ₀ as well",
+        )
+        .needing([Param::SolventChi]));
     }
     let chi_m = Measured {
         value: chi_shift.value + solvent_term + density_term,
@@ -327,7 +331,7 @@ mod tests {
 
     fn hz(v: f64, err: f64) -> Shift {
         Shift::Hertz {
-            shift: Measured::new("shift", v, err).unwrap(),
+            shift: Measured::new(Param::Shift, v, err).unwrap(),
             freq_mhz: 400.0,
         }
     }
@@ -401,18 +405,21 @@ mod tests {
 
     #[test]
     fn wrong_sign_is_rejected_with_a_fix() {
-        let e = evans(&input(hz(-73.4, 0.5), MagnetGeometry::Solenoid))
-            .unwrap_err()
-            .to_string();
+        let err = evans(&input(hz(-73.4, 0.5), MagnetGeometry::Solenoid)).unwrap_err();
+        let e = err.to_string();
         assert!(
-            e.contains("change its sign") && e.contains("--magnet transverse"),
+            e.contains("change its sign") && e.contains("use the transverse magnet geometry"),
             "{e}"
+        );
+        assert!(
+            matches!(&err, Error::InvalidParameter { needs, .. } if needs == &[Param::Magnet]),
+            "{err:?}"
         );
         let e = evans(&input(hz(36.7, 0.5), MagnetGeometry::Transverse))
             .unwrap_err()
             .to_string();
         assert!(
-            e.contains("negative shift") && e.contains("--magnet solenoid"),
+            e.contains("negative shift") && e.contains("use the solenoid magnet geometry"),
             "{e}"
         );
         // Zero within its uncertainty is accepted with a note.
@@ -440,7 +447,7 @@ mod tests {
     #[test]
     fn uncertainty_propagation() {
         let mut i = input(hz(73.4, 0.734), MagnetGeometry::Solenoid);
-        i.concentration = Measured::new("c", 0.0125, 0.00025).unwrap();
+        i.concentration = Measured::new(Param::Concentration, 0.0125, 0.00025).unwrap();
         let r = evans(&i).unwrap();
         let rel = 0.01f64.hypot(0.02);
         assert_relative_eq!(
@@ -455,8 +462,8 @@ mod tests {
         );
         // Concentration from weighing: 5.00 ± 0.05 mg in 0.600 ± 0.006 mL of MW 400 → 0.02083 M ± 1.41 %.
         let c = concentration_from_mass(
-            Measured::new("m", 5.0, 0.05).unwrap(),
-            Measured::new("v", 0.6, 0.006).unwrap(),
+            Measured::new(Param::SoluteMass, 5.0, 0.05).unwrap(),
+            Measured::new(Param::SolutionVolume, 0.6, 0.006).unwrap(),
             400.0,
         )
         .unwrap();

@@ -13,6 +13,7 @@ pub mod moment;
 pub mod pascal;
 
 use crate::error::{require_finite, Error, Result};
+use crate::param::Param;
 use crate::units::{self, SusceptibilityUnits};
 
 /// A value with its standard uncertainty (≥ 0; 0 when not stated).
@@ -24,11 +25,11 @@ pub struct Measured {
 
 impl Measured {
     /// A value with uncertainty; both must be finite and the uncertainty ≥ 0.
-    pub fn new(name: &str, value: f64, err: f64) -> Result<Self> {
-        require_finite(name, value)?;
+    pub fn new(param: Param, value: f64, err: f64) -> Result<Self> {
+        require_finite(param.clone(), value)?;
         if !err.is_finite() || err < 0.0 {
             return Err(Error::invalid(
-                format!("uncertainty of {name}"),
+                Param::Uncertainty(Box::new(param)),
                 err,
                 "a finite value ≥ 0",
             ));
@@ -51,12 +52,12 @@ impl Measured {
     }
 
     /// Checks value > 0.
-    pub fn require_positive(self, name: &str, unit: &str) -> Result<Self> {
+    pub fn require_positive(self, param: Param, unit: &str) -> Result<Self> {
         if self.value > 0.0 {
             Ok(self)
         } else {
             Err(Error::invalid(
-                name,
+                param,
                 format!("{} {unit}", self.value),
                 format!("a value > 0 {unit}"),
             ))
@@ -92,7 +93,7 @@ fn require_temperature(temperature: Measured) -> Result<Measured> {
         Ok(temperature)
     } else {
         Err(Error::invalid(
-            "temperature",
+            Param::Temperature,
             format!("{} K", temperature.value),
             "a temperature > 0 K (e.g. 298.15)",
         ))
@@ -102,7 +103,7 @@ fn require_temperature(temperature: Measured) -> Result<Measured> {
 fn require_dia(dia: Measured) -> Result<Measured> {
     if dia.value > 0.0 {
         return Err(Error::invalid(
-            "diamagnetic correction",
+            Param::Dia,
             format!("{} cm³/mol", dia.value),
             "a value ≤ 0 cm³/mol (closed shells are diamagnetic, e.g. -2.5e-4)",
         ));
@@ -148,14 +149,18 @@ impl MomentResult {
     pub fn from_mu_eff(mu_eff: Measured, dia: Measured, temperature: Measured) -> Result<Self> {
         if mu_eff.value < 0.0 {
             return Err(Error::invalid(
-                "μ_eff",
+                Param::MuEff,
                 format!("{} μB", mu_eff.value),
                 "a moment ≥ 0 μB",
             ));
         }
         let chi_t = units::chi_t_from_mu_eff(mu_eff.value, SusceptibilityUnits::Cgs);
         let chi_t_err = 2.0 * mu_eff.err * mu_eff.value / units::moment_factor_cgs().powi(2);
-        Self::from_chi_t(Measured::new("χ_M·T", chi_t, chi_t_err)?, dia, temperature)
+        Self::from_chi_t(
+            Measured::new(Param::ChiMT, chi_t, chi_t_err)?,
+            dia,
+            temperature,
+        )
     }
 
     fn finish(
@@ -166,9 +171,9 @@ impl MomentResult {
         temperature: Measured,
     ) -> Result<Self> {
         for (name, m) in [
-            ("χ_M", chi_m),
-            ("χ_M corrected", corrected),
-            ("χ_M·T", chi_t),
+            (Param::ChiM, chi_m),
+            (Param::ChiMCorrected, corrected),
+            (Param::ChiMT, chi_t),
         ] {
             if !(m.value.is_finite() && m.err.is_finite()) {
                 return Err(Error::invalid(
@@ -250,7 +255,7 @@ mod tests {
         .unwrap();
         assert_eq!(r.mu_eff.err, 0.0);
         let r = MomentResult::from_chi_t(
-            Measured::new("x", 3.0, 0.06).unwrap(),
+            Measured::new(Param::ChiM, 3.0, 0.06).unwrap(),
             Measured::exact(0.0),
             Measured::exact(300.0),
         )
@@ -258,8 +263,8 @@ mod tests {
         assert_relative_eq!(r.mu_eff.err / r.mu_eff.value, 0.01, max_relative = 1e-12);
         // Corrected χ carries both the measurement and the correction uncertainty.
         let r = MomentResult::from_chi(
-            Measured::new("x", 1e-2, 3e-5).unwrap(),
-            Measured::new("d", -2e-4, 4e-5).unwrap(),
+            Measured::new(Param::ChiM, 1e-2, 3e-5).unwrap(),
+            Measured::new(Param::Dia, -2e-4, 4e-5).unwrap(),
             Measured::exact(300.0),
         )
         .unwrap();
@@ -269,7 +274,7 @@ mod tests {
 
     #[test]
     fn inputs_agree_with_each_other() {
-        let t = Measured::new("T", 295.0, 0.5).unwrap();
+        let t = Measured::new(Param::Temperature, 295.0, 0.5).unwrap();
         let dia = Measured::exact(-1.5e-4);
         let a = MomentResult::from_chi(Measured::exact(1.2e-2), dia, t).unwrap();
         let b = MomentResult::from_chi_t(Measured::exact(a.chi_m_t.value), dia, t).unwrap();
@@ -283,7 +288,7 @@ mod tests {
     #[test]
     fn diamagnetic_sample_gives_zero_moment_with_a_note() {
         let r = MomentResult::from_chi(
-            Measured::new("x", -1e-4, 5e-5).unwrap(),
+            Measured::new(Param::ChiM, -1e-4, 5e-5).unwrap(),
             Measured::exact(-5e-5),
             Measured::exact(300.0),
         )
@@ -305,7 +310,7 @@ mod tests {
         let e =
             MomentResult::from_chi(chi, Measured::exact(2e-4), Measured::exact(300.0)).unwrap_err();
         assert!(e.to_string().contains("≤ 0"), "{e}");
-        assert!(Measured::new("x", 1.0, -0.1).is_err());
-        assert!(Measured::new("x", f64::NAN, 0.1).is_err());
+        assert!(Measured::new(Param::ChiM, 1.0, -0.1).is_err());
+        assert!(Measured::new(Param::ChiM, f64::NAN, 0.1).is_err());
     }
 }

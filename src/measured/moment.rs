@@ -7,6 +7,7 @@
 
 use super::Measured;
 use crate::error::{Error, Result};
+use crate::param::Param;
 use crate::units::{self, SusceptibilityUnits, VACUUM_PERMEABILITY};
 
 /// A magnetometer reading.
@@ -32,22 +33,22 @@ pub fn chi_from_magnetometer(r: &MagnetometerReading) -> Result<Measured> {
     if !r.field.is_finite() || r.field <= 0.0 {
         let unit = field_unit(r.units);
         return Err(Error::invalid(
-            "field",
+            Param::Field,
             format!("{} {unit}", r.field),
             format!("a field > 0 {unit}"),
         ));
     }
-    let mass = r.mass_mg.require_positive("sample mass", "mg")?;
+    let mass = r.mass_mg.require_positive(Param::SampleMass, "mg")?;
     if !r.molar_mass.is_finite() || r.molar_mass <= 0.0 {
         return Err(Error::invalid(
-            "molar mass",
+            Param::MolarMass,
             format!("{} g/mol", r.molar_mass),
             "a molar mass > 0 g/mol",
         ));
     }
     if !r.background.is_finite() {
         return Err(Error::invalid(
-            "background",
+            Param::Background,
             r.background,
             "a finite moment",
         ));

@@ -15,6 +15,7 @@
 
 use crate::error::{Error, Result};
 use crate::formula::Formula;
+use crate::param::Param;
 use crate::tables::pascal::PascalTable;
 
 /// How χ_D was obtained.
@@ -72,7 +73,7 @@ impl DiamagneticCorrection {
     pub fn given(value: f64) -> Result<Self> {
         if !value.is_finite() || value > 0.0 {
             return Err(Error::invalid(
-                "diamagnetic correction",
+                Param::Dia,
                 format!("{value} cm³/mol"),
                 "a value ≤ 0 cm³/mol (closed shells are diamagnetic, e.g. -2.5e-4)",
             ));
@@ -92,7 +93,7 @@ impl DiamagneticCorrection {
             method: DiaMethod::None,
             terms: Vec::new(),
             notes: vec![
-                "no diamagnetic correction applied (give --dia, --formula or --dia-rough)".into(),
+                "no diamagnetic correction applied (give the correction, a formula for a Pascal sum, or take the rough −MW/2 estimate)".into(),
             ],
         }
     }
@@ -103,7 +104,7 @@ impl DiamagneticCorrection {
 pub fn rough_correction(molar_mass: f64) -> Result<DiamagneticCorrection> {
     if !molar_mass.is_finite() || molar_mass <= 0.0 {
         return Err(Error::invalid(
-            "molar mass",
+            Param::MolarMass,
             format!("{molar_mass} g/mol"),
             "a molar mass > 0 g/mol",
         ));
@@ -160,31 +161,33 @@ pub fn pascal_sum(formula: &Formula, table: &PascalTable) -> Result<DiamagneticC
                             .map(|e| format!("{{{}}}", e.name))
                             .collect();
                         let hint = if others.is_empty() {
-                            "give the correction with --dia instead".to_string()
+                            "give the diamagnetic correction itself instead".to_string()
                         } else {
                             format!(
-                                "name one of {} in the formula, or give --dia",
+                                "name one of {} in the formula, or give the diamagnetic correction itself",
                                 others.join(", ")
                             )
                         };
                         return Err(Error::invalid(
-                            "formula for the Pascal sum",
+                            Param::PascalFormula,
                             format!("'{}'", formula.text()),
                             format!("an element with a Pascal constant: the table has no default for {}; {hint}", element.symbol()),
-                        ));
+                        )
+                        .needing([Param::Dia]));
                     }
                     many => {
                         let names: Vec<String> =
                             many.iter().map(|e| format!("{{{}}}", e.name)).collect();
                         return Err(Error::invalid(
-                            "formula for the Pascal sum",
+                            Param::PascalFormula,
                             format!("'{}'", formula.text()),
                             format!(
-                                "the ion of {} named in braces, e.g. {} (its increment depends on the charge), or --dia",
+                                "the ion of {} named in braces, e.g. {} (its increment depends on the charge), or the diamagnetic correction itself",
                                 element.symbol(),
                                 names.join(" or ")
                             ),
-                        ));
+                        )
+                        .needing([Param::Dia]));
                     }
                 }
             }
@@ -274,10 +277,15 @@ mod tests {
         let e = pascal_sum(&f, &t).unwrap_err().to_string();
         assert!(e.contains("{Fe2+}") && e.contains("{Fe3+}"), "{e}");
         let f = t.parse_formula("RuCl3").unwrap();
-        let e = pascal_sum(&f, &t).unwrap_err().to_string();
+        let err = pascal_sum(&f, &t).unwrap_err();
+        let e = err.to_string();
         assert!(
-            e.contains("no default for Ru") && e.contains("--dia"),
+            e.contains("no default for Ru") && e.contains("the diamagnetic correction itself"),
             "{e}"
+        );
+        assert!(
+            matches!(&err, Error::InvalidParameter { needs, .. } if needs == &[Param::Dia]),
+            "{err:?}"
         );
     }
 

@@ -520,7 +520,7 @@ impl FitBandsReport {
         let others = self.alternatives.iter().filter(|a| !a.near_equal).count();
         if others > 0 {
             s.push_str(&format!(
-                "{others} other assignment(s) fit worse or raise concerns (see --json)\n"
+                "{others} other assignment(s) fit worse or raise concerns (the JSON report lists them)\n"
             ));
         }
         for n in &self.notes {

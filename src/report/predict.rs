@@ -549,7 +549,7 @@ impl PredictReport {
                 set.count,
                 if set.omitted > 0 {
                     format!(
-                        " below {} cm⁻¹ ({} more above; --all lists them)",
+                        " below {} cm⁻¹ ({} more above, not listed)",
                         fmt_num(crate::predict::BAND_WINDOW, 0),
                         set.omitted
                     )

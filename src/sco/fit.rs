@@ -14,6 +14,7 @@ use super::data::Point;
 use super::model::{spin_entropy, Branch, Transition, GAS_CONSTANT};
 use crate::error::{Error, Result};
 use crate::least_squares::Residuals;
+use crate::param::Param;
 use levenberg_marquardt::LevenbergMarquardt;
 use nalgebra::{DMatrix, DVector};
 
@@ -307,7 +308,7 @@ pub fn fit(req: &FitRequest) -> Result<FitResult> {
         };
         if !ok {
             return Err(Error::invalid(
-                format!("χ_M·T of the {what} state"),
+                Param::ChiMTOfState(what),
                 format!("{state:?}"),
                 format!(
                     "a value in 0..={MAX_PURE_CHI_T} cm³ K mol⁻¹ (or a range lo ≤ hi within it)"
@@ -317,7 +318,7 @@ pub fn fit(req: &FitRequest) -> Result<FitResult> {
     }
     if req.residual && !matches!(req.chit_ls, PureState::Fixed(_)) {
         return Err(Error::invalid(
-            "residual fraction",
+            Param::ResidualFraction,
             "with χ_M·T of the low-spin state free",
             "a fixed low-spin χ_M·T (a trapped high-spin fraction and the low-spin plateau cannot both be fitted)",
         ));
@@ -349,7 +350,7 @@ pub fn fit(req: &FitRequest) -> Result<FitResult> {
     let p = layout.slots.len();
     if pts.len() <= p {
         return Err(Error::invalid(
-            "curve",
+            Param::Curve,
             format!("{} points for {p} free parameters", pts.len()),
             format!(
                 "at least {} points (more points than free parameters)",
@@ -363,7 +364,10 @@ pub fn fit(req: &FitRequest) -> Result<FitResult> {
     for pt in pts {
         if pt.chi_t < all_lo - slack || pt.chi_t > all_hi + slack {
             return Err(Error::invalid(
-                format!("χ_M·T at {} K (line {})", pt.t, pt.line),
+                Param::ChiMTAt {
+                    temperature: pt.t,
+                    line: pt.line,
+                },
                 format!("{:.3} cm³ K mol⁻¹", pt.chi_t),
                 format!(
                     "a value inside the physically possible range {:.2}–{:.2} cm³ K mol⁻¹ of the two spin states (check the units, the molar mass and the diamagnetic correction)",
@@ -379,7 +383,7 @@ pub fn fit(req: &FitRequest) -> Result<FitResult> {
         .fold(f64::NEG_INFINITY, f64::max);
     if !crosses(pts, hs_lo, ls_hi) {
         return Err(Error::invalid(
-            "curve",
+            Param::Curve,
             format!(
                 "χ_M·T between {obs_lo:.3} and {obs_hi:.3} cm³ K mol⁻¹: no transition between the pure states"
             ),

@@ -9,6 +9,7 @@ pub mod model;
 use crate::engine::{crossover, tanabe_sugano_c_over_b, Geometry};
 use crate::error::{Error, Result};
 use crate::measured::compare::{self, ComplexSpec as MomentSpec, SpinOrbit};
+use crate::param::Param;
 use crate::tables::moment_ranges::MomentRangeTable;
 use crate::units::{moment_factor_cgs, spin_only_chi_t_cgs};
 
@@ -41,7 +42,7 @@ pub fn pure_state_ranges(
     let cross = crossover(dn, geometry, tanabe_sugano_c_over_b(dn))?;
     if cross.low_spin.is_none() {
         return Err(Error::invalid(
-            "d-electron count",
+            Param::DElectronCount,
             format!("d{dn} {}", geometry.name()),
             "an ion with two spin states in this geometry (d4–d7 octahedral)",
         ));

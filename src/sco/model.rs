@@ -16,6 +16,7 @@
 //!   γ_obs = r + (1 − r)γ.
 
 use crate::error::{Error, Result};
+use crate::param::Param;
 
 /// Molar gas constant R (J mol⁻¹ K⁻¹; CODATA 2018, exact).
 pub const GAS_CONSTANT: f64 = 8.314_462_618;
@@ -62,10 +63,10 @@ impl Transition {
     /// 0 ≤ r < 1.
     pub fn checked(self) -> Result<Self> {
         for (name, v) in [
-            ("ΔH", self.dh),
-            ("ΔS", self.ds),
-            ("Γ", self.gamma),
-            ("residual fraction", self.residual),
+            (Param::Enthalpy, self.dh),
+            (Param::Entropy, self.ds),
+            (Param::Cooperativity, self.gamma),
+            (Param::ResidualFraction, self.residual),
         ] {
             if !v.is_finite() {
                 return Err(Error::invalid(name, v, "a finite number"));
@@ -73,14 +74,14 @@ impl Transition {
         }
         if self.dh <= 0.0 {
             return Err(Error::invalid(
-                "ΔH",
+                Param::Enthalpy,
                 format!("{} kJ/mol", self.dh / 1000.0),
                 "ΔH > 0 (the high-spin state lies above the low-spin one)",
             ));
         }
         if self.ds <= 0.0 {
             return Err(Error::invalid(
-                "ΔS",
+                Param::Entropy,
                 format!("{} J/mol/K", self.ds),
                 "ΔS > 0 (the high-spin state has the larger entropy)",
             ));
@@ -89,14 +90,14 @@ impl Transition {
         // them generously (common practice) and keeps the equilibrium equation solvable.
         if self.gamma.abs() > MAX_GAMMA {
             return Err(Error::invalid(
-                "Γ",
+                Param::Cooperativity,
                 format!("{} kJ/mol", self.gamma / 1000.0),
                 format!("|Γ| ≤ {} kJ/mol", MAX_GAMMA / 1000.0),
             ));
         }
         if !(0.0..1.0).contains(&self.residual) {
             return Err(Error::invalid(
-                "residual fraction",
+                Param::ResidualFraction,
                 self.residual,
                 "a fraction in 0 ≤ r < 1",
             ));
@@ -138,7 +139,11 @@ impl Transition {
     /// Each root is found by bisection to machine precision.
     pub fn minima(&self, t: f64) -> Result<Vec<f64>> {
         if !t.is_finite() || t <= 0.0 {
-            return Err(Error::invalid("temperature", format!("{t} K"), "T > 0 K"));
+            return Err(Error::invalid(
+                Param::Temperature,
+                format!("{t} K"),
+                "T > 0 K",
+            ));
         }
         let rt = GAS_CONSTANT * t;
         let span = (self.dh - t * self.ds).abs() / rt + self.gamma.abs() / rt + 5.0;

@@ -16,6 +16,7 @@ use crate::engine::hermitian::{add_field, add_scaled, eigen_unsorted};
 use crate::engine::shell::shell;
 use crate::engine::{Calculation, Level, LigandField, PointGroup};
 use crate::error::{Error, Result};
+use crate::param::Param;
 use nalgebra::{Complex, DMatrix};
 
 type C64 = Complex<f64>;
@@ -52,7 +53,7 @@ pub fn configuration_weights(
 ) -> Result<Vec<ConfigurationWeights>> {
     if sets.is_empty() || sets.len() > TAGS.len() {
         return Err(Error::invalid(
-            "orbital sets",
+            Param::OrbitalSets,
             sets.len(),
             "1..=5 sets of real d orbitals",
         ));

@@ -27,6 +27,7 @@ use super::transitions::{
 };
 use crate::engine::{Geometry, PointGroup};
 use crate::error::{require_finite, Error, Result};
+use crate::param::Param;
 
 /// Default spectrometer window (nm).
 pub const DEFAULT_WINDOW_NM: (f64, f64) = (200.0, 1100.0);
@@ -240,36 +241,40 @@ pub struct BandCount {
 
 fn check_inputs(req: &CountRequest) -> Result<()> {
     for (name, v) in [
-        ("Dq", req.dq),
-        ("B", req.b),
-        ("C", req.c),
-        ("window", req.window_nm.0),
-        ("window", req.window_nm.1),
-        ("resolution", req.resolution),
+        (Param::Dq, req.dq),
+        (Param::RacahB, req.b),
+        (Param::RacahC, req.c),
+        (Param::Window, req.window_nm.0),
+        (Param::Window, req.window_nm.1),
+        (Param::Resolution, req.resolution),
     ] {
         require_finite(name, v)?;
     }
     if req.dq < 0.0 {
-        return Err(Error::invalid("Dq", req.dq, "≥ 0 cm⁻¹"));
+        return Err(Error::invalid(Param::Dq, req.dq, "≥ 0 cm⁻¹"));
     }
     let (lo, hi) = req.window_nm;
     if lo <= 0.0 || hi <= lo {
         return Err(Error::invalid(
-            "window",
+            Param::Window,
             format!("{lo}–{hi} nm"),
             "two wavelengths in nm, shortest first, both > 0 (e.g. 200-1100)",
         ));
     }
     if req.resolution < 0.0 {
-        return Err(Error::invalid("resolution", req.resolution, "≥ 0 cm⁻¹"));
+        return Err(Error::invalid(
+            Param::Resolution,
+            req.resolution,
+            "≥ 0 cm⁻¹",
+        ));
     }
     if let Some(ct) = &req.charge_transfer {
-        require_finite("charge-transfer onset", ct.onset)?;
+        require_finite(Param::ChargeTransferOnset, ct.onset)?;
         // Charge-transfer bands of d-block complexes start between the near infrared and the
         // far ultraviolet (common practice); outside 1000–200 000 cm⁻¹ a value is a typing error.
         if !(1_000.0..=200_000.0).contains(&ct.onset) {
             return Err(Error::invalid(
-                "charge-transfer onset",
+                Param::ChargeTransferOnset,
                 ct.onset,
                 "a wavenumber in 1000..=200000 cm⁻¹",
             ));
@@ -287,7 +292,7 @@ pub fn count_bands(req: &CountRequest) -> Result<BandCount> {
     let states = spin_states(req.dn, req.geometry, c_over_b)?;
     if states.is_empty() {
         return Err(Error::invalid(
-            "d-electron count",
+            Param::DElectronCount,
             req.dn,
             "1..=9 (d0 and d10 have no d–d bands)",
         ));

@@ -16,6 +16,7 @@ use super::transitions::{
 use crate::engine::{Calculation, Geometry};
 use crate::error::{require_finite, Error, Result};
 use crate::least_squares::Residuals;
+use crate::param::Param;
 use levenberg_marquardt::{LevenbergMarquardt, TerminationReason};
 use nalgebra::{DMatrix, DVector};
 
@@ -98,7 +99,7 @@ impl std::str::FromStr for ForbiddenBand {
             .parse()
             .ok()
             .filter(|x: &f64| x.is_finite() && *x > 0.0)
-            .ok_or_else(|| Error::invalid("spin-forbidden band", s, accepted))?;
+            .ok_or_else(|| Error::invalid(Param::SpinForbiddenBand, s, accepted))?;
         let (multiplicity, irrep) = match label {
             None => (None, None),
             Some(l) => {
@@ -108,12 +109,12 @@ impl std::str::FromStr for ForbiddenBand {
                     .parse()
                     .ok()
                     .filter(|m| (1..=6).contains(m))
-                    .ok_or_else(|| Error::invalid("spin-forbidden band", s, accepted))?;
+                    .ok_or_else(|| Error::invalid(Param::SpinForbiddenBand, s, accepted))?;
                 let ok_irrep = rest.is_empty()
                     || (rest.starts_with(['A', 'B', 'E', 'T'])
                         && rest.chars().all(|c| c.is_ascii_alphanumeric()));
                 if !ok_irrep {
-                    return Err(Error::invalid("spin-forbidden band", s, accepted));
+                    return Err(Error::invalid(Param::SpinForbiddenBand, s, accepted));
                 }
                 (Some(m), (!rest.is_empty()).then(|| rest.to_string()))
             }
@@ -492,49 +493,61 @@ fn dependence(dn: usize, geometry: Geometry, two_s: i32, c_over_b: f64) -> Resul
 /// message gives the best point reached.
 pub fn fit_bands(req: &FitRequest) -> Result<FitOutcome> {
     if req.dn > 10 {
-        return Err(Error::invalid("d-electron count", req.dn, "0..=10"));
+        return Err(Error::invalid(Param::DElectronCount, req.dn, "0..=10"));
     }
     if req.geometry == Geometry::Tetragonal {
         return Err(Error::invalid(
-            "geometry",
+            Param::Geometry,
             "tetragonal",
             "oct, tet or sqpl here; split bands of a tetragonal centre are fitted by spectra::tetragonal::fit_tetragonal",
         ));
     }
     if req.bands.is_empty() {
-        return Err(Error::invalid("bands", "none", "at least one band maximum"));
+        return Err(Error::invalid(
+            Param::Bands,
+            "none",
+            "at least one band maximum",
+        ));
     }
     if let Some(b0) = req.b0 {
         check_b0(b0)?;
     }
     for &nu in &req.bands {
-        require_finite("band", nu)?;
+        require_finite(Param::Band, nu)?;
         if nu <= 0.0 {
-            return Err(Error::invalid("band", nu, "a positive position in cm⁻¹"));
+            return Err(Error::invalid(
+                Param::Band,
+                nu,
+                "a positive position in cm⁻¹",
+            ));
         }
     }
     for f in &req.forbidden {
-        require_finite("spin-forbidden band", f.position)?;
+        require_finite(Param::SpinForbiddenBand, f.position)?;
         if f.position <= 0.0 {
             return Err(Error::invalid(
-                "spin-forbidden band",
+                Param::SpinForbiddenBand,
                 f.position,
                 "a positive position in cm⁻¹",
             ));
         }
     }
     if let Some(b) = req.fixed_b {
-        require_finite("fixed B", b)?;
+        require_finite(Param::FixedB, b)?;
         if b <= 0.0 {
-            return Err(Error::invalid("fixed B", b, "a Racah B > 0 cm⁻¹"));
+            return Err(Error::invalid(Param::FixedB, b, "a Racah B > 0 cm⁻¹"));
         }
     }
     let (default_ratio, default_source) = default_c_over_b(req.dn);
     let (c_over_b, ratio_source) = match req.c_over_b {
         Some(r) => {
-            require_finite("C/B", r)?;
+            require_finite(Param::COverB, r)?;
             if r <= 0.0 {
-                return Err(Error::invalid("C/B", r, "a ratio > 0 (usually 3.5–5)"));
+                return Err(Error::invalid(
+                    Param::COverB,
+                    r,
+                    "a ratio > 0 (usually 3.5–5)",
+                ));
             }
             (r, Some("given".to_string()))
         }
@@ -546,7 +559,7 @@ pub fn fit_bands(req: &FitRequest) -> Result<FitOutcome> {
     let states = spin_states(req.dn, req.geometry, c_over_b)?;
     if states.is_empty() {
         return Err(Error::invalid(
-            "d-electron count",
+            Param::DElectronCount,
             req.dn,
             "1..=9 (d0 and d10 have no d–d bands)",
         ));
@@ -588,7 +601,11 @@ pub fn fit_bands(req: &FitRequest) -> Result<FitOutcome> {
     }
     if fits.is_empty() {
         return Err(last_error.unwrap_or_else(|| {
-            Error::invalid("bands", "given", "bands that some spin state can explain")
+            Error::invalid(
+                Param::Bands,
+                "given",
+                "bands that some spin state can explain",
+            )
         }));
     }
     fits.sort_by(|a, b| a.score.total_cmp(&b.score));
@@ -623,7 +640,7 @@ pub fn fit_bands(req: &FitRequest) -> Result<FitOutcome> {
         .find(|a| a.residual.abs() > FAR_ABSOLUTE.max(FAR_FRACTION * a.observed))
     {
         return Err(Error::invalid(
-            "band",
+            Param::Band,
             format!("{:.0} cm⁻¹", a.observed),
             format!(
                 "a position reachable by a spin-allowed transition of d{} {} with B in {:.0}–{:.0} cm⁻¹ and Δ/B up to {MAX_DELTA_OVER_B}; the best assignment ({}) misses it by {:.0} cm⁻¹",
@@ -639,7 +656,7 @@ pub fn fit_bands(req: &FitRequest) -> Result<FitOutcome> {
     if let (true, Some(b)) = (best.free.contains(&Parameter::B), best.b) {
         if !(POSSIBLE_B.0..=POSSIBLE_B.1).contains(&b) {
             return Err(Error::invalid(
-                "bands",
+                Param::Bands,
                 bands
                     .iter()
                     .map(|x| format!("{x:.0}"))
@@ -802,14 +819,14 @@ fn fit_one_spin(
         };
     if total == 0 {
         return Err(Error::invalid(
-            "spin state",
+            Param::SpinState,
             format!("{} of d{} {}", state.describe(), req.dn, req.geometry),
             "one with spin-allowed d–d bands; this one has none (its bands are spin-forbidden and weak)",
         ));
     }
     if n > total {
         return Err(Error::invalid(
-            "number of bands",
+            Param::NumberOfBands,
             n,
             format!(
                 "at most {total}: d{} {}, {} has {total} spin-allowed transition(s)",
@@ -855,7 +872,7 @@ fn fit_one_spin(
         });
         if req.fit_c {
             return Err(Error::invalid(
-                "fit C",
+                Param::FitC,
                 "requested",
                 format!(
                     "only when C enters the spin-allowed bands; for d{} {}, {} neither B nor C does",
@@ -877,7 +894,7 @@ fn fit_one_spin(
         if req.fit_c {
             if !c_enters {
                 return Err(Error::invalid(
-                    "fit C",
+                    Param::FitC,
                     "requested",
                     format!(
                         "only when C enters the spin-allowed bands; for d{} {}, {} they depend on Dq and B alone — fix C/B instead",
@@ -915,13 +932,19 @@ fn fit_one_spin(
     let n = n + req.forbidden.len();
     if n < p {
         let names: Vec<&str> = free.iter().map(|f| f.name()).collect();
-        let hint = if free.contains(&Parameter::C) {
-            "hold C/B fixed instead of fitting C, or add a band"
+        let (hint, needs) = if free.contains(&Parameter::C) {
+            (
+                "hold C/B fixed instead of fitting C, or add a band",
+                vec![Param::FitC, Param::COverB],
+            )
         } else {
-            "hold B fixed at a value in cm⁻¹ (e.g. β·B0), or add a band"
+            (
+                "hold B fixed at a value in cm⁻¹ (e.g. β·B0), or add a band",
+                vec![Param::FixedB],
+            )
         };
         return Err(Error::invalid(
-            "number of bands",
+            Param::NumberOfBands,
             n,
             format!(
                 "at least {p} for the free parameters {} of d{} {}, {}: {hint}",
@@ -930,7 +953,8 @@ fn fit_one_spin(
                 req.geometry,
                 state.describe()
             ),
-        ));
+        )
+        .needing(needs));
     }
 
     let spec_b_fixed = if b_enters {
@@ -966,7 +990,7 @@ fn fit_one_spin(
     }
     if seeds.is_empty() {
         return Err(Error::invalid(
-            "bands",
+            Param::Bands,
             bands
                 .iter()
                 .map(|b| format!("{b:.0}"))
@@ -1002,7 +1026,7 @@ fn fit_one_spin(
     }
     if fits.is_empty() {
         return Err(Error::invalid(
-            "bands",
+            Param::Bands,
             "given",
             format!(
                 "positions that the spin-allowed transitions of d{} {}, {} reproduce",
@@ -1051,7 +1075,7 @@ fn forbidden_target(
     };
     if two_s == state.two_s {
         return Err(Error::invalid(
-            "spin-forbidden band",
+            Param::SpinForbiddenBand,
             format!("{:.0} cm⁻¹ → {}", band.position, what()),
             format!(
                 "a level of another multiplicity than the assumed {} ({}): list spin-allowed bands with the other bands",
@@ -1078,7 +1102,7 @@ fn forbidden_target(
                 v
             };
             Error::invalid(
-                "spin-forbidden band",
+                Param::SpinForbiddenBand,
                 format!("{:.0} cm⁻¹ → {}", band.position, what()),
                 format!(
                     "a level that d{} {} has; other-spin levels include {}",
@@ -1377,10 +1401,10 @@ pub fn nephelauxetic_ratio(b: f64, b0: f64) -> Result<f64> {
 
 /// A free-ion B₀ (cm⁻¹) must be finite and inside [`POSSIBLE_B`].
 pub fn check_b0(b0: f64) -> Result<()> {
-    require_finite("B0", b0)?;
+    require_finite(Param::FreeIonB, b0)?;
     if !(POSSIBLE_B.0..=POSSIBLE_B.1).contains(&b0) {
         return Err(Error::invalid(
-            "B0",
+            Param::FreeIonB,
             b0,
             format!(
                 "a free-ion Racah B in {}..={} cm⁻¹",
@@ -1419,10 +1443,14 @@ pub fn crossover_position(fit: &BandFit) -> Result<Option<CrossoverPosition>> {
 
 /// Places a fitted Δ/B relative to a crossover Δ/B (both at the same C/B).
 pub fn relative_to_crossover(delta_over_b: f64, crossover: f64) -> Result<CrossoverPosition> {
-    require_finite("crossover Δ/B", crossover)?;
-    require_finite("Δ/B", delta_over_b)?;
+    require_finite(Param::CrossoverDeltaOverB, crossover)?;
+    require_finite(Param::DeltaOverB, delta_over_b)?;
     if crossover <= 0.0 {
-        return Err(Error::invalid("crossover Δ/B", crossover, "a value > 0"));
+        return Err(Error::invalid(
+            Param::CrossoverDeltaOverB,
+            crossover,
+            "a value > 0",
+        ));
     }
     let margin = delta_over_b - crossover;
     Ok(CrossoverPosition {

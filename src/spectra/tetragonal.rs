@@ -30,6 +30,7 @@ use super::transitions::{
 use crate::engine::{Calculation, Geometry, LigandField, Spectrum};
 use crate::error::{require_finite, Error, Result};
 use crate::least_squares::Residuals;
+use crate::param::Param;
 use levenberg_marquardt::LevenbergMarquardt;
 use nalgebra::{DMatrix, DVector};
 
@@ -303,28 +304,32 @@ struct Seed {
 pub fn fit_tetragonal(req: &TetragonalRequest) -> Result<TetragonalOutcome> {
     if !(1..=9).contains(&req.dn) {
         return Err(Error::invalid(
-            "d-electron count",
+            Param::DElectronCount,
             req.dn,
             "1..=9 (d0 and d10 have no d–d bands)",
         ));
     }
     if req.bands.is_empty() {
         return Err(Error::invalid(
-            "bands",
+            Param::Bands,
             "none",
             "at least three band maxima",
         ));
     }
     for &nu in &req.bands {
-        require_finite("band", nu)?;
+        require_finite(Param::Band, nu)?;
         if nu <= 0.0 {
-            return Err(Error::invalid("band", nu, "a positive position in cm⁻¹"));
+            return Err(Error::invalid(
+                Param::Band,
+                nu,
+                "a positive position in cm⁻¹",
+            ));
         }
     }
     if let Some(b) = req.fixed_b {
         if !(b.is_finite() && POSSIBLE_B.0 <= b && b <= POSSIBLE_B.1) {
             return Err(Error::invalid(
-                "Racah B",
+                Param::FixedB,
                 b,
                 format!("{}..={} cm⁻¹", POSSIBLE_B.0, POSSIBLE_B.1),
             ));
@@ -336,7 +341,7 @@ pub fn fit_tetragonal(req: &TetragonalRequest) -> Result<TetragonalOutcome> {
     let (default_ratio, _) = default_c_over_b(req.dn);
     let c_over_b = req.c_over_b.unwrap_or(default_ratio);
     if !(c_over_b.is_finite() && (1.0..=20.0).contains(&c_over_b)) {
-        return Err(Error::invalid("C/B", c_over_b, "1..=20"));
+        return Err(Error::invalid(Param::COverB, c_over_b, "1..=20"));
     }
     let mut bands = req.bands.clone();
     bands.sort_by(f64::total_cmp);
@@ -456,20 +461,27 @@ fn fit_spin(
     let n = bands.len();
     if n < free.len() {
         let names: Vec<&str> = free.iter().map(|p| p.name()).collect();
-        let hint = if free.contains(&P::B) {
-            "; or hold B, e.g. at the octahedral parent's value"
+        let (hint, needs) = if free.contains(&P::B) {
+            (
+                "; or hold B, e.g. at the octahedral parent's value",
+                vec![Param::FixedB],
+            )
         } else {
-            "; with fewer, fit the octahedral model to the band centroids"
+            (
+                "; with fewer, fit the octahedral model to the band centroids",
+                vec![],
+            )
         };
         return Err(Error::invalid(
-            "bands",
+            Param::Bands,
             format!("{n} for {}", state.describe()),
             format!(
                 "at least {} to determine {}{hint}",
                 free.len(),
                 names.join(", ")
             ),
-        ));
+        )
+        .needing(needs));
     }
     let b_seed = req
         .fixed_b
@@ -526,7 +538,7 @@ fn fit_spin(
     }
     if seeds.is_empty() {
         return Err(Error::invalid(
-            "bands",
+            Param::Bands,
             format!("{n} for {}", state.describe()),
             format!(
                 "at most {most_levels} (the spin-allowed transitions of this spin in a tetragonal field)"

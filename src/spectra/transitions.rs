@@ -8,6 +8,7 @@
 
 use crate::engine::{Calculation, Geometry, Level, LigandField, Spectrum};
 use crate::error::{Error, Result};
+use crate::param::Param;
 
 /// Source text for the Tanabe–Sugano C/B ratios of [`crate::engine::tanabe_sugano_c_over_b`]
 /// (Y. Tanabe, S. Sugano, J. Phys. Soc. Jpn. 1954, from memory [M]).
@@ -93,7 +94,7 @@ impl std::str::FromStr for SpinChoice {
             "high" | "hs" => Ok(SpinChoice::High),
             "low" | "ls" => Ok(SpinChoice::Low),
             "auto" => Ok(SpinChoice::Auto),
-            _ => Err(Error::invalid("spin", s, "high, low or auto")),
+            _ => Err(Error::invalid(Param::Spin, s, "high, low or auto")),
         }
     }
 }
@@ -379,7 +380,7 @@ pub fn strong_field_configurations(
     let base = geometry.field(dq, 0.0, 0.0)?;
     if (0..5).any(|i| (0..5).any(|j| i != j && base.matrix[(i, j)] != 0.0)) {
         return Err(Error::invalid(
-            "geometry",
+            Param::Geometry,
             geometry,
             "a field diagonal over the real d orbitals",
         ));

@@ -3,6 +3,7 @@
 //! are those of [`crate::units`] (CODATA constants).
 
 use crate::error::{closest_names, require_finite, Error, Result};
+use crate::param::Param;
 use crate::units::{cm1_nm, cm1_to_ev, cm1_to_kk, ev_to_cm1, kk_to_cm1};
 use std::fmt;
 use std::str::FromStr;
@@ -37,10 +38,10 @@ impl EnergyUnit {
     /// Converts a value in this unit to cm⁻¹. The value must be finite and positive (a
     /// wavelength of 0 nm has no wavenumber).
     pub fn to_wavenumber(self, x: f64) -> Result<f64> {
-        require_finite("band position", x)?;
+        require_finite(Param::BandPosition(self.name()), x)?;
         if x <= 0.0 {
             return Err(Error::invalid(
-                format!("band position ({})", self.name()),
+                Param::BandPosition(self.name()),
                 x,
                 "a positive number",
             ));

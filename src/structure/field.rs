@@ -31,6 +31,7 @@ use crate::engine::field::DS_MIXING;
 use crate::engine::{LigandField, PointGroup};
 use crate::error::{Error, Result};
 use crate::estimate::{back_bonding_steps, ligand_terms, REFERENCE_BOND_LENGTH};
+use crate::param::Param;
 use nalgebra::{Matrix3, Matrix5, SymmetricEigen, Vector3};
 
 /// Largest deviation of a field matrix element from a group's form, as a fraction of the
@@ -92,7 +93,7 @@ pub fn assign_donors(
     }
     if slots.len() != centre.bonds.len() {
         return Err(Error::invalid(
-            "ligands",
+            Param::Ligands,
             format!("{} donor atoms", slots.len()),
             format!(
                 "as many donor atoms as the structure's {} has bonds ({})",
@@ -113,7 +114,7 @@ pub fn assign_donors(
                 .position(|(n, e)| n.eq_ignore_ascii_case(lig) && *e == b.element)
                 .ok_or_else(|| {
                     Error::invalid(
-                        "site",
+                        Param::Site,
                         format!("{}={lig}", base(&b.donor)),
                         format!(
                             "a ligand of the composition with a free {} donor",
@@ -135,7 +136,7 @@ pub fn assign_donors(
             .collect();
         let Some(first) = candidates.first().map(|s| s.to_string()) else {
             return Err(Error::invalid(
-                "ligands",
+                Param::Ligands,
                 complex.formula(),
                 format!(
                     "donor atoms that match the structure: {} ({}) has no free {} donor in the composition",
@@ -145,7 +146,7 @@ pub fn assign_donors(
         };
         if candidates.iter().any(|c| *c != first) {
             return Err(Error::invalid(
-                "donor assignment",
+                Param::DonorAssignment,
                 format!("{} ({})", b.donor, b.element),
                 format!(
                     "one ligand per donor: it could belong to {}; say which with a site LABEL=LIGAND",

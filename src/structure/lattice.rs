@@ -1,6 +1,7 @@
 //! The unit cell (metric and orthogonalisation) and crystallographic symmetry operators.
 
 use crate::error::{Error, Result};
+use crate::param::Param;
 use nalgebra::{Matrix3, Vector3};
 
 /// A unit cell: lengths a, b, c (Å) and angles α, β, γ (degrees), with the matrix that takes
@@ -20,7 +21,7 @@ impl Cell {
         for (l, n) in lengths.iter().zip(["a", "b", "c"]) {
             if !(l.is_finite() && *l > 0.1 && *l < 1000.0) {
                 return Err(Error::invalid(
-                    format!("cell length {n}"),
+                    Param::CellLength(n),
                     format!("{l} Å"),
                     "a length in 0.1..1000 Å",
                 ));
@@ -29,7 +30,7 @@ impl Cell {
         for (a, n) in angles.iter().zip(["alpha", "beta", "gamma"]) {
             if !(a.is_finite() && *a > 0.0 && *a < 180.0) {
                 return Err(Error::invalid(
-                    format!("cell angle {n}"),
+                    Param::CellAngle(n),
                     format!("{a}°"),
                     "an angle strictly between 0 and 180°",
                 ));
@@ -41,7 +42,7 @@ impl Cell {
         let v2 = 1.0 - ca * ca - cb * cb - cg * cg + 2.0 * ca * cb * cg;
         if v2 <= 1e-8 {
             return Err(Error::invalid(
-                "cell angles",
+                Param::CellAngles,
                 format!("{}°, {}°, {}°", angles[0], angles[1], angles[2]),
                 "angles that span a volume (the cell is flat)",
             ));
@@ -60,7 +61,7 @@ impl Cell {
         );
         let inv = m.try_inverse().ok_or_else(|| {
             Error::invalid(
-                "cell",
+                Param::Cell,
                 format!("{lengths:?} {angles:?}"),
                 "a cell with a volume",
             )

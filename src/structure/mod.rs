@@ -21,6 +21,7 @@ pub mod spin;
 pub mod xyz;
 
 use crate::error::{Error, Result};
+use crate::param::Param;
 use lattice::{Cell, SymOp};
 use mendeleev::Element;
 use nalgebra::Vector3;
@@ -81,7 +82,7 @@ impl FileFormat {
             Some("cif") => Ok(FileFormat::Cif),
             Some("xyz") => Ok(FileFormat::Xyz),
             _ => Err(Error::invalid(
-                "structure file",
+                Param::StructureFile,
                 name,
                 "a file ending in .cif (crystal structure) or .xyz (coordinates)",
             )),
@@ -370,7 +371,7 @@ impl Structure {
                 let i = n.checked_sub(1).filter(|i| metals.contains(i));
                 i.map(|i| vec![i]).ok_or_else(|| {
                     Error::invalid(
-                        "metal index",
+                        Param::MetalIndex,
                         n,
                         format!("the position of a metal atom in the file: {}", labels()),
                     )
@@ -398,7 +399,7 @@ impl Structure {
         match chosen.as_slice() {
             [one] => Ok(*one),
             _ => Err(Error::invalid(
-                "metal centre",
+                Param::MetalCentre,
                 format!(
                     "{} metals in {} ({})",
                     chosen.len(),

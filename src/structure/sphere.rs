@@ -7,6 +7,7 @@
 
 use super::{is_d_block, Neighbour, Structure};
 use crate::error::{Error, Result};
+use crate::param::Param;
 use crate::tables::covalent_radii::CovalentRadii;
 
 /// Added to the sum of the covalent radii (Å) to allow for longer bonds than single bonds
@@ -32,7 +33,7 @@ impl Cutoff {
     pub fn distance(r: f64) -> Result<Cutoff> {
         if !(r.is_finite() && r > OVERLAP && r <= MAX_CUTOFF) {
             return Err(Error::invalid(
-                "cutoff",
+                Param::Cutoff,
                 format!("{r} Å"),
                 format!("a metal–donor distance in {OVERLAP}..={MAX_CUTOFF} Å"),
             ));

@@ -14,6 +14,7 @@
 
 use super::{records, Cell};
 use crate::error::{closest_names, Error, Result};
+use crate::param::Param;
 use mendeleev::Element;
 
 const TABLE: &str = "ions.csv";
@@ -229,14 +230,14 @@ pub fn d_electron_count(symbol: &str, oxidation_state: i32) -> Result<(usize, Tr
                 Ok((dn as usize, series))
             } else {
                 Err(Error::invalid(
-                    format!("oxidation state of {symbol}"),
+                    Param::OxidationState(symbol.to_string()),
                     oxidation_state,
                     format!("{}..={} (0 to 10 d electrons for group {g})", g - 10, g),
                 ))
             }
         }
         _ => Err(Error::invalid(
-            "metal",
+            Param::Metal,
             symbol,
             "a d-block element of groups 3–12 in periods 4–6 (Sc–Zn, Y–Cd, La/Hf–Hg)",
         )),
@@ -364,7 +365,7 @@ impl IonTable {
                     .map(|o| o.to_string())
                     .collect();
                 Error::invalid(
-                    format!("oxidation state of {symbol}"),
+                    Param::OxidationState(symbol.to_string()),
                     oxidation_state,
                     format!("one of {} (the states in ions.csv)", known.join(", ")),
                 )

@@ -23,6 +23,7 @@ pub use ligands::{FieldBasis, Ligand, LigandTable, PiRole};
 pub use reported::{Category, ReportedComplex, ReportedSpin, ReportedTable};
 
 use crate::error::{Error, Result};
+use crate::param::Param;
 use std::path::Path;
 use std::sync::OnceLock;
 
@@ -86,7 +87,7 @@ impl Tables {
     pub fn from_dir(dir: &Path) -> Result<Tables> {
         if !dir.is_dir() {
             return Err(Error::invalid(
-                "--data",
+                Param::DataDir,
                 dir.display(),
                 "an existing directory holding edited copies of ions.csv and/or ligands.csv",
             ));

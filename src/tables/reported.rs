@@ -13,6 +13,7 @@
 use super::{records, Cell, LigandTable};
 use crate::engine::Geometry;
 use crate::error::{Error, Result};
+use crate::param::Param;
 
 const TABLE: &str = "reported_spin_states.csv";
 const HEADER: [&str; 10] = [
@@ -124,7 +125,7 @@ pub fn parse_ligand_items(text: &str, ligands: &LigandTable) -> Result<Vec<(Stri
                     .ok()
                     .filter(|c| (1..=6).contains(c))
                     .ok_or_else(|| {
-                        Error::invalid("ligand count", item, "NAME:COUNT with COUNT in 1..=6")
+                        Error::invalid(Param::LigandCount, item, "NAME:COUNT with COUNT in 1..=6")
                     })?,
             ),
             None => (item, 1),

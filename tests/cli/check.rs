@@ -261,7 +261,10 @@ fn bad_single_input() {
         "--evans-temp",
         "298",
     ]);
-    expect_usage_error(&a, "--evans-magnet transverse");
+    expect_usage_error(
+        &a,
+        "use the transverse magnet geometry (options: --evans-magnet)",
+    );
 }
 
 const HEAD: &str = "name,metal,ox,geometry,ligands,mu_eff,moment_temp,bond_length,structure_temp";
@@ -435,4 +438,35 @@ fn band_positions_decide_when_the_count_fits_both_states() {
         .unwrap()
         .contains("positions fit the low-spin state only"));
     assert_eq!(v["verdict"], "low-spin");
+}
+
+/// A row's Evans shift with the wrong sign for its magnet geometry: the row names the shift
+/// columns and the column that fixes it (`evans_magnet`), never a command-line option; the same
+/// sample from the command line names the options instead.
+#[test]
+fn batch_errors_name_columns_and_options_name_options() {
+    let f = file(
+        "name,metal,ox,geometry,ligands,evans_shift_ppm,evans_conc,evans_temp\nA,Fe,2,oct,py:6,-0.4,0.01,298\n",
+    );
+    let (code, _, err) = run(&["check", "--input", f.path().to_str().unwrap()]);
+    assert_eq!(code, 2, "{err}");
+    assert!(
+        err.contains("column evans_shift_ppm, evans_shift_hz: shift = -0.4 ppm")
+            && err.contains("use the transverse magnet geometry (columns: evans_magnet)"),
+        "{err}"
+    );
+    assert!(!err.contains("--"), "{err}");
+    let mut a: Vec<&str> = FE_PY.to_vec();
+    a.extend([
+        "--evans-shift-ppm",
+        "-0.4",
+        "--evans-conc",
+        "0.01",
+        "--evans-temp",
+        "298",
+    ]);
+    expect_usage_error(
+        &a,
+        "error: --evans-shift-ppm, --evans-shift-hz: shift = -0.4 ppm",
+    );
 }

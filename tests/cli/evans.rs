@@ -281,7 +281,7 @@ fn bad_input_exits_2() {
             "--magnet",
             "transverse",
         ],
-        "--magnet solenoid",
+        "use the solenoid magnet geometry (options: --magnet)",
     );
     fails(
         &with(&["--conc", "0.01", "--temp", "298", "--formula", "FeXq2"]),

@@ -251,6 +251,11 @@ fn bad_pools_and_options_are_explained() {
         &screen_args(&["--pool", "H2O", "--target", "middle"]),
         "crossover, high or low",
     );
+    // Refused while the arguments are parsed, naming the option.
+    expect_usage_error(
+        &screen_args(&["--pool", "H2O", "--target", "middle"]),
+        "invalid value 'middle' for '--target",
+    );
     expect_usage_error(
         &screen_args(&["--pool", "H2O", "--donors", "N4"]),
         "exactly 6 donor atoms",
