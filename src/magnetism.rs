@@ -248,10 +248,10 @@ impl ZeemanLevels {
     /// The matrix elements from the summed levels to every other state are still all taken.
     pub fn compute_up_to(calc: &Calculation, model: &MagneticModel, t_max: f64) -> Result<Self> {
         model.check()?;
-        require_finite("temperature", t_max)?;
+        require_finite(Param::Temperature, t_max)?;
         if !(MIN_TEMPERATURE..=MAX_TEMPERATURE).contains(&t_max) {
             return Err(Error::invalid(
-                "temperature",
+                Param::Temperature,
                 format!("{} K", num(t_max)),
                 format!("{MIN_TEMPERATURE} K ≤ T ≤ {MAX_TEMPERATURE} K"),
             ));
@@ -496,7 +496,7 @@ impl ZeemanLevels {
         }
         if t > self.highest_temperature {
             return Err(Error::invalid(
-                "temperature",
+                Param::Temperature,
                 format!("{} K", num(t)),
                 format!(
                     "T ≤ {} K, the highest temperature these Zeeman sums were computed for",

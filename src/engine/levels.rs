@@ -278,11 +278,11 @@ impl Calculation {
     /// concern cm⁻¹.
     pub(super) fn free_ion_in_units_of_b(dn: usize, c_over_b: f64) -> Result<Self> {
         if dn > 10 {
-            return Err(Error::invalid("d-electron count", dn, "0..=10"));
+            return Err(Error::invalid(Param::DElectronCount, dn, "0..=10"));
         }
-        require_finite("C/B", c_over_b)?;
+        require_finite(Param::COverB, c_over_b)?;
         if c_over_b < 0.0 {
-            return Err(Error::invalid("C/B", c_over_b, "a ratio ≥ 0"));
+            return Err(Error::invalid(Param::COverB, c_over_b, "a ratio ≥ 0"));
         }
         Ok(Calculation {
             dn,
