@@ -100,57 +100,77 @@ pub fn coulomb_integral(m: [i32; 4], f: &Slater) -> f64 {
 /// Matrix of the electron repulsion ½ Σ ⟨pq|rs⟩ a†_p a†_q a_s a_r on a determinant list
 /// (closed under the operator: it conserves M_L and M_S).
 pub fn two_body(list: &DetList, f: &Slater) -> DMatrix<f64> {
-    // Integral table over spatial m's, indexed by (m+2).
-    let mut g = [[[[0.0f64; 5]; 5]; 5]; 5];
-    for (i1, g1) in g.iter_mut().enumerate() {
-        for (i2, g2) in g1.iter_mut().enumerate() {
-            for (i3, g3) in g2.iter_mut().enumerate() {
-                for (i4, g4) in g3.iter_mut().enumerate() {
-                    let m = [i1, i2, i3, i4].map(|i| i as i32 - 2);
-                    *g4 = coulomb_integral(m, f);
+    two_body_each(list, std::slice::from_ref(f)).remove(0)
+}
+
+/// [`two_body`] for several sets of Slater integrals at once (e.g. per unit B and per unit C):
+/// one walk over the determinants fills every matrix.
+pub fn two_body_each(list: &DetList, slaters: &[Slater]) -> Vec<DMatrix<f64>> {
+    // Integral tables over spatial m's, indexed by (m+2).
+    let tables: Vec<[[[[f64; 5]; 5]; 5]; 5]> = slaters
+        .iter()
+        .map(|f| {
+            let mut g = [[[[0.0f64; 5]; 5]; 5]; 5];
+            for (i1, g1) in g.iter_mut().enumerate() {
+                for (i2, g2) in g1.iter_mut().enumerate() {
+                    for (i3, g3) in g2.iter_mut().enumerate() {
+                        for (i4, g4) in g3.iter_mut().enumerate() {
+                            let m = [i1, i2, i3, i4].map(|i| i as i32 - 2);
+                            *g4 = coulomb_integral(m, f);
+                        }
+                    }
                 }
             }
-        }
-    }
+            g
+        })
+        .collect();
     let n = list.len();
-    let mut h = DMatrix::zeros(n, n);
+    let mut out = vec![DMatrix::zeros(n, n); slaters.len()];
+    let bits = |d: Determinant| (0..SPIN_ORBITALS).filter(move |&p| d & (1 << p) != 0);
+    let full: Determinant = (1 << SPIN_ORBITALS) - 1;
+    // Only occupied r, s and empty p, q can contribute: the loops run over those alone, in the
+    // same ascending order as a loop over every spin-orbital (so the sums are unchanged).
     for (j, &d) in list.dets.iter().enumerate() {
-        for r in 0..SPIN_ORBITALS {
+        for r in bits(d) {
             let Some((d1, s1)) = annihilate(d, r) else {
                 continue;
             };
-            for s in 0..SPIN_ORBITALS {
+            for s in bits(d1) {
                 let Some((d2, s2)) = annihilate(d1, s) else {
                     continue;
                 };
-                for q in 0..SPIN_ORBITALS {
+                for q in bits(full & !d2) {
                     if two_ms_of(q) != two_ms_of(s) {
                         continue;
                     }
                     let Some((d3, s3)) = create(d2, q) else {
                         continue;
                     };
-                    for p in 0..SPIN_ORBITALS {
-                        if two_ms_of(p) != two_ms_of(r) {
-                            continue;
-                        }
-                        let v = g[(m_of(p) + 2) as usize][(m_of(q) + 2) as usize]
-                            [(m_of(r) + 2) as usize][(m_of(s) + 2) as usize];
-                        if v == 0.0 {
+                    for p in bits(full & !d3) {
+                        // Spin is conserved, and so is M_L (the integral vanishes otherwise).
+                        if two_ms_of(p) != two_ms_of(r) || m_of(p) + m_of(q) != m_of(r) + m_of(s) {
                             continue;
                         }
                         let Some((d4, s4)) = create(d3, p) else {
                             continue;
                         };
-                        if let Some(i) = list.position(d4) {
-                            h[(i, j)] += 0.5 * v * s1 * s2 * s3 * s4;
+                        let Some(i) = list.position(d4) else {
+                            continue;
+                        };
+                        let sign = 0.5 * s1 * s2 * s3 * s4;
+                        let idx = [p, q, r, s].map(|x| (m_of(x) + 2) as usize);
+                        for (h, g) in out.iter_mut().zip(&tables) {
+                            let v = g[idx[0]][idx[1]][idx[2]][idx[3]];
+                            if v != 0.0 {
+                                h[(i, j)] += v * sign;
+                            }
                         }
                     }
                 }
             }
         }
     }
-    h
+    out
 }
 
 /// Matrix ⟨to_i| Σ_pq h[p][q] a†_p a_q |from_j⟩ of a one-electron operator with complex

@@ -4,7 +4,7 @@
 //! use and shared (it is exact, so caching it changes no result).
 
 use super::basis::{all_determinants, m_of, total_ml, total_two_ms, two_ms_of, Determinant};
-use super::operators::{l_dot_s, one_body, two_body, DetList, Slater};
+use super::operators::{l_dot_s, one_body, two_body_each, DetList, Slater};
 use super::symmetry::{rotation_matrix, spin_orbit_rotation_matrix, Rotation};
 use nalgebra::{Complex, DMatrix, SymmetricEigen};
 use std::sync::OnceLock;
@@ -86,8 +86,47 @@ pub struct SpinOrbitBlock {
     pub excitations: Vec<Option<DMatrix<f64>>>,
     /// Σ_i l_i·s_i (multiply by ζ).
     pub spin_orbit: DMatrix<f64>,
-    /// Total S².
-    pub s_squared: DMatrix<f64>,
+    /// Total S², built on first use (only the spin of spin–orbit levels needs it).
+    s_squared: OnceLock<DMatrix<f64>>,
+}
+
+impl SpinOrbitBlock {
+    /// Total S² = S₋S₊ + S_z² + S_z over the block's determinants (S₊ leads out of the block,
+    /// S₋S₊ back into it).
+    pub fn s_squared(&self) -> &DMatrix<f64> {
+        self.s_squared.get_or_init(|| {
+            let n = self
+                .dets
+                .dets
+                .first()
+                .map_or(0, |d| d.count_ones() as usize);
+            let all = DetList::new(shell(n).determinants.clone());
+            let splus = one_body(&self.dets, &all, |p, q| {
+                if two_ms_of(p) == 1 && two_ms_of(q) == -1 && m_of(p) == m_of(q) {
+                    1.0
+                } else {
+                    0.0
+                }
+            });
+            let mut s2 = splus.transpose() * &splus;
+            for (i, &d) in self.dets.dets.iter().enumerate() {
+                let sz = total_two_ms(d) as f64 / 2.0;
+                s2[(i, i)] += sz * sz + sz;
+            }
+            s2
+        })
+    }
+}
+
+/// The electron repulsion per unit Racah B and per unit Racah C on a determinant list.
+fn racah_unit_repulsion(dets: &DetList) -> Vec<DMatrix<f64>> {
+    two_body_each(
+        dets,
+        &[
+            Slater::from_racah(0.0, 1.0, 0.0),
+            Slater::from_racah(0.0, 0.0, 1.0),
+        ],
+    )
 }
 
 /// Everything cached for one d^n configuration.
@@ -174,20 +213,6 @@ impl Shell {
         } else {
             vec![None]
         };
-        // S² over all determinants: S₋S₊ + S_z² + S_z, restricted per block below.
-        let all = DetList::new(self.determinants.clone());
-        let splus = one_body(&all, &all, |p, q| {
-            if two_ms_of(p) == 1 && two_ms_of(q) == -1 && m_of(p) == m_of(q) {
-                1.0
-            } else {
-                0.0
-            }
-        });
-        let mut s2_all = splus.transpose() * &splus;
-        for (i, &d) in all.dets.iter().enumerate() {
-            let sz = total_two_ms(d) as f64 / 2.0;
-            s2_all[(i, i)] += sz * sz + sz;
-        }
         classes
             .into_iter()
             .map(|class| {
@@ -198,13 +223,6 @@ impl Shell {
                         .filter(|&d| class.is_none_or(|c| class_of(d) == c))
                         .collect(),
                 );
-                let idx: Vec<usize> = dets
-                    .dets
-                    .iter()
-                    .map(|&d| all.position(d).expect("block determinant in full list"))
-                    .collect();
-                let s_squared =
-                    DMatrix::from_fn(dets.len(), dets.len(), |i, j| s2_all[(idx[i], idx[j])]);
                 let mut excitations = Vec::with_capacity(25);
                 for m in -2i32..=2 {
                     for mp in -2i32..=2 {
@@ -221,13 +239,14 @@ impl Shell {
                         })));
                     }
                 }
+                let mut repulsion = racah_unit_repulsion(&dets).into_iter();
                 SpinOrbitBlock {
                     class,
-                    rep_b: two_body(&dets, &Slater::from_racah(0.0, 1.0, 0.0)),
-                    rep_c: two_body(&dets, &Slater::from_racah(0.0, 0.0, 1.0)),
+                    rep_b: repulsion.next().expect("two matrices"),
+                    rep_c: repulsion.next().expect("two matrices"),
                     spin_orbit: one_body(&dets, &dets, l_dot_s),
                     excitations,
-                    s_squared,
+                    s_squared: OnceLock::new(),
                     dets,
                 }
             })
@@ -291,8 +310,10 @@ impl Shell {
             DMatrix::from_columns(&cols)
         };
         let project = |m: DMatrix<f64>| basis.transpose() * m * &basis;
-        let rep_b = project(two_body(&dets, &Slater::from_racah(0.0, 1.0, 0.0)));
-        let rep_c = project(two_body(&dets, &Slater::from_racah(0.0, 0.0, 1.0)));
+        let [rep_b, rep_c]: [DMatrix<f64>; 2] = racah_unit_repulsion(&dets)
+            .try_into()
+            .expect("two matrices");
+        let (rep_b, rep_c) = (project(rep_b), project(rep_c));
         let mut excitations = Vec::with_capacity(25);
         for m in -2i32..=2 {
             for mp in -2i32..=2 {

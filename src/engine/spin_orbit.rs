@@ -207,7 +207,7 @@ impl Calculation {
                 })
                 .collect();
             let overlaps = v0.adjoint() * &st.vectors;
-            let s2 = st.block.s_squared.map(|x| C64::new(x, 0.0));
+            let s2 = st.block.s_squared().map(|x| C64::new(x, 0.0));
             for (k, &e) in st.energies.iter().enumerate() {
                 let mut weights = vec![0.0; spin_free.levels.len()];
                 for (j, &o) in owner.iter().enumerate() {
