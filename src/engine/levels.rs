@@ -238,6 +238,17 @@ impl Calculation {
 
     /// Lowest energy (cm⁻¹, A = 0) of each total spin, as (2S, energy); eigenvalues only.
     pub fn lowest_by_spin(&self) -> Result<Vec<(i32, f64)>> {
+        if self.field.magnitude() > 0.0 && self.field.is_invariant_under(self.group) {
+            if let Some(p) = super::projection::Projection::for_group(self.dn, self.group)? {
+                return p.lowest_by_spin(self);
+            }
+        }
+        self.lowest_by_spin_in_spin_blocks()
+    }
+
+    /// [`Self::lowest_by_spin`] from the spin blocks, for any field (the reference for the
+    /// projected path).
+    pub fn lowest_by_spin_in_spin_blocks(&self) -> Result<Vec<(i32, f64)>> {
         let v = self.field.complex_matrix();
         let mut out: Vec<(i32, f64)> = Vec::new();
         let fourfold = self.fourfold();

@@ -150,6 +150,41 @@ impl Projection {
         })
     }
 
+    /// The lowest energy of each total spin of `calc` (same d^n and group, a field with the
+    /// group's full symmetry), as (2S, energy): the smallest eigenvalue over the projected blocks
+    /// of that spin, the same numbers as [`Calculation::lowest_by_spin`] from smaller matrices.
+    pub fn lowest_by_spin(&self, calc: &Calculation) -> Result<Vec<(i32, f64)>> {
+        if calc.dn != self.dn || calc.group != self.group {
+            return Err(Error::Computation(
+                "a projection is used only for its own shell and group".into(),
+            ));
+        }
+        let v = calc.field.complex_matrix();
+        let mut out: Vec<(i32, f64)> = Vec::new();
+        for blk in &self.blocks {
+            let mut re = &blk.rep_b * calc.b;
+            add_scaled(&mut re, calc.c, &blk.rep_c);
+            let mut im = None;
+            add_field(&mut re, &mut im, &blk.excitations, &v);
+            if im.is_some() {
+                return Err(Error::Computation("the field is not real".into()));
+            }
+            let low = re
+                .symmetric_eigenvalues()
+                .iter()
+                .copied()
+                .fold(f64::INFINITY, f64::min);
+            if !low.is_finite() {
+                return Err(Error::Computation("eigenvalues are not finite".into()));
+            }
+            match out.iter_mut().find(|(s, _)| *s == blk.two_s) {
+                Some(entry) => entry.1 = entry.1.min(low),
+                None => out.push((blk.two_s, low)),
+            }
+        }
+        Ok(out)
+    }
+
     /// The labelled levels of `calc` (same d^n, group and field direction as the reference)
     /// from eigenvalues alone, with parents from `parents`.
     pub fn levels(&self, calc: &Calculation, parents: &ParentTable) -> Result<Spectrum> {

@@ -165,3 +165,57 @@ fn projected_diagram_equals_the_full_one() {
         }
     }
 }
+
+/// `Calculation::levels` and `lowest_by_spin` take the projected blocks for fields with their
+/// group's full symmetry; both must equal the spin-block route (E. P. Wigner, Group Theory and
+/// its Application to the Quantum Mechanics of Atomic Spectra, 1959: H is block-diagonal over
+/// the irreps of its group).
+#[test]
+fn projected_levels_and_spin_minima_equal_the_spin_blocks() {
+    use spinstate::engine::{Calculation, LigandField, PointGroup};
+    let fields = [
+        (LigandField::octahedral(900.0), PointGroup::Oh),
+        (LigandField::octahedral(2600.0), PointGroup::Oh),
+        (LigandField::tetrahedral(500.0), PointGroup::Td),
+        (
+            LigandField::tetragonal(1500.0, 400.0, 150.0),
+            PointGroup::D4h,
+        ),
+        (LigandField::square_planar(1800.0), PointGroup::D4h),
+    ];
+    for dn in 0..=10 {
+        for (field, group) in &fields {
+            let calc = Calculation::new(dn, 780.0, 3500.0, *field, *group).unwrap();
+            assert!(field.is_invariant_under(*group));
+            let mut fast = calc.lowest_by_spin().unwrap();
+            let mut slow = calc.lowest_by_spin_in_spin_blocks().unwrap();
+            fast.sort_by_key(|x| x.0);
+            slow.sort_by_key(|x| x.0);
+            assert_eq!(fast.len(), slow.len(), "d{dn} {group:?}");
+            for (a, b) in fast.iter().zip(&slow) {
+                assert_eq!(a.0, b.0, "d{dn} {group:?}");
+                assert!((a.1 - b.1).abs() < 1e-8, "d{dn} {group:?}: {a:?} vs {b:?}");
+            }
+            let parents = calc.parent_table().unwrap();
+            let projected = calc.levels().unwrap();
+            let blocks = calc.levels_with(&parents, true).unwrap();
+            let key = |l: &spinstate::engine::Level| {
+                (
+                    l.two_s,
+                    l.irrep.clone(),
+                    l.index,
+                    l.parent.clone(),
+                    l.degeneracy,
+                )
+            };
+            let mut a: Vec<_> = projected.levels.iter().map(key).collect();
+            let mut b: Vec<_> = blocks.levels.iter().map(key).collect();
+            a.sort();
+            b.sort();
+            assert_eq!(a, b, "d{dn} {group:?}");
+        }
+    }
+    // A field without the full symmetry is not projected.
+    let bent = LigandField::tetragonal(1500.0, 400.0, 150.0);
+    assert!(!bent.is_invariant_under(PointGroup::Oh));
+}
