@@ -21,7 +21,7 @@ use crate::estimate::{
     self, BondChange, Calibration, Reliability, SpinChoice, SpinGeometry, CALIBRATION,
 };
 use crate::tables::{
-    FieldBasis, Ion, Ligand, Provenance, ReferenceState, Tables, TransitionSeries,
+    DataSet, FieldBasis, Ion, Ligand, Provenance, ReferenceState, TransitionSeries,
 };
 
 use std::str::FromStr;
@@ -264,13 +264,16 @@ impl ComplexSpec {
     /// a ligand that cannot bind in the geometry, a donor count that does not fill the geometry,
     /// a non-finite or non-positive override, or a parameter that can be neither estimated nor
     /// was given.
-    pub fn resolve(&self, tables: &Tables) -> Result<ResolvedComplex> {
+    pub fn resolve(&self, tables: &DataSet) -> Result<ResolvedComplex> {
         self.resolve_with(tables, &CALIBRATION)
     }
 
     /// [`ComplexSpec::resolve`] with other model constants (used by the calibration fit).
-    pub fn resolve_with(&self, tables: &Tables, cal: &Calibration) -> Result<ResolvedComplex> {
-        let ion = tables.ions.find(&self.metal, self.oxidation_state)?.clone();
+    pub fn resolve_with(&self, tables: &DataSet, cal: &Calibration) -> Result<ResolvedComplex> {
+        let ion = tables
+            .ions()?
+            .find(&self.metal, self.oxidation_state)?
+            .clone();
         let geometry = self.geometry;
         if !geometry.estimable() {
             return Err(Error::invalid(
@@ -288,7 +291,7 @@ impl ComplexSpec {
         }
         let mut bound: Vec<BoundLigand> = Vec::new();
         for lc in &self.ligands {
-            let ligand = tables.ligands.find(&lc.name)?;
+            let ligand = tables.ligands()?.find(&lc.name)?;
             if !ligand.binds_in(geometry) {
                 let can: Vec<&str> = ligand.binds.iter().map(|g| g.name()).collect();
                 return Err(Error::invalid(
@@ -414,9 +417,9 @@ impl ComplexSpec {
                 Some(h) => b.h_used = Some(h),
                 None => {
                     let donor = b.ligand.donors.first().map(String::as_str).unwrap_or("");
-                    let (h, names, what) = match tables.ligands.mean_h_for_donor(donor) {
+                    let (h, names, what) = match tables.ligands()?.mean_h_for_donor(donor) {
                         Some((h, names)) => (h, names, format!("{donor}-donor ligands")),
-                        None => match tables.ligands.mean_h() {
+                        None => match tables.ligands()?.mean_h() {
                             Some((h, names)) => (h, names, "all ligands".to_string()),
                             None => continue,
                         },
@@ -439,7 +442,7 @@ impl ComplexSpec {
         let k_used = match ion.k {
             Some(k) => Some(k),
             None => {
-                let d = estimate::default_k(&tables.ions, ion.series);
+                let d = estimate::default_k(tables.ions()?, ion.series);
                 if let Some((k, from)) = &d {
                     if ion.b0.is_some() && self.overrides.b.is_none() && !one_electron(ion.dn) {
                         notes.push(format!(
@@ -667,19 +670,23 @@ fn denticity_word(l: &Ligand) -> &'static str {
 
 impl ResolvedComplex {
     /// The literature row for this complex in `reported_spin_states.csv`, if there is one
-    /// (same metal, oxidation state, geometry and ligands, in any order).
-    pub fn reported<'t>(&self, tables: &'t Tables) -> Option<&'t crate::tables::ReportedComplex> {
+    /// (same metal, oxidation state, geometry and ligands, in any order); an error when the
+    /// table cannot be read.
+    pub fn reported<'t>(
+        &self,
+        tables: &'t DataSet,
+    ) -> Result<Option<&'t crate::tables::ReportedComplex>> {
         let ligands: Vec<(String, usize)> = self
             .ligands
             .iter()
             .map(|b| (b.ligand.name.clone(), b.count))
             .collect();
-        tables.reported.find(
+        Ok(tables.reported()?.find(
             &self.ion.symbol,
             self.ion.oxidation_state,
             self.geometry,
             &ligands,
-        )
+        ))
     }
 
     /// Dq = Δ/10 in the geometry's convention (cm⁻¹).
@@ -779,7 +786,7 @@ mod tests {
     }
 
     fn resolve(metal: &str, ox: i32, geometry: &str, ligands: &[&str]) -> Result<ResolvedComplex> {
-        spec(metal, ox, geometry, ligands).resolve(Tables::bundled().unwrap())
+        spec(metal, ox, geometry, ligands).resolve(DataSet::bundled())
     }
 
     /// Worked examples of Jørgensen's rules with the tables of C. K. Jørgensen (1962, 1971, as
@@ -866,7 +873,7 @@ mod tests {
             b: Some(800.0),
             c: None,
         };
-        let c = s.resolve(Tables::bundled().unwrap()).unwrap();
+        let c = s.resolve(DataSet::bundled()).unwrap();
         assert_eq!(c.delta.origin, Origin::Given);
         assert_eq!(c.delta.value, 10400.0);
         assert_eq!(c.delta.estimate, Some(10400.0));
@@ -882,9 +889,9 @@ mod tests {
         let c = resolve("Fe", 2, "oct", &["NCS:2", "py:4"]).unwrap();
         assert!(c.ligands.iter().all(|b| b.h_defaulted));
         assert!(c.notes.iter().any(|n| n.contains("no published h for py")));
-        let (h, _) = Tables::bundled()
+        let (h, _) = DataSet::bundled()
+            .ligands()
             .unwrap()
-            .ligands
             .mean_h_for_donor("N")
             .unwrap();
         assert_abs_diff_eq!(c.mean_h.unwrap(), h, epsilon = 1e-12);
@@ -926,10 +933,10 @@ mod tests {
     /// and Ni(II).
     #[test]
     fn every_table_ligand_resolves() {
-        let t = Tables::bundled().unwrap();
-        let water = t.ligands.find("H2O").unwrap().binds.clone();
+        let t = DataSet::bundled();
+        let water = t.ligands().unwrap().find("H2O").unwrap().binds.clone();
         let mut checked = 0;
-        for l in &t.ligands.rows {
+        for l in &t.ligands().unwrap().rows {
             for &g in &l.binds {
                 let n = g.coordination_number();
                 if l.denticity() > n || !water.contains(&g) {

@@ -434,7 +434,7 @@ pub fn moment_curve(p: &Prediction, temperatures: &[f64]) -> Result<Option<Momen
 mod tests {
     use super::*;
     use crate::complex::{ComplexSpec, Overrides};
-    use crate::tables::Tables;
+    use crate::tables::DataSet;
     use approx::assert_abs_diff_eq;
 
     fn run(metal: &str, ox: i32, geometry: &str, ligands: &[&str]) -> Prediction {
@@ -445,7 +445,7 @@ mod tests {
             ligands: ligands.iter().map(|l| l.parse().unwrap()).collect(),
             overrides: Overrides::default(),
         };
-        predict(&spec.resolve(Tables::bundled().unwrap()).unwrap()).unwrap()
+        predict(&spec.resolve(DataSet::bundled()).unwrap()).unwrap()
     }
 
     /// Spin-only moments √(n(n+2)) for n = 1…5: 1.732, 2.828, 3.873, 4.899, 5.916 μB

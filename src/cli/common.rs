@@ -2,8 +2,7 @@
 
 use super::Failure;
 use spinstate::engine::{Calculation, Geometry};
-use spinstate::tables::Tables;
-use std::borrow::Cow;
+use spinstate::tables::DataSet;
 use std::path::Path;
 
 /// Output format options.
@@ -73,14 +72,6 @@ pub struct Resolved {
     pub ratio_mode: bool,
 }
 
-/// The chemistry tables: bundled, or with the files in the global `--data DIR` replacing them.
-pub fn load_tables(data: Option<&Path>) -> Result<Cow<'static, Tables>, Failure> {
-    Ok(match data {
-        Some(dir) => Cow::Owned(Tables::from_dir(dir)?),
-        None => Cow::Borrowed(Tables::bundled()?),
-    })
-}
-
 /// A complex named by metal, oxidation state and ligands (all optional: commands that also take
 /// d^n and field parameters directly flatten this in).
 #[derive(Debug, Clone, clap::Args)]
@@ -102,7 +93,7 @@ impl ComplexArgs {
     pub fn resolve(
         &self,
         geometry: Geometry,
-        data: Option<&Path>,
+        data: &DataSet,
     ) -> Result<Option<spinstate::complex::ResolvedComplex>, Failure> {
         match &self.metal {
             Some(metal) => Ok(Some(resolve_complex(
@@ -180,10 +171,9 @@ pub fn resolve_complex(
     ox: i32,
     geometry: Geometry,
     ligands: &[String],
-    data: Option<&Path>,
+    data: &DataSet,
 ) -> Result<spinstate::complex::ResolvedComplex, Failure> {
     use spinstate::complex::{ComplexSpec, LigandCount, Overrides};
-    let tables = load_tables(data)?;
     let ligands = ligands
         .iter()
         .map(|l| {
@@ -198,7 +188,7 @@ pub fn resolve_complex(
         ligands,
         overrides: Overrides::default(),
     };
-    Ok(spec.resolve(&tables)?)
+    Ok(spec.resolve(data)?)
 }
 
 /// Parses a geometry name into a failure with exit code 2.
