@@ -15,7 +15,9 @@
 //! donor atom; a missing C₀ takes the Tanabe–Sugano C/B), applies the values a user gives in
 //! place of the estimates, and records every such choice in `notes`.
 
-use crate::engine::{crossover, Calculation, Crossover, Geometry, LigandField, PointGroup};
+use crate::engine::{
+    crossover, tanabe_sugano_c_over_b, Calculation, Crossover, Geometry, LigandField, PointGroup,
+};
 use crate::error::{Error, Result};
 use crate::estimate::{
     self, BondChange, Calibration, Reliability, SpinChoice, SpinGeometry, CALIBRATION,
@@ -177,27 +179,6 @@ pub const GIVEN_UNCERTAINTY: f64 = 0.05;
 /// B used for one-electron and one-hole ions (d¹, d⁹) and for d⁰, d¹⁰ when the table has no B₀:
 /// their level energies do not depend on B or C, so the value only lets the engine run.
 pub const NOMINAL_B: f64 = 1000.0;
-
-/// C/B ratios of the Tanabe–Sugano diagrams for d² … d⁸ (Y. Tanabe, S. Sugano, *J. Phys. Soc.
-/// Jpn.* 9, 753 and 766, 1954; the ratios printed on the usual reproductions, from memory).
-pub const TANABE_SUGANO_C_OVER_B: [(usize, f64); 7] = [
-    (2, 4.42),
-    (3, 4.50),
-    (4, 4.61),
-    (5, 4.477),
-    (6, 4.8),
-    (7, 4.633),
-    (8, 4.709),
-];
-
-/// C/B used when the table has no C₀: the Tanabe–Sugano ratio of d^n, or 4.5 (inside their
-/// 4.42–4.8 range) for d⁰, d¹, d⁹, d¹⁰ where C does not enter any energy difference.
-pub fn default_c_over_b(dn: usize) -> f64 {
-    TANABE_SUGANO_C_OVER_B
-        .iter()
-        .find(|(n, _)| *n == dn)
-        .map_or(4.5, |(_, r)| *r)
-}
 
 /// A ligand as bound in a complex, with the nephelauxetic factor used for it.
 #[derive(Debug, Clone, PartialEq)]
@@ -509,11 +490,11 @@ impl ComplexSpec {
                     notes.push(format!(
                         "no free-ion C0 for {}: C = {:.3}·B, the Tanabe–Sugano C/B for d{}",
                         ion.name(),
-                        default_c_over_b(ion.dn),
+                        tanabe_sugano_c_over_b(ion.dn),
                         ion.dn
                     ));
                 }
-                default_c_over_b(ion.dn)
+                tanabe_sugano_c_over_b(ion.dn)
             }
         };
         let c_estimate = (b.origin != Origin::Nominal).then_some(c_over_b * b.value);

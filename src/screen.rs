@@ -43,7 +43,6 @@
 //! window, so a sphere ranked "at the crossover" is a starting point for synthesis, not a
 //! prediction of a transition temperature.
 
-use crate::complex::default_c_over_b;
 use crate::engine::{crossover, Crossover, Geometry};
 use crate::error::{Error, Result};
 use crate::estimate::{self, Calibration, Reliability, SpinGeometry, SpinState, CALIBRATION};
@@ -757,7 +756,7 @@ fn prepare_ion(tables: &DataSet, spec: &IonSpec, geometry: Geometry) -> Result<S
     let ion = ions.find(&spec.metal, spec.oxidation_state)?.clone();
     let c_over_b = match (ion.c0, ion.b0) {
         (Some(c0), Some(b0)) => c0 / b0,
-        _ => default_c_over_b(ion.dn),
+        _ => crate::engine::tanabe_sugano_c_over_b(ion.dn),
     };
     let cross = crossover(ion.dn, geometry, c_over_b)?;
     let (Some(xc), Some(slope)) = (cross.delta_over_b, cross.slope) else {

@@ -19,7 +19,7 @@
 //! the metal, oxidation state and ligands can fill it from its own tables.
 
 use super::Measured;
-use crate::engine::levels::L_LETTERS;
+use crate::engine::levels::term_l;
 use crate::engine::{Calculation, Geometry};
 use crate::error::{Error, Result};
 use crate::tables::moment_ranges::MomentRangeTable;
@@ -183,11 +183,6 @@ fn ground_at(dn: usize, geometry: Geometry, delta_over_b: f64) -> Result<crate::
     Ok(calc.levels()?.ground().clone())
 }
 
-fn parent_l(parent: &str) -> Option<usize> {
-    let letter = parent.chars().find(|c| c.is_ascii_alphabetic())?;
-    L_LETTERS.iter().position(|l| *l == letter)
-}
-
 fn orbital_kind(geometry: Geometry, irrep: &str, two_s: i32) -> Orbital {
     if two_s == 0 {
         return Orbital::NotApplicable;
@@ -330,12 +325,11 @@ pub fn expectations(
     }
     let mut out = Vec::new();
     for (level, state) in grounds {
-        let s = f64::from(level.two_s) / 2.0;
-        let spin_only = (4.0 * s * (s + 1.0)).sqrt();
+        let spin_only = crate::units::spin_only_moment(f64::from(level.two_s));
         let spin_orbital = if level.two_s == 0 {
             None
         } else {
-            parent_l(&level.parent).map(|l| (4.0 * s * (s + 1.0) + (l * (l + 1)) as f64).sqrt())
+            term_l(&level.parent).map(|l| crate::units::spin_orbital_moment(level.two_s, l))
         };
         let orbital = orbital_kind(spec.geometry, &level.irrep, level.two_s);
         let lambda = match (zeta, level.two_s) {
