@@ -15,6 +15,8 @@ type Lazy<T> = OnceLock<Result<T>>;
 /// The data tables of one run: the bundled copies, with the files of a `--data` directory (or
 /// texts given in memory) replacing them file by file. A table is read and parsed on first use
 /// and kept; a table that fails to parse fails every time it is asked for, with the same error.
+/// `DataSet::default()` is an owned set of the bundled tables (to replace some with
+/// [`DataSet::with_text`]).
 #[derive(Debug, Default)]
 pub struct DataSet {
     dir: Option<PathBuf>,

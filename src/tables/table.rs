@@ -73,11 +73,6 @@ impl<'a> Record<'a> {
             self.fields.get(idx).unwrap_or(""),
         )
     }
-
-    /// An error about the whole row: "line N: {what}".
-    pub fn error(&self, what: impl std::fmt::Display) -> Error {
-        table_error(self.table, format!("line {}: {what}", self.line))
-    }
 }
 
 fn table_error(table: &str, message: String) -> Error {
