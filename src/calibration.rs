@@ -17,7 +17,7 @@
 use crate::complex::{ComplexSpec, LigandCount, Overrides};
 use crate::engine::{ground_spin_map, spin_from_map, Crossover, Geometry};
 use crate::estimate::{self, Calibration, SpinGeometry, SpinState};
-use crate::tables::{Category, Ion, ReportedComplex, ReportedSpin, Tables};
+use crate::tables::{Category, DataSet, Ion, ReportedComplex, ReportedSpin};
 
 /// The values searched for each constant of [`Calibration`].
 #[derive(Debug, Clone, Copy)]
@@ -116,10 +116,10 @@ impl Case {
     }
 }
 
-/// Resolves every reported complex once.
-pub fn cases(tables: &Tables) -> Vec<Case> {
-    tables
-        .reported
+/// Resolves every reported complex once (an error when the reported table cannot be read).
+pub fn cases(tables: &DataSet) -> crate::error::Result<Vec<Case>> {
+    Ok(tables
+        .reported()?
         .rows
         .iter()
         .map(|r| {
@@ -167,7 +167,7 @@ pub fn cases(tables: &Tables) -> Vec<Case> {
                 },
             }
         })
-        .collect()
+        .collect())
 }
 
 /// Every calibration of the grid, in a fixed order.
@@ -240,8 +240,8 @@ impl Assessment {
 }
 
 /// Fits the constants to all cases and measures leave-one-out accuracy.
-pub fn assess(tables: &Tables) -> Assessment {
-    let cases = cases(tables);
+pub fn assess(tables: &DataSet) -> crate::error::Result<Assessment> {
+    let cases = cases(tables)?;
     let grid = grid();
     let right: Vec<Vec<bool>> = grid
         .iter()
@@ -267,12 +267,12 @@ pub fn assess(tables: &Tables) -> Assessment {
     };
     let fitted_index = best(None);
     let leave_one_out = (0..cases.len()).map(|i| right[best(Some(i))][i]).collect();
-    Assessment {
+    Ok(Assessment {
         fitted: grid[fitted_index],
         in_sample_right: totals[fitted_index],
         leave_one_out,
         cases,
-    }
+    })
 }
 
 #[cfg(test)]
@@ -284,8 +284,8 @@ mod tests {
     /// its published source in data/reported_spin_states.csv); fails below 90 % overall.
     #[test]
     fn leave_one_out_accuracy() {
-        let t = Tables::bundled().unwrap();
-        let a = assess(t);
+        let t = DataSet::bundled();
+        let a = assess(t).unwrap();
         assert!(a.cases.len() >= 150, "{} reported complexes", a.cases.len());
         for (cat, right, total) in a.by_category() {
             println!(
@@ -319,7 +319,7 @@ mod tests {
     /// The constants shipped in `estimate::CALIBRATION` are the fit to the bundled table.
     #[test]
     fn shipped_constants_are_the_fit() {
-        let a = assess(Tables::bundled().unwrap());
+        let a = assess(DataSet::bundled()).unwrap();
         assert_eq!(a.fitted, CALIBRATION);
     }
 }

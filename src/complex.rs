@@ -15,14 +15,16 @@
 //! donor atom; a missing C₀ takes the Tanabe–Sugano C/B), applies the values a user gives in
 //! place of the estimates, and records every such choice in `notes`.
 
-use crate::engine::{crossover, Calculation, Crossover, Geometry, LigandField, PointGroup};
+use crate::engine::{
+    crossover, tanabe_sugano_c_over_b, Calculation, Crossover, Geometry, LigandField, PointGroup,
+};
 use crate::error::{Error, Result};
 use crate::estimate::{
     self, BondChange, Calibration, Reliability, SpinChoice, SpinGeometry, CALIBRATION,
 };
 use crate::param::Param;
 use crate::tables::{
-    FieldBasis, Ion, Ligand, Provenance, ReferenceState, Tables, TransitionSeries,
+    DataSet, FieldBasis, Ion, Ligand, Provenance, ReferenceState, TransitionSeries,
 };
 
 use std::str::FromStr;
@@ -186,27 +188,6 @@ pub const GIVEN_UNCERTAINTY: f64 = 0.05;
 /// their level energies do not depend on B or C, so the value only lets the engine run.
 pub const NOMINAL_B: f64 = 1000.0;
 
-/// C/B ratios of the Tanabe–Sugano diagrams for d² … d⁸ (Y. Tanabe, S. Sugano, *J. Phys. Soc.
-/// Jpn.* 9, 753 and 766, 1954; the ratios printed on the usual reproductions, from memory).
-pub const TANABE_SUGANO_C_OVER_B: [(usize, f64); 7] = [
-    (2, 4.42),
-    (3, 4.50),
-    (4, 4.61),
-    (5, 4.477),
-    (6, 4.8),
-    (7, 4.633),
-    (8, 4.709),
-];
-
-/// C/B used when the table has no C₀: the Tanabe–Sugano ratio of d^n, or 4.5 (inside their
-/// 4.42–4.8 range) for d⁰, d¹, d⁹, d¹⁰ where C does not enter any energy difference.
-pub fn default_c_over_b(dn: usize) -> f64 {
-    TANABE_SUGANO_C_OVER_B
-        .iter()
-        .find(|(n, _)| *n == dn)
-        .map_or(4.5, |(_, r)| *r)
-}
-
 /// A ligand as bound in a complex, with the nephelauxetic factor used for it.
 #[derive(Debug, Clone, PartialEq)]
 pub struct BoundLigand {
@@ -272,13 +253,16 @@ impl ComplexSpec {
     /// a ligand that cannot bind in the geometry, a donor count that does not fill the geometry,
     /// a non-finite or non-positive override, or a parameter that can be neither estimated nor
     /// was given.
-    pub fn resolve(&self, tables: &Tables) -> Result<ResolvedComplex> {
+    pub fn resolve(&self, tables: &DataSet) -> Result<ResolvedComplex> {
         self.resolve_with(tables, &CALIBRATION)
     }
 
     /// [`ComplexSpec::resolve`] with other model constants (used by the calibration fit).
-    pub fn resolve_with(&self, tables: &Tables, cal: &Calibration) -> Result<ResolvedComplex> {
-        let ion = tables.ions.find(&self.metal, self.oxidation_state)?.clone();
+    pub fn resolve_with(&self, tables: &DataSet, cal: &Calibration) -> Result<ResolvedComplex> {
+        let ion = tables
+            .ions()?
+            .find(&self.metal, self.oxidation_state)?
+            .clone();
         let geometry = self.geometry;
         if !geometry.estimable() {
             return Err(Error::invalid(
@@ -296,7 +280,7 @@ impl ComplexSpec {
         }
         let mut bound: Vec<BoundLigand> = Vec::new();
         for lc in &self.ligands {
-            let ligand = tables.ligands.find(&lc.name)?;
+            let ligand = tables.ligands()?.find(&lc.name)?;
             if !ligand.binds_in(geometry) {
                 let can: Vec<&str> = ligand.binds.iter().map(|g| g.name()).collect();
                 return Err(Error::invalid(
@@ -423,9 +407,9 @@ impl ComplexSpec {
                 Some(h) => b.h_used = Some(h),
                 None => {
                     let donor = b.ligand.donors.first().map(String::as_str).unwrap_or("");
-                    let (h, names, what) = match tables.ligands.mean_h_for_donor(donor) {
+                    let (h, names, what) = match tables.ligands()?.mean_h_for_donor(donor) {
                         Some((h, names)) => (h, names, format!("{donor}-donor ligands")),
-                        None => match tables.ligands.mean_h() {
+                        None => match tables.ligands()?.mean_h() {
                             Some((h, names)) => (h, names, "all ligands".to_string()),
                             None => continue,
                         },
@@ -448,7 +432,7 @@ impl ComplexSpec {
         let k_used = match ion.k {
             Some(k) => Some(k),
             None => {
-                let d = estimate::default_k(&tables.ions, ion.series);
+                let d = estimate::default_k(tables.ions()?, ion.series);
                 if let Some((k, from)) = &d {
                     if ion.b0.is_some() && self.overrides.b.is_none() && !one_electron(ion.dn) {
                         notes.push(format!(
@@ -515,11 +499,11 @@ impl ComplexSpec {
                     notes.push(format!(
                         "no free-ion C0 for {}: C = {:.3}·B, the Tanabe–Sugano C/B for d{}",
                         ion.name(),
-                        default_c_over_b(ion.dn),
+                        tanabe_sugano_c_over_b(ion.dn),
                         ion.dn
                     ));
                 }
-                default_c_over_b(ion.dn)
+                tanabe_sugano_c_over_b(ion.dn)
             }
         };
         let c_estimate = (b.origin != Origin::Nominal).then_some(c_over_b * b.value);
@@ -676,19 +660,23 @@ fn denticity_word(l: &Ligand) -> &'static str {
 
 impl ResolvedComplex {
     /// The literature row for this complex in `reported_spin_states.csv`, if there is one
-    /// (same metal, oxidation state, geometry and ligands, in any order).
-    pub fn reported<'t>(&self, tables: &'t Tables) -> Option<&'t crate::tables::ReportedComplex> {
+    /// (same metal, oxidation state, geometry and ligands, in any order); an error when the
+    /// table cannot be read.
+    pub fn reported<'t>(
+        &self,
+        tables: &'t DataSet,
+    ) -> Result<Option<&'t crate::tables::ReportedComplex>> {
         let ligands: Vec<(String, usize)> = self
             .ligands
             .iter()
             .map(|b| (b.ligand.name.clone(), b.count))
             .collect();
-        tables.reported.find(
+        Ok(tables.reported()?.find(
             &self.ion.symbol,
             self.ion.oxidation_state,
             self.geometry,
             &ligands,
-        )
+        ))
     }
 
     /// Dq = Δ/10 in the geometry's convention (cm⁻¹).
@@ -788,7 +776,7 @@ mod tests {
     }
 
     fn resolve(metal: &str, ox: i32, geometry: &str, ligands: &[&str]) -> Result<ResolvedComplex> {
-        spec(metal, ox, geometry, ligands).resolve(Tables::bundled().unwrap())
+        spec(metal, ox, geometry, ligands).resolve(DataSet::bundled())
     }
 
     /// Worked examples of Jørgensen's rules with the tables of C. K. Jørgensen (1962, 1971, as
@@ -875,7 +863,7 @@ mod tests {
             b: Some(800.0),
             c: None,
         };
-        let c = s.resolve(Tables::bundled().unwrap()).unwrap();
+        let c = s.resolve(DataSet::bundled()).unwrap();
         assert_eq!(c.delta.origin, Origin::Given);
         assert_eq!(c.delta.value, 10400.0);
         assert_eq!(c.delta.estimate, Some(10400.0));
@@ -891,9 +879,9 @@ mod tests {
         let c = resolve("Fe", 2, "oct", &["NCS:2", "py:4"]).unwrap();
         assert!(c.ligands.iter().all(|b| b.h_defaulted));
         assert!(c.notes.iter().any(|n| n.contains("no published h for py")));
-        let (h, _) = Tables::bundled()
+        let (h, _) = DataSet::bundled()
+            .ligands()
             .unwrap()
-            .ligands
             .mean_h_for_donor("N")
             .unwrap();
         assert_abs_diff_eq!(c.mean_h.unwrap(), h, epsilon = 1e-12);
@@ -935,10 +923,10 @@ mod tests {
     /// and Ni(II).
     #[test]
     fn every_table_ligand_resolves() {
-        let t = Tables::bundled().unwrap();
-        let water = t.ligands.find("H2O").unwrap().binds.clone();
+        let t = DataSet::bundled();
+        let water = t.ligands().unwrap().find("H2O").unwrap().binds.clone();
         let mut checked = 0;
-        for l in &t.ligands.rows {
+        for l in &t.ligands().unwrap().rows {
             for &g in &l.binds {
                 let n = g.coordination_number();
                 if l.denticity() > n || !water.contains(&g) {

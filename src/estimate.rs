@@ -452,7 +452,7 @@ mod tests {
     use super::*;
     use crate::complex::{ComplexSpec, Overrides, ResolvedComplex};
     use crate::engine::crossover;
-    use crate::tables::Tables;
+    use crate::tables::DataSet;
     use approx::assert_abs_diff_eq;
 
     /// σ-antibonding electrons per bond: high-spin d⁶ oct has e_g², low-spin none; low-spin
@@ -476,8 +476,8 @@ mod tests {
     /// effective exponent), so its ratio is smaller too.
     #[test]
     fn iron_ii_ratio_is_hausers() {
-        let t = crate::tables::Tables::bundled().unwrap();
-        let ion = t.ions.find("Fe", 2).unwrap();
+        let t = crate::tables::DataSet::bundled();
+        let ion = t.ions().unwrap().find("Fe", 2).unwrap();
         let cross = crossover(6, Geometry::Octahedral, 4.8).unwrap();
         for n in [5.0, 6.0] {
             let cal = Calibration {
@@ -539,13 +539,13 @@ mod tests {
             ligands: ligands.iter().map(|l| l.parse().unwrap()).collect(),
             overrides: Overrides::default(),
         }
-        .resolve(Tables::bundled().unwrap())
+        .resolve(DataSet::bundled())
         .unwrap()
     }
 
     /// The verdict for Fe(II) at a given high-spin field, B of an FeN₆ complex.
     fn iron_ii_verdict(delta_hs: f64, cal: &Calibration) -> SpinState {
-        let ion = Tables::bundled().unwrap().ions.find("Fe", 2).unwrap();
+        let ion = DataSet::bundled().ions().unwrap().find("Fe", 2).unwrap();
         let cross = crossover(6, Geometry::Octahedral, 4.8).unwrap();
         let sg = SpinGeometry::new(ion, Geometry::Octahedral, &cross, cal);
         let b = 783.0; // B₀β for Fe(II) with N donors (h̄ ≈ 1.8, k = 0.08), as estimated
@@ -562,7 +562,7 @@ mod tests {
     fn hauser_iron_ii_windows() {
         let cal = CALIBRATION;
         let ratio = {
-            let ion = Tables::bundled().unwrap().ions.find("Fe", 2).unwrap();
+            let ion = DataSet::bundled().ions().unwrap().find("Fe", 2).unwrap();
             let cross = crossover(6, Geometry::Octahedral, 4.8).unwrap();
             SpinGeometry::new(ion, Geometry::Octahedral, &cross, &cal).ratio
         };
@@ -623,7 +623,7 @@ mod tests {
             ligands: vec!["CN:6".parse().unwrap()],
             overrides: Overrides::default(),
         }
-        .resolve_with(Tables::bundled().unwrap(), &hauser)
+        .resolve_with(DataSet::bundled(), &hauser)
         .unwrap();
         let physical = c.delta_low_spin.value / fg;
         assert!((physical / 1.8 - 1.0).abs() < 0.10, "{physical}");

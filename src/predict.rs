@@ -8,10 +8,11 @@
 //! the ground state's Δ; the bands of each spin state from a calculation at that state's Δ.
 
 use crate::complex::ResolvedComplex;
-use crate::engine::levels::L_LETTERS;
+use crate::engine::levels::term_l;
 use crate::engine::{Crossover, Level, PointGroup, Spectrum};
 use crate::error::{Error, Result};
 use crate::magnetism::{MagneticModel, ZeemanLevels};
+use crate::units::{spin_only_moment, spin_orbital_moment};
 
 pub use crate::estimate::SpinState;
 
@@ -135,25 +136,6 @@ pub struct Prediction {
     pub bands_low_spin: Option<SpinBands>,
     /// Explanations: the complex's estimate notes, then notes on the prediction.
     pub notes: Vec<String>,
-}
-
-/// Spin-only moment √(n(n+2)) in μB for n unpaired electrons (g = 2).
-pub fn spin_only_moment(unpaired: usize) -> f64 {
-    let n = unpaired as f64;
-    (n * (n + 2.0)).sqrt()
-}
-
-/// Spin-plus-orbital moment √(4S(S+1) + L(L+1)) in μB (no quenching), for 2S and L.
-pub fn spin_orbital_moment(two_s: i32, l: usize) -> f64 {
-    let s = two_s as f64 / 2.0;
-    let l = l as f64;
-    (4.0 * s * (s + 1.0) + l * (l + 1.0)).sqrt()
-}
-
-/// L of a free-ion term symbol such as "5D".
-pub fn term_l(term: &str) -> Option<usize> {
-    let letter = term.chars().find(|c| c.is_ascii_alphabetic())?;
-    L_LETTERS.iter().position(|&c| c == letter)
 }
 
 fn spin_bands(
@@ -375,7 +357,7 @@ pub fn predict_with(complex: &ResolvedComplex, options: PredictOptions) -> Resul
         margin,
         spin: ground.spin(),
         unpaired,
-        spin_only_moment: spin_only_moment(unpaired),
+        spin_only_moment: spin_only_moment(unpaired as f64),
         orbital_moment: first_order_orbital.then(|| spin_orbital_moment(ground.two_s, l)),
         moment_300k,
         energy_gap,
@@ -434,7 +416,7 @@ pub fn moment_curve(p: &Prediction, temperatures: &[f64]) -> Result<Option<Momen
 mod tests {
     use super::*;
     use crate::complex::{ComplexSpec, Overrides};
-    use crate::tables::Tables;
+    use crate::tables::DataSet;
     use approx::assert_abs_diff_eq;
 
     fn run(metal: &str, ox: i32, geometry: &str, ligands: &[&str]) -> Prediction {
@@ -445,27 +427,7 @@ mod tests {
             ligands: ligands.iter().map(|l| l.parse().unwrap()).collect(),
             overrides: Overrides::default(),
         };
-        predict(&spec.resolve(Tables::bundled().unwrap()).unwrap()).unwrap()
-    }
-
-    /// Spin-only moments √(n(n+2)) for n = 1…5: 1.732, 2.828, 3.873, 4.899, 5.916 μB
-    /// (G. A. Bain, J. F. Berry, J. Chem. Educ. 2008, 85, 532, eq 3a).
-    #[test]
-    fn spin_only_moments() {
-        for (n, mu) in [(1, 1.732), (2, 2.828), (3, 3.873), (4, 4.899), (5, 5.916)] {
-            assert_abs_diff_eq!(spin_only_moment(n), mu, epsilon = 5e-4);
-        }
-        assert_eq!(spin_only_moment(0), 0.0);
-    }
-
-    /// μ(S+L) = √(4S(S+1) + L(L+1)): for Co2+ (4F, S = 3/2, L = 3) √27 = 5.20 μB and for Cr3+
-    /// the same term; Fe2+ 5D gives √30 = 5.48 (common practice; the formula as in common practice).
-    #[test]
-    fn spin_plus_orbital_moments() {
-        assert_abs_diff_eq!(spin_orbital_moment(3, 3), 27f64.sqrt(), epsilon = 1e-12);
-        assert_abs_diff_eq!(spin_orbital_moment(4, 2), 30f64.sqrt(), epsilon = 1e-12);
-        assert_eq!(term_l("4F"), Some(3));
-        assert_eq!(term_l("2I"), Some(6));
+        predict(&spec.resolve(DataSet::bundled()).unwrap()).unwrap()
     }
 
     /// Ground terms on either side of the crossover (J. Pollock et al., J. Am. Chem. Soc. 2014,

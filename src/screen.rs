@@ -43,12 +43,11 @@
 //! window, so a sphere ranked "at the crossover" is a starting point for synthesis, not a
 //! prediction of a transition temperature.
 
-use crate::complex::default_c_over_b;
 use crate::engine::{crossover, Crossover, Geometry};
 use crate::error::{Error, Result};
 use crate::estimate::{self, Calibration, Reliability, SpinGeometry, SpinState, CALIBRATION};
 use crate::param::Param;
-use crate::tables::{FieldBasis, Ion, Ligand, Tables, TransitionSeries};
+use crate::tables::{DataSet, FieldBasis, Ion, Ligand, LigandTable, TransitionSeries};
 use mendeleev::Element;
 use std::cmp::Ordering;
 use std::collections::BinaryHeap;
@@ -753,11 +752,12 @@ pub fn count_spheres(denticities: &[usize], sites: usize) -> u64 {
     ways[sites]
 }
 
-fn prepare_ion(tables: &Tables, spec: &IonSpec, geometry: Geometry) -> Result<ScreenIon> {
-    let ion = tables.ions.find(&spec.metal, spec.oxidation_state)?.clone();
+fn prepare_ion(tables: &DataSet, spec: &IonSpec, geometry: Geometry) -> Result<ScreenIon> {
+    let ions = tables.ions()?;
+    let ion = ions.find(&spec.metal, spec.oxidation_state)?.clone();
     let c_over_b = match (ion.c0, ion.b0) {
         (Some(c0), Some(b0)) => c0 / b0,
-        _ => default_c_over_b(ion.dn),
+        _ => crate::engine::tanabe_sugano_c_over_b(ion.dn),
     };
     let cross = crossover(ion.dn, geometry, c_over_b)?;
     let (Some(xc), Some(slope)) = (cross.delta_over_b, cross.slope) else {
@@ -788,7 +788,7 @@ fn prepare_ion(tables: &Tables, spec: &IonSpec, geometry: Geometry) -> Result<Sc
     let spin_geometry = SpinGeometry::new(&ion, geometry, &cross, &CALIBRATION);
     let k = ion
         .k
-        .or_else(|| estimate::default_k(&tables.ions, ion.series).map(|(k, _)| k));
+        .or_else(|| estimate::default_k(ions, ion.series).map(|(k, _)| k));
     Ok(ScreenIon {
         g,
         b0,
@@ -825,9 +825,8 @@ fn unusable(l: &Ligand, geometry: Geometry) -> Option<String> {
     None
 }
 
-fn table_index(tables: &Tables, l: &Ligand) -> usize {
-    tables
-        .ligands
+fn table_index(ligands: &LigandTable, l: &Ligand) -> usize {
+    ligands
         .rows
         .iter()
         .position(|r| r.name == l.name)
@@ -836,16 +835,12 @@ fn table_index(tables: &Tables, l: &Ligand) -> usize {
 
 /// The h that `resolve` uses for a ligand: its own, or the mean of ligands with the same first
 /// donor atom, or of all ligands.
-fn h_used(tables: &Tables, l: &Ligand) -> (Option<f64>, bool) {
+fn h_used(ligands: &LigandTable, l: &Ligand) -> (Option<f64>, bool) {
     match l.h {
         Some(h) => (Some(h), false),
         None => {
             let donor = l.donors.first().map(String::as_str).unwrap_or("");
-            match tables
-                .ligands
-                .mean_h_for_donor(donor)
-                .or_else(|| tables.ligands.mean_h())
-            {
+            match ligands.mean_h_for_donor(donor).or_else(|| ligands.mean_h()) {
                 Some((h, _)) => (Some(h), true),
                 None => (None, false),
             }
@@ -871,12 +866,12 @@ fn donor_key(atoms: &[String], slots: &[String]) -> u32 {
 }
 
 fn pool_ligand(
-    tables: &Tables,
+    ligands: &LigandTable,
     l: &Ligand,
     ion_needs_h: bool,
     slots: &[String],
 ) -> Result<PoolLigand> {
-    let (h, h_defaulted) = h_used(tables, l);
+    let (h, h_defaulted) = h_used(ligands, l);
     if h.is_none() && ion_needs_h {
         return Err(Error::invalid(
             Param::NamedLigand(l.name.clone()),
@@ -897,7 +892,7 @@ fn pool_ligand(
     }
     Ok(PoolLigand {
         ligand: l.clone(),
-        table_index: table_index(tables, l),
+        table_index: table_index(ligands, l),
         denticity: d,
         f,
         h,
@@ -912,7 +907,7 @@ fn pool_ligand(
 
 impl Screen {
     fn prepare_ions(
-        tables: &Tables,
+        tables: &DataSet,
         ions: &[IonSpec],
         geometry: Geometry,
     ) -> Result<Vec<ScreenIon>> {
@@ -974,11 +969,12 @@ impl Screen {
         Ok(())
     }
 
-    fn resolve_names<'t>(tables: &'t Tables, names: &[String]) -> Result<Vec<&'t Ligand>> {
-        names.iter().map(|n| tables.ligands.find(n)).collect()
+    fn resolve_names<'t>(tables: &'t DataSet, names: &[String]) -> Result<Vec<&'t Ligand>> {
+        let ligands = tables.ligands()?;
+        names.iter().map(|n| ligands.find(n)).collect()
     }
 
-    fn compile(&mut self, tables: &Tables) -> Result<()> {
+    fn compile(&mut self, tables: &DataSet) -> Result<()> {
         let index_of = |l: &Ligand| self.pool.iter().position(|p| p.ligand.name == l.name);
         let mut require = Vec::new();
         for l in Self::resolve_names(tables, &self.filters.require)? {
@@ -1068,13 +1064,14 @@ impl Screen {
     /// cannot bind in the geometry, an ion without crossover, g or B₀, a pool that cannot fill
     /// the geometry, or more than [`MAX_CANDIDATES`] spheres.
     pub fn from_pool(
-        tables: &Tables,
+        tables: &DataSet,
         ions: &[IonSpec],
         geometry: Geometry,
         pool: &[String],
         filters: &Filters,
         target: Target,
     ) -> Result<Screen> {
+        let ligands = tables.ligands()?;
         let screen_ions = Self::prepare_ions(tables, ions, geometry)?;
         Self::check_filters(filters, geometry)?;
         let forbidden = Self::resolve_names(tables, &filters.forbid)?;
@@ -1082,14 +1079,14 @@ impl Screen {
         let mut problems: Vec<String> = Vec::new();
         for name in pool {
             if name.trim().eq_ignore_ascii_case("all") {
-                for l in &tables.ligands.rows {
+                for l in &ligands.rows {
                     if unusable(l, geometry).is_none() && !chosen.iter().any(|c| c.name == l.name) {
                         chosen.push(l);
                     }
                 }
                 continue;
             }
-            let l = tables.ligands.find(name)?;
+            let l = ligands.find(name)?;
             if let Some(why) = unusable(l, geometry) {
                 problems.push(why);
             } else if !chosen.iter().any(|c| c.name == l.name) {
@@ -1118,12 +1115,12 @@ impl Screen {
                 format!("at most {MAX_POOL} ligands"),
             ));
         }
-        chosen.sort_by_key(|l| table_index(tables, l));
+        chosen.sort_by_key(|l| table_index(ligands, l));
         let slots = donor_slots(filters.donors.as_ref());
         let needs_h = screen_ions.iter().any(|i| i.k.is_some());
         let prepared = chosen
             .iter()
-            .map(|l| pool_ligand(tables, l, needs_h, &slots))
+            .map(|l| pool_ligand(ligands, l, needs_h, &slots))
             .collect::<Result<Vec<_>>>()?;
         let mut screen = Screen {
             calibration: CALIBRATION,
@@ -1170,13 +1167,14 @@ impl Screen {
     /// cannot be used are returned as [`RowError`]s; the others are screened. Errors (the whole
     /// file): no `ligands` column, no row at all, malformed CSV, or a bad ion or filter.
     pub fn from_candidates(
-        tables: &Tables,
+        tables: &DataSet,
         ions: &[IonSpec],
         geometry: Geometry,
         csv_text: &str,
         filters: &Filters,
         target: Target,
     ) -> Result<(Screen, Vec<RowError>)> {
+        let ligands = tables.ligands()?;
         let screen_ions = Self::prepare_ions(tables, ions, geometry)?;
         Self::check_filters(filters, geometry)?;
         if let Some(line) = crate::csv_input::unclosed_quote(csv_text, Some(b'#')) {
@@ -1251,7 +1249,7 @@ impl Screen {
                         break;
                     }
                 };
-                let l = match tables.ligands.find(&lc.name) {
+                let l = match ligands.find(&lc.name) {
                     Ok(l) => l,
                     Err(e) => {
                         bad = Some(e.to_string());
@@ -1262,7 +1260,7 @@ impl Screen {
                     bad = Some(why);
                     break;
                 }
-                let ti = table_index(tables, l);
+                let ti = table_index(ligands, l);
                 match parsed.iter_mut().find(|(t, _)| *t == ti) {
                     Some((_, c)) => *c = c.saturating_add(lc.count),
                     None => parsed.push((ti, lc.count)),
@@ -1273,7 +1271,7 @@ impl Screen {
                 continue;
             }
             let donors: usize = parsed.iter().fold(0, |n, (t, c)| {
-                n.saturating_add(c.saturating_mul(tables.ligands.rows[*t].denticity()))
+                n.saturating_add(c.saturating_mul(ligands.rows[*t].denticity()))
             });
             if donors != cn {
                 errors.push(err(format!(
@@ -1314,7 +1312,7 @@ impl Screen {
         let needs_h = screen_ions.iter().any(|i| i.k.is_some());
         let pool = used
             .iter()
-            .map(|&t| pool_ligand(tables, &tables.ligands.rows[t], needs_h, &slots))
+            .map(|&t| pool_ligand(ligands, &ligands.rows[t], needs_h, &slots))
             .collect::<Result<Vec<_>>>()?;
         let mut spheres: Vec<(Sphere, Option<String>)> = rows
             .into_iter()
@@ -1729,8 +1727,8 @@ mod tests {
     const LIGAND_HEADER: &str =
         "name,aliases,donors,denticity,charge,f,f_from,h,e_sigma,e_pi,pi,binds,caution,source";
 
-    fn bundled() -> &'static Tables {
-        Tables::bundled().unwrap()
+    fn bundled() -> &'static DataSet {
+        DataSet::bundled()
     }
 
     fn fe2() -> Vec<IonSpec> {
@@ -1745,7 +1743,7 @@ mod tests {
     }
 
     /// A table of `n` synthetic monodentate N-donor ligands (test-only; not real ligands).
-    fn synthetic_monodentates(n: usize) -> Tables {
+    fn synthetic_monodentates(n: usize) -> DataSet {
         let mut csv = String::from(LIGAND_HEADER);
         csv.push('\n');
         for i in 0..n {
@@ -1754,7 +1752,7 @@ mod tests {
                 0.7 + 0.03 * i as f64
             ));
         }
-        Tables::parse_chemistry(include_str!("../data/ions.csv"), &csv).unwrap()
+        DataSet::default().with_text::<LigandTable>(csv)
     }
 
     fn binomial(n: u64, k: u64) -> u64 {
@@ -1828,7 +1826,13 @@ mod tests {
         }
         assert_eq!(binomial(35, 6), 1_623_160);
         let t = synthetic_monodentates(30);
-        let pool: Vec<String> = t.ligands.rows.iter().map(|l| l.name.clone()).collect();
+        let pool: Vec<String> = t
+            .ligands()
+            .unwrap()
+            .rows
+            .iter()
+            .map(|l| l.name.clone())
+            .collect();
         let s = Screen::from_pool(
             &t,
             &fe2(),

@@ -206,6 +206,13 @@ pub fn spin_only_moment(unpaired: f64) -> f64 {
     (unpaired * (unpaired + 2.0)).sqrt()
 }
 
+/// Spin-plus-orbital moment √(4S(S+1) + L(L+1)) μB (no quenching), for 2S and L.
+pub fn spin_orbital_moment(two_s: i32, l: usize) -> f64 {
+    let s = f64::from(two_s) / 2.0;
+    let l = l as f64;
+    (4.0 * s * (s + 1.0) + l * (l + 1.0)).sqrt()
+}
+
 /// Number of unpaired electrons n implied by μ_eff = √(n(n+2)), i.e. n = √(1 + μ²) − 1 (real).
 pub fn unpaired_from_moment(mu_eff: f64) -> f64 {
     (1.0 + mu_eff * mu_eff).sqrt() - 1.0
@@ -302,6 +309,27 @@ mod tests {
 
     // Curie constant N_A μ_B²/(3k_B) = 0.12505 cm³ K mol⁻¹; spin-only χT = n(n+2)/8
     // (Bain & Berry, J. Chem. Educ. 2008, 85, 532, eq 3a) to the 3 decimals printed there.
+    #[test]
+    fn spin_only_moments() {
+        // Spin-only moments √(n(n+2)) for n = 1…5: 1.732, 2.828, 3.873, 4.899, 5.916 μB
+        // (G. A. Bain, J. F. Berry, J. Chem. Educ. 2008, 85, 532, eq 3a).
+        for (n, mu) in [(1, 1.732), (2, 2.828), (3, 3.873), (4, 4.899), (5, 5.916)] {
+            assert!(
+                (spin_only_moment(f64::from(n)) - mu).abs() <= 5e-4,
+                "n = {n}"
+            );
+        }
+        assert_eq!(spin_only_moment(0.0), 0.0);
+    }
+
+    /// μ(S+L) = √(4S(S+1) + L(L+1)): for Co2+ (4F, S = 3/2, L = 3) √27 = 5.20 μB and for Cr3+
+    /// the same term; Fe2+ 5D gives √30 = 5.48 (common practice; the formula as in common practice).
+    #[test]
+    fn spin_plus_orbital_moments() {
+        assert!((spin_orbital_moment(3, 3) - 27f64.sqrt()).abs() <= 1e-12);
+        assert!((spin_orbital_moment(4, 2) - 30f64.sqrt()).abs() <= 1e-12);
+    }
+
     #[test]
     fn spin_only_chi_t_matches_n_n_plus_2_over_8() {
         assert_relative_eq!(curie_constant_cgs(), 0.125049, epsilon = 2e-6);

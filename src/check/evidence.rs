@@ -1111,7 +1111,7 @@ pub fn structure_bonds(
 mod tests {
     use super::*;
     use crate::complex::{ComplexSpec, Overrides};
-    use crate::tables::Tables;
+    use crate::tables::DataSet;
 
     fn complex(metal: &str, ox: i32, ligands: &[&str]) -> ResolvedComplex {
         ComplexSpec {
@@ -1121,7 +1121,7 @@ mod tests {
             ligands: ligands.iter().map(|l| l.parse().unwrap()).collect(),
             overrides: Overrides::default(),
         }
-        .resolve(Tables::bundled().unwrap())
+        .resolve(DataSet::bundled())
         .unwrap()
     }
 
@@ -1137,7 +1137,7 @@ mod tests {
     /// in the typical FeN6 ranges (Gütlich & Goodwin 2004; Guionneau 2004; from memory).
     #[test]
     fn iron_ii_nitrogen_bond_lengths() {
-        let t = BondLengthTable::bundled().unwrap();
+        let t = DataSet::bundled().bond_lengths().unwrap();
         let cx = complex("Fe", 2, &["py:4", "NCS:2"]);
         for (x, s) in [
             (2.032, Support::Low),
@@ -1145,41 +1145,41 @@ mod tests {
             (1.97, Support::Low),
             (2.18, Support::High),
         ] {
-            let e = bond_length(&bond(x, 0.003), &cx, &t).unwrap();
+            let e = bond_length(&bond(x, 0.003), &cx, t).unwrap();
             assert_eq!((e.supports, e.strength), (s, Strength::Strong), "{x}");
         }
         // Midway (2.09 Å): a mixture, with the high-spin fraction from the range midpoints
         // (1.991, 2.175): (2.09 − 1.991)/(2.175 − 1.991) = 0.54.
-        let e = bond_length(&bond(2.09, 0.003), &cx, &t).unwrap();
+        let e = bond_length(&bond(2.09, 0.003), &cx, t).unwrap();
         assert_eq!(e.supports, Support::Mixture);
         approx::assert_abs_diff_eq!(e.high_spin_fraction.unwrap(), 0.538, epsilon = 0.01);
         // Far outside: neither.
-        let e = bond_length(&bond(2.45, 0.003), &cx, &t).unwrap();
+        let e = bond_length(&bond(2.45, 0.003), &cx, t).unwrap();
         assert_eq!(e.supports, Support::Neither);
         // A large uncertainty reaches both ranges.
-        let e = bond_length(&bond(2.08, 0.09), &cx, &t).unwrap();
+        let e = bond_length(&bond(2.08, 0.09), &cx, t).unwrap();
         assert_eq!(e.supports, Support::Both);
     }
 
     #[test]
     fn no_reference_range() {
-        let t = BondLengthTable::bundled().unwrap();
+        let t = DataSet::bundled().bond_lengths().unwrap();
         // Co(II)–N: only the change (Crystals 2018, 8, 155).
-        let e = bond_length(&bond(2.05, 0.0), &complex("Co", 2, &["terpy:2"]), &t).unwrap();
+        let e = bond_length(&bond(2.05, 0.0), &complex("Co", 2, &["terpy:2"]), t).unwrap();
         assert_eq!(e.supports, Support::Nothing);
         assert!(e.detail.contains("only the change"), "{}", e.detail);
         // Mixed donors.
-        let e = bond_length(&bond(2.05, 0.0), &complex("Fe", 2, &["H2O:2", "py:4"]), &t).unwrap();
+        let e = bond_length(&bond(2.05, 0.0), &complex("Fe", 2, &["H2O:2", "py:4"]), t).unwrap();
         assert!(e.detail.contains("mixed"), "{}", e.detail);
         // Bad input.
-        assert!(bond_length(&bond(20.5, 0.0), &complex("Fe", 2, &["py:6"]), &t).is_err());
+        assert!(bond_length(&bond(20.5, 0.0), &complex("Fe", 2, &["py:6"]), t).is_err());
     }
 
     /// Spin-only μ_eff: S = 2 gives 4.90 μB, S = 0 gives 0 (Bain & Berry 2008, eq 3a); the
     /// d6 windows come from data/moment_ranges.csv.
     #[test]
     fn moments_support_the_matching_state() {
-        let ranges = MomentRangeTable::bundled().unwrap();
+        let ranges = DataSet::bundled().moment_ranges().unwrap();
         let cx = complex("Fe", 2, &["py:4", "NCS:2"]);
         let m = |mu: f64| MomentInput {
             quantity: MomentQuantity::MuEff,
@@ -1191,19 +1191,19 @@ mod tests {
             dia: Measured::exact(0.0),
         };
         assert_eq!(
-            moment(&m(5.3), &cx, &ranges).unwrap().supports,
+            moment(&m(5.3), &cx, ranges).unwrap().supports,
             Support::High
         );
         assert_eq!(
-            moment(&m(0.05), &cx, &ranges).unwrap().supports,
+            moment(&m(0.05), &cx, ranges).unwrap().supports,
             Support::Low
         );
-        let e = moment(&m(3.5), &cx, &ranges).unwrap();
+        let e = moment(&m(3.5), &cx, ranges).unwrap();
         assert_eq!(e.supports, Support::Mixture);
         // χT = 3.5²/8 ≈ 1.53 against (5.4²/8 = 3.65) and 0: about 42 % high spin.
         approx::assert_abs_diff_eq!(e.high_spin_fraction.unwrap(), 0.42, epsilon = 0.01);
         assert_eq!(
-            moment(&m(7.5), &cx, &ranges).unwrap().supports,
+            moment(&m(7.5), &cx, ranges).unwrap().supports,
             Support::Neither
         );
     }

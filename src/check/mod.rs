@@ -39,9 +39,7 @@ use crate::error::Error;
 use crate::measured::evans::EvansInput;
 use crate::measured::Measured;
 use crate::predict::{predict_with, PredictOptions, Prediction, SpinState};
-use crate::tables::bond_lengths::BondLengthTable;
-use crate::tables::moment_ranges::MomentRangeTable;
-use crate::tables::Tables;
+use crate::tables::DataSet;
 
 /// What a piece of evidence is.
 #[derive(Debug, Clone, Copy, PartialEq, Eq)]
@@ -301,14 +299,6 @@ pub struct CheckInput {
     pub structure: Option<StructureInput>,
 }
 
-/// The data tables `check` uses.
-#[derive(Debug, Clone, Copy)]
-pub struct CheckTables<'a> {
-    pub chemistry: &'a Tables,
-    pub moment_ranges: &'a MomentRangeTable,
-    pub bond_lengths: &'a BondLengthTable,
-}
-
 /// Which part of the input an error comes from.
 #[derive(Debug, Clone, Copy, PartialEq, Eq)]
 pub enum Part {
@@ -383,15 +373,9 @@ impl CheckResult {
 }
 
 /// Weighs every piece of evidence given in `input` (see the module docs).
-pub fn check(
-    input: &CheckInput,
-    tables: CheckTables<'_>,
-) -> std::result::Result<CheckResult, CheckError> {
+pub fn check(input: &CheckInput, tables: &DataSet) -> std::result::Result<CheckResult, CheckError> {
     let at = |part: Part| move |error: Error| CheckError { part, error };
-    let complex = input
-        .complex
-        .resolve(tables.chemistry)
-        .map_err(at(Part::Complex))?;
+    let complex = input.complex.resolve(tables).map_err(at(Part::Complex))?;
     let prediction = predict_with(
         &complex,
         PredictOptions {
@@ -403,22 +387,31 @@ pub fn check(
     .map_err(at(Part::Complex))?;
     let mut evidence = vec![evidence::prediction(&prediction)];
     if let Some(e) = &input.evans {
-        evidence.push(evidence::evans(e, &complex, tables.moment_ranges).map_err(at(Part::Evans))?);
+        let ranges = tables.moment_ranges().map_err(at(Part::Evans))?;
+        evidence.push(evidence::evans(e, &complex, ranges).map_err(at(Part::Evans))?);
     }
     if let Some(m) = &input.moment {
-        evidence
-            .push(evidence::moment(m, &complex, tables.moment_ranges).map_err(at(Part::Moment))?);
+        let ranges = tables.moment_ranges().map_err(at(Part::Moment))?;
+        evidence.push(evidence::moment(m, &complex, ranges).map_err(at(Part::Moment))?);
     }
     if let Some(b) = &input.bands {
         evidence.push(
-            evidence::bands(b, &complex, &tables.chemistry.charge_transfer)
-                .map_err(at(Part::Bands))?,
+            evidence::bands(
+                b,
+                &complex,
+                tables.charge_transfer().map_err(at(Part::Bands))?,
+            )
+            .map_err(at(Part::Bands))?,
         );
     }
     if let Some(b) = &input.bond_length {
         evidence.push(
-            evidence::bond_length(b, &complex, tables.bond_lengths)
-                .map_err(at(Part::BondLength))?,
+            evidence::bond_length(
+                b,
+                &complex,
+                tables.bond_lengths().map_err(at(Part::BondLength))?,
+            )
+            .map_err(at(Part::BondLength))?,
         );
     }
     let mut outcome = None;
@@ -453,10 +446,12 @@ pub fn check(
         } else {
             evidence.insert(1, line);
         }
-        evidence.push(evidence::structure_bonds(s, &complex, tables.bond_lengths));
+        let bonds = tables.bond_lengths().map_err(at(Part::Structure))?;
+        evidence.push(evidence::structure_bonds(s, &complex, bonds));
     }
     if let Some(c) = &input.curve {
-        evidence.push(evidence::curve(c, &complex, tables.moment_ranges).map_err(at(Part::Curve))?);
+        let ranges = tables.moment_ranges().map_err(at(Part::Curve))?;
+        evidence.push(evidence::curve(c, &complex, ranges).map_err(at(Part::Curve))?);
     }
     let single = prediction.spin_state == SpinState::Fixed;
     let mut decision = decide(&evidence, single);

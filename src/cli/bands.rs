@@ -1,6 +1,6 @@
 //! `spinstate bands`: which spin-allowed bands each spin state puts in a spectrometer window.
 
-use super::common::{load_tables, ComplexArgs, Format};
+use super::common::{ComplexArgs, Format};
 use super::fit_bands::SAFETY;
 use super::{Failure, Output};
 use spinstate::report::bands::BandsReport;
@@ -9,6 +9,7 @@ use spinstate::spectra::count::{
     charge_transfer_limit, count_bands, ChargeTransferLimit, CountRequest, DEFAULT_RESOLUTION,
 };
 use spinstate::spectra::transitions::default_c_over_b;
+use spinstate::tables::DataSet;
 
 #[derive(Debug, clap::Args)]
 #[command(after_help = SAFETY)]
@@ -83,7 +84,7 @@ fn parse_window(s: &str) -> Result<(f64, f64), Failure> {
     Ok((lo, hi))
 }
 
-pub fn run(args: &Args, data: Option<&std::path::Path>) -> Result<Output, Failure> {
+pub fn run(args: &Args, data: &DataSet) -> Result<Output, Failure> {
     let geometry = args.geometry;
     // From a complex: d^n and estimates of Δ, B, C (each replaced by a value given here).
     let complex = args.complex.resolve(geometry, data)?;
@@ -153,10 +154,7 @@ pub fn run(args: &Args, data: Option<&std::path::Path>) -> Result<Output, Failur
                 source: "given with --ct-onset".into(),
             })
         }
-        (None, Some(cx)) => {
-            let tables = load_tables(data)?;
-            charge_transfer_limit(&tables.charge_transfer, cx)
-        }
+        (None, Some(cx)) => charge_transfer_limit(data.charge_transfer()?, cx),
         (None, None) => None,
     };
     let req = CountRequest {

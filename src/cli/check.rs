@@ -1,20 +1,19 @@
 //! `spinstate check`: one verdict on the spin state from all the evidence, for one complex given
 //! by options or for every row of a CSV file (`--input`).
 
-use super::common::{load_tables, Format};
+use super::common::Format;
 use super::figure::write_html;
 use super::{Failure, Output};
 use indicatif::{ProgressBar, ProgressStyle};
 use spinstate::check::batch::{self, RowError, Sample};
-use spinstate::check::{check, CheckTables, CurveInput};
+use spinstate::check::{check, CurveInput};
 use spinstate::report::check::{
     rows_table, BatchReport, BatchRow, CheckReport, RowErrorRow, SAFETY,
 };
 use spinstate::report::figures::sample_figures;
 use spinstate::report::html::{self, parameter_rows, Section};
 use spinstate::report::to_json;
-use spinstate::tables::bond_lengths::BondLengthTable;
-use spinstate::tables::moment_ranges::MomentRangeTable;
+use spinstate::tables::DataSet;
 use std::io::IsTerminal;
 use std::path::{Path, PathBuf};
 
@@ -259,7 +258,7 @@ struct StructureGiven {
 fn read_structure_input(
     args: &Args,
     path: &Path,
-    data: Option<&Path>,
+    data: &DataSet,
 ) -> Result<StructureGiven, Failure> {
     if args.bond_length.is_some() || args.bond_length_err.is_some() {
         return Err(Failure::usage(
@@ -322,29 +321,15 @@ fn read_structure_input(
     })
 }
 
-/// The tables `check` needs, from the bundled copies or `--data DIR`.
-struct Loaded {
-    chemistry: std::borrow::Cow<'static, spinstate::tables::Tables>,
-    ranges: MomentRangeTable,
-    bonds: BondLengthTable,
-}
-
-impl Loaded {
-    fn new(data: Option<&Path>) -> Result<Self, Failure> {
-        Ok(Loaded {
-            chemistry: load_tables(data)?,
-            ranges: MomentRangeTable::load(data)?,
-            bonds: BondLengthTable::load(data)?,
-        })
-    }
-
-    fn tables(&self) -> CheckTables<'_> {
-        CheckTables {
-            chemistry: &self.chemistry,
-            moment_ranges: &self.ranges,
-            bond_lengths: &self.bonds,
-        }
-    }
+/// The data set with every table `check` may use already read, so that a broken table is one
+/// error for the command before the first sample, not an error on every row.
+fn loaded(data: &DataSet) -> Result<&DataSet, Failure> {
+    data.ions()?;
+    data.ligands()?;
+    data.charge_transfer()?;
+    data.moment_ranges()?;
+    data.bond_lengths()?;
+    Ok(data)
 }
 
 /// Reads a sample's `chit_file` (relative to `base`, the batch file's directory) into its
@@ -375,12 +360,12 @@ fn attach_curve(sample: &mut Sample, base: Option<&Path>) -> Result<(), String> 
 pub fn run_batch_with(
     text: &str,
     base: Option<&Path>,
-    data: Option<&Path>,
+    data: &DataSet,
     html: bool,
 ) -> Result<(BatchReport, Vec<RowError>, Vec<Section>), Failure> {
     let mut sections = Vec::new();
     let rows = batch::parse(text).map_err(|e| Failure::usage(format!("--input: {e}")))?;
-    let loaded = Loaded::new(data)?;
+    let loaded = loaded(data)?;
     let bar = if rows.len() >= PROGRESS_FROM && std::io::stdout().is_terminal() {
         let bar = ProgressBar::new(rows.len() as u64);
         if let Ok(style) = ProgressStyle::with_template("checking {pos}/{len} samples {bar:30}") {
@@ -393,7 +378,7 @@ pub fn run_batch_with(
     let mut samples = Vec::new();
     let mut bad: Vec<RowError> = Vec::new();
     for row in rows {
-        match check_sample(row, base, &loaded) {
+        match check_sample(row, base, loaded) {
             Ok((input, result)) => {
                 let report = CheckReport::new(&result, Some(input.1), Some(input.0));
                 if html {
@@ -474,7 +459,7 @@ type Checked = (usize, String, spinstate::check::CheckInput);
 fn check_sample(
     row: Result<Sample, RowError>,
     base: Option<&Path>,
-    loaded: &Loaded,
+    loaded: &DataSet,
 ) -> Result<(Checked, spinstate::check::CheckResult), RowError> {
     let mut sample = row?;
     if let Err(message) = attach_curve(&mut sample, base) {
@@ -488,7 +473,7 @@ fn check_sample(
     let Sample {
         row, name, input, ..
     } = sample;
-    match check(&input, loaded.tables()) {
+    match check(&input, loaded) {
         Ok(result) => Ok(((row, name, input), result)),
         Err(e) => Err(RowError {
             row,
@@ -503,7 +488,7 @@ fn check_sample(
 fn check_row(
     row: Result<Sample, RowError>,
     base: Option<&Path>,
-    loaded: &Loaded,
+    loaded: &DataSet,
 ) -> Result<CheckReport, RowError> {
     check_sample(row, base, loaded)
         .map(|((row, name, _), result)| CheckReport::new(&result, Some(name), Some(row)))
@@ -511,14 +496,14 @@ fn check_row(
 
 /// Checks a batch file row by row, on every core, writing each chunk's results in input order
 /// as soon as it is ready (stdout and `--csv`), so that memory does not grow with the file.
-fn stream_batch(args: &Args, path: &Path, data: Option<&Path>) -> Result<Output, Failure> {
+fn stream_batch(args: &Args, path: &Path, data: &DataSet) -> Result<Output, Failure> {
     use rayon::prelude::*;
     use std::io::Write;
     let file = std::fs::File::open(path)
         .map_err(|e| Failure::usage(format!("--input: cannot read {}: {e}", path.display())))?;
     let input_error = |e: spinstate::Error| Failure::usage(format!("--input: {e}"));
     let mut reader = batch::BatchReader::new(std::io::BufReader::new(file)).map_err(input_error)?;
-    let loaded = Loaded::new(data)?;
+    let loaded = loaded(data)?;
     let base = path.parent();
     let csv_to_stdout = args.csv.as_deref().is_some_and(|p| p.as_os_str() == "-");
     let mode = if csv_to_stdout {
@@ -563,7 +548,7 @@ fn stream_batch(args: &Args, path: &Path, data: Option<&Path>) -> Result<Output,
         let n = chunk.len() as u64;
         let results: Vec<Result<CheckReport, RowError>> = chunk
             .into_par_iter()
-            .map(|row| check_row(row, base, &loaded))
+            .map(|row| check_row(row, base, loaded))
             .collect();
         if !started && mode == Stream::Json {
             out.write_all(b"{\"samples\":[").map_err(write_failed)?;
@@ -669,7 +654,7 @@ fn stream_batch(args: &Args, path: &Path, data: Option<&Path>) -> Result<Output,
     })
 }
 
-pub fn run(args: &Args, data: Option<&Path>) -> Result<Output, Failure> {
+pub fn run(args: &Args, data: &DataSet) -> Result<Output, Failure> {
     super::figure::only_with(args.jsonl, "--jsonl", args.input.is_some(), "--input FILE")?;
     args.centre.check_used(args.structure.is_some())?;
     if let (Some(path), None) = (&args.input, &args.html) {
@@ -738,8 +723,8 @@ pub fn run(args: &Args, data: Option<&Path>) -> Result<Output, Failure> {
         structure_notes = g.notes;
     }
     attach_curve(&mut sample, None).map_err(|m| Failure::usage(format!("--chit-file: {m}")))?;
-    let loaded = Loaded::new(data)?;
-    let result = check(&sample.input, loaded.tables()).map_err(|e| Failure {
+    let loaded = loaded(data)?;
+    let result = check(&sample.input, loaded).map_err(|e| Failure {
         code: e.error.exit_code(),
         message: format!(
             "{}: {}{}",

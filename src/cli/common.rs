@@ -3,9 +3,8 @@
 use super::Failure;
 use spinstate::complex::LigandCount;
 use spinstate::engine::{Calculation, Geometry};
-use spinstate::tables::Tables;
+use spinstate::tables::DataSet;
 use spinstate::Param;
-use std::borrow::Cow;
 use std::path::Path;
 
 /// Output format options.
@@ -75,14 +74,6 @@ pub struct Resolved {
     pub ratio_mode: bool,
 }
 
-/// The chemistry tables: bundled, or with the files in the global `--data DIR` replacing them.
-pub fn load_tables(data: Option<&Path>) -> Result<Cow<'static, Tables>, Failure> {
-    Ok(match data {
-        Some(dir) => Cow::Owned(Tables::from_dir(dir)?),
-        None => Cow::Borrowed(Tables::bundled()?),
-    })
-}
-
 /// A complex named by metal, oxidation state and ligands (all optional: commands that also take
 /// d^n and field parameters directly flatten this in).
 #[derive(Debug, Clone, clap::Args)]
@@ -104,7 +95,7 @@ impl ComplexArgs {
     pub fn resolve(
         &self,
         geometry: Geometry,
-        data: Option<&Path>,
+        data: &DataSet,
     ) -> Result<Option<spinstate::complex::ResolvedComplex>, Failure> {
         match &self.metal {
             Some(metal) => Ok(Some(resolve_complex(
@@ -182,10 +173,9 @@ pub fn resolve_complex(
     ox: i32,
     geometry: Geometry,
     ligands: &[LigandCount],
-    data: Option<&Path>,
+    data: &DataSet,
 ) -> Result<spinstate::complex::ResolvedComplex, Failure> {
     use spinstate::complex::{ComplexSpec, Overrides};
-    let tables = load_tables(data)?;
     let ligands = ligands.to_vec();
     let spec = ComplexSpec {
         metal: metal.to_string(),
@@ -194,7 +184,7 @@ pub fn resolve_complex(
         ligands,
         overrides: Overrides::default(),
     };
-    Ok(spec.resolve(&tables)?)
+    Ok(spec.resolve(data)?)
 }
 
 /// A clap value parser through the library's `FromStr` (`value_parser = parsed::<Geometry>`):

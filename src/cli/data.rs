@@ -1,17 +1,14 @@
 //! `spinstate data`: list the chemistry tables as loaded (bundled, or edited copies from
 //! `--data DIR`).
 
-use super::common::{load_tables, Format};
+use super::common::Format;
 use super::{Failure, Output};
 use spinstate::report::data::{
     BondLengthDataRow, BondLengthsReport, IonsReport, LigandsReport, MomentRangeRow,
     MomentRangesReport, PascalReport, PascalRow,
 };
 use spinstate::report::to_json;
-use spinstate::tables::bond_lengths::BondLengthTable;
-use spinstate::tables::moment_ranges::MomentRangeTable;
-use spinstate::tables::pascal::PascalTable;
-use std::path::Path;
+use spinstate::tables::DataSet;
 
 /// Which table to list.
 #[derive(Debug, Clone, Copy, clap::ValueEnum)]
@@ -37,14 +34,15 @@ pub struct Args {
     pub format: Format,
 }
 
-pub fn run(args: &Args, data: Option<&Path>) -> Result<Output, Failure> {
-    let tables = load_tables(data)?;
-    let origin = data.map_or("bundled".to_string(), |d| d.display().to_string());
+pub fn run(args: &Args, data: &DataSet) -> Result<Output, Failure> {
+    let origin = data
+        .dir()
+        .map_or("bundled".to_string(), |d| d.display().to_string());
     let text = match args.table {
         Table::Ions => {
             let r = IonsReport {
                 origin,
-                ions: tables.ions.rows.iter().map(Into::into).collect(),
+                ions: data.ions()?.rows.iter().map(Into::into).collect(),
             };
             if args.format.json {
                 to_json(&r)
@@ -55,7 +53,7 @@ pub fn run(args: &Args, data: Option<&Path>) -> Result<Output, Failure> {
         Table::Ligands => {
             let r = LigandsReport {
                 origin,
-                ligands: tables.ligands.rows.iter().map(Into::into).collect(),
+                ligands: data.ligands()?.rows.iter().map(Into::into).collect(),
             };
             if args.format.json {
                 to_json(&r)
@@ -64,7 +62,7 @@ pub fn run(args: &Args, data: Option<&Path>) -> Result<Output, Failure> {
             }
         }
         Table::Pascal => {
-            let table = PascalTable::load(data)?;
+            let table = data.pascal()?;
             let r = PascalReport {
                 origin,
                 entries: table
@@ -85,7 +83,7 @@ pub fn run(args: &Args, data: Option<&Path>) -> Result<Output, Failure> {
             }
         }
         Table::MomentRanges => {
-            let table = MomentRangeTable::load(data)?;
+            let table = data.moment_ranges()?;
             let r = MomentRangesReport {
                 origin,
                 ranges: table
@@ -110,7 +108,7 @@ pub fn run(args: &Args, data: Option<&Path>) -> Result<Output, Failure> {
             }
         }
         Table::BondLengths => {
-            let table = BondLengthTable::load(data)?;
+            let table = data.bond_lengths()?;
             let r = BondLengthsReport {
                 origin,
                 rows: table

@@ -9,7 +9,8 @@ use spinstate::check::demo::{INTRO, SAMPLES};
 use spinstate::report::check::SAFETY;
 use spinstate::report::html;
 use spinstate::report::to_json;
-use std::path::{Path, PathBuf};
+use spinstate::tables::DataSet;
+use std::path::PathBuf;
 
 #[derive(Debug, clap::Args)]
 #[command(after_help = SAFETY)]
@@ -26,7 +27,7 @@ fn intro() -> String {
     format!("{INTRO} `spinstate check --input data/demo/samples.csv` gives the same table.")
 }
 
-pub fn run(args: &Args, data: Option<&Path>) -> Result<Output, Failure> {
+pub fn run(args: &Args, data: &DataSet) -> Result<Output, Failure> {
     let (report, bad, sections) = run_batch_with(SAMPLES, None, data, args.html.is_some())?;
     let mut notes = Vec::new();
     if let Some(file) = &args.html {

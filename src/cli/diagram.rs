@@ -9,7 +9,8 @@ use spinstate::plot::marks;
 use spinstate::predict::predict;
 use spinstate::report::diagram::DiagramReport;
 use spinstate::report::to_json;
-use std::path::{Path, PathBuf};
+use spinstate::tables::DataSet;
+use std::path::PathBuf;
 
 #[derive(Debug, clap::Args)]
 pub struct Args {
@@ -69,7 +70,7 @@ pub struct Args {
     pub format: Format,
 }
 
-pub fn run(args: &Args, data: Option<&Path>) -> Result<Output, Failure> {
+pub fn run(args: &Args, data: &DataSet) -> Result<Output, Failure> {
     args.figure.check_used(
         args.svg.is_some(),
         &[(args.highlight_spins, "--highlight-spins")],

@@ -6,7 +6,7 @@ use super::{Failure, Output};
 use spinstate::measured::evans::{self, EvansInput, MagnetGeometry, Shift, SolventTerms};
 use spinstate::report::measured::{MeasuredMomentReport, EVANS_SAFETY};
 use spinstate::report::to_json;
-use std::path::Path;
+use spinstate::tables::DataSet;
 
 #[derive(Debug, clap::Args)]
 #[command(
@@ -82,7 +82,7 @@ pub struct Args {
     pub format: Format,
 }
 
-pub fn run(args: &Args, data: Option<&Path>) -> Result<Output, Failure> {
+pub fn run(args: &Args, data: &DataSet) -> Result<Output, Failure> {
     let units = args.units.units()?;
     let temp = positive("--temp", args.temp, "K")?;
     let temperature = measured("--temp", temp, args.temp_err)?;

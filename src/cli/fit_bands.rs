@@ -1,6 +1,6 @@
 //! `spinstate fit-bands`: fit Dq, B (and C) to observed band maxima.
 
-use super::common::{load_tables, parsed, Format};
+use super::common::{parsed, Format};
 use super::{Failure, Output};
 use spinstate::engine::Geometry;
 use spinstate::report::fit_bands::{Context, FitBandsReport};
@@ -10,7 +10,7 @@ use spinstate::spectra::fit::{crossover_position, fit_bands, FitRequest, Forbidd
 use spinstate::spectra::tetragonal::{fit_tetragonal, TetragonalRequest};
 use spinstate::spectra::units::parse_bands;
 use spinstate::spectra::{EnergyUnit, SpinChoice};
-use std::path::Path;
+use spinstate::tables::DataSet;
 
 /// Caution shown in the help of the spectroscopy commands.
 pub const SAFETY: &str = "Safety: nickel and cobalt salts are skin and respiratory sensitisers and (suspected) carcinogens, chromium work can form Cr(VI), and UV lamps need eye protection. Follow your institution's rules, the supplier's SDS and a local risk assessment; this output is no safety approval.";
@@ -72,15 +72,11 @@ pub struct Args {
     pub format: Format,
 }
 
-pub fn run(args: &Args, data: Option<&Path>) -> Result<Output, Failure> {
+pub fn run(args: &Args, data: &DataSet) -> Result<Output, Failure> {
     let geometry = args.geometry;
     // The ion, when named: d^n, B0 (with its table source) and a handling caution.
-    let tables = match (&args.metal, args.ox) {
-        (Some(_), Some(_)) => Some(load_tables(data)?),
-        _ => None,
-    };
-    let ion = match (&args.metal, args.ox, &tables) {
-        (Some(metal), Some(ox), Some(t)) => Some(t.ions.find(metal, ox)?),
+    let ion = match (&args.metal, args.ox) {
+        (Some(metal), Some(ox)) => Some(data.ions()?.find(metal, ox)?),
         _ => None,
     };
     let dn = match (args.dn, ion) {

@@ -6,6 +6,7 @@ use spinstate::magnetism::{temperature_grid, MagneticModel, ZeemanLevels, G_ELEC
 use spinstate::plot::moment::{Point, Quantity};
 use spinstate::report::magnetism::{MagnetismPoint, MagnetismReport, MomentPlot};
 use spinstate::report::to_json;
+use spinstate::tables::DataSet;
 use spinstate::units;
 use std::path::{Path, PathBuf};
 
@@ -70,7 +71,7 @@ pub struct Args {
     pub format: Format,
 }
 
-pub fn run(args: &Args, data: Option<&Path>) -> Result<Output, Failure> {
+pub fn run(args: &Args, data: &DataSet) -> Result<Output, Failure> {
     args.figure.check_used(
         args.svg.is_some(),
         &[

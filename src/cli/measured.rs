@@ -7,10 +7,8 @@ use spinstate::formula::Formula;
 use spinstate::measured::compare::{self, Comparison, ComplexSpec, SpinOrbit};
 use spinstate::measured::pascal::{self, DiamagneticCorrection};
 use spinstate::measured::Measured;
-use spinstate::tables::moment_ranges::MomentRangeTable;
-use spinstate::tables::pascal::PascalTable;
+use spinstate::tables::DataSet;
 use spinstate::units::SusceptibilityUnits;
-use std::path::Path;
 
 /// Diamagnetic correction, formula and molar mass.
 #[derive(Debug, Clone, clap::Args)]
@@ -44,10 +42,10 @@ pub struct Resolved {
 }
 
 impl DiaArgs {
-    pub fn resolve(&self, data: Option<&Path>) -> Result<Resolved, Failure> {
+    pub fn resolve(&self, data: &DataSet) -> Result<Resolved, Failure> {
         let formula = match &self.formula {
             Some(text) => {
-                let table = PascalTable::load(data)?;
+                let table = data.pascal()?;
                 Some(
                     table
                         .parse_formula(text)
@@ -83,8 +81,8 @@ impl DiaArgs {
                 .ok_or_else(|| Failure::usage("--dia-rough needs --formula or --molar-mass"))?;
             pascal::rough_correction(mw)?
         } else if let Some(f) = &formula {
-            let table = PascalTable::load(data)?;
-            pascal::pascal_sum(f, &table).map_err(|e| match e {
+            let table = data.pascal()?;
+            pascal::pascal_sum(f, table).map_err(|e| match e {
                 e @ spinstate::Error::InvalidParameter { .. } => Failure::from(e),
                 e => Failure::usage(format!("--formula: {e}")),
             })?
@@ -166,7 +164,7 @@ impl CompareArgs {
     pub fn run(
         &self,
         mu: Measured,
-        data: Option<&Path>,
+        data: &DataSet,
         temperature: Option<f64>,
     ) -> Result<Option<(Comparison, usize, String)>, Failure> {
         let Some(g) = &self.geometry else {
@@ -218,8 +216,8 @@ impl CompareArgs {
             temperature,
             ..ComplexSpec::new(dn, geometry)
         };
-        let ranges = MomentRangeTable::load(data)?;
-        let states = compare::expectations(&spec, &ranges)?;
+        let ranges = data.moment_ranges()?;
+        let states = compare::expectations(&spec, ranges)?;
         Ok(Some((
             compare::compare(mu, states),
             dn,

@@ -21,6 +21,7 @@ pub mod screen;
 pub mod structure;
 
 use clap::{Parser, Subcommand};
+use spinstate::tables::DataSet;
 use std::path::PathBuf;
 
 /// spinstate — spin states of d-block complexes from a full d^n ligand-field calculation.
@@ -150,7 +151,16 @@ pub fn run(cli: Cli) -> Result<Output, Failure> {
     );
     let data_unused = cli.data.is_some() && reads_no_table;
     let cmd = Command::name_of(&cli.command);
-    let mut out = dispatch(cli).map_err(|f| f.rendered(cmd))?;
+    // One data set for the whole run: each table is read on first use, at most once.
+    let from_dir;
+    let data = match cli.data.as_deref() {
+        Some(dir) => {
+            from_dir = DataSet::from_dir(dir)?;
+            &from_dir
+        }
+        None => DataSet::bundled(),
+    };
+    let mut out = dispatch(cli.command, data).map_err(|f| f.rendered(cmd))?;
     if data_unused {
         out.warnings
             .push("note: --data is not used by this command (it reads no data table)".into());
@@ -182,23 +192,23 @@ impl Command {
     }
 }
 
-fn dispatch(cli: Cli) -> Result<Output, Failure> {
-    match cli.command {
+fn dispatch(command: Command, data: &DataSet) -> Result<Output, Failure> {
+    match command {
         Command::Levels(a) => levels::run(&a),
-        Command::Diagram(a) => diagram::run(&a, cli.data.as_deref()),
+        Command::Diagram(a) => diagram::run(&a, data),
         Command::Crossover(a) => crossover::run(&a),
-        Command::Evans(a) => evans::run(&a, cli.data.as_deref()),
-        Command::Moment(a) => moment::run(&a, cli.data.as_deref()),
-        Command::Magnetism(a) => magnetism::run(&a, cli.data.as_deref()),
-        Command::Predict(a) => predict::run(&a, cli.data.as_deref()),
-        Command::Screen(a) => screen::run(&a, cli.data.as_deref()),
-        Command::Data(a) => data::run(&a, cli.data.as_deref()),
-        Command::FitBands(a) => fit_bands::run(&a, cli.data.as_deref()),
-        Command::Bands(a) => bands::run(&a, cli.data.as_deref()),
-        Command::Check(a) => check::run(&a, cli.data.as_deref()),
-        Command::Demo(a) => demo::run(&a, cli.data.as_deref()),
-        Command::ScoFit(a) => sco_fit::run(&a, cli.data.as_deref()),
+        Command::Evans(a) => evans::run(&a, data),
+        Command::Moment(a) => moment::run(&a, data),
+        Command::Magnetism(a) => magnetism::run(&a, data),
+        Command::Predict(a) => predict::run(&a, data),
+        Command::Screen(a) => screen::run(&a, data),
+        Command::Data(a) => data::run(&a, data),
+        Command::FitBands(a) => fit_bands::run(&a, data),
+        Command::Bands(a) => bands::run(&a, data),
+        Command::Check(a) => check::run(&a, data),
+        Command::Demo(a) => demo::run(&a, data),
+        Command::ScoFit(a) => sco_fit::run(&a, data),
         Command::ScoCurve(a) => sco_curve::run(&a),
-        Command::Structure(a) => structure::run(&a, cli.data.as_deref()),
+        Command::Structure(a) => structure::run(&a, data),
     }
 }

@@ -8,8 +8,8 @@ use spinstate::measured::moment::{chi_from_magnetometer, MagnetometerReading};
 use spinstate::measured::{Measured, MomentResult};
 use spinstate::report::measured::{MeasuredMomentReport, MOMENT_SAFETY};
 use spinstate::report::to_json;
+use spinstate::tables::DataSet;
 use spinstate::units::SusceptibilityUnits;
-use std::path::Path;
 
 #[derive(Debug, clap::Args)]
 #[command(
@@ -76,7 +76,7 @@ pub struct Args {
     pub format: Format,
 }
 
-pub fn run(args: &Args, data: Option<&Path>) -> Result<Output, Failure> {
+pub fn run(args: &Args, data: &DataSet) -> Result<Output, Failure> {
     let units = args.units.units()?;
     let temperature = measured("--temp", positive("--temp", args.temp, "K")?, args.temp_err)?;
     let resolved = args.dia.resolve(data)?;

@@ -1,7 +1,7 @@
 //! `spinstate predict`: spin state, ground term, moments and bands of a complex from its
 //! composition.
 
-use super::common::{load_tables, Format};
+use super::common::Format;
 use super::{Failure, Output};
 use spinstate::complex::{ComplexSpec, LigandCount, Overrides};
 use spinstate::engine::Geometry;
@@ -11,6 +11,7 @@ use spinstate::report::structure_spin::StructureSpinReport;
 use spinstate::report::to_json;
 use spinstate::spectra::count;
 use spinstate::structure::spin::structure_spin;
+use spinstate::tables::DataSet;
 use std::path::Path;
 
 #[derive(Debug, clap::Args)]
@@ -86,11 +87,10 @@ impl Args {
     }
 }
 
-fn run_structure(args: &Args, path: &Path, data: Option<&Path>) -> Result<Output, Failure> {
-    let tables = load_tables(data)?;
+fn run_structure(args: &Args, path: &Path, data: &DataSet) -> Result<Output, Failure> {
     let s = super::structure::read_structure(path)?;
     let centre = &super::structure::one_centre(&s, &args.centre, Some(args.ox), data)?;
-    let complex = args.spec_in(centre.named_geometry())?.resolve(&tables)?;
+    let complex = args.spec_in(centre.named_geometry())?.resolve(data)?;
     let spin = structure_spin(centre, &complex, &[])?;
     let mut notes = vec![
         format!(
@@ -118,14 +118,13 @@ fn run_structure(args: &Args, path: &Path, data: Option<&Path>) -> Result<Output
     }))
 }
 
-pub fn run(args: &Args, data: Option<&Path>) -> Result<Output, Failure> {
+pub fn run(args: &Args, data: &DataSet) -> Result<Output, Failure> {
     args.centre.check_used(args.structure.is_some())?;
     if let Some(path) = &args.structure {
         return run_structure(args, path, data);
     }
-    let tables = load_tables(data)?;
-    let complex = args.spec()?.resolve(&tables)?;
-    let charge_transfer = count::charge_transfer_limit(&tables.charge_transfer, &complex);
+    let complex = args.spec()?.resolve(data)?;
+    let charge_transfer = count::charge_transfer_limit(data.charge_transfer()?, &complex);
     let options = PredictOptions {
         band_limit: if args.all {
             f64::INFINITY
@@ -136,7 +135,7 @@ pub fn run(args: &Args, data: Option<&Path>) -> Result<Output, Failure> {
         ..PredictOptions::default()
     };
     let prediction = predict_with(&complex, options)?;
-    let mut report = PredictReport::new(&prediction).with_reported(complex.reported(&tables));
+    let mut report = PredictReport::new(&prediction).with_reported(complex.reported(data)?);
     report.charge_transfer_onset = Some(count::onset_or_generic(charge_transfer.as_ref()));
     report
         .notes

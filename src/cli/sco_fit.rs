@@ -1,6 +1,6 @@
 //! `spinstate sco-fit`: fit a spin transition to χ_M·T(T) or variable-temperature Evans data.
 
-use super::common::{emit, load_tables, Format, Renderings};
+use super::common::{emit, Format, Renderings};
 use super::{Failure, Output};
 use spinstate::measured::evans::MagnetGeometry;
 use spinstate::report::sco::{FitReport, TransitionPlot};
@@ -8,9 +8,9 @@ use spinstate::report::to_json;
 use spinstate::sco::data::{read_curve, read_evans_series, EvansSeries};
 use spinstate::sco::fit::{fit, FitRequest, ModelKind, PureState};
 use spinstate::sco::pure_state_ranges;
-use spinstate::tables::moment_ranges::MomentRangeTable;
+use spinstate::tables::DataSet;
 use spinstate::units::spin_only_chi_t_cgs;
-use std::path::{Path, PathBuf};
+use std::path::PathBuf;
 
 #[derive(Debug, clap::Args)]
 pub struct Args {
@@ -78,7 +78,7 @@ pub struct Args {
     pub format: Format,
 }
 
-pub fn run(args: &Args, data: Option<&Path>) -> Result<Output, Failure> {
+pub fn run(args: &Args, data: &DataSet) -> Result<Output, Failure> {
     args.figure
         .check_used(args.svg.is_some(), &[(args.plot.is_some(), "--plot")])?;
     for (given, option) in [
@@ -115,8 +115,7 @@ pub fn run(args: &Args, data: Option<&Path>) -> Result<Output, Failure> {
     let geometry = args.geometry;
     let (dn, zeta) = match (&args.metal, args.ox, args.dn) {
         (Some(m), Some(ox), _) => {
-            let tables = load_tables(data)?;
-            let ion = tables.ions.find(m, ox)?;
+            let ion = data.ions()?.find(m, ox)?;
             (Some(ion.dn), ion.zeta)
         }
         (None, _, Some(dn)) => (Some(dn), None),
@@ -131,7 +130,7 @@ pub fn run(args: &Args, data: Option<&Path>) -> Result<Output, Failure> {
             dn,
             geometry,
             zeta,
-            &MomentRangeTable::load(data)?,
+            data.moment_ranges()?,
         )?),
         None => {
             notes.push("no --metal/--ox or --dn: the pure-state χ_M·T are fitted within a wide generic range (0–4.5 high spin, 0–1 low spin cm³ K/mol); give the ion for its physical range".into());

@@ -1,13 +1,14 @@
 //! `spinstate screen`: rank candidate coordination spheres by their distance to the crossover.
 
-use super::common::{load_tables, parsed, Format};
+use super::common::{parsed, Format};
 use super::{Failure, Output};
 use indicatif::{ProgressBar, ProgressStyle};
 use spinstate::report::screen::{write_csv, ScreenReport};
 use spinstate::report::to_json;
 use spinstate::screen::{DonorSet, Filters, IonSpec, Keep, Screen, SizeRange, Target};
+use spinstate::tables::DataSet;
 use std::io::IsTerminal;
-use std::path::{Path, PathBuf};
+use std::path::PathBuf;
 
 /// Rows shown in the table when --top is not given.
 const DEFAULT_TOP: usize = 20;
@@ -130,8 +131,7 @@ fn progress_bar(total: u64) -> ProgressBar {
     bar
 }
 
-pub fn run(args: &Args, data: Option<&Path>) -> Result<Output, Failure> {
-    let tables = load_tables(data)?;
+pub fn run(args: &Args, data: &DataSet) -> Result<Output, Failure> {
     let geometry = args.geometry;
     let target = args.target;
     if args.top == Some(0) {
@@ -153,7 +153,7 @@ pub fn run(args: &Args, data: Option<&Path>) -> Result<Output, Failure> {
             ))
         }
         (None, false) => (
-            Screen::from_pool(&tables, &ions, geometry, &pool, &filters, target)?,
+            Screen::from_pool(data, &ions, geometry, &pool, &filters, target)?,
             Vec::new(),
         ),
         (Some(path), true) => {
@@ -161,7 +161,7 @@ pub fn run(args: &Args, data: Option<&Path>) -> Result<Output, Failure> {
                 Failure::usage(format!("--candidates: cannot read {}: {e}", path.display()))
             })?;
             let (screen, errors) =
-                Screen::from_candidates(&tables, &ions, geometry, &text, &filters, target)
+                Screen::from_candidates(data, &ions, geometry, &text, &filters, target)
                     .map_err(|e| Failure::usage(format!("--candidates {}: {e}", path.display())))?;
             for e in &errors {
                 out.warnings.push(format!("error: {}: {e}", path.display()));

@@ -9,8 +9,7 @@ use spinstate::report::to_json;
 use spinstate::structure::centre::{analyse, compare, Centre};
 use spinstate::structure::sphere::{sphere, Cutoff};
 use spinstate::structure::{MetalChoice, Structure};
-use spinstate::tables::bond_lengths::BondLengthTable;
-use spinstate::tables::covalent_radii::CovalentRadii;
+use spinstate::tables::DataSet;
 use std::path::{Path, PathBuf};
 
 /// Options that pick a centre and its donors, shared with `predict --structure` and
@@ -88,10 +87,10 @@ pub fn centres(
     s: &Structure,
     args: &CentreArgs,
     ox: Option<i32>,
-    data: Option<&Path>,
+    data: &DataSet,
 ) -> Result<Vec<Centre>, Failure> {
-    let radii = CovalentRadii::load(data)?;
-    let table = BondLengthTable::load(data)?;
+    let radii = data.covalent_radii()?;
+    let table = data.bond_lengths()?;
     let cutoff = args.cutoff()?;
     let metals = s
         .select_metals(&args.choice())
@@ -99,8 +98,8 @@ pub fn centres(
     let mut out = Vec::new();
     for m in metals {
         let sp =
-            sphere(s, m, &radii, cutoff).map_err(|e| Failure::usage(format!("{}: {e}", s.name)))?;
-        out.push(analyse(s, &sp, ox, &table));
+            sphere(s, m, radii, cutoff).map_err(|e| Failure::usage(format!("{}: {e}", s.name)))?;
+        out.push(analyse(s, &sp, ox, table));
     }
     Ok(out)
 }
@@ -111,7 +110,7 @@ pub fn one_centre(
     s: &Structure,
     args: &CentreArgs,
     ox: Option<i32>,
-    data: Option<&Path>,
+    data: &DataSet,
 ) -> Result<Centre, Failure> {
     let mut found = centres(s, args, ox, data)?;
     if found.len() != 1 {
@@ -140,7 +139,7 @@ pub fn with_options(s: &Structure, e: spinstate::Error) -> Failure {
     })
 }
 
-pub fn run(args: &Args, data: Option<&Path>) -> Result<Output, Failure> {
+pub fn run(args: &Args, data: &DataSet) -> Result<Output, Failure> {
     let mut report = StructureReport {
         files: Vec::new(),
         notes: Vec::new(),

@@ -17,12 +17,12 @@ const UNIT_STEPS_UP_TO: f64 = 200.0;
 /// be resolved numerically (an exact asymptotic tie); stated in the result.
 const FALLBACK_LIMIT: f64 = 1.0e4;
 
-/// The C/B ratios of the original diagrams (Y. Tanabe, S. Sugano, J. Phys. Soc. Jpn. 9, 753,
-/// 1954; values from memory as printed on the usual reproductions): d² 4.42, d³ 4.50, d⁴ 4.61,
-/// d⁵ 4.477, d⁶ 4.8, d⁷ 4.633, d⁸ 4.709. For d⁰, d¹, d⁹ and d¹⁰ C does not change the level
-/// order (a single free-ion term); 4.5 is returned.
-pub fn tanabe_sugano_c_over_b(dn: usize) -> f64 {
-    match dn {
+/// The C/B ratios of the original diagrams for d² … d⁸ (Y. Tanabe, S. Sugano, J. Phys. Soc.
+/// Jpn. 9, 753 and 766, 1954; values from memory as printed on the usual reproductions): d² 4.42,
+/// d³ 4.50, d⁴ 4.61, d⁵ 4.477, d⁶ 4.8, d⁷ 4.633, d⁸ 4.709; None for d⁰, d¹, d⁹ and d¹⁰, where C
+/// does not change the level order (a single free-ion term, or none).
+pub fn tanabe_sugano_ratio(dn: usize) -> Option<f64> {
+    Some(match dn {
         2 => 4.42,
         3 => 4.50,
         4 => 4.61,
@@ -30,8 +30,14 @@ pub fn tanabe_sugano_c_over_b(dn: usize) -> f64 {
         6 => 4.8,
         7 => 4.633,
         8 => 4.709,
-        _ => 4.5,
-    }
+        _ => return None,
+    })
+}
+
+/// C/B for d^n: the Tanabe–Sugano ratio of [`tanabe_sugano_ratio`], or 4.5 (inside their
+/// 4.42–4.8 range) for d⁰, d¹, d⁹ and d¹⁰, where C enters no energy difference.
+pub fn tanabe_sugano_c_over_b(dn: usize) -> f64 {
+    tanabe_sugano_ratio(dn).unwrap_or(4.5)
 }
 
 /// Δ/B at which the weak-field ground state is read (well below any crossover).

@@ -35,6 +35,13 @@ pub fn term_symbol(two_s: i32, l: usize) -> String {
     format!("{}{}", two_s + 1, L_LETTERS.get(l).copied().unwrap_or('?'))
 }
 
+/// L of a free-ion term symbol such as "5D" or "4T1g(F)": the first letter's place in
+/// [`L_LETTERS`].
+pub fn term_l(term: &str) -> Option<usize> {
+    let letter = term.chars().find(|c| c.is_ascii_alphabetic())?;
+    L_LETTERS.iter().position(|&c| c == letter)
+}
+
 /// One ligand-field calculation: d^n, Racah B and C, the one-electron field and the group whose
 /// labels are used. Spin–orbit coupling is handled by [`super::spin_orbit`].
 #[derive(Debug, Clone)]
@@ -349,7 +356,7 @@ impl Calculation {
     }
 
     /// Tolerance (cm⁻¹) for treating two eigenvalues as one degenerate level.
-    pub(super) fn degeneracy_tolerance(&self) -> f64 {
+    pub(crate) fn degeneracy_tolerance(&self) -> f64 {
         1e-7 * (self.b + self.c + 10.0 * self.field.magnitude()).max(1.0)
     }
 
@@ -809,5 +816,19 @@ mod parent_tests {
                 }
             }
         }
+    }
+}
+
+#[cfg(test)]
+mod tests {
+    use super::*;
+
+    /// L letters S, P, D, F, G, H, I (common practice).
+    #[test]
+    fn term_l_reads_the_letter() {
+        assert_eq!(term_l("4F"), Some(3));
+        assert_eq!(term_l("2I"), Some(6));
+        assert_eq!(term_l(&term_symbol(4, 2)), Some(2));
+        assert_eq!(term_l("5"), None);
     }
 }

@@ -219,6 +219,44 @@ impl Projection {
             }
         }
         raw.sort_by(|a, b| a.energy.total_cmp(&b.energy).then(b.two_s.cmp(&a.two_s)));
+        // Levels of one spin degenerate within the tolerance of the spin-block route (4A1g and
+        // 4Eg of d⁵ stay exactly together at every Δ) get their mean energy and are listed as
+        // that route lists them, in the order of the character table.
+        let tol = calc.degeneracy_tolerance();
+        let mut start = 0;
+        while start < raw.len() {
+            let mut end = start + 1;
+            while end < raw.len() && raw[end].energy - raw[end - 1].energy < tol {
+                end += 1;
+            }
+            let run = &mut raw[start..end];
+            let mut spins: Vec<i32> = run.iter().map(|r| r.two_s).collect();
+            spins.sort_unstable();
+            spins.dedup();
+            for two_s in spins {
+                let (sum, n) = run
+                    .iter()
+                    .filter(|r| r.two_s == two_s)
+                    .fold((0.0, 0.0), |(s, n), r| (s + r.energy, n + 1.0));
+                for r in run.iter_mut().filter(|r| r.two_s == two_s) {
+                    r.energy = sum / n;
+                }
+            }
+            run.sort_by(|a, b| {
+                a.energy
+                    .total_cmp(&b.energy)
+                    .then(b.two_s.cmp(&a.two_s))
+                    .then(table_order(&a.irrep).cmp(&table_order(&b.irrep)))
+            });
+            start = end;
+        }
         Ok(assemble(raw, parents))
     }
+}
+
+/// Position of an irrep in the character tables of O and D₄ (A₁, A₂, B₁, B₂, E, T₁, T₂).
+fn table_order(irrep: &str) -> usize {
+    const ORDER: [&str; 7] = ["A1", "A2", "B1", "B2", "E", "T1", "T2"];
+    let name = irrep.trim_end_matches('g');
+    ORDER.iter().position(|&o| o == name).unwrap_or(ORDER.len())
 }

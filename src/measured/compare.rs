@@ -19,7 +19,7 @@
 //! the metal, oxidation state and ligands can fill it from its own tables.
 
 use super::Measured;
-use crate::engine::levels::L_LETTERS;
+use crate::engine::levels::term_l;
 use crate::engine::{Calculation, Geometry};
 use crate::error::{Error, Result};
 use crate::param::Param;
@@ -184,11 +184,6 @@ fn ground_at(dn: usize, geometry: Geometry, delta_over_b: f64) -> Result<crate::
     Ok(calc.levels()?.ground().clone())
 }
 
-fn parent_l(parent: &str) -> Option<usize> {
-    let letter = parent.chars().find(|c| c.is_ascii_alphabetic())?;
-    L_LETTERS.iter().position(|l| *l == letter)
-}
-
 fn orbital_kind(geometry: Geometry, irrep: &str, two_s: i32) -> Orbital {
     if two_s == 0 {
         return Orbital::NotApplicable;
@@ -332,12 +327,11 @@ pub fn expectations(
     }
     let mut out = Vec::new();
     for (level, state) in grounds {
-        let s = f64::from(level.two_s) / 2.0;
-        let spin_only = (4.0 * s * (s + 1.0)).sqrt();
+        let spin_only = crate::units::spin_only_moment(f64::from(level.two_s));
         let spin_orbital = if level.two_s == 0 {
             None
         } else {
-            parent_l(&level.parent).map(|l| (4.0 * s * (s + 1.0) + (l * (l + 1)) as f64).sqrt())
+            term_l(&level.parent).map(|l| crate::units::spin_orbital_moment(level.two_s, l))
         };
         let orbital = orbital_kind(spec.geometry, &level.irrep, level.two_s);
         let lambda = match (zeta, level.two_s) {
@@ -505,10 +499,11 @@ pub fn spin_text(two_s: i32) -> String {
 #[cfg(test)]
 mod tests {
     use super::*;
+    use crate::tables::DataSet;
     use approx::assert_relative_eq;
 
-    fn ranges() -> MomentRangeTable {
-        MomentRangeTable::bundled().unwrap()
+    fn ranges() -> &'static MomentRangeTable {
+        DataSet::bundled().moment_ranges().unwrap()
     }
 
     fn spec(dn: usize, geometry: Geometry, dq: Option<f64>, so: Option<SpinOrbit>) -> ComplexSpec {
@@ -535,7 +530,7 @@ mod tests {
             (9, &["2Eg"]),
         ];
         for (dn, terms) in cases {
-            let e = expectations(&spec(dn, Geometry::Octahedral, None, None), &ranges()).unwrap();
+            let e = expectations(&spec(dn, Geometry::Octahedral, None, None), ranges()).unwrap();
             let got: Vec<&str> = e.iter().map(|s| s.ground_term.as_str()).collect();
             assert_eq!(got, terms, "d{dn}");
         }
@@ -547,7 +542,7 @@ mod tests {
         let t = ranges();
         for r in t.rows() {
             let g: Geometry = r.geometry.parse().unwrap();
-            let e = expectations(&spec(r.dn, g, None, None), &t).unwrap();
+            let e = expectations(&spec(r.dn, g, None, None), t).unwrap();
             let s = e
                 .iter()
                 .find(|s| s.two_s + 1 == r.multiplicity)
@@ -573,7 +568,7 @@ mod tests {
         for (dn, g, dq, lambda, mu) in cases {
             let e = expectations(
                 &spec(dn, g, Some(dq), Some(SpinOrbit::Lambda(lambda))),
-                &ranges(),
+                ranges(),
             )
             .unwrap();
             let v = e[0].spin_orbit_corrected.unwrap();
@@ -588,7 +583,7 @@ mod tests {
                 Some(850.0),
                 Some(SpinOrbit::Zeta(649.0)),
             ),
-            &ranges(),
+            ranges(),
         )
         .unwrap();
         assert_relative_eq!(e[0].lambda.unwrap(), -324.5);
@@ -597,7 +592,7 @@ mod tests {
     // Spin-only moments √(n(n+2)) for the two Mn(III) states: 4.90 (HS) and 2.83 (LS) [C].
     #[test]
     fn spin_only_and_spin_orbital() {
-        let e = expectations(&spec(4, Geometry::Octahedral, None, None), &ranges()).unwrap();
+        let e = expectations(&spec(4, Geometry::Octahedral, None, None), ranges()).unwrap();
         assert_relative_eq!(e[0].spin_only, 24f64.sqrt());
         assert_relative_eq!(e[1].spin_only, 8f64.sqrt());
         // 5D parent: √(4·6 + 6) = √30 = 5.48 (textbook μ_S+L, common practice).
@@ -607,7 +602,7 @@ mod tests {
 
     #[test]
     fn verdicts() {
-        let e = || expectations(&spec(6, Geometry::Octahedral, None, None), &ranges()).unwrap();
+        let e = || expectations(&spec(6, Geometry::Octahedral, None, None), ranges()).unwrap();
         let c = compare(Measured::new(Param::MuEff, 5.3, 0.1).unwrap(), e());
         assert_eq!(c.verdict, Verdict::Supports(0));
         assert!(c.message.contains("high-spin state"));
@@ -620,7 +615,7 @@ mod tests {
         assert_eq!(c.verdict, Verdict::Outside);
         assert!(c.message.contains("above") && c.message.contains("concentration"));
         // d8 octahedral has one spin state only.
-        let d8 = expectations(&spec(8, Geometry::Octahedral, None, None), &ranges()).unwrap();
+        let d8 = expectations(&spec(8, Geometry::Octahedral, None, None), ranges()).unwrap();
         assert_eq!(d8.len(), 1);
         assert_eq!(d8[0].state, "only spin state");
         let c = compare(Measured::new(Param::MuEff, 1.0, 0.1).unwrap(), d8);
@@ -637,12 +632,12 @@ mod tests {
                 Some(850.0),
                 Some(SpinOrbit::Lambda(324.0)),
             ),
-            &ranges(),
+            ranges(),
         )
         .unwrap_err()
         .to_string();
         assert!(e.contains("negative λ"), "{e}");
-        assert!(expectations(&spec(8, Geometry::Octahedral, Some(-1.0), None), &ranges()).is_err());
+        assert!(expectations(&spec(8, Geometry::Octahedral, Some(-1.0), None), ranges()).is_err());
         assert!(expectations(
             &spec(
                 5,
@@ -650,7 +645,7 @@ mod tests {
                 Some(1000.0),
                 Some(SpinOrbit::Lambda(-10.0))
             ),
-            &ranges()
+            ranges()
         )
         .is_err());
     }

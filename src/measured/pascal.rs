@@ -221,12 +221,13 @@ pub fn pascal_sum(formula: &Formula, table: &PascalTable) -> Result<DiamagneticC
 #[cfg(test)]
 mod tests {
     use super::*;
+    use crate::tables::DataSet;
     use approx::assert_relative_eq;
 
     fn sum(text: &str) -> DiamagneticCorrection {
-        let t = PascalTable::bundled().unwrap();
+        let t = DataSet::bundled().pascal().unwrap();
         let f = t.parse_formula(text).unwrap();
-        pascal_sum(&f, &t).unwrap()
+        pascal_sum(&f, t).unwrap()
     }
 
     // Pyridine by constitutive sum, a check of the summing code: 5 C (−30.00) + 5 H (−14.65)
@@ -272,12 +273,12 @@ mod tests {
 
     #[test]
     fn ambiguous_or_missing_metals_are_errors() {
-        let t = PascalTable::bundled().unwrap();
+        let t = DataSet::bundled().pascal().unwrap();
         let f = t.parse_formula("K4[Fe(CN)6]").unwrap();
-        let e = pascal_sum(&f, &t).unwrap_err().to_string();
+        let e = pascal_sum(&f, t).unwrap_err().to_string();
         assert!(e.contains("{Fe2+}") && e.contains("{Fe3+}"), "{e}");
         let f = t.parse_formula("RuCl3").unwrap();
-        let err = pascal_sum(&f, &t).unwrap_err();
+        let err = pascal_sum(&f, t).unwrap_err();
         let e = err.to_string();
         assert!(
             e.contains("no default for Ru") && e.contains("the diamagnetic correction itself"),

@@ -188,7 +188,7 @@ impl MagnetismReport {
         let mut states = p.spin_states.clone();
         if states.is_empty() {
             states.push((
-                (self.spin_only_moment.powi(2) + 1.0).sqrt().round() as i32 - 1,
+                units::unpaired_from_moment(self.spin_only_moment).round() as i32,
                 "ground level".into(),
             ));
         }

@@ -18,12 +18,8 @@ pub const TANABE_SUGANO_SOURCE: &str =
 /// The default C/B for d^n: the Tanabe–Sugano ratio for d²–d⁸ with its source, or 4.5 without a
 /// source for d⁰, d¹, d⁹ and d¹⁰, whose levels do not depend on C (one free-ion term, or none).
 pub fn default_c_over_b(dn: usize) -> (f64, Option<&'static str>) {
-    let r = crate::engine::tanabe_sugano_c_over_b(dn);
-    if (2..=8).contains(&dn) {
-        (r, Some(TANABE_SUGANO_SOURCE))
-    } else {
-        (r, None)
-    }
+    let source = crate::engine::crossover::tanabe_sugano_ratio(dn).map(|_| TANABE_SUGANO_SOURCE);
+    (crate::engine::tanabe_sugano_c_over_b(dn), source)
 }
 
 /// Where a spin state sits among the ground states the field can produce.

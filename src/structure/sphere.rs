@@ -53,7 +53,7 @@ pub struct Sphere {
 
 fn radius(radii: &CovalentRadii, element: &str) -> Result<f64> {
     radii.radius(element).ok_or_else(|| Error::Data {
-        table: crate::tables::covalent_radii::FILE.into(),
+        table: <CovalentRadii as crate::tables::Table>::FILE.into(),
         message: format!("has no covalent radius for {element}; add a row for it"),
     })
 }

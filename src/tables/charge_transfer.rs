@@ -7,12 +7,8 @@
 //! bands), `source`. A specific metal and oxidation state beats `any`.
 
 use super::ligands::LigandTable;
-use crate::error::{Error, Result};
-
-/// File name of the table, bundled and in a `--data` directory.
-pub const FILE: &str = "charge_transfer.csv";
-pub(crate) const BUNDLED: &str = include_str!("../../data/charge_transfer.csv");
-const HEADER: [&str; 6] = ["ligand", "metal", "ox", "kind", "onset_cm1", "source"];
+use super::{Record, Table};
+use crate::error::Result;
 
 /// Direction of the charge transfer.
 #[derive(Debug, Clone, Copy, PartialEq, Eq)]
@@ -72,86 +68,71 @@ pub struct ChargeTransferTable {
     rows: Vec<ChargeTransferOnset>,
 }
 
-impl ChargeTransferTable {
-    /// Parses and validates CSV text; every ligand must be a canonical name of `ligands`.
-    pub fn parse(text: &str, ligands: &LigandTable) -> Result<Self> {
-        let data_err = |message: String| Error::Data {
-            table: FILE.to_string(),
-            message,
-        };
-        let mut rows: Vec<ChargeTransferOnset> = Vec::new();
-        for (row, record) in super::records(FILE, text, &HEADER)? {
-            let cell = |col: usize| record.get(col).unwrap_or("").trim().to_string();
-            let at = |col: usize, msg: String| {
-                data_err(format!("row {row}, column {}: {msg}", HEADER[col]))
-            };
-            let ligand = cell(0);
-            let known = ligands.find(&ligand).ok().map(|l| l.name.clone());
-            if known.as_deref() != Some(ligand.as_str()) {
-                return Err(at(
-                    0,
-                    format!("'{ligand}' is not a ligand name of ligands.csv (use the name column, not an alias)"),
-                ));
-            }
-            let metal = match cell(1).as_str() {
-                "any" => None,
-                m if !m.is_empty()
-                    && m.chars().all(|c| c.is_ascii_alphabetic())
-                    && m.len() <= 2 =>
-                {
-                    Some(m.to_string())
-                }
-                m => return Err(at(1, format!("'{m}' is not an element symbol or 'any'"))),
-            };
-            let oxidation_state = match cell(2).as_str() {
-                "any" => None,
-                o => Some(
-                    o.parse::<i32>()
-                        .ok()
-                        .filter(|x| (-2..=8).contains(x))
-                        .ok_or_else(|| {
-                            at(2, format!("'{o}' is not an oxidation state or 'any'"))
-                        })?,
-                ),
-            };
-            if metal.is_none() && oxidation_state.is_some() {
-                return Err(at(2, "an oxidation state needs a metal".into()));
-            }
-            let kind = match cell(3).as_str() {
-                "LMCT" => ChargeTransferKind::LigandToMetal,
-                "MLCT" => ChargeTransferKind::MetalToLigand,
-                k => return Err(at(3, format!("'{k}' (accepted: LMCT, MLCT)"))),
-            };
-            let onset = cell(4)
-                .parse::<f64>()
-                .ok()
-                .filter(|x| x.is_finite() && (5_000.0..=100_000.0).contains(x))
-                .ok_or_else(|| at(4, format!("'{}' is not in 5000–100000 cm⁻¹", cell(4))))?;
-            let source = cell(5);
-            if source.is_empty() {
-                return Err(at(5, "every row needs a source".into()));
-            }
-            let row_value = ChargeTransferOnset {
-                ligand,
-                metal,
-                oxidation_state,
-                kind,
-                onset,
-                source,
-            };
-            if rows.iter().any(|r| {
-                r.ligand == row_value.ligand
-                    && r.metal == row_value.metal
-                    && r.oxidation_state == row_value.oxidation_state
-                    && r.kind == row_value.kind
-            }) {
-                return Err(at(0, "duplicate ligand, metal, ox and kind".into()));
-            }
-            rows.push(row_value);
+impl Table for ChargeTransferTable {
+    const FILE: &'static str = "charge_transfer.csv";
+    const HEADER: &'static [&'static str] =
+        &["ligand", "metal", "ox", "kind", "onset_cm1", "source"];
+    const BUNDLED: &'static str = include_str!("../../data/charge_transfer.csv");
+    type Row = ChargeTransferOnset;
+    /// Every ligand must be a canonical name of the ligand table.
+    type Context = LigandTable;
+
+    fn row(
+        record: &Record<'_>,
+        ligands: &LigandTable,
+        rows: &[ChargeTransferOnset],
+    ) -> Result<ChargeTransferOnset> {
+        let ligand_cell = record.cell("ligand");
+        let ligand = ligand_cell.text().to_string();
+        let known = ligands.find(&ligand).ok().map(|l| l.name.clone());
+        if known.as_deref() != Some(ligand.as_str()) {
+            return Err(ligand_cell.error(format!(
+                "'{ligand}' is not a ligand name of ligands.csv (use the name column, not an alias)"
+            )));
         }
-        Ok(ChargeTransferTable { rows })
+        let metal_cell = record.cell("metal");
+        let metal = match metal_cell.text() {
+            "any" => None,
+            m if !m.is_empty() && m.chars().all(|c| c.is_ascii_alphabetic()) && m.len() <= 2 => {
+                Some(m.to_string())
+            }
+            m => return Err(metal_cell.error(format!("'{m}' is not an element symbol or 'any'"))),
+        };
+        let ox_cell = record.cell("ox");
+        let oxidation_state = ox_cell.int_or_any(-2..=8)?;
+        if metal.is_none() && oxidation_state.is_some() {
+            return Err(ox_cell.error("an oxidation state needs a metal"));
+        }
+        let row = ChargeTransferOnset {
+            ligand,
+            metal,
+            oxidation_state,
+            kind: record.cell("kind").one_of(&[
+                ("LMCT", ChargeTransferKind::LigandToMetal),
+                ("MLCT", ChargeTransferKind::MetalToLigand),
+            ])?,
+            onset: record
+                .cell("onset_cm1")
+                .number(5_000.0..=100_000.0, " cm⁻¹")?,
+            source: record.cell("source").source()?,
+        };
+        if rows.iter().any(|r| {
+            r.ligand == row.ligand
+                && r.metal == row.metal
+                && r.oxidation_state == row.oxidation_state
+                && r.kind == row.kind
+        }) {
+            return Err(ligand_cell.error("duplicate ligand, metal, ox and kind"));
+        }
+        Ok(row)
     }
 
+    fn from_rows(rows: Vec<ChargeTransferOnset>) -> Self {
+        ChargeTransferTable { rows }
+    }
+}
+
+impl ChargeTransferTable {
     /// All rows in file order.
     pub fn rows(&self) -> &[ChargeTransferOnset] {
         &self.rows
@@ -193,12 +174,12 @@ mod tests {
     use super::*;
 
     fn ligands() -> LigandTable {
-        LigandTable::parse(include_str!("../../data/ligands.csv")).unwrap()
+        LigandTable::parse(LigandTable::BUNDLED).unwrap()
     }
 
     #[test]
     fn bundled_table_loads_and_specific_rows_win() {
-        let t = ChargeTransferTable::parse(BUNDLED, &ligands()).unwrap();
+        let t = ChargeTransferTable::parse_with(ChargeTransferTable::BUNDLED, &ligands()).unwrap();
         assert!(t.rows().len() >= 20);
         // The red Fe(III)–thiocyanate colour is charge transfer (Lever 1984, from memory): the
         // Fe(III) row beats the generic one.
@@ -218,20 +199,21 @@ mod tests {
     fn bad_rows_are_reported() {
         let head = "ligand,metal,ox,kind,onset_cm1,source\n";
         let l = ligands();
-        let e = ChargeTransferTable::parse(&format!("{head}iodide,any,any,LMCT,20000,x\n"), &l)
-            .unwrap_err();
+        let e =
+            ChargeTransferTable::parse_with(&format!("{head}iodide,any,any,LMCT,20000,x\n"), &l)
+                .unwrap_err();
         assert!(e.to_string().contains("name column"), "{e}");
-        let e =
-            ChargeTransferTable::parse(&format!("{head}I,any,any,XCT,20000,x\n"), &l).unwrap_err();
+        let e = ChargeTransferTable::parse_with(&format!("{head}I,any,any,XCT,20000,x\n"), &l)
+            .unwrap_err();
         assert!(e.to_string().contains("accepted: LMCT"), "{e}");
-        let e =
-            ChargeTransferTable::parse(&format!("{head}I,any,any,LMCT,20,x\n"), &l).unwrap_err();
+        let e = ChargeTransferTable::parse_with(&format!("{head}I,any,any,LMCT,20,x\n"), &l)
+            .unwrap_err();
         assert!(e.to_string().contains("onset_cm1"), "{e}");
-        let e =
-            ChargeTransferTable::parse(&format!("{head}I,any,any,LMCT,20000,\n"), &l).unwrap_err();
+        let e = ChargeTransferTable::parse_with(&format!("{head}I,any,any,LMCT,20000,\n"), &l)
+            .unwrap_err();
         assert!(e.to_string().contains("source"), "{e}");
-        let e =
-            ChargeTransferTable::parse(&format!("{head}I,any,3,LMCT,20000,x\n"), &l).unwrap_err();
+        let e = ChargeTransferTable::parse_with(&format!("{head}I,any,3,LMCT,20000,x\n"), &l)
+            .unwrap_err();
         assert!(e.to_string().contains("needs a metal"), "{e}");
     }
 }

@@ -12,12 +12,11 @@
 //! The d-electron count is not stored: it is the element's group number minus the oxidation
 //! state (d block, groups 3–12), with the group taken from the `mendeleev` crate.
 
-use super::{records, Cell};
+use super::{Record, Table};
 use crate::error::{closest_names, Error, Result};
 use crate::param::Param;
 use mendeleev::Element;
 
-const TABLE: &str = "ions.csv";
 const HEADER: [&str; 12] = [
     "symbol",
     "oxidation_state",
@@ -244,83 +243,84 @@ pub fn d_electron_count(symbol: &str, oxidation_state: i32) -> Result<(usize, Tr
     }
 }
 
-impl IonTable {
-    /// Parses and validates `ions.csv` text.
-    pub fn parse(text: &str) -> Result<IonTable> {
-        let mut rows: Vec<Ion> = Vec::new();
-        for (line, rec) in records(TABLE, text, &HEADER)? {
-            let cell = |c| Cell::of(TABLE, line, &rec, &HEADER, c);
-            let symbol = cell("symbol").text()?;
-            let ox_cell = cell("oxidation_state");
-            let oxidation_state = ox_cell.int(-4..=9)?;
-            let (dn, series) =
-                d_electron_count(&symbol, oxidation_state).map_err(|e| cell("symbol").error(e))?;
-            let ion = Ion {
-                dn,
-                series,
-                b0: cell("b0").optional_number(200.0..=2000.0, " cm⁻¹")?,
-                c0: cell("c0").optional_number(500.0..=10000.0, " cm⁻¹")?,
-                zeta: cell("zeta").optional_number(10.0..=10000.0, " cm⁻¹")?,
-                g: cell("g").optional_number(1000.0..=60000.0, " cm⁻¹")?,
-                k: cell("k").optional_number(0.0..=1.0, "")?,
-                g_state: {
-                    let c = cell("g_state");
-                    match c.text()?.as_str() {
-                        "hs" => ReferenceState::HighSpin,
-                        "ls" => ReferenceState::LowSpin,
-                        "any" => ReferenceState::Any,
-                        other => {
-                            return Err(c.error(format!("'{other}' is not one of hs, ls, any")))
+impl Table for IonTable {
+    const FILE: &'static str = "ions.csv";
+    const HEADER: &'static [&'static str] = &HEADER;
+    const BUNDLED: &'static str = include_str!("../../data/ions.csv");
+    type Row = Ion;
+    type Context = ();
+
+    fn row(record: &Record<'_>, _: &(), rows: &[Ion]) -> Result<Ion> {
+        let cell = |c| record.cell(c);
+        let symbol = cell("symbol").required()?;
+        let ox_cell = cell("oxidation_state");
+        let oxidation_state = ox_cell.int(-4..=9)?;
+        let (dn, series) =
+            d_electron_count(&symbol, oxidation_state).map_err(|e| cell("symbol").error(e))?;
+        let ion = Ion {
+            dn,
+            series,
+            b0: cell("b0").optional_number(200.0..=2000.0, " cm⁻¹")?,
+            c0: cell("c0").optional_number(500.0..=10000.0, " cm⁻¹")?,
+            zeta: cell("zeta").optional_number(10.0..=10000.0, " cm⁻¹")?,
+            g: cell("g").optional_number(1000.0..=60000.0, " cm⁻¹")?,
+            k: cell("k").optional_number(0.0..=1.0, "")?,
+            g_state: cell("g_state").one_of(&[
+                ("hs", ReferenceState::HighSpin),
+                ("ls", ReferenceState::LowSpin),
+                ("any", ReferenceState::Any),
+            ])?,
+            delta_r: cell("delta_r").optional_number(0.0..=0.4, " Å")?,
+            provenance: {
+                let c = cell("provenance");
+                let mut items = Vec::new();
+                for item in c.text().split_whitespace() {
+                    let parsed = item.split_once('=').and_then(|(k, v)| {
+                        PROVENANCE_KEYS
+                            .contains(&k)
+                            .then_some(k)
+                            .zip(Provenance::parse(v))
+                    });
+                    match parsed {
+                        Some((k, p)) => items.push((k.to_string(), p)),
+                        None => {
+                            return Err(c.error(format!(
+                                "'{item}' is not KEY=KIND with KEY one of {} and KIND one of printed, derived, assumed, rule, none",
+                                PROVENANCE_KEYS.join(", ")
+                            )))
                         }
                     }
-                },
-                delta_r: cell("delta_r").optional_number(0.0..=0.4, " Å")?,
-                provenance: {
-                    let c = cell("provenance");
-                    let mut items = Vec::new();
-                    for item in c.text.split_whitespace() {
-                        let parsed = item.split_once('=').and_then(|(k, v)| {
-                            PROVENANCE_KEYS
-                                .contains(&k)
-                                .then_some(k)
-                                .zip(Provenance::parse(v))
-                        });
-                        match parsed {
-                            Some((k, p)) => items.push((k.to_string(), p)),
-                            None => {
-                                return Err(c.error(format!(
-                                    "'{item}' is not KEY=KIND with KEY one of {} and KIND one of printed, derived, assumed, rule, none",
-                                    PROVENANCE_KEYS.join(", ")
-                                )))
-                            }
-                        }
-                    }
-                    items
-                },
-                caution: cell("caution").optional_text(),
-                source: cell("source").text()?,
-                symbol,
-                oxidation_state,
-            };
-            if let (Some(b0), Some(c0)) = (ion.b0, ion.c0) {
-                if !(2.0..=8.0).contains(&(c0 / b0)) {
-                    return Err(cell("c0").error(format!(
-                        "C0/B0 = {:.2} is outside the sensible range 2..=8",
-                        c0 / b0
-                    )));
                 }
+                items
+            },
+            caution: cell("caution").optional(),
+            source: cell("source").source()?,
+            symbol,
+            oxidation_state,
+        };
+        if let (Some(b0), Some(c0)) = (ion.b0, ion.c0) {
+            if !(2.0..=8.0).contains(&(c0 / b0)) {
+                return Err(cell("c0").error(format!(
+                    "C0/B0 = {:.2} is outside the sensible range 2..=8",
+                    c0 / b0
+                )));
             }
-            if rows
-                .iter()
-                .any(|r| r.symbol == ion.symbol && r.oxidation_state == ion.oxidation_state)
-            {
-                return Err(ox_cell.error(format!("{} appears twice", ion.name())));
-            }
-            rows.push(ion);
         }
-        Ok(IonTable { rows })
+        if rows
+            .iter()
+            .any(|r| r.symbol == ion.symbol && r.oxidation_state == ion.oxidation_state)
+        {
+            return Err(ox_cell.error(format!("{} appears twice", ion.name())));
+        }
+        Ok(ion)
     }
 
+    fn from_rows(rows: Vec<Ion>) -> Self {
+        IonTable { rows }
+    }
+}
+
+impl IonTable {
     /// Metal symbols in table order, each once.
     pub fn metals(&self) -> Vec<&str> {
         let mut out: Vec<&str> = Vec::new();
@@ -378,7 +378,7 @@ mod tests {
     use super::*;
 
     fn bundled() -> IonTable {
-        IonTable::parse(include_str!("../../data/ions.csv")).unwrap()
+        IonTable::parse(IonTable::BUNDLED).unwrap()
     }
 
     /// d-electron counts from group − oxidation state; the expected values are common practice

@@ -10,12 +10,11 @@
 //! (`acceptor`, `weak-acceptor`, `donor` or `none`), `binds` (space-separated geometries the ligand can occupy:
 //! `oct`, `tet`, `sqpl`), `caution` (may be empty) and `source`. Empty cells mean "no value".
 
-use super::{records, Cell};
+use super::{Record, Table};
 use crate::engine::Geometry;
 use crate::error::{closest_names, Error, Result};
 use mendeleev::Element;
 
-const TABLE: &str = "ligands.csv";
 const HEADER: [&str; 14] = [
     "name",
     "aliases",
@@ -146,92 +145,88 @@ pub struct LigandTable {
     pub rows: Vec<Ligand>,
 }
 
-impl LigandTable {
-    /// Parses and validates `ligands.csv` text.
-    pub fn parse(text: &str) -> Result<LigandTable> {
-        let mut rows: Vec<Ligand> = Vec::new();
-        for (line, rec) in records(TABLE, text, &HEADER)? {
-            let cell = |c| Cell::of(TABLE, line, &rec, &HEADER, c);
-            let donors_cell = cell("donors");
-            let donors: Vec<String> = donors_cell
-                .text()?
-                .split_whitespace()
-                .map(str::to_string)
-                .collect();
-            for d in &donors {
-                if !Element::iter().any(|e| e.symbol() == d) {
-                    return Err(donors_cell.error(format!("'{d}' is not an element symbol")));
-                }
+impl Table for LigandTable {
+    const FILE: &'static str = "ligands.csv";
+    const HEADER: &'static [&'static str] = &HEADER;
+    const BUNDLED: &'static str = include_str!("../../data/ligands.csv");
+    type Row = Ligand;
+    type Context = ();
+
+    fn row(record: &Record<'_>, _: &(), rows: &[Ligand]) -> Result<Ligand> {
+        let cell = |c| record.cell(c);
+        let donors_cell = cell("donors");
+        let donors: Vec<String> = donors_cell
+            .required()?
+            .split_whitespace()
+            .map(str::to_string)
+            .collect();
+        for d in &donors {
+            if !Element::iter().any(|e| e.symbol() == d) {
+                return Err(donors_cell.error(format!("'{d}' is not an element symbol")));
             }
-            let denticity = cell("denticity").int(1..=6)?;
-            if denticity as usize != donors.len() {
-                return Err(cell("denticity").error(format!(
-                    "{denticity} does not match the {} donor atom(s) listed",
-                    donors.len()
+        }
+        let denticity = cell("denticity").int(1..=6)?;
+        if denticity as usize != donors.len() {
+            return Err(cell("denticity").error(format!(
+                "{denticity} does not match the {} donor atom(s) listed",
+                donors.len()
+            )));
+        }
+        let pi = cell("pi").one_of(&[
+            ("acceptor", PiRole::Acceptor),
+            ("weak-acceptor", PiRole::WeakAcceptor),
+            ("donor", PiRole::Donor),
+            ("none", PiRole::None),
+        ])?;
+        let f_from = cell("f_from").one_of(&[
+            ("printed", FieldBasis::Printed),
+            ("derived", FieldBasis::Derived),
+            ("series", FieldBasis::Series),
+        ])?;
+        let binds_cell = cell("binds");
+        let mut binds = Vec::new();
+        for g in binds_cell.required()?.split_whitespace() {
+            let geometry: Geometry = g.parse().map_err(|e| binds_cell.error(e))?;
+            if !geometry.estimable() {
+                return Err(binds_cell.error("use oct, tet or sqpl"));
+            }
+            binds.push(geometry);
+        }
+        let ligand = Ligand {
+            name: cell("name").required()?,
+            aliases: cell("aliases")
+                .optional()
+                .map(|a| a.split('|').map(|s| s.trim().to_string()).collect())
+                .unwrap_or_default(),
+            donors,
+            charge: cell("charge").int(-4..=2)?,
+            f: cell("f").number(0.3..=3.0, "")?,
+            f_from,
+            h: cell("h").optional_number(0.0..=5.0, "")?,
+            e_sigma: cell("e_sigma").optional_number(0.0..=20000.0, " cm⁻¹")?,
+            e_pi: cell("e_pi").optional_number(-5000.0..=5000.0, " cm⁻¹")?,
+            pi,
+            binds,
+            caution: cell("caution").optional(),
+            source: cell("source").source()?,
+        };
+        for n in std::iter::once(&ligand.name).chain(&ligand.aliases) {
+            if let Some(other) = rows.iter().find(|r| r.is_called(n)) {
+                return Err(cell("aliases").error(format!(
+                    "the name '{n}' is already used by ligand {}",
+                    other.name
                 )));
             }
-            let pi_cell = cell("pi");
-            let pi = match pi_cell.text()?.as_str() {
-                "acceptor" => PiRole::Acceptor,
-                "weak-acceptor" => PiRole::WeakAcceptor,
-                "donor" => PiRole::Donor,
-                "none" => PiRole::None,
-                other => {
-                    return Err(pi_cell.error(format!(
-                        "'{other}' is not one of acceptor, weak-acceptor, donor, none"
-                    )))
-                }
-            };
-            let basis_cell = cell("f_from");
-            let f_from = match basis_cell.text()?.as_str() {
-                "printed" => FieldBasis::Printed,
-                "derived" => FieldBasis::Derived,
-                "series" => FieldBasis::Series,
-                other => {
-                    return Err(basis_cell
-                        .error(format!("'{other}' is not one of printed, derived, series")))
-                }
-            };
-            let binds_cell = cell("binds");
-            let mut binds = Vec::new();
-            for g in binds_cell.text()?.split_whitespace() {
-                let geometry: Geometry = g.parse().map_err(|e| binds_cell.error(e))?;
-                if !geometry.estimable() {
-                    return Err(binds_cell.error("use oct, tet or sqpl"));
-                }
-                binds.push(geometry);
-            }
-            let ligand = Ligand {
-                name: cell("name").text()?,
-                aliases: cell("aliases")
-                    .optional_text()
-                    .map(|a| a.split('|').map(|s| s.trim().to_string()).collect())
-                    .unwrap_or_default(),
-                donors,
-                charge: cell("charge").int(-4..=2)?,
-                f: cell("f").number(0.3..=3.0, "")?,
-                f_from,
-                h: cell("h").optional_number(0.0..=5.0, "")?,
-                e_sigma: cell("e_sigma").optional_number(0.0..=20000.0, " cm⁻¹")?,
-                e_pi: cell("e_pi").optional_number(-5000.0..=5000.0, " cm⁻¹")?,
-                pi,
-                binds,
-                caution: cell("caution").optional_text(),
-                source: cell("source").text()?,
-            };
-            for n in std::iter::once(&ligand.name).chain(&ligand.aliases) {
-                if let Some(other) = rows.iter().find(|r| r.is_called(n)) {
-                    return Err(cell("aliases").error(format!(
-                        "the name '{n}' is already used by ligand {}",
-                        other.name
-                    )));
-                }
-            }
-            rows.push(ligand);
         }
-        Ok(LigandTable { rows })
+        Ok(ligand)
     }
 
+    fn from_rows(rows: Vec<Ligand>) -> Self {
+        LigandTable { rows }
+    }
+}
+
+impl LigandTable {
     /// All names and aliases, for suggestions.
     pub fn all_names(&self) -> impl Iterator<Item = &str> {
         self.rows.iter().flat_map(|r| {
@@ -284,7 +279,7 @@ mod tests {
     use approx::assert_abs_diff_eq;
 
     fn bundled() -> LigandTable {
-        LigandTable::parse(include_str!("../../data/ligands.csv")).unwrap()
+        LigandTable::parse(LigandTable::BUNDLED).unwrap()
     }
 
     /// Table self-test: at least 30 ligands, each with a source, and the ligands the project

@@ -5,22 +5,10 @@
 //! `{…}` groups of a formula), `formula` (composition of the entry; empty for constitutive
 //! corrections), `value_1e-6_cm3_per_mol` (χ_D in 10⁻⁶ cm³ mol⁻¹, cgs-emu) and `source`.
 
+use super::{Record, Table};
 use crate::error::{closest_names, Error, Result};
 use crate::formula::Formula;
 use mendeleev::Element;
-use std::path::Path;
-use std::str::FromStr;
-
-/// File name of the table, bundled and in a `--data` directory.
-pub const FILE: &str = "pascal.csv";
-const BUNDLED: &str = include_str!("../../data/pascal.csv");
-const HEADER: [&str; 5] = [
-    "kind",
-    "name",
-    "formula",
-    "value_1e-6_cm3_per_mol",
-    "source",
-];
 
 /// What a Pascal entry stands for.
 #[derive(Debug, Clone, Copy, PartialEq, Eq)]
@@ -38,6 +26,16 @@ pub enum PascalKind {
 }
 
 impl PascalKind {
+    pub const ALL: [PascalKind; 6] = [
+        PascalKind::Atom,
+        PascalKind::Constitutive,
+        PascalKind::Cation,
+        PascalKind::Anion,
+        PascalKind::Ligand,
+        PascalKind::Solvent,
+    ];
+
+    /// The CSV spelling.
     pub fn name(self) -> &'static str {
         match self {
             PascalKind::Atom => "atom",
@@ -47,25 +45,6 @@ impl PascalKind {
             PascalKind::Ligand => "ligand",
             PascalKind::Solvent => "solvent",
         }
-    }
-}
-
-impl FromStr for PascalKind {
-    type Err = String;
-    fn from_str(s: &str) -> std::result::Result<Self, String> {
-        Ok(match s.trim() {
-            "atom" => PascalKind::Atom,
-            "constitutive" => PascalKind::Constitutive,
-            "cation" => PascalKind::Cation,
-            "anion" => PascalKind::Anion,
-            "ligand" => PascalKind::Ligand,
-            "solvent" => PascalKind::Solvent,
-            other => {
-                return Err(format!(
-                    "unknown kind '{other}' (accepted: atom, constitutive, cation, anion, ligand, solvent)"
-                ))
-            }
-        })
     }
 }
 
@@ -87,103 +66,79 @@ pub struct PascalTable {
     entries: Vec<PascalEntry>,
 }
 
-impl PascalTable {
-    /// The table bundled with the program.
-    pub fn bundled() -> Result<Self> {
-        Self::from_csv(BUNDLED)
-    }
+impl Table for PascalTable {
+    const FILE: &'static str = "pascal.csv";
+    const HEADER: &'static [&'static str] = &[
+        "kind",
+        "name",
+        "formula",
+        "value_1e-6_cm3_per_mol",
+        "source",
+    ];
+    const BUNDLED: &'static str = include_str!("../../data/pascal.csv");
+    type Row = PascalEntry;
+    type Context = ();
 
-    /// DIR/pascal.csv when `data_dir` is given and holds that file, else the bundled table.
-    pub fn load(data_dir: Option<&Path>) -> Result<Self> {
-        match super::read_override(data_dir, FILE)? {
-            Some(text) => Self::from_csv(&text),
-            None => Self::bundled(),
+    fn row(record: &Record<'_>, _: &(), entries: &[PascalEntry]) -> Result<PascalEntry> {
+        let kind = record
+            .cell("kind")
+            .one_of(&PascalKind::ALL.map(|k| (k.name(), k)))?;
+        let name_cell = record.cell("name");
+        let name = name_cell.text().to_string();
+        if name.is_empty() || name.contains('{') || name.contains('}') {
+            return Err(name_cell.error(format!("'{name}' must be non-empty and without braces")));
         }
-    }
-
-    /// Parses and validates CSV text in the layout described in the module docs.
-    pub fn from_csv(text: &str) -> Result<Self> {
-        let data_err = |message: String| Error::Data {
-            table: FILE.to_string(),
-            message,
+        if entries.iter().any(|e| e.name == name) {
+            return Err(name_cell.error(format!("duplicate name '{name}'")));
+        }
+        let formula_cell = record.cell("formula");
+        let formula_text = formula_cell.text();
+        let composition = match (kind, formula_text.is_empty()) {
+            (PascalKind::Constitutive, true) => None,
+            (PascalKind::Constitutive, false) => {
+                return Err(formula_cell.error("must be empty for a constitutive correction"))
+            }
+            (_, true) => return Err(formula_cell.error("composition is required")),
+            (_, false) => Some(Formula::parse(formula_text).map_err(|e| formula_cell.error(e))?),
         };
-        let mut entries: Vec<PascalEntry> = Vec::new();
-        for (row, record) in super::records(FILE, text, &HEADER)? {
-            let cell = |col: usize| record.get(col).unwrap_or("").to_string();
-            let at = |col: usize, msg: String| {
-                data_err(format!("row {row}, column {}: {msg}", HEADER[col]))
-            };
-            let kind: PascalKind = cell(0).parse().map_err(|m| at(0, m))?;
-            let name = cell(1);
-            if name.is_empty() || name.contains('{') || name.contains('}') {
-                return Err(at(
-                    1,
-                    format!("'{name}' must be non-empty and without braces"),
-                ));
+        if kind == PascalKind::Atom {
+            let f = composition.as_ref().expect("checked above");
+            if f.elements().len() != 1 || f.charge() != 0 {
+                return Err(formula_cell.error(format!(
+                    "an atom row holds one element, found '{formula_text}'"
+                )));
             }
-            if entries.iter().any(|e| e.name == name) {
-                return Err(at(1, format!("duplicate name '{name}'")));
+            if element_symbol_name(&name).is_some_and(|e| !f.elements().contains_key(&e)) {
+                return Err(formula_cell
+                    .error(format!("'{formula_text}' does not match the atom '{name}'")));
             }
-            let formula_text = cell(2);
-            let composition = match (kind, formula_text.is_empty()) {
-                (PascalKind::Constitutive, true) => None,
-                (PascalKind::Constitutive, false) => {
-                    return Err(at(2, "must be empty for a constitutive correction".into()))
-                }
-                (_, true) => return Err(at(2, "composition is required".into())),
-                (_, false) => {
-                    Some(Formula::parse(&formula_text).map_err(|e| at(2, e.to_string()))?)
-                }
-            };
-            if kind == PascalKind::Atom {
-                let f = composition.as_ref().expect("checked above");
-                if f.elements().len() != 1 || f.charge() != 0 {
-                    return Err(at(
-                        2,
-                        format!("an atom row holds one element, found '{formula_text}'"),
-                    ));
-                }
-                if element_symbol_name(&name).is_some_and(|e| !f.elements().contains_key(&e)) {
-                    return Err(at(
-                        2,
-                        format!("'{formula_text}' does not match the atom '{name}'"),
-                    ));
-                }
-            }
-            let raw: f64 = cell(3)
-                .parse()
-                .map_err(|_| at(3, format!("'{}' is not a number", cell(3))))?;
-            if !raw.is_finite() {
-                return Err(at(3, "must be finite".into()));
-            }
-            if matches!(
-                kind,
-                PascalKind::Cation | PascalKind::Anion | PascalKind::Ligand | PascalKind::Solvent
-            ) && raw >= 0.0
-            {
-                return Err(at(
-                    3,
-                    format!("{raw}: a whole ion or molecule is diamagnetic (< 0)"),
-                ));
-            }
-            let source = cell(4);
-            if source.is_empty() {
-                return Err(at(4, "every row needs a source".into()));
-            }
-            entries.push(PascalEntry {
-                kind,
-                name,
-                composition,
-                value: raw * 1e-6,
-                source,
-            });
         }
-        if entries.is_empty() {
-            return Err(data_err("no rows".into()));
+        let value_cell = record.cell("value_1e-6_cm3_per_mol");
+        let raw = value_cell.finite()?;
+        if matches!(
+            kind,
+            PascalKind::Cation | PascalKind::Anion | PascalKind::Ligand | PascalKind::Solvent
+        ) && raw >= 0.0
+        {
+            return Err(value_cell.error(format!(
+                "{raw}: a whole ion or molecule is diamagnetic (< 0)"
+            )));
         }
-        Ok(PascalTable { entries })
+        Ok(PascalEntry {
+            kind,
+            name,
+            composition,
+            value: raw * 1e-6,
+            source: record.cell("source").source()?,
+        })
     }
 
+    fn from_rows(entries: Vec<PascalEntry>) -> Self {
+        PascalTable { entries }
+    }
+}
+
+impl PascalTable {
     /// All rows, in file order.
     pub fn entries(&self) -> &[PascalEntry] {
         &self.entries
@@ -258,7 +213,7 @@ mod tests {
 
     #[test]
     fn bundled_table_loads_and_every_row_has_a_tagged_source() {
-        let t = PascalTable::bundled().unwrap();
+        let t = PascalTable::parse(PascalTable::BUNDLED).unwrap();
         assert!(t.entries().len() > 80);
         for e in t.entries() {
             assert!(
@@ -279,33 +234,33 @@ mod tests {
     #[test]
     fn bad_rows_are_reported_with_row_and_column() {
         let head = "kind,name,formula,value_1e-6_cm3_per_mol,source\n";
-        let e = PascalTable::from_csv(&format!("{head}atom,H,H,abc,src\n")).unwrap_err();
+        let e = PascalTable::parse(&format!("{head}atom,H,H,abc,src\n")).unwrap_err();
         assert!(
             e.to_string()
-                .contains("row 2, column value_1e-6_cm3_per_mol"),
+                .contains("line 2, column value_1e-6_cm3_per_mol"),
             "{e}"
         );
-        let e = PascalTable::from_csv(&format!("{head}ligand,py,C5H5N,-49,\n")).unwrap_err();
+        let e = PascalTable::parse(&format!("{head}ligand,py,C5H5N,-49,\n")).unwrap_err();
         assert!(e.to_string().contains("needs a source"), "{e}");
-        let e = PascalTable::from_csv(&format!("{head}ligand,py,C5H5N,49,x\n")).unwrap_err();
+        let e = PascalTable::parse(&format!("{head}ligand,py,C5H5N,49,x\n")).unwrap_err();
         assert!(e.to_string().contains("diamagnetic"), "{e}");
-        let e = PascalTable::from_csv(&format!("{head}atom,H,H,-2.93,x\natom,H,H,-2.93,x\n"))
-            .unwrap_err();
+        let e =
+            PascalTable::parse(&format!("{head}atom,H,H,-2.93,x\natom,H,H,-2.93,x\n")).unwrap_err();
         assert!(
-            e.to_string().contains("row 3") && e.to_string().contains("duplicate"),
+            e.to_string().contains("line 3") && e.to_string().contains("duplicate"),
             "{e}"
         );
-        let e = PascalTable::from_csv(&format!("{head}atom,N,O,-5,x\n")).unwrap_err();
+        let e = PascalTable::parse(&format!("{head}atom,N,O,-5,x\n")).unwrap_err();
         assert!(e.to_string().contains("does not match"), "{e}");
-        let e = PascalTable::from_csv(&format!("{head}ligand,py,C5H5Q,-49,x\n")).unwrap_err();
+        let e = PascalTable::parse(&format!("{head}ligand,py,C5H5Q,-49,x\n")).unwrap_err();
         assert!(e.to_string().contains("column formula"), "{e}");
-        let e = PascalTable::from_csv("a,b\n1,2\n").unwrap_err();
+        let e = PascalTable::parse("a,b\n1,2\n").unwrap_err();
         assert!(e.to_string().contains("header"), "{e}");
     }
 
     #[test]
     fn braces_expand_to_compositions() {
-        let t = PascalTable::bundled().unwrap();
+        let t = PascalTable::parse(PascalTable::BUNDLED).unwrap();
         let f = t.parse_formula("[{Fe2+}{py}4({NCS-})2]").unwrap();
         assert_eq!(f.count(Element::C), 22.0);
         assert_eq!(f.count(Element::Fe), 1.0);

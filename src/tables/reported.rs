@@ -10,12 +10,11 @@
 //! only), `category` (`3d-homoleptic`, `mixed`, `pi-acceptor`, `sco`, `4d5d`, `tetrahedral`,
 //! `planar`) and `source`.
 
-use super::{records, Cell, LigandTable};
+use super::{LigandTable, Record, Table};
 use crate::engine::Geometry;
 use crate::error::{Error, Result};
 use crate::param::Param;
 
-const TABLE: &str = "reported_spin_states.csv";
 const HEADER: [&str; 10] = [
     "complex",
     "metal",
@@ -140,85 +139,80 @@ pub fn parse_ligand_items(text: &str, ligands: &LigandTable) -> Result<Vec<(Stri
     Ok(out)
 }
 
-impl ReportedTable {
-    /// Parses and validates the table against the ligand table (every ligand must exist and the
-    /// donor atoms must fill the geometry).
-    pub fn parse(text: &str, ligands: &LigandTable) -> Result<ReportedTable> {
-        let mut rows: Vec<ReportedComplex> = Vec::new();
-        for (line, rec) in records(TABLE, text, &HEADER)? {
-            let cell = |c| Cell::of(TABLE, line, &rec, &HEADER, c);
-            let geometry_cell = cell("geometry");
-            let geometry: Geometry = geometry_cell
-                .text()?
-                .parse()
-                .map_err(|e| geometry_cell.error(e))?;
-            if !geometry.estimable() {
-                return Err(geometry_cell.error("use oct, tet or sqpl"));
-            }
-            let ligand_cell = cell("ligands");
-            let items = parse_ligand_items(&ligand_cell.text()?, ligands)
-                .map_err(|e| ligand_cell.error(e))?;
-            let donors: usize = items
-                .iter()
-                .map(|(n, c)| c * ligands.find(n).map_or(0, |l| l.denticity()))
-                .sum();
-            if donors != geometry.coordination_number() {
-                return Err(ligand_cell.error(format!(
-                    "{donors} donor atoms do not fill {} ({} needed)",
-                    geometry.name(),
-                    geometry.coordination_number()
-                )));
-            }
-            let spin_cell = cell("spin_state");
-            let spin_state = match spin_cell.text()?.as_str() {
-                "high" => ReportedSpin::High,
-                "low" => ReportedSpin::Low,
-                "intermediate" => ReportedSpin::Intermediate,
-                "crossover" => ReportedSpin::Crossover,
-                other => {
-                    return Err(spin_cell.error(format!(
-                        "'{other}' is not one of high, low, intermediate, crossover"
-                    )))
-                }
-            };
-            let category_cell = cell("category");
-            let category_text = category_cell.text()?;
-            let category = Category::ALL
-                .into_iter()
-                .find(|c| c.name() == category_text)
-                .ok_or_else(|| {
-                    category_cell.error(format!(
-                        "'{category_text}' is not one of {}",
-                        Category::ALL.map(|c| c.name()).join(", ")
-                    ))
-                })?;
-            let t_half_k = cell("t_half_k").optional_number(1.0..=1000.0, " K")?;
-            if (spin_state == ReportedSpin::Crossover) != t_half_k.is_some() {
-                return Err(cell("t_half_k").error("give T½ for crossover rows and only for them"));
-            }
-            let row = ReportedComplex {
-                complex: cell("complex").text()?,
-                metal: cell("metal").text()?,
-                oxidation_state: cell("oxidation_state").int(-2..=8)?,
-                geometry,
-                ligands: items,
-                spin_state,
-                unpaired: cell("unpaired").int(0..=5)? as usize,
-                t_half_k,
-                category,
-                source: cell("source").text()?,
-            };
-            if rows.iter().any(|r| r.same_complex(&row)) {
-                return Err(ligand_cell.error(format!(
-                    "{} appears twice (same metal, oxidation state, geometry and ligands)",
-                    row.complex
-                )));
-            }
-            rows.push(row);
+impl Table for ReportedTable {
+    const FILE: &'static str = "reported_spin_states.csv";
+    const HEADER: &'static [&'static str] = &HEADER;
+    const BUNDLED: &'static str = include_str!("../../data/reported_spin_states.csv");
+    type Row = ReportedComplex;
+    /// Every ligand must exist and the donor atoms must fill the geometry.
+    type Context = LigandTable;
+
+    fn row(
+        record: &Record<'_>,
+        ligands: &LigandTable,
+        rows: &[ReportedComplex],
+    ) -> Result<ReportedComplex> {
+        let cell = |c| record.cell(c);
+        let geometry_cell = cell("geometry");
+        let geometry: Geometry = geometry_cell
+            .required()?
+            .parse()
+            .map_err(|e| geometry_cell.error(e))?;
+        if !geometry.estimable() {
+            return Err(geometry_cell.error("use oct, tet or sqpl"));
         }
-        Ok(ReportedTable { rows })
+        let ligand_cell = cell("ligands");
+        let items = parse_ligand_items(&ligand_cell.required()?, ligands)
+            .map_err(|e| ligand_cell.error(e))?;
+        let donors: usize = items
+            .iter()
+            .map(|(n, c)| c * ligands.find(n).map_or(0, |l| l.denticity()))
+            .sum();
+        if donors != geometry.coordination_number() {
+            return Err(ligand_cell.error(format!(
+                "{donors} donor atoms do not fill {} ({} needed)",
+                geometry.name(),
+                geometry.coordination_number()
+            )));
+        }
+        let spin_state = cell("spin_state").one_of(&[
+            ("high", ReportedSpin::High),
+            ("low", ReportedSpin::Low),
+            ("intermediate", ReportedSpin::Intermediate),
+            ("crossover", ReportedSpin::Crossover),
+        ])?;
+        let category = cell("category").one_of(&Category::ALL.map(|c| (c.name(), c)))?;
+        let t_half_k = cell("t_half_k").optional_number(1.0..=1000.0, " K")?;
+        if (spin_state == ReportedSpin::Crossover) != t_half_k.is_some() {
+            return Err(cell("t_half_k").error("give T½ for crossover rows and only for them"));
+        }
+        let row = ReportedComplex {
+            complex: cell("complex").required()?,
+            metal: cell("metal").required()?,
+            oxidation_state: cell("oxidation_state").int(-2..=8)?,
+            geometry,
+            ligands: items,
+            spin_state,
+            unpaired: cell("unpaired").int(0..=5)? as usize,
+            t_half_k,
+            category,
+            source: cell("source").source()?,
+        };
+        if rows.iter().any(|r| r.same_complex(&row)) {
+            return Err(ligand_cell.error(format!(
+                "{} appears twice (same metal, oxidation state, geometry and ligands)",
+                row.complex
+            )));
+        }
+        Ok(row)
     }
 
+    fn from_rows(rows: Vec<ReportedComplex>) -> Self {
+        ReportedTable { rows }
+    }
+}
+
+impl ReportedTable {
     /// The row for a complex, if reported (ligands as canonical (name, count), any order).
     pub fn find(
         &self,
@@ -250,15 +244,15 @@ impl ReportedComplex {
 #[cfg(test)]
 mod tests {
     use super::*;
-    use crate::tables::Tables;
+    use crate::tables::DataSet;
 
     /// Table self-test: at least 150 rows, each with a source naming a publication, every
     /// category present, crossover rows with a T½ and the low-spin unpaired count, every d^n
     /// with a spin choice in octahedra (d⁴–d⁷) covered.
     #[test]
     fn reported_table_is_sourced_and_covers_the_cases() {
-        let t = Tables::bundled().unwrap();
-        let rows = &t.reported.rows;
+        let t = DataSet::bundled();
+        let rows = &t.reported().unwrap().rows;
         assert!(rows.len() >= 150, "{}", rows.len());
         for r in rows {
             assert!(r.source.len() > 15, "{}: {}", r.complex, r.source);
@@ -283,7 +277,8 @@ mod tests {
                 .iter()
                 .filter(|r| {
                     r.geometry == Geometry::Octahedral
-                        && t.ions
+                        && t.ions()
+                            .unwrap()
                             .find(&r.metal, r.oxidation_state)
                             .is_ok_and(|i| i.dn == dn)
                 })
@@ -291,7 +286,8 @@ mod tests {
             assert!(n >= 10, "d{dn}: {n}");
         }
         let found = t
-            .reported
+            .reported()
+            .unwrap()
             .find("Fe", 2, Geometry::Octahedral, &[("bpy".to_string(), 3)])
             .unwrap();
         assert_eq!(found.spin_state, ReportedSpin::Low);
@@ -299,10 +295,12 @@ mod tests {
 
     #[test]
     fn bad_rows_are_rejected() {
-        let t = Tables::bundled().unwrap();
+        let t = DataSet::bundled();
         let head = HEADER.join(",");
         let ok = "X,Fe,2,oct,H2O:6,high,4,,3d-homoleptic,src 2000";
-        assert!(ReportedTable::parse(&format!("{head}\n{ok}\n"), &t.ligands).is_ok());
+        assert!(
+            ReportedTable::parse_with(&format!("{head}\n{ok}\n"), t.ligands().unwrap()).is_ok()
+        );
         for (bad, what) in [
             ("X,Fe,2,oct,H2O:5,high,4,,mixed,src", "do not fill"),
             ("X,Fe,2,oct,HHO:6,high,4,,mixed,src", "unknown ligand"),
@@ -310,12 +308,12 @@ mod tests {
             ("X,Fe,2,oct,H2O:6,crossover,0,,sco,src", "T½"),
             ("X,Fe,2,oct,H2O:6,high,4,,other,src", "category"),
         ] {
-            let e = ReportedTable::parse(&format!("{head}\n{bad}\n"), &t.ligands)
+            let e = ReportedTable::parse_with(&format!("{head}\n{bad}\n"), t.ligands().unwrap())
                 .unwrap_err()
                 .to_string();
             assert!(e.contains(what), "{bad}: {e}");
         }
-        let e = ReportedTable::parse(&format!("{head}\n{ok}\n{ok}\n"), &t.ligands)
+        let e = ReportedTable::parse_with(&format!("{head}\n{ok}\n{ok}\n"), t.ligands().unwrap())
             .unwrap_err()
             .to_string();
         assert!(e.contains("twice"), "{e}");

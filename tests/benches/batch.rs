@@ -4,10 +4,8 @@
 
 use criterion::{criterion_group, criterion_main, Criterion, Throughput};
 use spinstate::check::batch;
-use spinstate::check::{check, CheckTables};
-use spinstate::tables::bond_lengths::BondLengthTable;
-use spinstate::tables::moment_ranges::MomentRangeTable;
-use spinstate::tables::Tables;
+use spinstate::check::check;
+use spinstate::tables::DataSet;
 use std::hint::black_box;
 use std::path::Path;
 use std::process::Command;
@@ -15,14 +13,7 @@ use std::process::Command;
 const DEMO: &str = include_str!("../../data/demo/samples.csv");
 
 fn bench_rows(c: &mut Criterion) {
-    let chemistry = Tables::bundled().unwrap();
-    let ranges = MomentRangeTable::load(None).unwrap();
-    let bonds = BondLengthTable::load(None).unwrap();
-    let tables = CheckTables {
-        chemistry,
-        moment_ranges: &ranges,
-        bond_lengths: &bonds,
-    };
+    let tables = DataSet::bundled();
     let samples: Vec<_> = batch::parse(DEMO)
         .unwrap()
         .into_iter()

@@ -9,18 +9,19 @@
 use criterion::{criterion_group, criterion_main, Criterion, Throughput};
 use spinstate::engine::Geometry;
 use spinstate::screen::{Filters, IonSpec, Keep, Screen, Target};
-use spinstate::tables::Tables;
+use spinstate::tables::{DataSet, LigandTable};
 use std::hint::black_box;
 
 const POOL_SIZE: usize = 30;
 
-fn tables_with_synthetic_ligands() -> (Tables, Vec<String>) {
-    let bundled = Tables::bundled().unwrap();
+fn tables_with_synthetic_ligands() -> (DataSet, Vec<String>) {
+    let bundled = DataSet::bundled();
     let usable = |l: &spinstate::tables::Ligand| {
         l.denticity() == 1 && l.binds.contains(&Geometry::Octahedral)
     };
     let mut pool: Vec<String> = bundled
-        .ligands
+        .ligands()
+        .unwrap()
         .rows
         .iter()
         .filter(|l| usable(l))
@@ -42,7 +43,7 @@ fn tables_with_synthetic_ligands() -> (Tables, Vec<String>) {
         pool.push(name);
     }
     csv.push('\n');
-    let tables = Tables::parse_chemistry(include_str!("../../data/ions.csv"), &csv).unwrap();
+    let tables = DataSet::default().with_text::<LigandTable>(csv);
     (tables, pool)
 }
 

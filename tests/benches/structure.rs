@@ -9,8 +9,7 @@ use criterion::{criterion_group, criterion_main, Criterion};
 use spinstate::structure::centre::analyse;
 use spinstate::structure::sphere::{sphere, Cutoff};
 use spinstate::structure::{read, MetalChoice};
-use spinstate::tables::bond_lengths::BondLengthTable;
-use spinstate::tables::covalent_radii::CovalentRadii;
+use spinstate::tables::DataSet;
 use std::hint::black_box;
 
 /// Sub-cell edge (Å) and the number of sub-cells along a, b, c.
@@ -70,16 +69,16 @@ fn generated_cif() -> String {
 
 fn bench(c: &mut Criterion) {
     let text = generated_cif();
-    let radii = CovalentRadii::bundled().unwrap();
-    let table = BondLengthTable::bundled().unwrap();
+    let radii = DataSet::bundled().covalent_radii().unwrap();
+    let table = DataSet::bundled().bond_lengths().unwrap();
     let read_and_analyse = || {
         let s = read(&text, "bench.cif").unwrap();
         let metals = s.select_metals(&MetalChoice::All).unwrap();
         let centres: Vec<_> = metals
             .iter()
             .map(|&m| {
-                let sp = sphere(&s, m, &radii, Cutoff::CovalentRadii).unwrap();
-                analyse(&s, &sp, Some(2), &table)
+                let sp = sphere(&s, m, radii, Cutoff::CovalentRadii).unwrap();
+                analyse(&s, &sp, Some(2), table)
             })
             .collect();
         centres

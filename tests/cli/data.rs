@@ -111,6 +111,65 @@ fn bad_tables_and_options_fail_with_exit_code_2() {
         .code(2);
 }
 
+/// A table is read only when a command needs it: a broken pascal.csv in `--data` does not stop
+/// `predict` or `data ions`, and is reported (file, line, column, exit code 2) by the commands
+/// that use it.
+#[test]
+fn a_broken_table_matters_only_to_the_commands_that_use_it() {
+    let dir = tempfile::tempdir().unwrap();
+    std::fs::write(
+        dir.path().join("pascal.csv"),
+        "kind,name,formula,value_1e-6_cm3_per_mol,source\natom,H,H,-2.93,test row\natom,C,C,lots,test row\n",
+    )
+    .unwrap();
+    let d = dir.path().to_str().unwrap();
+    let predict = [
+        "--data",
+        d,
+        "predict",
+        "--metal",
+        "Fe",
+        "--ox",
+        "2",
+        "--geometry",
+        "oct",
+        "--ligand",
+        "H2O:6",
+    ];
+    Command::cargo_bin("spinstate")
+        .unwrap()
+        .args(predict)
+        .assert()
+        .success();
+    let v = json(&["--data", d, "data", "ions", "--json"]);
+    assert!(v["ions"].as_array().unwrap().len() >= 40);
+    for args in [
+        vec!["--data", d, "data", "pascal"],
+        vec![
+            "--data",
+            d,
+            "evans",
+            "--shift-ppm",
+            "0.2",
+            "--conc",
+            "0.01",
+            "--temp",
+            "298",
+            "--formula",
+            "CH4",
+        ],
+    ] {
+        Command::cargo_bin("spinstate")
+            .unwrap()
+            .args(&args)
+            .assert()
+            .code(2)
+            .stderr(contains(
+                "pascal.csv: line 3, column value_1e-6_cm3_per_mol",
+            ));
+    }
+}
+
 #[test]
 fn every_table_lists_with_a_source_on_every_row() {
     for (table, key) in [

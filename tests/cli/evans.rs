@@ -375,6 +375,6 @@ fn data_directory_overrides_the_pascal_table() {
         .assert()
         .code(2)
         .stderr(predicate::str::contains(
-            "row 2, column value_1e-6_cm3_per_mol",
+            "line 2, column value_1e-6_cm3_per_mol",
         ));
 }

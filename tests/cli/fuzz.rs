@@ -14,7 +14,7 @@ use spinstate::formula::Formula;
 use spinstate::screen::{Filters, IonSpec, Screen, Target};
 use spinstate::spectra::units::parse_bands;
 use spinstate::spectra::EnergyUnit;
-use spinstate::tables::Tables;
+use spinstate::tables::{DataSet, Table};
 
 /// An error's message is one line and says something.
 fn one_line(e: &spinstate::Error) -> Result<(), TestCaseError> {
@@ -145,7 +145,7 @@ proptest! {
 
     #[test]
     fn screen_candidate_rows(text in inputs("[A-Za-z0-9,:\" \n#-]{0,120}", CANDIDATES)) {
-        let tables = Tables::bundled().unwrap();
+        let tables = DataSet::bundled();
         let ions = [IonSpec { metal: "Fe".into(), oxidation_state: 2 }];
         match Screen::from_candidates(tables, &ions, Geometry::Octahedral, &text, &Filters::default(), Target::Crossover) {
             Ok((screen, errors)) => {
@@ -196,7 +196,7 @@ proptest! {
     ) {
         match spinstate::tables::ligands::LigandTable::parse(&ligands) {
             Ok(t) => {
-                if let Err(e) = spinstate::tables::reported::ReportedTable::parse(
+                if let Err(e) = spinstate::tables::reported::ReportedTable::parse_with(
                     include_str!("../../data/reported_spin_states.csv"),
                     &t,
                 ) {
@@ -217,16 +217,16 @@ proptest! {
         ranges in mutated(MOMENT_RANGES),
         radii in mutated(RADII),
     ) {
-        if let Err(e) = spinstate::tables::bond_lengths::BondLengthTable::from_csv(&bonds) {
+        if let Err(e) = spinstate::tables::bond_lengths::BondLengthTable::parse(&bonds) {
             one_line(&e)?;
         }
-        if let Err(e) = spinstate::tables::pascal::PascalTable::from_csv(&pascal) {
+        if let Err(e) = spinstate::tables::pascal::PascalTable::parse(&pascal) {
             one_line(&e)?;
         }
-        if let Err(e) = spinstate::tables::moment_ranges::MomentRangeTable::from_csv(&ranges) {
+        if let Err(e) = spinstate::tables::moment_ranges::MomentRangeTable::parse(&ranges) {
             one_line(&e)?;
         }
-        if let Err(e) = spinstate::tables::covalent_radii::CovalentRadii::from_csv(&radii) {
+        if let Err(e) = spinstate::tables::covalent_radii::CovalentRadii::parse(&radii) {
             one_line(&e)?;
         }
     }
@@ -241,16 +241,16 @@ fn structure(text: &str, name: &str) -> Result<(), TestCaseError> {
         Ok(s) => s,
         Err(e) => return one_line(&e),
     };
-    let radii = spinstate::tables::covalent_radii::CovalentRadii::bundled().unwrap();
-    let table = spinstate::tables::bond_lengths::BondLengthTable::bundled().unwrap();
+    let radii = DataSet::bundled().covalent_radii().unwrap();
+    let table = DataSet::bundled().bond_lengths().unwrap();
     let metals = match s.select_metals(&MetalChoice::All) {
         Ok(m) => m,
         Err(e) => return one_line(&e),
     };
     for m in metals {
-        match sphere(&s, m, &radii, Cutoff::CovalentRadii) {
+        match sphere(&s, m, radii, Cutoff::CovalentRadii) {
             Ok(sp) => {
-                let c = analyse(&s, &sp, None, &table);
+                let c = analyse(&s, &sp, None, table);
                 drop(c);
             }
             Err(e) => one_line(&e)?,

@@ -247,19 +247,20 @@ fn bond_length_table_rows_must_keep_the_two_ranges_apart() {
     // going high spin in the bundled table's source), but the change delta_r_a must go the way
     // the ranges go.
     use spinstate::tables::bond_lengths::BondLengthTable;
+    use spinstate::tables::Table;
     let header = "metal,oxidation_state,donor,donor_class,ls_min_a,ls_max_a,hs_min_a,hs_max_a,delta_r_a,what,source";
     let row =
         |cells: &str| format!("{header}\nFe,2,N,any,{cells},typical,invented for this test\n");
-    assert!(BondLengthTable::from_csv(&row("1.95,2.00,2.15,2.20,0.20")).is_ok());
-    assert!(BondLengthTable::from_csv(&row("1.85,1.89,1.89,1.93,0.04")).is_ok());
-    let e = BondLengthTable::from_csv(&row("1.95,2.16,2.15,2.20,0.20"))
+    assert!(BondLengthTable::parse(&row("1.95,2.00,2.15,2.20,0.20")).is_ok());
+    assert!(BondLengthTable::parse(&row("1.85,1.89,1.89,1.93,0.04")).is_ok());
+    let e = BondLengthTable::parse(&row("1.95,2.16,2.15,2.20,0.20"))
         .unwrap_err()
         .to_string();
     assert!(
-        e.contains("row 2, column ls_max_a") && e.contains("overlaps"),
+        e.contains("line 2, column ls_max_a") && e.contains("overlaps"),
         "{e}"
     );
-    let e = BondLengthTable::from_csv(&row("1.95,2.00,2.15,2.20,-0.20"))
+    let e = BondLengthTable::parse(&row("1.95,2.00,2.15,2.20,-0.20"))
         .unwrap_err()
         .to_string();
     assert!(
@@ -270,8 +271,8 @@ fn bond_length_table_rows_must_keep_the_two_ranges_apart() {
     let crlf = format!(
         "{header}\r\nFe,2,N,any,1.95,2.00,2.15,2.20,0.20,typical,invented for this test\r\n\r\nFe,3,N,any,1.95,2.16,2.15,2.20,0.20,typical,invented for this test\r\n"
     );
-    let e = BondLengthTable::from_csv(&crlf).unwrap_err().to_string();
-    assert!(e.contains("row 4, column ls_max_a"), "{e}");
+    let e = BondLengthTable::parse(&crlf).unwrap_err().to_string();
+    assert!(e.contains("line 4, column ls_max_a"), "{e}");
 }
 
 #[test]

@@ -523,9 +523,7 @@ fn report_moment_figure_draws_the_model_curve() {
             .collect(),
         overrides: Overrides::default(),
     };
-    let complex = spec
-        .resolve(spinstate::tables::Tables::bundled().unwrap())
-        .unwrap();
+    let complex = spec.resolve(spinstate::tables::DataSet::bundled()).unwrap();
     let p = spinstate::predict::predict(&complex).unwrap();
     assert_eq!(p.ground.two_s, 4);
     let curve = spinstate::predict::moment_curve(&p, &[5.0, 300.0])

@@ -4,7 +4,7 @@
 
 use spinstate::engine::Geometry;
 use spinstate::screen::{Filters, IonSpec, Keep, Screen, Target};
-use spinstate::tables::Tables;
+use spinstate::tables::DataSet;
 
 struct Rng(u64);
 
@@ -21,7 +21,7 @@ impl Rng {
 
 #[test]
 fn fast_reject_keeps_the_exact_ranking() {
-    let tables = Tables::bundled().unwrap();
+    let tables = DataSet::bundled();
     let ions = [
         ("Fe", 2),
         ("Fe", 3),
@@ -37,7 +37,8 @@ fn fast_reject_keeps_the_exact_ranking() {
     for round in 0..24 {
         let geometry = [Geometry::Octahedral, Geometry::Tetrahedral][round % 2];
         let usable: Vec<String> = tables
-            .ligands
+            .ligands()
+            .unwrap()
             .rows
             .iter()
             .filter(|l| l.binds.contains(&geometry))

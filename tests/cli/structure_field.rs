@@ -9,9 +9,7 @@ use spinstate::engine::{Calculation, Geometry, LigandField, PointGroup};
 use spinstate::structure::centre::analyse;
 use spinstate::structure::field::geometry_field;
 use spinstate::structure::sphere::{sphere, Cutoff};
-use spinstate::tables::bond_lengths::BondLengthTable;
-use spinstate::tables::covalent_radii::CovalentRadii;
-use spinstate::tables::Tables;
+use spinstate::tables::DataSet;
 
 fn eigenvalues(m: &Matrix5<f64>) -> Vec<f64> {
     let mut e: Vec<f64> = SymmetricEigen::new(*m)
@@ -147,14 +145,14 @@ fn field_of(
     name: &str,
     spec: &ComplexSpec,
 ) -> (spinstate::structure::field::GeometryField, i32) {
-    let tables = Tables::bundled().unwrap();
+    let tables = DataSet::bundled();
     let complex = spec.resolve(tables).unwrap();
     let s = spinstate::structure::read(text, name).unwrap();
     let metal = s.metals()[0];
     let sp = sphere(
         &s,
         metal,
-        &CovalentRadii::bundled().unwrap(),
+        DataSet::bundled().covalent_radii().unwrap(),
         Cutoff::CovalentRadii,
     )
     .unwrap();
@@ -162,7 +160,7 @@ fn field_of(
         &s,
         &sp,
         Some(spec.oxidation_state),
-        &BondLengthTable::bundled().unwrap(),
+        DataSet::bundled().bond_lengths().unwrap(),
     );
     let f = geometry_field(&centre, &complex, &[]).unwrap();
     let calc = Calculation::new(
