@@ -13,7 +13,7 @@
 //! paramagnetism of each level. Units: cgs-emu, χ in cm³ mol⁻¹, χT in cm³ K mol⁻¹, μ_eff in μB.
 
 use crate::engine::basis::all_determinants;
-use crate::engine::operators::{angular_momentum, one_body_complex, Axis, DetList};
+use crate::engine::operators::{angular_momentum, one_body, one_body_complex, Axis, DetList};
 use crate::engine::shell::shell;
 use crate::engine::{Calculation, SpinOrbitSolution};
 use crate::error::{num, require_finite, Error, Result};
@@ -165,12 +165,12 @@ fn pair_moments(n: usize, fourfold: bool) -> &'static PairMoments {
         let blocks = shell(n).spin_orbit_blocks(fourfold);
         let dets = DetList::new(all_determinants(n));
         let build = |orbital: bool, axis: Axis| {
-            let m = one_body_complex(&dets, &dets, &angular_momentum(orbital, axis));
+            let h = angular_momentum(orbital, axis);
             // The real or the imaginary part, whichever carries the operator.
             if axis == Axis::Y {
-                m.map(|z| z.im)
+                one_body(&dets, &dets, |p, q| h[p][q].im)
             } else {
-                m.map(|z| z.re)
+                one_body(&dets, &dets, |p, q| h[p][q].re)
             }
         };
         let axes = [Axis::X, Axis::Y, Axis::Z];

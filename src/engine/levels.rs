@@ -714,9 +714,9 @@ fn expectation(block: &SpinBlock, vecs: &DMatrix<C64>, k: usize, ri: usize) -> f
     let col = vecs.column(k);
     if col.iter().all(|z| z.im == 0.0) {
         let v: nalgebra::DVector<f64> = col.map(|z| z.re);
-        v.dot(&(&block.rotations_re()[ri] * &v))
+        v.dot(&(block.rotation_re(ri) * &v))
     } else {
-        (col.adjoint() * &block.rotations()[ri] * col)[(0, 0)].re
+        (col.adjoint() * block.rotation(ri) * col)[(0, 0)].re
     }
 }
 

@@ -84,7 +84,7 @@ impl Projection {
                 ),
                 (PointGroup::D4h, 3) => continue,
                 (PointGroup::D4h, r) => {
-                    let c2x = &block.rotations_re()[2];
+                    let c2x = block.rotation_re(2);
                     let names = if r == 0 {
                         ("A1g", "A2g")
                     } else {
@@ -96,14 +96,14 @@ impl Projection {
                     )
                 }
                 (_, 0) => {
-                    let c3 = &block.rotations_re()[0];
+                    let c3 = block.rotation_re(0);
                     (
                         c3 + c3.transpose(),
                         vec![(2.0, "A1", 1), (-1.0, "E", 2), (0.0, "T1", 3)],
                     )
                 }
                 (_, 2) => {
-                    let c3 = &block.rotations_re()[0];
+                    let c3 = block.rotation_re(0);
                     (c3 + c3.transpose(), vec![(2.0, "A2", 1), (0.0, "T2", 3)])
                 }
                 _ => continue, // rows of T₁ and T₂ already kept from the blocks above

@@ -32,29 +32,26 @@ pub struct SpinBlock {
     pub excitations: Vec<Option<DMatrix<f64>>>,
     /// Diagonal blocks of the rotations of [`Rotation::ALL`], projected; built on first use
     /// (only labelling needs them).
-    rotations: OnceLock<Vec<DMatrix<C64>>>,
+    rotations: [OnceLock<DMatrix<C64>>; 3],
     /// Real parts of the rotations (enough for ⟨v|R|v⟩ with real v); built on first use.
-    rotations_re: OnceLock<Vec<DMatrix<f64>>>,
+    rotations_re: [OnceLock<DMatrix<f64>>; 3],
     /// Orbital angular momentum squared L², projected (L² conserves M_L); built on first use.
     l_squared: OnceLock<DMatrix<f64>>,
 }
 
 impl SpinBlock {
-    /// Diagonal blocks of the rotations of [`Rotation::ALL`] over the spin-adapted basis.
-    pub fn rotations(&self) -> &[DMatrix<C64>] {
-        self.rotations.get_or_init(|| {
+    /// Diagonal block of rotation `ri` of [`Rotation::ALL`] over the spin-adapted basis (each
+    /// built on first use: the projections need one or two of the three).
+    pub fn rotation(&self, ri: usize) -> &DMatrix<C64> {
+        self.rotations[ri].get_or_init(|| {
             let cbasis = self.basis.map(|x| C64::new(x, 0.0));
-            Rotation::ALL
-                .iter()
-                .map(|&r| cbasis.adjoint() * rotation_matrix(r, &self.dets, &self.dets) * &cbasis)
-                .collect()
+            cbasis.adjoint() * rotation_matrix(Rotation::ALL[ri], &self.dets, &self.dets) * &cbasis
         })
     }
 
-    /// Real parts of [`SpinBlock::rotations`].
-    pub fn rotations_re(&self) -> &[DMatrix<f64>] {
-        self.rotations_re
-            .get_or_init(|| self.rotations().iter().map(|m| m.map(|z| z.re)).collect())
+    /// Real part of [`SpinBlock::rotation`].
+    pub fn rotation_re(&self, ri: usize) -> &DMatrix<f64> {
+        self.rotations_re[ri].get_or_init(|| self.rotation(ri).map(|z| z.re))
     }
 
     /// L² over the spin-adapted basis.
@@ -341,8 +338,8 @@ impl Shell {
             rep_b,
             rep_c,
             excitations,
-            rotations: OnceLock::new(),
-            rotations_re: OnceLock::new(),
+            rotations: Default::default(),
+            rotations_re: Default::default(),
         })
     }
 
