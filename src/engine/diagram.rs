@@ -3,7 +3,7 @@
 
 use super::crossover::{crossover, Crossover};
 use super::geometry::Geometry;
-use super::levels::Calculation;
+use super::levels::{Calculation, Spectrum};
 use super::projection::Projection;
 use crate::error::{require_finite, Error, Result};
 use crate::param::Param;
@@ -128,15 +128,22 @@ fn diagram_with(
     let xs: Vec<f64> = (0..points)
         .map(|i| max * i as f64 / (points - 1) as f64)
         .collect();
+    // The points are independent: they are solved on every core, then joined in order.
+    use rayon::prelude::*;
+    let spectra: Vec<Spectrum> = xs
+        .par_iter()
+        .map(|&x| {
+            let calc = at(x)?;
+            match &projection {
+                // Δ = 0 is the free ion: its levels are degenerate across irreps, which the
+                // projection handles like any other point.
+                Some(p) => p.levels(&calc, &parents),
+                None => calc.levels_with(&parents, false),
+            }
+        })
+        .collect::<Result<_>>()?;
     let mut series: Vec<Series> = Vec::new();
-    for (pi, &x) in xs.iter().enumerate() {
-        let calc = at(x)?;
-        let spectrum = match &projection {
-            // Δ = 0 is the free ion: its levels are degenerate across irreps, which the
-            // projection handles like any other point.
-            Some(p) => p.levels(&calc, &parents)?,
-            None => calc.levels_with(&parents, false)?,
-        };
+    for (pi, spectrum) in spectra.iter().enumerate() {
         for l in &spectrum.levels {
             let existing = series
                 .iter_mut()
