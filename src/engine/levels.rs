@@ -739,37 +739,41 @@ fn l_from_l_squared(x: f64) -> usize {
 
 pub(crate) fn assemble(raw: Vec<RawLevel>, parents: &ParentTable) -> Spectrum {
     let ground = raw.first().map(|r| r.energy).unwrap_or(0.0);
-    let mut counters: Vec<((i32, String), usize)> = Vec::new();
-    let levels = raw
-        .into_iter()
-        .map(|r| {
-            let key = (r.two_s, r.irrep.clone());
-            let idx = match counters.iter_mut().find(|(k, _)| *k == key) {
-                Some((_, n)) => {
-                    *n += 1;
-                    *n
-                }
-                None => {
-                    counters.push((key.clone(), 1));
-                    1
-                }
-            };
-            let parent = parents
-                .iter()
-                .find(|(k, _)| *k == key)
-                .and_then(|(_, v)| v.get(idx - 1).cloned())
-                .unwrap_or_else(|| "?".to_string());
-            Level {
-                energy: r.energy - ground,
-                absolute_energy: r.energy,
-                two_s: r.two_s,
-                irrep: r.irrep,
-                degeneracy: r.dim,
-                parent,
-                index: idx,
+    // (position in `parents` or None, 2S, irrep, levels seen so far) per key met: looked up by
+    // reference, so that no label is copied but the parent each level keeps.
+    let mut counters: Vec<(Option<usize>, i32, String, usize)> = Vec::new();
+    let mut levels = Vec::with_capacity(raw.len());
+    for r in raw {
+        let slot = match counters
+            .iter()
+            .position(|(_, s, i, _)| *s == r.two_s && *i == r.irrep)
+        {
+            Some(k) => k,
+            None => {
+                let table = parents
+                    .iter()
+                    .position(|((s, i), _)| *s == r.two_s && *i == r.irrep);
+                counters.push((table, r.two_s, r.irrep.clone(), 0));
+                counters.len() - 1
             }
-        })
-        .collect();
+        };
+        let entry = &mut counters[slot];
+        entry.3 += 1;
+        let idx = entry.3;
+        let parent = entry
+            .0
+            .and_then(|t| parents[t].1.get(idx - 1).cloned())
+            .unwrap_or_else(|| "?".to_string());
+        levels.push(Level {
+            energy: r.energy - ground,
+            absolute_energy: r.energy,
+            two_s: r.two_s,
+            irrep: r.irrep,
+            degeneracy: r.dim,
+            parent,
+            index: idx,
+        });
+    }
     Spectrum { levels }
 }
 
