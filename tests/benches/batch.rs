@@ -54,6 +54,24 @@ fn bench_processes(c: &mut Criterion) {
             assert!(out.status.success());
         })
     });
+    g.bench_function("diagram d5 oct, 1000 points with labels", |b| {
+        b.iter(|| {
+            let out = Command::new(bin)
+                .args([
+                    "diagram",
+                    "--dn",
+                    "5",
+                    "--geometry",
+                    "oct",
+                    "--c-over-b",
+                    "4.477",
+                ])
+                .args(["--points", "1000"])
+                .output()
+                .unwrap();
+            assert!(out.status.success());
+        })
+    });
     let dir = tempfile::tempdir().unwrap();
     let file = dir.path().join("rows.csv");
     let mut lines = DEMO.lines();
