@@ -150,27 +150,28 @@ impl Projection {
         })
     }
 
-    /// The lowest energy of each total spin of `calc` (same d^n and group, a field with the
-    /// group's full symmetry), as (2S, energy): the smallest eigenvalue over the projected blocks
-    /// of that spin, the same numbers as [`Calculation::lowest_by_spin`] from smaller matrices.
-    pub fn lowest_by_spin(&self, calc: &Calculation) -> Result<Vec<(i32, f64)>> {
+    /// The field of `calc` over the complex orbitals, once `calc` is known to share the
+    /// projection's shell and group.
+    fn field_of(
+        &self,
+        calc: &Calculation,
+    ) -> Result<nalgebra::SMatrix<nalgebra::Complex<f64>, 5, 5>> {
         if calc.dn != self.dn || calc.group != self.group {
             return Err(Error::Computation(
                 "a projection is used only for its own shell and group".into(),
             ));
         }
-        let v = calc.field.complex_matrix();
+        Ok(calc.field.complex_matrix())
+    }
+
+    /// The lowest energy of each total spin of `calc` (same d^n and group, a field with the
+    /// group's full symmetry), as (2S, energy): the smallest eigenvalue over the projected blocks
+    /// of that spin, the same numbers as [`Calculation::lowest_by_spin`] from smaller matrices.
+    pub fn lowest_by_spin(&self, calc: &Calculation) -> Result<Vec<(i32, f64)>> {
+        let v = self.field_of(calc)?;
         let mut out: Vec<(i32, f64)> = Vec::new();
         for blk in &self.blocks {
-            let mut re = &blk.rep_b * calc.b;
-            add_scaled(&mut re, calc.c, &blk.rep_c);
-            let mut im = None;
-            add_field(&mut re, &mut im, &blk.excitations, &v);
-            if im.is_some() {
-                return Err(Error::Computation("the field is not real".into()));
-            }
-            let low = re
-                .symmetric_eigenvalues()
+            let low = block_eigenvalues(blk, calc, &v)?
                 .iter()
                 .copied()
                 .fold(f64::INFINITY, f64::min);
@@ -189,25 +190,10 @@ impl Projection {
     /// from eigenvalues alone, with parents from `parents`.
     pub fn levels(&self, calc: &Calculation, parents: &ParentTable) -> Result<Spectrum> {
         // A complex field is refused below, where its imaginary part first appears.
-        if calc.dn != self.dn || calc.group != self.group {
-            return Err(Error::Computation(
-                "a projection is used only for its own shell and group".into(),
-            ));
-        }
-        let v = calc.field.complex_matrix();
+        let v = self.field_of(calc)?;
         let mut raw = Vec::new();
         for blk in &self.blocks {
-            let mut re = &blk.rep_b * calc.b;
-            add_scaled(&mut re, calc.c, &blk.rep_c);
-            let mut im = None;
-            add_field(&mut re, &mut im, &blk.excitations, &v);
-            if im.is_some() {
-                return Err(Error::Computation("the field is not real".into()));
-            }
-            let values = re.symmetric_eigenvalues();
-            if values.iter().any(|x| !x.is_finite()) {
-                return Err(Error::Computation("eigenvalues are not finite".into()));
-            }
+            let values = block_eigenvalues(blk, calc, &v)?;
             for &energy in values.iter() {
                 raw.push(RawLevel {
                     energy,
@@ -259,4 +245,25 @@ fn table_order(irrep: &str) -> usize {
     const ORDER: [&str; 7] = ["A1", "A2", "B1", "B2", "E", "T1", "T2"];
     let name = irrep.trim_end_matches('g');
     ORDER.iter().position(|&o| o == name).unwrap_or(ORDER.len())
+}
+
+/// The eigenvalues of one projected block's Hamiltonian for `calc` (a complex field is refused:
+/// the projection holds real matrices only).
+fn block_eigenvalues(
+    blk: &IrrepBlock,
+    calc: &Calculation,
+    v: &nalgebra::SMatrix<nalgebra::Complex<f64>, 5, 5>,
+) -> Result<nalgebra::DVector<f64>> {
+    let mut re = &blk.rep_b * calc.b;
+    add_scaled(&mut re, calc.c, &blk.rep_c);
+    let mut im = None;
+    add_field(&mut re, &mut im, &blk.excitations, v);
+    if im.is_some() {
+        return Err(Error::Computation("the field is not real".into()));
+    }
+    let values = re.symmetric_eigenvalues();
+    if values.iter().any(|x| !x.is_finite()) {
+        return Err(Error::Computation("eigenvalues are not finite".into()));
+    }
+    Ok(values)
 }
