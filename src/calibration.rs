@@ -65,7 +65,7 @@ struct Features {
 
 /// What the model says about one case under one calibration.
 #[derive(Debug, Clone, Copy, PartialEq, Eq)]
-pub struct Verdict {
+pub struct CaseVerdict {
     pub state: SpinState,
     /// Unpaired electrons of the low-temperature ground state.
     pub unpaired: usize,
@@ -73,7 +73,7 @@ pub struct Verdict {
 
 impl Case {
     /// The model's verdict under `cal`; None when the case could not be resolved.
-    pub fn verdict(&self, cal: &Calibration) -> Option<Verdict> {
+    pub fn verdict(&self, cal: &Calibration) -> Option<CaseVerdict> {
         let f = self.features.as_ref()?;
         let delta_ref = estimate::reference_delta(
             f.mean_f,
@@ -99,7 +99,7 @@ impl Case {
             (None, _) => delta_ref * sg.high_spin_factor / f.b,
         };
         let two_s = estimate::verdict_two_s(state, &f.cross, spin_from_map(&f.spins, x));
-        Some(Verdict {
+        Some(CaseVerdict {
             state,
             unpaired: two_s as usize,
         })

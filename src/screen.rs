@@ -513,7 +513,7 @@ impl Ranking {
 
 /// A candidate row of a file that could not be used.
 #[derive(Debug, Clone, PartialEq, Eq)]
-pub struct RowError {
+pub struct RejectedCandidate {
     /// Data row number (1 = first row after the header).
     pub row: usize,
     /// Line number in the file.
@@ -522,7 +522,7 @@ pub struct RowError {
     pub message: String,
 }
 
-impl fmt::Display for RowError {
+impl fmt::Display for RejectedCandidate {
     fn fmt(&self, f: &mut fmt::Formatter<'_>) -> fmt::Result {
         write!(
             f,
@@ -1164,7 +1164,7 @@ impl Screen {
     }
 
     /// A screen of the candidates in a CSV text (columns in [`CANDIDATE_COLUMNS`]). Rows that
-    /// cannot be used are returned as [`RowError`]s; the others are screened. Errors (the whole
+    /// cannot be used are returned as [`RejectedCandidate`]s; the others are screened. Errors (the whole
     /// file): no `ligands` column, no row at all, malformed CSV, or a bad ion or filter.
     pub fn from_candidates(
         tables: &DataSet,
@@ -1173,7 +1173,7 @@ impl Screen {
         csv_text: &str,
         filters: &Filters,
         target: Target,
-    ) -> Result<(Screen, Vec<RowError>)> {
+    ) -> Result<(Screen, Vec<RejectedCandidate>)> {
         let ligands = tables.ligands()?;
         let screen_ions = Self::prepare_ions(tables, ions, geometry)?;
         Self::check_filters(filters, geometry)?;
@@ -1202,7 +1202,7 @@ impl Screen {
             ));
         };
         let name_col = col("name");
-        let mut errors: Vec<RowError> = Vec::new();
+        let mut errors: Vec<RejectedCandidate> = Vec::new();
         let mut rows: Vec<(Runs, Option<String>)> = Vec::new();
         let cn = geometry.coordination_number();
         let lines = crate::csv_input::LineIndex::new(csv_text, Some(b'#'));
@@ -1212,7 +1212,7 @@ impl Screen {
                 Ok(r) => r,
                 Err(e) => {
                     let line = e.position().map_or(0, |p| lines.line_of(p.byte()));
-                    errors.push(RowError {
+                    errors.push(RejectedCandidate {
                         row,
                         line,
                         column: "(row)".into(),
@@ -1222,7 +1222,7 @@ impl Screen {
                 }
             };
             let line = rec.position().map_or(0, |p| lines.line_of(p.byte()));
-            let err = |message: String| RowError {
+            let err = |message: String| RejectedCandidate {
                 row,
                 line,
                 column: "ligands".into(),

@@ -7,7 +7,7 @@ use super::{
 };
 use crate::complex::{Origin, ResolvedComplex};
 use crate::error::{Error, Result};
-use crate::measured::compare::{self, ComplexSpec as MomentSpec, SpinOrbit, StateExpectation};
+use crate::measured::compare::{self, MomentQuery, SpinOrbit, StateExpectation};
 use crate::measured::evans::{self, EvansInput};
 use crate::measured::{Measured, MomentResult};
 use crate::param::Param;
@@ -129,13 +129,13 @@ fn expectations(
 ) -> Result<Vec<StateExpectation>> {
     let dq = complex.delta_high_spin.value / 10.0;
     let dq_ls = complex.delta_low_spin.value / 10.0;
-    let spec = MomentSpec {
+    let spec = MomentQuery {
         dq: (dq > 0.0).then_some(dq),
         dq_low_spin: (dq_ls > 0.0).then_some(dq_ls),
         spin_orbit: complex.ion.zeta.map(SpinOrbit::Zeta),
         b: Some(complex.b.value),
         temperature: Some(t),
-        ..MomentSpec::new(complex.ion.dn, complex.geometry)
+        ..MomentQuery::new(complex.ion.dn, complex.geometry)
     };
     compare::expectations(&spec, ranges)
 }
@@ -185,13 +185,13 @@ fn from_moment(
     let cmp = compare::compare(mu, states);
     let mut fraction = None;
     let (supports, strength) = match cmp.verdict {
-        compare::Verdict::Supports(i) => match cmp.states[i].state.as_str() {
+        compare::MomentVerdict::Supports(i) => match cmp.states[i].state.as_str() {
             "high spin" => (Support::High, Strength::Strong),
             "low spin" => (Support::Low, Strength::Strong),
             _ => (Support::Only, Strength::Strong),
         },
-        compare::Verdict::Ambiguous => (Support::Both, Strength::None),
-        compare::Verdict::Between => {
+        compare::MomentVerdict::Ambiguous => (Support::Both, Strength::None),
+        compare::MomentVerdict::Between => {
             // Two-state mixture: χ_M·T is linear in the high-spin fraction (P. Gütlich,
             // H. A. Goodwin, Top. Curr. Chem. 2004, 233, 1; from memory).
             let hs = reference_chi_t(&cmp.states[0]);
@@ -204,7 +204,7 @@ fn from_moment(
                 _ => (Support::Mixture, Strength::Moderate),
             }
         }
-        compare::Verdict::Outside => (Support::Neither, Strength::Moderate),
+        compare::MomentVerdict::Outside => (Support::Neither, Strength::Moderate),
     };
     let mut detail = cmp.message.clone();
     if let Some(g) = fraction {

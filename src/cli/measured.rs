@@ -4,7 +4,7 @@
 use super::Failure;
 use spinstate::engine::Geometry;
 use spinstate::formula::Formula;
-use spinstate::measured::compare::{self, Comparison, ComplexSpec, SpinOrbit};
+use spinstate::measured::compare::{self, Comparison, MomentQuery, SpinOrbit};
 use spinstate::measured::pascal::{self, DiamagneticCorrection};
 use spinstate::measured::Measured;
 use spinstate::tables::DataSet;
@@ -208,13 +208,13 @@ impl CompareArgs {
             (None, Some(l)) => Some(SpinOrbit::Lambda(l)),
             _ => None,
         };
-        let spec = ComplexSpec {
+        let spec = MomentQuery {
             dq,
             dq_low_spin,
             spin_orbit,
             b,
             temperature,
-            ..ComplexSpec::new(dn, geometry)
+            ..MomentQuery::new(dn, geometry)
         };
         let ranges = data.moment_ranges()?;
         let states = compare::expectations(&spec, ranges)?;

@@ -15,7 +15,7 @@
 //! T ground terms carry a first-order orbital moment: μ_eff then depends on temperature and the
 //! spin-only value is only a reference (Kotani, *J. Phys. Soc. Jpn.* 1949, from memory).
 //!
-//! [`ComplexSpec`] holds only d^n, geometry and optional Dq and ζ/λ so that a caller that knows
+//! [`MomentQuery`] holds only d^n, geometry and optional Dq and ζ/λ so that a caller that knows
 //! the metal, oxidation state and ligands can fill it from its own tables.
 
 use super::Measured;
@@ -46,7 +46,7 @@ pub enum SpinOrbit {
 
 /// What is known about the complex.
 #[derive(Debug, Clone, Copy, PartialEq)]
-pub struct ComplexSpec {
+pub struct MomentQuery {
     pub dn: usize,
     pub geometry: Geometry,
     /// Dq (cm⁻¹), i.e. Δ/10 (Δt/10 for tet), of the high-spin state (of both states when
@@ -63,7 +63,7 @@ pub struct ComplexSpec {
     pub temperature: Option<f64>,
 }
 
-impl ComplexSpec {
+impl MomentQuery {
     /// Dq of one state: the low-spin state's own when known, else the common one.
     pub fn dq_of(&self, low_spin: bool) -> Option<f64> {
         if low_spin {
@@ -75,7 +75,7 @@ impl ComplexSpec {
 
     /// d^n and geometry only.
     pub fn new(dn: usize, geometry: Geometry) -> Self {
-        ComplexSpec {
+        MomentQuery {
             dn,
             geometry,
             dq: None,
@@ -140,7 +140,7 @@ pub struct StateExpectation {
 
 /// What the measurement supports.
 #[derive(Debug, Clone, PartialEq)]
-pub enum Verdict {
+pub enum MomentVerdict {
     /// Agrees with exactly one state (index into the states).
     Supports(usize),
     /// Agrees with more than one state.
@@ -151,13 +151,13 @@ pub enum Verdict {
     Outside,
 }
 
-impl Verdict {
+impl MomentVerdict {
     pub fn name(&self) -> &'static str {
         match self {
-            Verdict::Supports(_) => "supports",
-            Verdict::Ambiguous => "ambiguous",
-            Verdict::Between => "between-states",
-            Verdict::Outside => "outside-expectations",
+            MomentVerdict::Supports(_) => "supports",
+            MomentVerdict::Ambiguous => "ambiguous",
+            MomentVerdict::Between => "between-states",
+            MomentVerdict::Outside => "outside-expectations",
         }
     }
 }
@@ -167,7 +167,7 @@ impl Verdict {
 pub struct Comparison {
     pub measured: Measured,
     pub states: Vec<StateExpectation>,
-    pub verdict: Verdict,
+    pub verdict: MomentVerdict,
     /// One sentence for the user.
     pub message: String,
 }
@@ -205,7 +205,7 @@ fn orbital_kind(geometry: Geometry, irrep: &str, two_s: i32) -> Orbital {
 }
 
 /// ζ from the user's spin–orbit input, checking the sign of λ against d^n.
-fn zeta_of(spec: &ComplexSpec, two_s_high: i32) -> Result<Option<f64>> {
+fn zeta_of(spec: &MomentQuery, two_s_high: i32) -> Result<Option<f64>> {
     match spec.spin_orbit {
         None => Ok(None),
         Some(SpinOrbit::Zeta(z)) => {
@@ -264,7 +264,7 @@ fn zeta_of(spec: &ComplexSpec, two_s_high: i32) -> Result<Option<f64>> {
 /// spin `two_s`, for κ at both ends of [`KAPPA_RANGE`]; returns (μ(κ=0.7), μ(κ=1), Δ/B used).
 /// The field is the given Dq when it lies on this state's side of the crossover, otherwise a
 /// representative field on that side (0.75 or 1.3 times the crossover Δ/B).
-fn full_moment(spec: &ComplexSpec, two_s: i32, zeta: f64, t: f64) -> Result<(f64, f64, f64)> {
+fn full_moment(spec: &MomentQuery, two_s: i32, zeta: f64, t: f64) -> Result<(f64, f64, f64)> {
     use crate::magnetism::{MagneticModel, ZeemanLevels};
     let b = spec.b.unwrap_or(DEFAULT_B);
     let c_over_b = crate::engine::tanabe_sugano_c_over_b(spec.dn);
@@ -301,7 +301,7 @@ fn full_moment(spec: &ComplexSpec, two_s: i32, zeta: f64, t: f64) -> Result<(f64
 
 /// The expectations of each spin state of `spec` (high spin first).
 pub fn expectations(
-    spec: &ComplexSpec,
+    spec: &MomentQuery,
     ranges: &MomentRangeTable,
 ) -> Result<Vec<StateExpectation>> {
     if spec.dn > 10 {
@@ -449,7 +449,7 @@ pub fn compare(measured: Measured, states: Vec<StateExpectation>) -> Comparison 
         "check the concentration, the weighing, the diamagnetic correction and the temperature";
     let (verdict, message) = match matching.as_slice() {
         [i] => (
-            Verdict::Supports(*i),
+            MomentVerdict::Supports(*i),
             if states.len() == 1 {
                 format!("measured μ_eff {mu} agrees with the {}", describe(&states[*i]))
             } else {
@@ -461,7 +461,7 @@ pub fn compare(measured: Measured, states: Vec<StateExpectation>) -> Comparison 
             let above = states.iter().any(|s| s.window.0 > hi);
             if below && above {
                 (
-                    Verdict::Between,
+                    MomentVerdict::Between,
                     format!(
                         "measured μ_eff {mu} lies between the spin states: a partial spin crossover, a mixture of spin states or a paramagnetic impurity; measure over temperature, or {check}"
                     ),
@@ -469,13 +469,13 @@ pub fn compare(measured: Measured, states: Vec<StateExpectation>) -> Comparison 
             } else {
                 let side = if above { "below" } else { "above" };
                 (
-                    Verdict::Outside,
+                    MomentVerdict::Outside,
                     format!("measured μ_eff {mu} is {side} every expectation: {check}"),
                 )
             }
         }
         _ => (
-            Verdict::Ambiguous,
+            MomentVerdict::Ambiguous,
             format!("measured μ_eff {mu} agrees with more than one spin state; the moment alone cannot decide"),
         ),
     };
@@ -506,11 +506,11 @@ mod tests {
         DataSet::bundled().moment_ranges().unwrap()
     }
 
-    fn spec(dn: usize, geometry: Geometry, dq: Option<f64>, so: Option<SpinOrbit>) -> ComplexSpec {
-        ComplexSpec {
+    fn spec(dn: usize, geometry: Geometry, dq: Option<f64>, so: Option<SpinOrbit>) -> MomentQuery {
+        MomentQuery {
             dq,
             spin_orbit: so,
-            ..ComplexSpec::new(dn, geometry)
+            ..MomentQuery::new(dn, geometry)
         }
     }
 
@@ -604,22 +604,22 @@ mod tests {
     fn verdicts() {
         let e = || expectations(&spec(6, Geometry::Octahedral, None, None), ranges()).unwrap();
         let c = compare(Measured::new(Param::MuEff, 5.3, 0.1).unwrap(), e());
-        assert_eq!(c.verdict, Verdict::Supports(0));
+        assert_eq!(c.verdict, MomentVerdict::Supports(0));
         assert!(c.message.contains("high-spin state"));
         let c = compare(Measured::new(Param::MuEff, 0.2, 0.1).unwrap(), e());
-        assert_eq!(c.verdict, Verdict::Supports(1));
+        assert_eq!(c.verdict, MomentVerdict::Supports(1));
         let c = compare(Measured::new(Param::MuEff, 3.5, 0.1).unwrap(), e());
-        assert_eq!(c.verdict, Verdict::Between);
+        assert_eq!(c.verdict, MomentVerdict::Between);
         assert!(c.message.contains("crossover"));
         let c = compare(Measured::new(Param::MuEff, 7.5, 0.1).unwrap(), e());
-        assert_eq!(c.verdict, Verdict::Outside);
+        assert_eq!(c.verdict, MomentVerdict::Outside);
         assert!(c.message.contains("above") && c.message.contains("concentration"));
         // d8 octahedral has one spin state only.
         let d8 = expectations(&spec(8, Geometry::Octahedral, None, None), ranges()).unwrap();
         assert_eq!(d8.len(), 1);
         assert_eq!(d8[0].state, "only spin state");
         let c = compare(Measured::new(Param::MuEff, 1.0, 0.1).unwrap(), d8);
-        assert_eq!(c.verdict, Verdict::Outside);
+        assert_eq!(c.verdict, MomentVerdict::Outside);
         assert!(c.message.contains("below"));
     }
 

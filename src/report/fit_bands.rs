@@ -2,7 +2,7 @@
 
 use super::{fmt_num, new_table};
 use crate::spectra::fit::{
-    relative_to_crossover, AssignedBand, BandFit, Determination, FitOutcome, Parameter,
+    relative_to_crossover, AssignedBand, BandFit, Determination, FitOutcome, FitParameter,
 };
 use crate::spectra::EnergyUnit;
 use crate::Result;
@@ -279,7 +279,7 @@ impl FitBandsReport {
             free_parameters: f
                 .free
                 .iter()
-                .map(|p| Parameter::name(*p).to_string())
+                .map(|p| FitParameter::name(*p).to_string())
                 .collect(),
             fixed: f
                 .fixed

@@ -2,7 +2,7 @@
 //! with uncertainties, the diamagnetic correction and the spin-state comparison.
 
 use super::{fmt_num, new_table};
-use crate::measured::compare::{spin_text, Comparison, Orbital, Verdict};
+use crate::measured::compare::{spin_text, Comparison, MomentVerdict, Orbital};
 use crate::measured::evans::EvansResult;
 use crate::measured::pascal::DiamagneticCorrection;
 use crate::measured::MomentResult;
@@ -181,7 +181,7 @@ impl MeasuredMomentReport {
             geometry: geometry.to_string(),
             verdict: c.verdict.name().to_string(),
             supported_state: match c.verdict {
-                Verdict::Supports(i) => Some(c.states[i].state.clone()),
+                MomentVerdict::Supports(i) => Some(c.states[i].state.clone()),
                 _ => None,
             },
             message: c.message.clone(),

@@ -257,7 +257,7 @@ impl ScreenReport {
     pub fn new(
         screen: &Screen,
         outcome: &Outcome,
-        rejected: &[crate::screen::RowError],
+        rejected: &[crate::screen::RejectedCandidate],
         limit: usize,
     ) -> Self {
         let bad_rows = rejected.len();

@@ -8,7 +8,7 @@ pub mod model;
 
 use crate::engine::{crossover, tanabe_sugano_c_over_b, Geometry};
 use crate::error::{Error, Result};
-use crate::measured::compare::{self, ComplexSpec as MomentSpec, SpinOrbit};
+use crate::measured::compare::{self, MomentQuery, SpinOrbit};
 use crate::param::Param;
 use crate::tables::moment_ranges::MomentRangeTable;
 use crate::units::{moment_factor_cgs, spin_only_chi_t_cgs};
@@ -47,10 +47,10 @@ pub fn pure_state_ranges(
             "an ion with two spin states in this geometry (d4–d7 octahedral)",
         ));
     }
-    let spec = MomentSpec {
+    let spec = MomentQuery {
         spin_orbit: zeta.map(SpinOrbit::Zeta),
         temperature: Some(300.0),
-        ..MomentSpec::new(dn, geometry)
+        ..MomentQuery::new(dn, geometry)
     };
     let states = compare::expectations(&spec, ranges)?;
     let f = moment_factor_cgs();

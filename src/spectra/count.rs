@@ -22,8 +22,8 @@
 //! the merged bands most visible first, weakest last.
 
 use super::transitions::{
-    band_manifold, calculation, intensity, jumps, spin_states, Intensity, SpinState, Transition,
-    WEAK_FRACTION,
+    band_manifold, calculation, intensity, jumps, spin_states, Intensity, SpinCandidate,
+    Transition, WEAK_FRACTION,
 };
 use crate::engine::{Geometry, PointGroup};
 use crate::error::{require_finite, Error, Result};
@@ -188,7 +188,7 @@ pub struct MergedBand {
 /// The bands of one spin state.
 #[derive(Debug, Clone, PartialEq)]
 pub struct SpinBands {
-    pub state: SpinState,
+    pub state: SpinCandidate,
     /// Lowest level of this spin ("4A2g").
     pub reference: String,
     /// Whether this spin state is the ground state at the given field.
@@ -211,8 +211,8 @@ pub struct SpinBands {
 
 /// Which spin states an observed count supports.
 #[derive(Debug, Clone, PartialEq)]
-pub struct Verdict {
-    pub supported: Vec<SpinState>,
+pub struct BandCountVerdict {
+    pub supported: Vec<SpinCandidate>,
     /// "high spin", "low spin", "both", "neither", or the single state's description.
     pub text: String,
 }
@@ -231,7 +231,7 @@ pub struct BandCount {
     pub resolution: f64,
     pub spin_states: Vec<SpinBands>,
     pub observed: Option<usize>,
-    pub verdict: Option<Verdict>,
+    pub verdict: Option<BandCountVerdict>,
     pub notes: Vec<String>,
     /// The charge-transfer onset used (cm⁻¹).
     pub charge_transfer_onset: f64,
@@ -452,7 +452,7 @@ pub fn count_bands(req: &CountRequest) -> Result<BandCount> {
         );
     }
     let verdict = req.observed.map(|_| {
-        let supported: Vec<SpinState> = out
+        let supported: Vec<SpinCandidate> = out
             .iter()
             .filter(|s| s.supports == Some(true))
             .map(|s| s.state)
@@ -474,7 +474,7 @@ pub fn count_bands(req: &CountRequest) -> Result<BandCount> {
                 .collect::<Vec<_>>()
                 .join(" and ")
         };
-        Verdict { supported, text }
+        BandCountVerdict { supported, text }
     });
     Ok(BandCount {
         dn: req.dn,

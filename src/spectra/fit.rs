@@ -11,7 +11,7 @@ use super::assign::{self, BSeed, Seed, MAX_DELTA_OVER_B};
 use super::count::DEFAULT_WINDOW_NM;
 use super::transitions::{
     band_manifold, calculation, default_c_over_b, jumps, select_spin, spin_states, Jump, Manifold,
-    SpinChoice, SpinState, Transition, TransitionKey,
+    SpinCandidate, SpinChoice, Transition, TransitionKey,
 };
 use crate::engine::{Calculation, Geometry};
 use crate::error::{require_finite, Error, Result};
@@ -132,18 +132,18 @@ pub const DEFAULT_PATIENCE: usize = 60;
 
 /// A model parameter.
 #[derive(Debug, Clone, Copy, PartialEq, Eq)]
-pub enum Parameter {
+pub enum FitParameter {
     Dq,
     B,
     C,
 }
 
-impl Parameter {
+impl FitParameter {
     pub fn name(self) -> &'static str {
         match self {
-            Parameter::Dq => "Dq",
-            Parameter::B => "B",
-            Parameter::C => "C",
+            FitParameter::Dq => "Dq",
+            FitParameter::B => "B",
+            FitParameter::C => "C",
         }
     }
 }
@@ -202,7 +202,7 @@ pub struct BandFit {
     pub dn: usize,
     pub geometry: Geometry,
     /// The spin state assumed: bands are transitions from its lowest level.
-    pub spin_state: SpinState,
+    pub spin_state: SpinCandidate,
     /// Label of the lowest level of that spin ("4A2g").
     pub reference: String,
     /// Dq (cm⁻¹); Δ = 10Dq.
@@ -216,7 +216,7 @@ pub struct BandFit {
     pub c_over_b: f64,
     pub uncertainties: Uncertainties,
     /// Free parameters, in fit order.
-    pub free: Vec<Parameter>,
+    pub free: Vec<FitParameter>,
     pub fixed: Vec<FixedParameter>,
     pub determination: Determination,
     /// Residual variance s² = Σr²/(n − p) (cm⁻²), when over-determined.
@@ -283,7 +283,7 @@ pub struct FitOutcome {
     /// Other refined assignments, best first; `near_equal` marks those within the tolerance.
     pub alternatives: Vec<(BandFit, bool)>,
     /// The possible ground spin states of this d^n and geometry, weak field first.
-    pub spin_states: Vec<SpinState>,
+    pub spin_states: Vec<SpinCandidate>,
     /// Statements about the fit (fixed parameters, skipped spin states, …).
     pub notes: Vec<String>,
 }
@@ -299,7 +299,7 @@ pub fn near_equal_tolerance(best_rms: f64) -> f64 {
 /// How parameters map to Dq, B, C.
 #[derive(Debug, Clone)]
 struct Spec {
-    free: Vec<Parameter>,
+    free: Vec<FitParameter>,
     /// B when B is not free (cm⁻¹).
     b_fixed: f64,
     /// C/B when C is not free.
@@ -313,9 +313,9 @@ impl Spec {
         let mut c = None;
         for (p, v) in self.free.iter().zip(u.iter()) {
             match p {
-                Parameter::Dq => dq = v.exp(),
-                Parameter::B => b = v.exp(),
-                Parameter::C => c = Some(v.exp()),
+                FitParameter::Dq => dq = v.exp(),
+                FitParameter::B => b = v.exp(),
+                FitParameter::C => c = Some(v.exp()),
             }
         }
         (dq, b, c.unwrap_or(self.c_over_b * b))
@@ -325,9 +325,9 @@ impl Spec {
         DVector::from_iterator(
             self.free.len(),
             self.free.iter().map(|p| match p {
-                Parameter::Dq => dq.ln(),
-                Parameter::B => b.ln(),
-                Parameter::C => c.ln(),
+                FitParameter::Dq => dq.ln(),
+                FitParameter::B => b.ln(),
+                FitParameter::C => c.ln(),
             }),
         )
     }
@@ -430,22 +430,22 @@ fn natural_jacobian(model: &Model, spec: &Spec, dq: f64, b: f64, c: f64) -> Opti
     let mut j = DMatrix::zeros(n, spec.free.len());
     for (k, p) in spec.free.iter().enumerate() {
         let value = match p {
-            Parameter::Dq => dq,
-            Parameter::B => b,
-            Parameter::C => c,
+            FitParameter::Dq => dq,
+            FitParameter::B => b,
+            FitParameter::C => c,
         };
         let h = 1e-5 * value;
         let at = |delta: f64| {
             let (mut d, mut bb, mut cc) = (dq, b, c);
             match p {
-                Parameter::Dq => d += delta,
-                Parameter::B => {
+                FitParameter::Dq => d += delta,
+                FitParameter::B => {
                     bb += delta;
-                    if !spec.free.contains(&Parameter::C) {
+                    if !spec.free.contains(&FitParameter::C) {
                         cc = spec.c_over_b * bb;
                     }
                 }
-                Parameter::C => cc += delta,
+                FitParameter::C => cc += delta,
             }
             model.energies(d, bb, cc)
         };
@@ -653,7 +653,7 @@ pub fn fit_bands(req: &FitRequest) -> Result<FitOutcome> {
             ),
         ));
     }
-    if let (true, Some(b)) = (best.free.contains(&Parameter::B), best.b) {
+    if let (true, Some(b)) = (best.free.contains(&FitParameter::B), best.b) {
         if !(POSSIBLE_B.0..=POSSIBLE_B.1).contains(&b) {
             return Err(Error::invalid(
                 Param::Bands,
@@ -760,7 +760,7 @@ pub fn point_text(f: &BandFit) -> String {
 fn seeds_for(
     req: &FitRequest,
     bands: &[f64],
-    state: SpinState,
+    state: SpinCandidate,
     ratios: &[f64],
     b_seed: BSeed,
 ) -> Result<Vec<Seed>> {
@@ -785,8 +785,8 @@ fn seeds_for(
 fn fit_one_spin(
     req: &FitRequest,
     bands: &[f64],
-    state: SpinState,
-    states: &[SpinState],
+    state: SpinCandidate,
+    states: &[SpinCandidate],
     c_over_b: f64,
     ratio_source: Option<&str>,
 ) -> Result<(Vec<BandFit>, Vec<String>)> {
@@ -842,7 +842,7 @@ fn fit_one_spin(
     } else {
         dependence(req.dn, req.geometry, state.two_s, c_over_b)?
     };
-    let mut free = vec![Parameter::Dq];
+    let mut free = vec![FitParameter::Dq];
     let mut fixed = Vec::new();
     let mut notes = Vec::new();
     if forbidden {
@@ -889,7 +889,7 @@ fn fit_one_spin(
                 value: Some(b),
                 reason: "held at the given value".into(),
             }),
-            None => free.push(Parameter::B),
+            None => free.push(FitParameter::B),
         }
         if req.fit_c {
             if !c_enters {
@@ -904,7 +904,7 @@ fn fit_one_spin(
                     ),
                 ));
             }
-            free.push(Parameter::C);
+            free.push(FitParameter::C);
         } else if c_enters {
             fixed.push(FixedParameter {
                 name: "C/B".into(),
@@ -932,7 +932,7 @@ fn fit_one_spin(
     let n = n + req.forbidden.len();
     if n < p {
         let names: Vec<&str> = free.iter().map(|f| f.name()).collect();
-        let (hint, needs) = if free.contains(&Parameter::C) {
+        let (hint, needs) = if free.contains(&FitParameter::C) {
             (
                 "hold C/B fixed instead of fitting C, or add a band",
                 vec![Param::FitC, Param::COverB],
@@ -1036,7 +1036,7 @@ fn fit_one_spin(
             ),
         ));
     }
-    if !free.contains(&Parameter::C) && c_enters {
+    if !free.contains(&FitParameter::C) && c_enters {
         notes.push(format!(
             "C/B = {c_over_b} was held fixed{}",
             match ratio_source {
@@ -1054,7 +1054,7 @@ fn fit_one_spin(
 /// the named irrep when one is given.
 fn forbidden_target(
     spectrum: &crate::engine::Spectrum,
-    state: SpinState,
+    state: SpinCandidate,
     band: &ForbiddenBand,
     req: &FitRequest,
 ) -> Result<TransitionKey> {
@@ -1124,14 +1124,14 @@ fn forbidden_target(
 fn refine(
     req: &FitRequest,
     bands: &[f64],
-    state: SpinState,
-    states: &[SpinState],
+    state: SpinCandidate,
+    states: &[SpinCandidate],
     spec: &Spec,
     seed: &Seed,
     fixed: &[FixedParameter],
     (b_enters, c_enters): (bool, bool),
 ) -> Result<Option<BandFit>> {
-    let b0 = if spec.free.contains(&Parameter::B) {
+    let b0 = if spec.free.contains(&FitParameter::B) {
         seed.b
     } else {
         spec.b_fixed
@@ -1161,7 +1161,7 @@ fn refine(
         .collect();
     let bands = &observed[..seed.keys.len()];
     let mut spec = spec.clone();
-    if !spec.free.contains(&Parameter::B) && !b_enters {
+    if !spec.free.contains(&FitParameter::B) && !b_enters {
         // B does not enter: express the seed's Δ with the nominal B.
         spec.b_fixed = 1000.0;
     }
@@ -1302,7 +1302,7 @@ fn refine(
             b / req.b0.unwrap_or(f64::NAN)
         ));
     }
-    if spec.free.contains(&Parameter::C)
+    if spec.free.contains(&FitParameter::C)
         && !(PLAUSIBLE_C_OVER_B.0..=PLAUSIBLE_C_OVER_B.1).contains(&(c / b))
     {
         concerns.push(format!(
@@ -1342,7 +1342,7 @@ fn refine(
         reference: m.reference_label.clone(),
         dq,
         b: b_enters.then_some(b),
-        c: (c_enters || spec.free.contains(&Parameter::C)).then_some(c),
+        c: (c_enters || spec.free.contains(&FitParameter::C)).then_some(c),
         c_over_b: c / b,
         uncertainties: unc.unwrap_or_default(),
         free: spec.free.clone(),
@@ -1366,10 +1366,19 @@ fn refine(
 }
 
 /// 1σ of Dq, B, C and Δ/B from the covariance of the free parameters.
-fn covariance_to_sigmas(free: &[Parameter], cov: &DMatrix<f64>, dq: f64, b: f64) -> Uncertainties {
-    let idx = |p: Parameter| free.iter().position(|f| *f == p);
+fn covariance_to_sigmas(
+    free: &[FitParameter],
+    cov: &DMatrix<f64>,
+    dq: f64,
+    b: f64,
+) -> Uncertainties {
+    let idx = |p: FitParameter| free.iter().position(|f| *f == p);
     let sd = |i: Option<usize>| i.map(|i| cov[(i, i)].max(0.0).sqrt());
-    let (i_dq, i_b, i_c) = (idx(Parameter::Dq), idx(Parameter::B), idx(Parameter::C));
+    let (i_dq, i_b, i_c) = (
+        idx(FitParameter::Dq),
+        idx(FitParameter::B),
+        idx(FitParameter::C),
+    );
     // Δ/B = 10Dq/B: gradient (10/B, −10Dq/B²).
     let delta_over_b = i_dq.map(|a| {
         let g_dq = 10.0 / b;
@@ -1502,7 +1511,7 @@ mod tests {
         let out = fit_bands(&request(1, Geometry::Octahedral, vec![20_300.0])).unwrap();
         assert_relative_eq!(out.best.delta(), 20_300.0, max_relative = 1e-6);
         assert_eq!(out.best.b, None);
-        assert_eq!(out.best.free, vec![Parameter::Dq]);
+        assert_eq!(out.best.free, vec![FitParameter::Dq]);
         assert_eq!(out.best.determination, Determination::Exact);
     }
 
@@ -1576,7 +1585,7 @@ mod tests {
         let mut r = request(3, Geometry::Octahedral, vec![18_000.0, 24_400.0]);
         r.forbidden = vec!["14400:2Eg".parse().unwrap()];
         let f = fit_bands(&r).unwrap().best;
-        assert!(f.free.contains(&Parameter::C));
+        assert!(f.free.contains(&FitParameter::C));
         assert_eq!(f.forbidden[0].transition.label, "2Eg");
         assert!(f.forbidden[0].residual.abs() < 1.0);
         let (b, c) = (f.b.unwrap(), f.c.unwrap());
@@ -1769,7 +1778,7 @@ mod tests {
         );
         assert_eq!(
             out.best.free,
-            vec![Parameter::Dq, Parameter::B, Parameter::C]
+            vec![FitParameter::Dq, FitParameter::B, FitParameter::C]
         );
     }
 

@@ -14,5 +14,5 @@ pub mod units;
 
 pub use count::{count_bands, BandCount, CountRequest};
 pub use fit::{fit_bands, BandFit, FitOutcome, FitRequest};
-pub use transitions::{SpinChoice, SpinKind, SpinState, Transition, TransitionKey};
+pub use transitions::{SpinCandidate, SpinChoice, SpinKind, Transition, TransitionKey};
 pub use units::EnergyUnit;

@@ -25,7 +25,8 @@ use super::fit::{
     PLAUSIBLE_B, POSSIBLE_B,
 };
 use super::transitions::{
-    band_manifold, default_c_over_b, select_spin, spin_states, SpinChoice, SpinState, TransitionKey,
+    band_manifold, default_c_over_b, select_spin, spin_states, SpinCandidate, SpinChoice,
+    TransitionKey,
 };
 use crate::engine::{Calculation, Geometry, LigandField, Spectrum};
 use crate::error::{require_finite, Error, Result};
@@ -99,7 +100,7 @@ pub struct TetragonalUncertainties {
 #[derive(Debug, Clone, PartialEq)]
 pub struct TetragonalFit {
     pub dn: usize,
-    pub spin_state: SpinState,
+    pub spin_state: SpinCandidate,
     /// The ground level of that spin at the fit ("2B1g").
     pub reference: String,
     /// Equatorial Dq(xy) (cm⁻¹).
@@ -449,7 +450,7 @@ fn b_enters(dn: usize, two_s: i32, c_over_b: f64) -> Result<bool> {
 fn fit_spin(
     req: &TetragonalRequest,
     bands: &[f64],
-    state: SpinState,
+    state: SpinCandidate,
     c_over_b: f64,
 ) -> Result<Vec<TetragonalFit>> {
     use TetragonalParameter as P;
@@ -603,7 +604,7 @@ fn index_of(q: TetragonalParameter) -> usize {
 fn refine(
     req: &TetragonalRequest,
     bands: &[f64],
-    state: SpinState,
+    state: SpinCandidate,
     model: &Model,
     free: &[TetragonalParameter],
     seed: &Seed,

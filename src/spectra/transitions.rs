@@ -37,13 +37,13 @@ pub enum SpinKind {
 
 /// A possible ground spin state of d^n in a geometry.
 #[derive(Debug, Clone, Copy, PartialEq, Eq)]
-pub struct SpinState {
+pub struct SpinCandidate {
     /// Twice the total spin S.
     pub two_s: i32,
     pub kind: SpinKind,
 }
 
-impl SpinState {
+impl SpinCandidate {
     /// Spin multiplicity 2S + 1.
     pub fn multiplicity(&self) -> i32 {
         self.two_s + 1
@@ -115,7 +115,7 @@ pub fn calculation(dn: usize, geometry: Geometry, dq: f64, b: f64, c: f64) -> Re
 
 /// The spin states that are the ground state somewhere at the given C/B (every Δ/B up to the
 /// engine's bound beyond which the spin cannot change), from weak to strong field. A single entry has kind [`SpinKind::Only`].
-pub fn spin_states(dn: usize, geometry: Geometry, c_over_b: f64) -> Result<Vec<SpinState>> {
+pub fn spin_states(dn: usize, geometry: Geometry, c_over_b: f64) -> Result<Vec<SpinCandidate>> {
     // The engine's map of ground spins over every Δ/B (cached, with no fixed ceiling).
     let mut spins: Vec<i32> = Vec::new();
     for (_, s) in crate::engine::crossover::ground_spin_map(dn, geometry, c_over_b)? {
@@ -127,7 +127,7 @@ pub fn spin_states(dn: usize, geometry: Geometry, c_over_b: f64) -> Result<Vec<S
     Ok(spins
         .into_iter()
         .enumerate()
-        .map(|(i, two_s)| SpinState {
+        .map(|(i, two_s)| SpinCandidate {
             two_s,
             kind: if n == 1 {
                 SpinKind::Only
@@ -144,7 +144,7 @@ pub fn spin_states(dn: usize, geometry: Geometry, c_over_b: f64) -> Result<Vec<S
 
 /// The states a choice selects: high → the weak-field one, low → the strong-field one, auto →
 /// all. With a single spin state every choice selects it.
-pub fn select_spin(states: &[SpinState], choice: SpinChoice) -> Vec<SpinState> {
+pub fn select_spin(states: &[SpinCandidate], choice: SpinChoice) -> Vec<SpinCandidate> {
     match choice {
         SpinChoice::Auto => states.to_vec(),
         SpinChoice::High => states.first().copied().into_iter().collect(),
@@ -571,7 +571,7 @@ mod tests {
             let s = spin_states(dn, oct(), 4.5).unwrap();
             assert_eq!(
                 s,
-                vec![SpinState {
+                vec![SpinCandidate {
                     two_s,
                     kind: SpinKind::Only
                 }]
