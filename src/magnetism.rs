@@ -409,19 +409,21 @@ impl ZeemanLevels {
                     .collect()
             })
             .collect();
-        let kept_real: Vec<DMatrix<f64>> = real_vectors
+        // Column subsets are copied only for blocks that lose columns (None: every column).
+        let all_kept = |bi: usize| kept[bi].len() == solution.blocks[bi].energies.len();
+        let kept_real: Vec<Option<DMatrix<f64>>> = real_vectors
             .iter()
-            .zip(&kept)
-            .map(|(v, k)| v.select_columns(k))
+            .enumerate()
+            .map(|(bi, v)| (!all_kept(bi)).then(|| v.select_columns(&kept[bi])))
             .collect();
-        let kept_complex: Vec<DMatrix<C64>> = if real {
+        let kept_complex: Vec<Option<DMatrix<C64>>> = if real {
             Vec::new()
         } else {
             solution
                 .blocks
                 .iter()
-                .zip(&kept)
-                .map(|(b, k)| b.vectors.select_columns(k))
+                .enumerate()
+                .map(|(bi, b)| (!all_kept(bi)).then(|| b.vectors.select_columns(&kept[bi])))
                 .collect()
         };
         let nlev = energies.len();
@@ -438,11 +440,15 @@ impl ZeemanLevels {
                         continue;
                     }
                     let x = if real {
-                        let (v2t, v1) = (&real_transposed[b2], &kept_real[b1]);
+                        let v1 = kept_real[b1].as_ref().unwrap_or(&real_vectors[b1]);
+                        let v2t = &real_transposed[b2];
                         Transformed::Real(v2t * (&pair.l * v1), v2t * (&pair.s * v1))
                     } else {
                         let to_c = |m: &DMatrix<f64>| m.map(|x| C64::new(x, 0.0));
-                        let (v2, v1) = (&blk2.vectors, &kept_complex[b1]);
+                        let v1 = kept_complex[b1]
+                            .as_ref()
+                            .unwrap_or(&solution.blocks[b1].vectors);
+                        let v2 = &blk2.vectors;
                         Transformed::Complex(
                             v2.adjoint() * (to_c(&pair.l) * v1),
                             v2.adjoint() * (to_c(&pair.s) * v1),
