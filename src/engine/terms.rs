@@ -305,7 +305,7 @@ mod tests {
     #[test]
     fn d2_terms_have_the_racah_energies() {
         // d² terms with Racah A = 0 (G. Racah, Phys. Rev. 62, 438, 1942; as tabulated in
-        // J. S. Griffith, The Theory of Transition-Metal Ions, 1961, table A6.3):
+        // J. S. Griffith, The Theory of Transition-Metal Ions, 1961; values from memory):
         // ³F −8B, ³P 7B, ¹G 4B + 2C, ¹D −3B + 2C, ¹S 14B + 7C.
         let c = 4.0;
         let terms = free_ion_terms(2, c).unwrap();
