@@ -13,6 +13,7 @@
 //! paramagnetism of each level. Units: cgs-emu, χ in cm³ mol⁻¹, χT in cm³ K mol⁻¹, μ_eff in μB.
 
 use crate::engine::basis::all_determinants;
+use crate::engine::levels::degenerate_runs;
 use crate::engine::operators::{angular_momentum, one_body, one_body_complex, Axis, DetList};
 use crate::engine::shell::shell;
 use crate::engine::{Calculation, SpinOrbitSolution};
@@ -248,14 +249,7 @@ impl ZeemanLevels {
     /// The matrix elements from the summed levels to every other state are still all taken.
     pub fn compute_up_to(calc: &Calculation, model: &MagneticModel, t_max: f64) -> Result<Self> {
         model.check()?;
-        require_finite(Param::Temperature, t_max)?;
-        if !(MIN_TEMPERATURE..=MAX_TEMPERATURE).contains(&t_max) {
-            return Err(Error::invalid(
-                Param::Temperature,
-                format!("{} K", num(t_max)),
-                format!("{MIN_TEMPERATURE} K ≤ T ≤ {MAX_TEMPERATURE} K"),
-            ));
-        }
+        check_temperature(t_max)?;
         let solution = calc.spin_orbit(model.effective_zeta())?;
         let mut all = Self::sums(
             calc,
@@ -353,19 +347,13 @@ impl ZeemanLevels {
         let mut level_of = vec![0usize; states.len()];
         let mut energies = Vec::new();
         let mut degeneracy = Vec::new();
-        let mut start = 0;
-        while start < states.len() {
-            let mut end = start + 1;
-            while end < states.len() && states[end].0 - states[end - 1].0 < tol {
-                end += 1;
-            }
-            let e = states[start..end].iter().map(|s| s.0).sum::<f64>() / (end - start) as f64;
-            for l in &mut level_of[start..end] {
+        for run in degenerate_runs(states.len(), |end| states[end].0 - states[end - 1].0 < tol) {
+            let e = states[run.clone()].iter().map(|s| s.0).sum::<f64>() / run.len() as f64;
+            for l in &mut level_of[run.clone()] {
                 *l = energies.len();
             }
             energies.push(e - ground);
-            degeneracy.push(end - start);
-            start = end;
+            degeneracy.push(run.len());
         }
         // Position of (block, column) in the sorted list.
         let mut index: Vec<Vec<usize>> = solution
@@ -492,14 +480,7 @@ impl ZeemanLevels {
 
     /// χ, χT and μ_eff at temperature `t` (K > 0).
     pub fn at(&self, t: f64) -> Result<SusceptibilityPoint> {
-        require_finite(Param::Temperature, t)?;
-        if !(MIN_TEMPERATURE..=MAX_TEMPERATURE).contains(&t) {
-            return Err(Error::invalid(
-                Param::Temperature,
-                format!("{} K", num(t)),
-                format!("{MIN_TEMPERATURE} K ≤ T ≤ {MAX_TEMPERATURE} K"),
-            ));
-        }
+        check_temperature(t)?;
         if t > self.highest_temperature {
             return Err(Error::invalid(
                 Param::Temperature,
@@ -549,6 +530,19 @@ impl ZeemanLevels {
     pub fn curve(&self, temperatures: &[f64]) -> Result<Vec<SusceptibilityPoint>> {
         temperatures.iter().map(|&t| self.at(t)).collect()
     }
+}
+
+/// A temperature (K) within [`MIN_TEMPERATURE`]..=[`MAX_TEMPERATURE`].
+fn check_temperature(t: f64) -> Result<()> {
+    require_finite(Param::Temperature, t)?;
+    if !(MIN_TEMPERATURE..=MAX_TEMPERATURE).contains(&t) {
+        return Err(Error::invalid(
+            Param::Temperature,
+            format!("{} K", num(t)),
+            format!("{MIN_TEMPERATURE} K ≤ T ≤ {MAX_TEMPERATURE} K"),
+        ));
+    }
+    Ok(())
 }
 
 /// Lowest temperature accepted (K): below it Boltzmann factors underflow for ordinary splittings.

@@ -12,6 +12,7 @@ use crate::error::{num, require_finite, Error, Result};
 use crate::param::Param;
 use nalgebra::{Complex, DMatrix, SMatrix};
 use std::collections::HashMap;
+use std::ops::Range;
 use std::sync::{Mutex, OnceLock};
 
 type C64 = Complex<f64>;
@@ -40,6 +41,22 @@ pub fn term_symbol(two_s: i32, l: usize) -> String {
 pub fn term_l(term: &str) -> Option<usize> {
     let letter = term.chars().find(|c| c.is_ascii_alphabetic())?;
     L_LETTERS.iter().position(|&c| c == letter)
+}
+
+/// The runs of a sorted list that belong together: item i joins the run of item i − 1 when
+/// `joins(i)` (e.g. eigenvalues closer than a tolerance, which form one degenerate level).
+pub(crate) fn degenerate_runs(len: usize, joins: impl Fn(usize) -> bool) -> Vec<Range<usize>> {
+    let mut out = Vec::new();
+    let mut start = 0;
+    while start < len {
+        let mut end = start + 1;
+        while end < len && joins(end) {
+            end += 1;
+        }
+        out.push(start..end);
+        start = end;
+    }
+    out
 }
 
 /// One ligand-field calculation: d^n, Racah B and C, the one-electron field and the group whose
@@ -245,12 +262,20 @@ impl Calculation {
 
     /// Lowest energy (cm⁻¹, A = 0) of each total spin, as (2S, energy); eigenvalues only.
     pub fn lowest_by_spin(&self) -> Result<Vec<(i32, f64)>> {
-        if self.field.magnitude() > 0.0 && self.field.is_invariant_under(self.group) {
-            if let Some(p) = super::projection::Projection::for_group(self.dn, self.group)? {
-                return p.lowest_by_spin(self);
-            }
+        match self.projection()? {
+            Some(p) => p.lowest_by_spin(self),
+            None => self.lowest_by_spin_in_spin_blocks(),
         }
-        self.lowest_by_spin_in_spin_blocks()
+    }
+
+    /// The symmetry-projected blocks that solve this calculation: Some for a nonzero field with
+    /// its group's full symmetry (O_h, T_d, D_4h), None otherwise.
+    fn projection(&self) -> Result<Option<&'static super::projection::Projection>> {
+        if self.field.magnitude() > 0.0 && self.field.is_invariant_under(self.group) {
+            super::projection::Projection::for_group(self.dn, self.group)
+        } else {
+            Ok(None)
+        }
     }
 
     /// [`Self::lowest_by_spin`] from the spin blocks, for any field (the reference for the
@@ -436,13 +461,8 @@ impl Calculation {
                 }
             }
             all.sort_by(|a, b| a.0.total_cmp(&b.0));
-            let mut start = 0;
-            while start < all.len() {
-                let mut end = start + 1;
-                while end < all.len() && all[end].0 - all[end - 1].0 < tol {
-                    end += 1;
-                }
-                let members = &all[start..end];
+            for run in degenerate_runs(all.len(), |end| all[end].0 - all[end - 1].0 < tol) {
+                let members = &all[run];
                 let energy = members.iter().map(|m| m.0).sum::<f64>() / members.len() as f64;
                 let l_sq = if want_l || free_ion {
                     let mut s = 0.0;
@@ -498,7 +518,6 @@ impl Calculation {
                         }),
                     }
                 }
-                start = end;
             }
         }
         raw.sort_by(|a, b| a.energy.total_cmp(&b.energy).then(b.two_s.cmp(&a.two_s)));
@@ -612,10 +631,8 @@ impl Calculation {
     /// other field by diagonalising the spin blocks and labelling from the eigenvectors.
     pub fn levels(&self) -> Result<Spectrum> {
         let parents = self.parent_table()?;
-        if self.field.magnitude() > 0.0 && self.field.is_invariant_under(self.group) {
-            if let Some(p) = super::projection::Projection::for_group(self.dn, self.group)? {
-                return p.levels(self, &parents);
-            }
+        if let Some(p) = self.projection()? {
+            return p.levels(self, &parents);
         }
         // d⁰ and d¹⁰ have one state, the totally symmetric one in any group: label it by the
         // group (¹A₁g, ¹A₁) rather than as a free-ion ¹S even when no field is given.

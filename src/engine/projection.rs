@@ -12,7 +12,7 @@
 //! of the irrep's dimension.
 
 use super::hermitian::{add_field, add_scaled};
-use super::levels::{assemble, Calculation, ParentTable, RawLevel, Spectrum};
+use super::levels::{assemble, degenerate_runs, Calculation, ParentTable, RawLevel, Spectrum};
 use super::shell::shell;
 use super::symmetry::PointGroup;
 use crate::error::{Error, Result};
@@ -171,13 +171,8 @@ impl Projection {
         let v = self.field_of(calc)?;
         let mut out: Vec<(i32, f64)> = Vec::new();
         for blk in &self.blocks {
-            let low = block_eigenvalues(blk, calc, &v)?
-                .iter()
-                .copied()
-                .fold(f64::INFINITY, f64::min);
-            if !low.is_finite() {
-                return Err(Error::Computation("eigenvalues are not finite".into()));
-            }
+            // Blocks are never empty and their eigenvalues are checked finite.
+            let low = block_eigenvalues(blk, calc, &v)?.min();
             match out.iter_mut().find(|(s, _)| *s == blk.two_s) {
                 Some(entry) => entry.1 = entry.1.min(low),
                 None => out.push((blk.two_s, low)),
@@ -209,13 +204,8 @@ impl Projection {
         // 4Eg of d⁵ stay exactly together at every Δ) get their mean energy and are listed as
         // that route lists them, in the order of the character table.
         let tol = calc.degeneracy_tolerance();
-        let mut start = 0;
-        while start < raw.len() {
-            let mut end = start + 1;
-            while end < raw.len() && raw[end].energy - raw[end - 1].energy < tol {
-                end += 1;
-            }
-            let run = &mut raw[start..end];
+        for run in degenerate_runs(raw.len(), |end| raw[end].energy - raw[end - 1].energy < tol) {
+            let run = &mut raw[run];
             let mut spins: Vec<i32> = run.iter().map(|r| r.two_s).collect();
             spins.sort_unstable();
             spins.dedup();
@@ -234,7 +224,6 @@ impl Projection {
                     .then(b.two_s.cmp(&a.two_s))
                     .then(table_order(&a.irrep).cmp(&table_order(&b.irrep)))
             });
-            start = end;
         }
         Ok(assemble(raw, parents))
     }

@@ -72,6 +72,8 @@ impl SpinBlock {
 /// with spin–orbit coupling, with the unit matrices of every term of the Hamiltonian.
 #[derive(Debug)]
 pub struct SpinOrbitBlock {
+    /// Number of d electrons of the shell the block belongs to.
+    n: usize,
     /// (2M_L + 2M_S) mod 8 of the block, or None when it holds every determinant.
     pub class: Option<i32>,
     pub dets: DetList,
@@ -92,12 +94,7 @@ impl SpinOrbitBlock {
     /// S₋S₊ back into it).
     pub fn s_squared(&self) -> &DMatrix<f64> {
         self.s_squared.get_or_init(|| {
-            let n = self
-                .dets
-                .dets
-                .first()
-                .map_or(0, |d| d.count_ones() as usize);
-            let all = DetList::new(shell(n).determinants.clone());
+            let all = DetList::new(shell(self.n).determinants.clone());
             let splus = one_body(&self.dets, &all, |p, q| {
                 if two_ms_of(p) == 1 && two_ms_of(q) == -1 && m_of(p) == m_of(q) {
                     1.0
@@ -116,14 +113,15 @@ impl SpinOrbitBlock {
 }
 
 /// The electron repulsion per unit Racah B and per unit Racah C on a determinant list.
-fn racah_unit_repulsion(dets: &DetList) -> Vec<DMatrix<f64>> {
-    two_body_each(
-        dets,
-        &[
-            Slater::from_racah(0.0, 1.0, 0.0),
-            Slater::from_racah(0.0, 0.0, 1.0),
-        ],
-    )
+fn racah_unit_repulsion(dets: &DetList) -> (DMatrix<f64>, DMatrix<f64>) {
+    let units = [
+        Slater::from_racah(0.0, 1.0, 0.0),
+        Slater::from_racah(0.0, 0.0, 1.0),
+    ];
+    let [per_b, per_c]: [DMatrix<f64>; 2] = two_body_each(dets, &units)
+        .try_into()
+        .expect("one matrix per set of integrals");
+    (per_b, per_c)
 }
 
 /// Everything cached for one d^n configuration.
@@ -236,11 +234,12 @@ impl Shell {
                         })));
                     }
                 }
-                let mut repulsion = racah_unit_repulsion(&dets).into_iter();
+                let (rep_b, rep_c) = racah_unit_repulsion(&dets);
                 SpinOrbitBlock {
+                    n: self.n,
                     class,
-                    rep_b: repulsion.next().expect("two matrices"),
-                    rep_c: repulsion.next().expect("two matrices"),
+                    rep_b,
+                    rep_c,
                     spin_orbit: one_body(&dets, &dets, l_dot_s),
                     excitations,
                     s_squared: OnceLock::new(),
@@ -307,9 +306,7 @@ impl Shell {
             DMatrix::from_columns(&cols)
         };
         let project = |m: DMatrix<f64>| basis.transpose() * m * &basis;
-        let [rep_b, rep_c]: [DMatrix<f64>; 2] = racah_unit_repulsion(&dets)
-            .try_into()
-            .expect("two matrices");
+        let (rep_b, rep_c) = racah_unit_repulsion(&dets);
         let (rep_b, rep_c) = (project(rep_b), project(rep_c));
         let mut excitations = Vec::with_capacity(25);
         for m in -2i32..=2 {

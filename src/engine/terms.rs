@@ -17,7 +17,7 @@
 //! ²H of d³ and d⁷) are taken in order of L (a convention: the field mixes them).
 
 use super::basis::{total_ml, total_two_ms};
-use super::levels::{term_symbol, Calculation, ParentTable, L_LETTERS};
+use super::levels::{degenerate_runs, term_symbol, Calculation, ParentTable, L_LETTERS};
 use super::shell::{shell, two_s_values};
 use super::symmetry::PointGroup;
 use crate::error::Result;
@@ -141,20 +141,14 @@ fn terms_by_counting(calc: &Calculation) -> Result<Option<Vec<FreeTerm>>> {
         all.sort_by(|a, b| a.0.total_cmp(&b.0));
         // Degenerate sets: (energy, how their states spread over M_L mod 4).
         let mut sets: Vec<(f64, [usize; 4])> = Vec::new();
-        let mut start = 0;
-        while start < all.len() {
-            let mut end = start + 1;
-            while end < all.len() && all[end].0 - all[end - 1].0 < tol {
-                end += 1;
-            }
-            let members = &all[start..end];
+        for run in degenerate_runs(all.len(), |end| all[end].0 - all[end - 1].0 < tol) {
+            let members = &all[run];
             let energy = members.iter().map(|m| m.0).sum::<f64>() / members.len() as f64;
             let mut spread = [0usize; 4];
             for m in members {
                 spread[m.1] += 1;
             }
             sets.push((energy, spread));
-            start = end;
         }
         let available: Vec<(usize, i32)> = (0..=12usize)
             .filter_map(|l| {
@@ -284,16 +278,10 @@ fn choose_splits(
 pub(crate) fn sort_terms(terms: &mut [FreeTerm]) {
     terms.sort_by(|a, b| a.energy.total_cmp(&b.energy));
     // Stable reordering inside runs of (numerically) degenerate terms.
-    let mut start = 0;
-    while start < terms.len() {
-        let mut end = start + 1;
-        while end < terms.len()
-            && terms[end].energy - terms[end - 1].energy < 1e-9 * (1.0 + terms[end].energy.abs())
-        {
-            end += 1;
-        }
-        terms[start..end].sort_by(|a, b| a.l.cmp(&b.l).then(b.two_s.cmp(&a.two_s)));
-        start = end;
+    for run in degenerate_runs(terms.len(), |end| {
+        terms[end].energy - terms[end - 1].energy < 1e-9 * (1.0 + terms[end].energy.abs())
+    }) {
+        terms[run].sort_by(|a, b| a.l.cmp(&b.l).then(b.two_s.cmp(&a.two_s)));
     }
 }
 
