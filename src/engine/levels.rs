@@ -801,8 +801,10 @@ mod parent_tests {
 
     /// The cached parent table (terms split by the branching rules) against the levels followed
     /// numerically to a field of 10⁻⁷ B, for every d^n, group and several field directions.
-    /// (The earlier numerical table used η = 0.01 B, which swapped ³P and ³F of d⁴ at
-    /// C/B = 4.8: they lie 0.095 B apart, less than the 0.1 B that η·L² moves them.)
+    /// Levels of one symmetry and spin do not cross as the field is scaled (J. von Neumann,
+    /// E. P. Wigner, Phys. Z. 30, 467, 1929; from memory), so both routes must agree. (The
+    /// earlier numerical table used η = 0.01 B, which swapped ³P and ³F of d⁴ at C/B = 4.8: they
+    /// lie 0.095 B apart, less than the 0.1 B that η·L² moves them.)
     #[test]
     fn parent_tables_from_terms_match_the_small_field_limit() {
         let bent = LigandField::angular_overlap(&[

@@ -337,7 +337,8 @@ mod tests {
     #[test]
     fn counting_agrees_with_l_squared() {
         // The eigenvalue-only assignment against ⟨L²⟩ of the eigenvectors, over every d^n and
-        // a range of C/B (including values far from the usual 4–5).
+        // a range of C/B (including values far from the usual 4–5): L² = L(L+1) on a term of L
+        // (Condon & Shortley 1935, ch. 3; common practice).
         for dn in 0..=10 {
             for c in [0.5, 3.0, 3.7, 4.0, 4.477, 4.8, 6.0, 12.0] {
                 let calc = Calculation::free_ion_in_units_of_b(dn, c).unwrap();

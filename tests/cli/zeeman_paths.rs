@@ -134,7 +134,8 @@ fn low_symmetry_field_agrees_with_finite_field() {
 fn sums_up_to_a_temperature_agree_with_complete_sums() {
     // Levels weighted by less than e^-40 at T_max are left out; every χ at or below T_max must
     // agree with the complete sums to 1e-10 (matrix products of other shapes round differently),
-    // and a higher T must be refused.
+    // and a higher T must be refused. Boltzmann weights in the van Vleck sums (van Vleck 1932,
+    // as in the module header; the cut-off itself is common practice).
     let mut checked_truncation = false;
     for (calc, zeta) in cases().into_iter().chain(std::iter::once((
         Calculation::new(
