@@ -12,9 +12,8 @@
 //! degenerate perturbation theory requires. The second term is the temperature-independent
 //! paramagnetism of each level. Units: cgs-emu, χ in cm³ mol⁻¹, χT in cm³ K mol⁻¹, μ_eff in μB.
 
-use crate::engine::basis::all_determinants;
 use crate::engine::levels::degenerate_runs;
-use crate::engine::operators::{angular_momentum, one_body, one_body_complex, Axis, DetList};
+use crate::engine::operators::{angular_momentum, one_body, one_body_complex, Axis};
 use crate::engine::shell::shell;
 use crate::engine::{Calculation, SpinOrbitSolution};
 use crate::error::{num, require_finite, Error, Result};
@@ -164,41 +163,25 @@ fn pair_moments(n: usize, fourfold: bool) -> &'static PairMoments {
     static CACHE: [OnceLock<PairMoments>; 22] = [const { OnceLock::new() }; 22];
     CACHE[2 * n + fourfold as usize].get_or_init(|| {
         let blocks = shell(n).spin_orbit_blocks(fourfold);
-        let dets = DetList::new(all_determinants(n));
-        let build = |orbital: bool, axis: Axis| {
-            let h = angular_momentum(orbital, axis);
-            // The real or the imaginary part, whichever carries the operator.
-            if axis == Axis::Y {
-                one_body(&dets, &dets, |p, q| h[p][q].im)
-            } else {
-                one_body(&dets, &dets, |p, q| h[p][q].re)
-            }
-        };
         let axes = [Axis::X, Axis::Y, Axis::Z];
-        let l = axes.map(|a| build(true, a));
-        let s = axes.map(|a| build(false, a));
-        let positions: Vec<Vec<usize>> = blocks
-            .iter()
-            .map(|b| {
-                b.dets
-                    .dets
-                    .iter()
-                    .map(|&d| dets.position(d).expect("determinant in full list"))
-                    .collect()
-            })
-            .collect();
-        let cut = |m: &DMatrix<f64>, to: &[usize], from: &[usize]| {
-            DMatrix::from_fn(to.len(), from.len(), |i, j| m[(to[i], from[j])])
+        // Spin-orbital elements of L and S along each axis: the real part, or for y the
+        // imaginary part, whichever carries the operator.
+        let part = |orbital: bool, axis: Axis| {
+            let h = angular_momentum(orbital, axis);
+            h.map(|row| row.map(|x| if axis == Axis::Y { x.im } else { x.re }))
         };
-        let pairs = positions
+        let l = axes.map(|a| part(true, a));
+        let s = axes.map(|a| part(false, a));
+        // Each sub-block straight from the two blocks' determinant lists.
+        let pairs = blocks
             .iter()
             .map(|to| {
-                positions
+                blocks
                     .iter()
                     .map(|from| {
                         std::array::from_fn(|ax| {
-                            let l = cut(&l[ax], to, from);
-                            let s = cut(&s[ax], to, from);
+                            let l = one_body(&from.dets, &to.dets, |p, q| l[ax][p][q]);
+                            let s = one_body(&from.dets, &to.dets, |p, q| s[ax][p][q]);
                             let zero = l.iter().chain(s.iter()).all(|&x| x == 0.0);
                             (!zero).then_some(AxisPair { l, s })
                         })
