@@ -124,15 +124,6 @@ pub struct Output {
     pub code: u8,
 }
 
-impl Output {
-    pub fn text(stdout: String) -> Self {
-        Output {
-            stdout,
-            ..Default::default()
-        }
-    }
-}
-
 /// Runs the parsed command. One rule for the global `--data DIR` across commands: it must name
 /// an existing directory (checked before any command runs), and a command that reads no table
 /// says so instead of ignoring it silently.

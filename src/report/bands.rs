@@ -1,6 +1,7 @@
 //! Report of `spinstate bands`: the band-count check.
 
 use super::fit_bands::jump_text;
+use super::Render;
 use super::{fmt_num, new_table};
 use crate::spectra::count::BandCount;
 use serde::Serialize;
@@ -181,9 +182,13 @@ impl BandsReport {
             charge_transfer_ligand: r.charge_transfer.as_ref().map(|c| c.ligand.clone()),
         }
     }
+}
+
+impl Render for BandsReport {
+    type Figure = ();
 
     /// Human table.
-    pub fn to_table(&self) -> String {
+    fn table(&self) -> String {
         let mut s = format!(
             "d{} {}: Δ = 10Dq = {} cm⁻¹, B = {} cm⁻¹, C = {} cm⁻¹ (C/B = {}); window {}–{} nm ({}–{} cm⁻¹), resolution {} cm⁻¹\n",
             self.dn,

@@ -10,6 +10,7 @@
 //! `{"samples": [<one complex without "safety">], "errors": [{"row", "name", "column",
 //! "message"}], "safety"}`.
 
+use super::Render;
 use super::{fmt_num, new_table};
 use crate::check::batch::RowError;
 use crate::check::{CheckResult, EvidenceKind};
@@ -182,8 +183,45 @@ impl CheckReport {
         format!("verdict: {} (confidence {})", self.verdict, self.confidence)
     }
 
+    fn support_of(&self, kind: EvidenceKind) -> String {
+        let cells: Vec<String> = self
+            .evidence
+            .iter()
+            .filter(|e| e.kind == kind.name())
+            .map(|e| {
+                // A prediction that supports both states is the estimate's borderline, or a
+                // predicted spin crossover: say which.
+                if kind == EvidenceKind::Prediction && e.supports == "both" {
+                    if self.predicted_spin_state == "crossover" {
+                        "crossover".to_string()
+                    } else {
+                        "borderline".to_string()
+                    }
+                } else if e.strength == "none" {
+                    e.supports.clone()
+                } else {
+                    format!("{} ({})", e.supports, e.strength)
+                }
+            })
+            .collect();
+        if cells.is_empty() {
+            "—".into()
+        } else {
+            cells.join(", ")
+        }
+    }
+}
+
+impl Render for CheckReport {
+    type Figure = ();
+
+    /// The batch CSV with this one sample as its row.
+    fn csv(&self) -> Option<String> {
+        BatchReport::new(vec![self.clone()], Vec::new()).csv()
+    }
+
     /// Human-readable table of one complex.
-    pub fn to_table(&self) -> String {
+    fn table(&self) -> String {
         let mut out = format!("{}\n", self.title());
         if let Some(st) = &self.structure {
             out.push_str(&format!(
@@ -228,34 +266,6 @@ impl CheckReport {
             out.push_str(&format!("{s}\n"));
         }
         out
-    }
-
-    fn support_of(&self, kind: EvidenceKind) -> String {
-        let cells: Vec<String> = self
-            .evidence
-            .iter()
-            .filter(|e| e.kind == kind.name())
-            .map(|e| {
-                // A prediction that supports both states is the estimate's borderline, or a
-                // predicted spin crossover: say which.
-                if kind == EvidenceKind::Prediction && e.supports == "both" {
-                    if self.predicted_spin_state == "crossover" {
-                        "crossover".to_string()
-                    } else {
-                        "borderline".to_string()
-                    }
-                } else if e.strength == "none" {
-                    e.supports.clone()
-                } else {
-                    format!("{} ({})", e.supports, e.strength)
-                }
-            })
-            .collect();
-        if cells.is_empty() {
-            "—".into()
-        } else {
-            cells.join(", ")
-        }
     }
 }
 
@@ -320,7 +330,7 @@ impl BatchReport {
     }
 
     /// The verdict table with one line per sample (bad rows included), then the reasons.
-    pub fn to_table(&self) -> String {
+    pub fn verdict_table(&self) -> String {
         rows_table(&self.rows())
     }
 
@@ -353,15 +363,26 @@ impl BatchReport {
         }
         format!("{t}\n")
     }
+}
+
+impl Render for BatchReport {
+    type Figure = ();
+
+    /// The verdict table (as [`BatchReport::verdict_table`]), then the safety note.
+    fn table(&self) -> String {
+        format!("{}{SAFETY}\n", self.verdict_table())
+    }
 
     /// CSV: one line per row of the input (bad rows with their error), full precision.
-    pub fn to_csv(&self) -> String {
-        let mut w = csv::Writer::from_writer(Vec::new());
-        w.write_record(csv_header()).expect("CSV to memory");
-        for row in self.rows() {
-            w.write_record(csv_record(row)).expect("CSV to memory");
-        }
-        String::from_utf8(w.into_inner().expect("CSV to memory")).expect("CSV is UTF-8")
+    fn csv(&self) -> Option<String> {
+        Some({
+            let mut w = csv::Writer::from_writer(Vec::new());
+            w.write_record(csv_header()).expect("CSV to memory");
+            for row in self.rows() {
+                w.write_record(csv_record(row)).expect("CSV to memory");
+            }
+            String::from_utf8(w.into_inner().expect("CSV to memory")).expect("CSV is UTF-8")
+        })
     }
 }
 

@@ -1,5 +1,6 @@
 //! Report of `spinstate crossover`.
 
+use super::Render;
 use super::{fmt_num, new_table};
 use serde::Serialize;
 
@@ -30,8 +31,10 @@ pub struct CrossoverReport {
     pub crossovers: Vec<CrossoverRow>,
 }
 
-impl CrossoverReport {
-    pub fn to_table(&self) -> String {
+impl Render for CrossoverReport {
+    type Figure = ();
+
+    fn table(&self) -> String {
         let mut t = new_table([
             "d^n",
             "geometry",

@@ -1,5 +1,6 @@
 //! Report of `spinstate data`: the chemistry tables as loaded (bundled or from `--data DIR`).
 
+use super::Render;
 use super::{fmt_num, new_table};
 use crate::tables::{Ion, Ligand};
 use serde::Serialize;
@@ -116,9 +117,11 @@ fn opt(x: Option<f64>, d: usize) -> String {
     x.map_or(String::new(), |v| fmt_num(v, d))
 }
 
-impl IonsReport {
+impl Render for IonsReport {
+    type Figure = ();
+
     /// Human table.
-    pub fn to_table(&self) -> String {
+    fn table(&self) -> String {
         let mut t = new_table([
             "ion",
             "d^n",
@@ -151,9 +154,11 @@ impl IonsReport {
     }
 }
 
-impl LigandsReport {
+impl Render for LigandsReport {
+    type Figure = ();
+
     /// Human table.
-    pub fn to_table(&self) -> String {
+    fn table(&self) -> String {
         let mut t = new_table([
             "ligand", "aliases", "donors", "charge", "f", "h", "π", "binds", "source",
         ]);
@@ -192,8 +197,10 @@ pub struct PascalReport {
     pub entries: Vec<PascalRow>,
 }
 
-impl PascalReport {
-    pub fn to_table(&self) -> String {
+impl Render for PascalReport {
+    type Figure = ();
+
+    fn table(&self) -> String {
         let mut t = new_table(["kind", "entry", "χ (10⁻⁶ cm³/mol)", "source"]);
         for r in &self.entries {
             t.add_row(vec![
@@ -229,8 +236,10 @@ pub struct MomentRangesReport {
     pub ranges: Vec<MomentRangeRow>,
 }
 
-impl MomentRangesReport {
-    pub fn to_table(&self) -> String {
+impl Render for MomentRangesReport {
+    type Figure = ();
+
+    fn table(&self) -> String {
         let mut t = new_table([
             "d^n",
             "geometry",
@@ -279,8 +288,10 @@ pub struct BondLengthsReport {
     pub rows: Vec<BondLengthDataRow>,
 }
 
-impl BondLengthsReport {
-    pub fn to_table(&self) -> String {
+impl Render for BondLengthsReport {
+    type Figure = ();
+
+    fn table(&self) -> String {
         let range =
             |r: Option<(f64, f64)>| r.map_or(String::new(), |(a, b)| format!("{a:.3}–{b:.3}"));
         let mut t = new_table([

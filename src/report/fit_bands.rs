@@ -1,5 +1,6 @@
 //! Report of `spinstate fit-bands`: fitted Dq, B, C with the band assignment.
 
+use super::Render;
 use super::{fmt_num, new_table};
 use crate::spectra::fit::{
     relative_to_crossover, AssignedBand, BandFit, Determination, FitOutcome, FitParameter,
@@ -339,9 +340,13 @@ impl FitBandsReport {
             evaluations: f.evaluations,
         })
     }
+}
+
+impl Render for FitBandsReport {
+    type Figure = ();
 
     /// Human table.
-    pub fn to_table(&self) -> String {
+    fn table(&self) -> String {
         let mut s = String::new();
         let pm = |x: Option<f64>, d: usize| {
             x.map(|v| format!(" ± {}", fmt_num(v, d)))

@@ -1,5 +1,6 @@
 //! Report of `spinstate levels`: every level of one calculation.
 
+use super::Render;
 use super::{fmt_num, new_table};
 use serde::Serialize;
 
@@ -57,9 +58,11 @@ pub struct LevelsReport {
     pub levels: Vec<LevelRow>,
 }
 
-impl LevelsReport {
+impl Render for LevelsReport {
+    type Figure = ();
+
     /// Human table.
-    pub fn to_table(&self) -> String {
+    fn table(&self) -> String {
         let unit = if self.energy_unit == "B" {
             "E/B"
         } else {

@@ -1,6 +1,7 @@
 //! Reports of `spinstate evans` and `spinstate moment`: χ_M, χ_M·T, μ_eff and unpaired electrons
 //! with uncertainties, the diamagnetic correction and the spin-state comparison.
 
+use super::Render;
 use super::{fmt_num, new_table};
 use crate::measured::compare::{spin_text, Comparison, MomentVerdict, Orbital};
 use crate::measured::evans::EvansResult;
@@ -257,9 +258,13 @@ impl MeasuredMomentReport {
             safety: safety.to_string(),
         }
     }
+}
+
+impl Render for MeasuredMomentReport {
+    type Figure = ();
 
     /// Human-readable tables.
-    pub fn to_table(&self) -> String {
+    fn table(&self) -> String {
         let chi = |v: f64, e: f64| {
             if e > 0.0 {
                 format!("{v:.4e} ± {e:.1e}")

@@ -4,6 +4,7 @@
 //! μB, wavelengths in nm; `null` where a value does not apply (e.g. B of a d¹ ion, the crossover
 //! of a geometry whose spin cannot change).
 
+use super::Render;
 use super::{fmt_num, new_table};
 use crate::complex::{Origin, Parameter};
 use crate::predict::{Prediction, SpinBands};
@@ -416,9 +417,13 @@ impl PredictReport {
         self.reported = r.map(Into::into);
         self
     }
+}
+
+impl Render for PredictReport {
+    type Figure = ();
 
     /// Human-readable text with tables.
-    pub fn to_table(&self) -> String {
+    fn table(&self) -> String {
         let opt = |x: Option<f64>, d: usize| x.map_or("—".to_string(), |v| fmt_num(v, d));
         let mut out = format!(
             "{}  {}, d{}, {} ({}), charge {}\n",

@@ -5,6 +5,7 @@
 //! kJ mol⁻¹, ΔS in J mol⁻¹ K⁻¹, χ_M·T in cm³ K mol⁻¹; every fitted quantity `x` has `x_err`
 //! (1σ; null when fixed or not determined).
 
+use super::Render;
 use super::{fmt_num, new_table};
 use crate::plot::moment::Curve;
 use crate::plot::style::Column;
@@ -159,8 +160,58 @@ impl FitReport {
         }
     }
 
+    /// SVG: the data (cooling ▼, heating △, other ○) with the fitted curve on both branches,
+    /// a γ_HS axis on the right and a residual panel below; one journal column wide.
+    pub fn to_svg(&self) -> Result<String, String> {
+        Ok(self.to_svg_with(&TransitionPlot::default()))
+    }
+
+    /// The figure at the width and in the quantity asked for.
+    pub fn to_svg_with(&self, plot: &TransitionPlot) -> String {
+        let (lo, hi) = self
+            .residuals
+            .iter()
+            .map(|r| r.t)
+            .fold((f64::INFINITY, f64::NEG_INFINITY), |(a, b), t| {
+                (a.min(t), b.max(t))
+            });
+        let title = if self.model == "cooperative" {
+            format!(
+                "Cooperative fit: Δ*H* = {:.1} kJ mol⁻¹, *Γ* = {:.2} kJ mol⁻¹",
+                self.dh, self.gamma
+            )
+        } else {
+            format!(
+                "Ideal fit: Δ*H* = {:.1} kJ mol⁻¹, Δ*S* = {:.0} J K⁻¹ mol⁻¹",
+                self.dh, self.ds
+            )
+        };
+        let points: Vec<(f64, f64, Direction, Option<f64>)> = self
+            .residuals
+            .iter()
+            .map(|r| (r.t, r.observed, direction(&r.branch), Some(r.residual)))
+            .collect();
+        figure(
+            title,
+            &self.transition,
+            (self.chit_hs, self.chit_ls),
+            (lo, hi),
+            &points,
+            (self.t_down.zip(self.t_up), self.t_half),
+            plot,
+        )
+    }
+}
+
+impl Render for FitReport {
+    type Figure = TransitionPlot;
+
+    fn svg(&self, plot: &TransitionPlot) -> Option<String> {
+        Some(self.to_svg_with(plot))
+    }
+
     /// Human-readable table.
-    pub fn to_table(&self) -> String {
+    fn table(&self) -> String {
         // A value without an uncertainty was either held fixed or is not determined by the data.
         let pm = |name: &str, v: f64, e: Option<f64>, d: usize| match e {
             Some(e) => format!("{} ± {}", fmt_num(v, d), fmt_num(e, d.max(1))),
@@ -268,67 +319,27 @@ impl FitReport {
     }
 
     /// CSV of the points: T, observed, calculated, residual, branch (full precision).
-    pub fn to_csv(&self) -> String {
-        let mut w = csv::Writer::from_writer(Vec::new());
-        let _ = w.write_record([
-            "t_k",
-            "chit_observed_cm3kmol",
-            "chit_calculated_cm3kmol",
-            "residual_cm3kmol",
-            "branch",
-        ]);
-        for r in &self.residuals {
+    fn csv(&self) -> Option<String> {
+        Some({
+            let mut w = csv::Writer::from_writer(Vec::new());
             let _ = w.write_record([
-                r.t.to_string(),
-                r.observed.to_string(),
-                r.calculated.to_string(),
-                r.residual.to_string(),
-                r.branch.clone(),
+                "t_k",
+                "chit_observed_cm3kmol",
+                "chit_calculated_cm3kmol",
+                "residual_cm3kmol",
+                "branch",
             ]);
-        }
-        String::from_utf8(w.into_inner().unwrap_or_default()).unwrap_or_default()
-    }
-
-    /// SVG: the data (cooling ▼, heating △, other ○) with the fitted curve on both branches,
-    /// a γ_HS axis on the right and a residual panel below; one journal column wide.
-    pub fn to_svg(&self) -> Result<String, String> {
-        Ok(self.to_svg_with(&TransitionPlot::default()))
-    }
-
-    /// The figure at the width and in the quantity asked for.
-    pub fn to_svg_with(&self, plot: &TransitionPlot) -> String {
-        let (lo, hi) = self
-            .residuals
-            .iter()
-            .map(|r| r.t)
-            .fold((f64::INFINITY, f64::NEG_INFINITY), |(a, b), t| {
-                (a.min(t), b.max(t))
-            });
-        let title = if self.model == "cooperative" {
-            format!(
-                "Cooperative fit: Δ*H* = {:.1} kJ mol⁻¹, *Γ* = {:.2} kJ mol⁻¹",
-                self.dh, self.gamma
-            )
-        } else {
-            format!(
-                "Ideal fit: Δ*H* = {:.1} kJ mol⁻¹, Δ*S* = {:.0} J K⁻¹ mol⁻¹",
-                self.dh, self.ds
-            )
-        };
-        let points: Vec<(f64, f64, Direction, Option<f64>)> = self
-            .residuals
-            .iter()
-            .map(|r| (r.t, r.observed, direction(&r.branch), Some(r.residual)))
-            .collect();
-        figure(
-            title,
-            &self.transition,
-            (self.chit_hs, self.chit_ls),
-            (lo, hi),
-            &points,
-            (self.t_down.zip(self.t_up), self.t_half),
-            plot,
-        )
+            for r in &self.residuals {
+                let _ = w.write_record([
+                    r.t.to_string(),
+                    r.observed.to_string(),
+                    r.calculated.to_string(),
+                    r.residual.to_string(),
+                    r.branch.clone(),
+                ]);
+            }
+            String::from_utf8(w.into_inner().unwrap_or_default()).unwrap_or_default()
+        })
     }
 }
 
@@ -511,7 +522,46 @@ impl CurveReport {
         })
     }
 
-    pub fn to_table(&self) -> String {
+    /// SVG of χ_M·T (and γ_HS) against T on both branches, one journal column wide.
+    pub fn to_svg(&self) -> Result<String, String> {
+        Ok(self.to_svg_with(&TransitionPlot::default()))
+    }
+
+    /// The figure at the width and in the quantity asked for.
+    pub fn to_svg_with(&self, plot: &TransitionPlot) -> String {
+        let tmin = self.points.first().map_or(50.0, |p| p.t);
+        let tmax = self.points.last().map_or(350.0, |p| p.t);
+        let title = if self.gamma > 0.0 {
+            format!(
+                "Simulated: Δ*H* = {:.1} kJ mol⁻¹, *Γ* = {:.2} kJ mol⁻¹",
+                self.dh, self.gamma
+            )
+        } else {
+            format!(
+                "Simulated: Δ*H* = {:.1} kJ mol⁻¹, Δ*S* = {:.0} J K⁻¹ mol⁻¹",
+                self.dh, self.ds
+            )
+        };
+        figure(
+            title,
+            &self.transition,
+            (self.chit_hs, self.chit_ls),
+            (tmin, tmax),
+            &[],
+            (self.t_down.zip(self.t_up), self.t_half),
+            plot,
+        )
+    }
+}
+
+impl Render for CurveReport {
+    type Figure = TransitionPlot;
+
+    fn svg(&self, plot: &TransitionPlot) -> Option<String> {
+        Some(self.to_svg_with(plot))
+    }
+
+    fn table(&self) -> String {
         let mut out = format!(
             "spin transition: ΔH = {} kJ/mol, ΔS = {} J/mol/K, Γ = {} kJ/mol (Γ/2RT½ = {}), T½ = {} K\n",
             fmt_num(self.dh, 2),
@@ -549,55 +599,26 @@ impl CurveReport {
         out
     }
 
-    pub fn to_csv(&self) -> String {
-        let mut w = csv::Writer::from_writer(Vec::new());
-        let _ = w.write_record([
-            "t_k",
-            "gamma_heating",
-            "gamma_cooling",
-            "chit_heating_cm3kmol",
-            "chit_cooling_cm3kmol",
-        ]);
-        for p in &self.points {
+    fn csv(&self) -> Option<String> {
+        Some({
+            let mut w = csv::Writer::from_writer(Vec::new());
             let _ = w.write_record([
-                p.t.to_string(),
-                p.gamma_heating.to_string(),
-                p.gamma_cooling.to_string(),
-                p.chit_heating.to_string(),
-                p.chit_cooling.to_string(),
+                "t_k",
+                "gamma_heating",
+                "gamma_cooling",
+                "chit_heating_cm3kmol",
+                "chit_cooling_cm3kmol",
             ]);
-        }
-        String::from_utf8(w.into_inner().unwrap_or_default()).unwrap_or_default()
-    }
-
-    /// SVG of χ_M·T (and γ_HS) against T on both branches, one journal column wide.
-    pub fn to_svg(&self) -> Result<String, String> {
-        Ok(self.to_svg_with(&TransitionPlot::default()))
-    }
-
-    /// The figure at the width and in the quantity asked for.
-    pub fn to_svg_with(&self, plot: &TransitionPlot) -> String {
-        let tmin = self.points.first().map_or(50.0, |p| p.t);
-        let tmax = self.points.last().map_or(350.0, |p| p.t);
-        let title = if self.gamma > 0.0 {
-            format!(
-                "Simulated: Δ*H* = {:.1} kJ mol⁻¹, *Γ* = {:.2} kJ mol⁻¹",
-                self.dh, self.gamma
-            )
-        } else {
-            format!(
-                "Simulated: Δ*H* = {:.1} kJ mol⁻¹, Δ*S* = {:.0} J K⁻¹ mol⁻¹",
-                self.dh, self.ds
-            )
-        };
-        figure(
-            title,
-            &self.transition,
-            (self.chit_hs, self.chit_ls),
-            (tmin, tmax),
-            &[],
-            (self.t_down.zip(self.t_up), self.t_half),
-            plot,
-        )
+            for p in &self.points {
+                let _ = w.write_record([
+                    p.t.to_string(),
+                    p.gamma_heating.to_string(),
+                    p.gamma_cooling.to_string(),
+                    p.chit_heating.to_string(),
+                    p.chit_cooling.to_string(),
+                ]);
+            }
+            String::from_utf8(w.into_inner().unwrap_or_default()).unwrap_or_default()
+        })
     }
 }

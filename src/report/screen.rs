@@ -6,6 +6,7 @@
 //! one row per ranked candidate with the columns of [`CSV_HEADER`].
 
 use super::predict::CAUTION_FOOTER;
+use super::Render;
 use super::{fmt_num, new_table};
 use crate::screen::{Candidate, Hit, Outcome, Screen};
 use serde::Serialize;
@@ -350,9 +351,13 @@ impl ScreenReport {
             cautions,
         }
     }
+}
+
+impl Render for ScreenReport {
+    type Figure = ();
 
     /// Human-readable text with the ranked table.
-    pub fn to_table(&self) -> String {
+    fn table(&self) -> String {
         let ions: Vec<String> = self
             .ions
             .iter()
@@ -444,5 +449,45 @@ impl ScreenReport {
             }
         }
         out
+    }
+}
+
+/// A finished screen as the command prints it: the JSON holds every hit kept, the table the
+/// first `table_rows`, the CSV every hit kept (rows built one candidate at a time).
+pub struct ScreenOutput<'a> {
+    pub screen: &'a Screen,
+    pub outcome: &'a Outcome,
+    /// Rows of a candidates file that could not be used.
+    pub rejected: &'a [crate::screen::RejectedCandidate],
+    pub table_rows: usize,
+}
+
+impl Serialize for ScreenOutput<'_> {
+    fn serialize<S: serde::Serializer>(&self, s: S) -> Result<S::Ok, S::Error> {
+        ScreenReport::new(
+            self.screen,
+            self.outcome,
+            self.rejected,
+            self.outcome.hits.len(),
+        )
+        .serialize(s)
+    }
+}
+
+impl Render for ScreenOutput<'_> {
+    type Figure = ();
+
+    fn table(&self) -> String {
+        ScreenReport::new(self.screen, self.outcome, self.rejected, self.table_rows).table()
+    }
+
+    fn csv(&self) -> Option<String> {
+        let mut buf = Vec::new();
+        write_csv(self.screen, &self.outcome.hits, &mut buf).expect("CSV to memory");
+        Some(String::from_utf8(buf).expect("CSV is UTF-8"))
+    }
+
+    fn csv_summary(&self) -> Option<String> {
+        Some(format!("{} ranked candidates", self.outcome.hits.len()))
     }
 }

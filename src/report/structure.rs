@@ -11,6 +11,7 @@
 //! "switched"}]}`. Units: distances and ranges in Å, Σ and Θ in degrees, ζ in Å, shape
 //! measures dimensionless (0–100).
 
+use super::Render;
 use super::{fmt_num, new_table};
 use crate::structure::centre::{Centre, CentreChange};
 use serde::Serialize;
@@ -178,8 +179,10 @@ pub struct StructureReport {
     pub changes: Vec<ChangeRow>,
 }
 
-impl StructureReport {
-    pub fn to_table(&self) -> String {
+impl Render for StructureReport {
+    type Figure = ();
+
+    fn table(&self) -> String {
         let opt = |x: Option<f64>, d: usize| x.map_or("—".to_string(), |v| fmt_num(v, d));
         let mut out = String::new();
         for c in &self.centres {

@@ -1,6 +1,7 @@
 //! Report of `predict --structure`: the donors' angular-overlap parameters, the d-orbital
 //! energies, the lowest levels, the ground spin and its margin.
 
+use super::Render;
 use crate::engine::PointGroup;
 use crate::structure::spin::StructureSpin;
 use serde::Serialize;
@@ -110,8 +111,12 @@ impl StructureSpinReport {
             notes,
         }
     }
+}
 
-    pub fn to_table(&self) -> String {
+impl Render for StructureSpinReport {
+    type Figure = ();
+
+    fn table(&self) -> String {
         let mut out = format!(
             "{}  {}  field from the structure (angular overlap model), labels in {}{}\n",
             self.centre,

@@ -1,6 +1,7 @@
 //! Report of `spinstate fit-bands --geometry tetragonal`: fitted Dq, Ds, Dt (and B) with the
 //! band assignment. Energies in cm⁻¹.
 
+use super::Render;
 use super::{fmt_num, new_table};
 use crate::spectra::tetragonal::{aom_differences, TetragonalFit, TetragonalOutcome};
 use crate::spectra::EnergyUnit;
@@ -209,9 +210,13 @@ impl TetragonalFitReport {
             evaluations: f.evaluations,
         }
     }
+}
+
+impl Render for TetragonalFitReport {
+    type Figure = ();
 
     /// Terminal rendering.
-    pub fn to_table(&self) -> String {
+    fn table(&self) -> String {
         let pm = |x: Option<f64>| {
             x.map(|v| format!(" ± {}", fmt_num(v, 0)))
                 .unwrap_or_default()

@@ -1,0 +1,48 @@
+//! The one output layer: every report renders itself through [`Render`].
+//!
+//! A report is plain serialisable data; `Render` gives its forms. JSON comes from serde for
+//! every report (field names are the interface), the table is each report's own, and CSV and
+//! SVG exist only where a report has them (`None` otherwise). A new output format is one
+//! method here (with a default: `None`, or one built from serde as JSON is), its option and
+//! its arm in the command line's `emit`, and an implementation in each report that has that
+//! form.
+
+use serde::Serialize;
+
+/// The forms of one report.
+pub trait Render: Serialize {
+    /// What a figure needs beyond the report's data (marks, highlighted states, column width);
+    /// `()` for reports without a figure.
+    type Figure;
+
+    /// Human-readable text (tables with units in their headers; numbers rounded).
+    fn table(&self) -> String;
+
+    /// Pretty JSON (a top-level object) with a trailing newline, full precision.
+    fn json(&self) -> String {
+        to_json(self)
+    }
+
+    /// CSV with a header row, full precision; `None` when the report has no CSV form.
+    fn csv(&self) -> Option<String> {
+        None
+    }
+
+    /// A few words on what the CSV holds, for the note after writing it to a file
+    /// ("12 ranked candidates"); `None`: the note names the file only.
+    fn csv_summary(&self) -> Option<String> {
+        None
+    }
+
+    /// An SVG figure drawn with `figure`; `None` when the report has no figure.
+    fn svg(&self, _figure: &Self::Figure) -> Option<String> {
+        None
+    }
+}
+
+/// Pretty JSON of a serialisable value (top-level object), with a trailing newline.
+pub fn to_json<T: Serialize + ?Sized>(report: &T) -> String {
+    let mut s = serde_json::to_string_pretty(report).expect("reports serialise to JSON");
+    s.push('\n');
+    s
+}
