@@ -1,6 +1,6 @@
 //! `spinstate bands`: which spin-allowed bands each spin state puts in a spectrometer window.
 
-use super::common::{emit, ComplexArgs, JsonOutput};
+use super::common::{emit, ComplexArgs, OutputArgs};
 use super::fit_bands::SAFETY;
 use super::{Failure, Output};
 use spinstate::report::bands::BandsReport;
@@ -61,7 +61,7 @@ pub struct Args {
     #[arg(long, value_name = "N")]
     pub observed: Option<usize>,
     #[command(flatten)]
-    pub output: JsonOutput,
+    pub output: OutputArgs,
 }
 
 /// Parses "200-1100" or "200,1100" (nm).

@@ -1,7 +1,7 @@
 //! `spinstate check`: one verdict on the spin state from all the evidence, for one complex given
 //! by options or for every row of a CSV file (`--input`).
 
-use super::common::{emit, CsvOutput, JsonOutput, JsonlOutput};
+use super::common::{emit, CsvOutput, JsonlOutput, OutputArgs};
 use super::figure::write_html;
 use super::{Failure, Output};
 use indicatif::{ProgressBar, ProgressStyle};
@@ -149,7 +149,7 @@ pub struct Args {
     #[arg(long, value_name = "FILE")]
     pub html: Option<PathBuf>,
     #[command(flatten)]
-    pub output: JsonOutput,
+    pub output: OutputArgs,
 }
 
 /// The command-line option that sets a batch column ("evans_conc" → "--evans-conc").

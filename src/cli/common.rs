@@ -8,11 +8,13 @@ use spinstate::tables::DataSet;
 use spinstate::Param;
 use std::path::{Path, PathBuf};
 
-/// `--json`, which every command takes. The output options are declared here once, one
-/// struct per form, and each command flattens the forms its report has (clap then refuses
-/// the others); [`Asked`] gathers what was asked and [`emit`] renders it.
+/// The output options every command takes (`--json`; a form every report has, built from
+/// serde like JSON, goes here too). The output options are declared in this file once: this
+/// struct, and one struct per form only some reports have (CSV, SVG, JSON lines), which a
+/// command flattens when its report has that form (clap then refuses the others in one line).
+/// [`Asked`] gathers what was asked and [`emit`] renders it.
 #[derive(Debug, Clone, Default, clap::Args)]
-pub struct JsonOutput {
+pub struct OutputArgs {
     /// Print machine-readable JSON (a top-level object) instead of a table.
     #[arg(long)]
     pub json: bool,
@@ -57,7 +59,7 @@ fn is_stdout(path: Option<&Path>) -> bool {
     path.is_some_and(|p| p.as_os_str() == "-")
 }
 
-impl JsonOutput {
+impl OutputArgs {
     /// The output asked for by this option alone; add the others with [`Asked::csv`], … .
     pub fn asked(&self) -> Asked<'_> {
         Asked {

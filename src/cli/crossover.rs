@@ -1,6 +1,6 @@
 //! `spinstate crossover`: the Δ/B where the ground-state spin changes.
 
-use super::common::{emit, JsonOutput};
+use super::common::{emit, OutputArgs};
 use super::{Failure, Output};
 use spinstate::engine::{crossover, tanabe_sugano_c_over_b, Geometry};
 use spinstate::report::crossover::{CrossoverReport, CrossoverRow};
@@ -17,7 +17,7 @@ pub struct Args {
     #[arg(long, value_name = "R", allow_hyphen_values = true)]
     pub c_over_b: Option<f64>,
     #[command(flatten)]
-    pub output: JsonOutput,
+    pub output: OutputArgs,
 }
 
 pub fn run(args: &Args) -> Result<Output, Failure> {

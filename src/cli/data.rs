@@ -1,7 +1,7 @@
 //! `spinstate data`: list the chemistry tables as loaded (bundled, or edited copies from
 //! `--data DIR`).
 
-use super::common::{emit, JsonOutput};
+use super::common::{emit, OutputArgs};
 use super::{Failure, Output};
 use spinstate::report::data::{
     BondLengthDataRow, BondLengthsReport, IonsReport, LigandsReport, MomentRangeRow,
@@ -30,7 +30,7 @@ pub struct Args {
     #[arg(value_enum)]
     pub table: Table,
     #[command(flatten)]
-    pub output: JsonOutput,
+    pub output: OutputArgs,
 }
 
 pub fn run(args: &Args, data: &DataSet) -> Result<Output, Failure> {

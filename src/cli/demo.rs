@@ -2,7 +2,7 @@
 //! copy embedded in the binary.
 
 use super::check::run_batch_with;
-use super::common::{emit, JsonOutput};
+use super::common::{emit, OutputArgs};
 use super::figure::write_html;
 use super::{Failure, Output};
 use spinstate::check::demo::{INTRO, SAMPLES};
@@ -20,7 +20,7 @@ pub struct Args {
     #[arg(long, value_name = "FILE")]
     pub html: Option<PathBuf>,
     #[command(flatten)]
-    pub output: JsonOutput,
+    pub output: OutputArgs,
 }
 
 /// The scenario's introduction with how to run the same sheet by hand.

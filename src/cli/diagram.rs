@@ -1,6 +1,6 @@
 //! `spinstate diagram`: E/B of every level against Δ/B, optionally with a sample marked on it.
 
-use super::common::{emit, ComplexArgs, CsvOutput, JsonOutput, SvgOutput};
+use super::common::{emit, ComplexArgs, CsvOutput, OutputArgs, SvgOutput};
 use super::figure::FigureArgs;
 use super::{Failure, Output};
 use spinstate::engine::diagram;
@@ -64,7 +64,7 @@ pub struct Args {
     #[command(flatten)]
     pub figure: FigureArgs,
     #[command(flatten)]
-    pub output: JsonOutput,
+    pub output: OutputArgs,
 }
 
 pub fn run(args: &Args, data: &DataSet) -> Result<Output, Failure> {

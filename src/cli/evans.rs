@@ -1,6 +1,6 @@
 //! `spinstate evans`: an Evans-method NMR shift to χ_M, χ_M·T, μ_eff and unpaired electrons.
 
-use super::common::{emit, JsonOutput};
+use super::common::{emit, OutputArgs};
 use super::measured::{measured, positive, CompareArgs, DiaArgs, UnitArgs};
 use super::{Failure, Output};
 use spinstate::measured::evans::{self, EvansInput, MagnetGeometry, Shift, SolventTerms};
@@ -78,7 +78,7 @@ pub struct Args {
     #[command(flatten)]
     pub compare: CompareArgs,
     #[command(flatten)]
-    pub output: JsonOutput,
+    pub output: OutputArgs,
 }
 
 pub fn run(args: &Args, data: &DataSet) -> Result<Output, Failure> {

@@ -1,6 +1,6 @@
 //! `spinstate fit-bands`: fit Dq, B (and C) to observed band maxima.
 
-use super::common::{emit, parsed, JsonOutput};
+use super::common::{emit, parsed, OutputArgs};
 use super::{Failure, Output};
 use spinstate::engine::Geometry;
 use spinstate::report::fit_bands::{Context, FitBandsReport};
@@ -68,7 +68,7 @@ pub struct Args {
     #[arg(long, value_name = "K", default_value_t = spinstate::spectra::fit::DEFAULT_PATIENCE)]
     pub max_evaluations: usize,
     #[command(flatten)]
-    pub output: JsonOutput,
+    pub output: OutputArgs,
 }
 
 pub fn run(args: &Args, data: &DataSet) -> Result<Output, Failure> {

@@ -1,6 +1,6 @@
 //! `spinstate levels`: every level of one d^n calculation.
 
-use super::common::{emit, FieldArgs, JsonOutput};
+use super::common::{emit, FieldArgs, OutputArgs};
 use super::{Failure, Output};
 use spinstate::report::levels::{LevelRow, LevelsReport};
 
@@ -9,7 +9,7 @@ pub struct Args {
     #[command(flatten)]
     pub field: FieldArgs,
     #[command(flatten)]
-    pub output: JsonOutput,
+    pub output: OutputArgs,
 }
 
 pub fn run(args: &Args) -> Result<Output, Failure> {

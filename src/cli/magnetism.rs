@@ -1,6 +1,6 @@
 //! `spinstate magnetism`: χ(T), χT and μ_eff from the full ligand field with spin–orbit coupling.
 
-use super::common::{emit, ComplexArgs, CsvOutput, FieldArgs, JsonOutput, SvgOutput};
+use super::common::{emit, ComplexArgs, CsvOutput, FieldArgs, OutputArgs, SvgOutput};
 use super::{Failure, Output};
 use spinstate::magnetism::{temperature_grid, MagneticModel, ZeemanLevels, G_ELECTRON};
 use spinstate::plot::moment::{Point, Quantity};
@@ -69,7 +69,7 @@ pub struct Args {
     #[command(flatten)]
     pub figure: super::figure::FigureArgs,
     #[command(flatten)]
-    pub output: JsonOutput,
+    pub output: OutputArgs,
 }
 
 pub fn run(args: &Args, data: &DataSet) -> Result<Output, Failure> {

@@ -1,7 +1,7 @@
 //! `spinstate moment`: a measured χ_M, χ_M·T, μ_eff or magnetometer reading to χ_M, χ_M·T,
 //! μ_eff and unpaired electrons.
 
-use super::common::{emit, JsonOutput};
+use super::common::{emit, OutputArgs};
 use super::measured::{measured, positive, CompareArgs, DiaArgs, UnitArgs};
 use super::{Failure, Output};
 use spinstate::measured::moment::{chi_from_magnetometer, MagnetometerReading};
@@ -72,7 +72,7 @@ pub struct Args {
     #[command(flatten)]
     pub compare: CompareArgs,
     #[command(flatten)]
-    pub output: JsonOutput,
+    pub output: OutputArgs,
 }
 
 pub fn run(args: &Args, data: &DataSet) -> Result<Output, Failure> {

@@ -1,7 +1,7 @@
 //! `spinstate predict`: spin state, ground term, moments and bands of a complex from its
 //! composition.
 
-use super::common::{emit, JsonOutput};
+use super::common::{emit, OutputArgs};
 use super::{Failure, Output};
 use spinstate::complex::{ComplexSpec, LigandCount, Overrides};
 use spinstate::engine::Geometry;
@@ -49,7 +49,7 @@ pub struct Args {
     #[arg(long)]
     pub all: bool,
     #[command(flatten)]
-    pub output: JsonOutput,
+    pub output: OutputArgs,
 }
 
 impl Args {

@@ -1,6 +1,6 @@
 //! `spinstate sco-curve`: simulate a spin transition, γ_HS(T) and χ_M·T(T) on both branches.
 
-use super::common::{emit, CsvOutput, JsonOutput, SvgOutput};
+use super::common::{emit, CsvOutput, OutputArgs, SvgOutput};
 use super::{Failure, Output};
 use spinstate::magnetism::temperature_grid;
 use spinstate::report::sco::{CurveReport, TransitionPlot};
@@ -81,7 +81,7 @@ pub struct Args {
     #[command(flatten)]
     pub figure: super::figure::FigureArgs,
     #[command(flatten)]
-    pub output: JsonOutput,
+    pub output: OutputArgs,
 }
 
 pub fn run(args: &Args) -> Result<Output, Failure> {

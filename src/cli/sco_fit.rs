@@ -1,6 +1,6 @@
 //! `spinstate sco-fit`: fit a spin transition to χ_M·T(T) or variable-temperature Evans data.
 
-use super::common::{emit, CsvOutput, JsonOutput, SvgOutput};
+use super::common::{emit, CsvOutput, OutputArgs, SvgOutput};
 use super::{Failure, Output};
 use spinstate::measured::evans::MagnetGeometry;
 use spinstate::report::sco::{FitReport, TransitionPlot};
@@ -76,7 +76,7 @@ pub struct Args {
     #[command(flatten)]
     pub figure: super::figure::FigureArgs,
     #[command(flatten)]
-    pub output: JsonOutput,
+    pub output: OutputArgs,
 }
 
 pub fn run(args: &Args, data: &DataSet) -> Result<Output, Failure> {

@@ -1,6 +1,6 @@
 //! `spinstate screen`: rank candidate coordination spheres by their distance to the crossover.
 
-use super::common::{emit, parsed, CsvOutput, JsonOutput};
+use super::common::{emit, parsed, CsvOutput, OutputArgs};
 use super::{Failure, Output};
 use indicatif::{ProgressBar, ProgressStyle};
 use spinstate::report::screen::ScreenOutput;
@@ -63,7 +63,7 @@ pub struct Args {
     #[command(flatten)]
     pub csv: CsvOutput,
     #[command(flatten)]
-    pub output: JsonOutput,
+    pub output: OutputArgs,
 }
 
 impl Args {

@@ -2,7 +2,7 @@
 //! bonds, shape, octahedral distortion and the spin state the bond lengths support; several
 //! files are compared centre by centre.
 
-use super::common::{emit, JsonOutput};
+use super::common::{emit, OutputArgs};
 use super::{Failure, Output};
 use spinstate::report::structure::{CentreRow, ChangeRow, StructureReport};
 use spinstate::structure::centre::{analyse, compare, Centre};
@@ -70,7 +70,7 @@ pub struct Args {
     #[arg(long, value_name = "N", allow_hyphen_values = true)]
     pub ox: Option<i32>,
     #[command(flatten)]
-    pub output: JsonOutput,
+    pub output: OutputArgs,
 }
 
 /// Reads a structure file; errors name the file.
