@@ -451,8 +451,8 @@ impl FieldArgs {
     }
 }
 
-/// A command, as far as its option names are concerned.
-#[derive(Debug, Clone, Copy, PartialEq, Eq)]
+/// A command, as far as its option names are concerned (and as `schema COMMAND` names it).
+#[derive(Debug, Clone, Copy, PartialEq, Eq, clap::ValueEnum)]
 pub enum Cmd {
     Levels,
     Diagram,
@@ -470,6 +470,17 @@ pub enum Cmd {
     ScoFit,
     ScoCurve,
     Structure,
+    #[value(skip)]
+    Schema,
+}
+
+impl Cmd {
+    /// The command's name on the command line.
+    pub fn name(self) -> String {
+        use clap::ValueEnum;
+        self.to_possible_value()
+            .map_or_else(String::new, |v| v.get_name().to_string())
+    }
 }
 
 /// The option of `cmd` that sets `param`, when exactly one does. The one place that maps the

@@ -7,7 +7,7 @@ use crate::spectra::count::BandCount;
 use serde::Serialize;
 
 /// One spin-allowed transition.
-#[derive(Debug, Clone, Serialize)]
+#[derive(Debug, Clone, Serialize, schemars::JsonSchema)]
 pub struct BandRow {
     /// "4A2g → 4T2g".
     pub transition: String,
@@ -18,6 +18,7 @@ pub struct BandRow {
     /// Position (nm).
     pub wavelength_nm: f64,
     pub in_window: bool,
+    /// Electrons that change orbital in the band's main strong-field jump (1 or 2); null when not determined.
     pub electrons_moved: Option<u32>,
     /// One-electron fraction below 0.1 (or a spin-forbidden band): expected weak.
     pub weak: bool,
@@ -40,7 +41,7 @@ pub struct BandRow {
 }
 
 /// Bands inside the window after merging.
-#[derive(Debug, Clone, Serialize)]
+#[derive(Debug, Clone, Serialize, schemars::JsonSchema)]
 pub struct MergedRow {
     /// Mean position (cm⁻¹).
     pub position: f64,
@@ -59,10 +60,11 @@ pub struct MergedRow {
 }
 
 /// The bands of one spin state.
-#[derive(Debug, Clone, Serialize)]
+#[derive(Debug, Clone, Serialize, schemars::JsonSchema)]
 pub struct SpinRow {
     /// "high", "low", "intermediate" or "only".
     pub spin_state: String,
+    /// Spin multiplicity 2S+1 of this spin state.
     pub multiplicity: i32,
     /// Lowest level of this spin.
     pub reference: String,
@@ -72,7 +74,9 @@ pub struct SpinRow {
     pub offset: f64,
     pub bands: Vec<BandRow>,
     pub merged: Vec<MergedRow>,
+    /// Fewest bands of this spin state one may see in the window (weak and hidden bands left out; a count).
     pub min_expected: usize,
+    /// Most bands of this spin state one may see in the window (a count).
     pub max_expected: usize,
     /// Indices into `merged`, most visible first, weakest last.
     pub ranked: Vec<usize>,
@@ -81,8 +85,9 @@ pub struct SpinRow {
 }
 
 /// The whole `bands` report.
-#[derive(Debug, Clone, Serialize)]
+#[derive(Debug, Clone, Serialize, schemars::JsonSchema)]
 pub struct BandsReport {
+    /// Number of d electrons.
     pub dn: usize,
     pub geometry: String,
     /// Dq (cm⁻¹).
@@ -100,6 +105,7 @@ pub struct BandsReport {
     /// Resolution (cm⁻¹).
     pub resolution: f64,
     pub spin_states: Vec<SpinRow>,
+    /// Number of bands observed, when given (a count).
     pub observed: Option<usize>,
     /// "high spin", "low spin", "both", "neither", … (null without --observed).
     pub verdict: Option<String>,

@@ -20,7 +20,7 @@ use serde::Serialize;
 pub const SAFETY: &str = "Safety: cyanide salts are very toxic and release HCN with acid; cobalt, nickel and other heavy-metal compounds are sensitisers or carcinogens and go to heavy-metal waste; perchlorate salts of complexes can explode; superconducting NMR magnets pull ferromagnetic objects and affect implants, and NMR tubes and capillary inserts break easily. Follow your institution's rules, the supplier's SDS and licensed practice; this output is not a safety approval.";
 
 /// One line of evidence.
-#[derive(Debug, Clone, Serialize)]
+#[derive(Debug, Clone, Serialize, schemars::JsonSchema)]
 pub struct EvidenceRow {
     /// "prediction", "structure-field", "evans", "moment", "bands", "bond-length" or
     /// "chit-curve".
@@ -41,7 +41,7 @@ pub struct EvidenceRow {
 }
 
 /// What a structure (`check --structure`) gave: its centre, bonds and field.
-#[derive(Debug, Clone, Serialize)]
+#[derive(Debug, Clone, Serialize, schemars::JsonSchema)]
 pub struct StructureRow {
     /// The structure file.
     pub file: String,
@@ -68,7 +68,7 @@ pub struct StructureRow {
 }
 
 /// The verdict on one complex.
-#[derive(Debug, Clone, Serialize)]
+#[derive(Debug, Clone, Serialize, schemars::JsonSchema)]
 pub struct CheckReport {
     /// Sample name (batch input), null for a single check.
     pub name: Option<String>,
@@ -78,6 +78,7 @@ pub struct CheckReport {
     pub complex: String,
     /// e.g. "Fe(II)".
     pub ion: String,
+    /// Number of d electrons.
     pub dn: usize,
     /// oct, tet or sqpl.
     pub geometry: String,
@@ -270,7 +271,7 @@ impl Render for CheckReport {
 }
 
 /// A bad row of a batch file.
-#[derive(Debug, Clone, Serialize)]
+#[derive(Debug, Clone, Serialize, schemars::JsonSchema)]
 pub struct RowErrorRow {
     /// Line of the file (header = 1).
     pub row: usize,
@@ -292,7 +293,7 @@ impl From<&RowError> for RowErrorRow {
 }
 
 /// Every sample of a batch file.
-#[derive(Debug, Clone, Serialize)]
+#[derive(Debug, Clone, Serialize, schemars::JsonSchema)]
 pub struct BatchReport {
     pub samples: Vec<CheckReport>,
     pub errors: Vec<RowErrorRow>,

@@ -5,10 +5,12 @@ use super::{fmt_num, new_table};
 use serde::Serialize;
 
 /// One crossover row.
-#[derive(Debug, Clone, Serialize)]
+#[derive(Debug, Clone, Serialize, schemars::JsonSchema)]
 pub struct CrossoverRow {
+    /// Number of d electrons.
     pub dn: usize,
     pub geometry: String,
+    /// Racah C/B used (dimensionless).
     pub c_over_b: f64,
     /// Δ/B (Δ = 10Dq) where the ground-state spin changes; null when it never changes.
     pub delta_over_b: Option<f64>,
@@ -26,7 +28,7 @@ pub struct CrossoverRow {
 }
 
 /// The `crossover` report.
-#[derive(Debug, Clone, Serialize)]
+#[derive(Debug, Clone, Serialize, schemars::JsonSchema)]
 pub struct CrossoverReport {
     pub crossovers: Vec<CrossoverRow>,
 }

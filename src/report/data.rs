@@ -6,9 +6,10 @@ use crate::tables::{Ion, Ligand};
 use serde::Serialize;
 
 /// One ion row (energies in cm⁻¹).
-#[derive(Debug, Clone, Serialize)]
+#[derive(Debug, Clone, Serialize, schemars::JsonSchema)]
 pub struct IonRow {
     pub symbol: String,
+    /// Oxidation state of the metal (formal charge, e.g. 2).
     pub oxidation_state: i32,
     /// Name with Roman numeral, e.g. "Fe(II)".
     pub ion: String,
@@ -50,13 +51,15 @@ impl From<&Ion> for IonRow {
 }
 
 /// One ligand row.
-#[derive(Debug, Clone, Serialize)]
+#[derive(Debug, Clone, Serialize, schemars::JsonSchema)]
 pub struct LigandRow {
     pub name: String,
     pub aliases: Vec<String>,
     /// Donor atoms (element symbols); their number is the denticity.
     pub donors: Vec<String>,
+    /// Donor atoms bound per ligand (a count).
     pub denticity: usize,
+    /// Charge of the free ligand (elementary charges).
     pub charge: i32,
     /// Jørgensen f (dimensionless).
     pub f: f64,
@@ -98,7 +101,7 @@ impl From<&Ligand> for LigandRow {
 }
 
 /// `spinstate data ions`.
-#[derive(Debug, Clone, Serialize)]
+#[derive(Debug, Clone, Serialize, schemars::JsonSchema)]
 pub struct IonsReport {
     /// "bundled" or the `--data` directory.
     pub origin: String,
@@ -106,7 +109,7 @@ pub struct IonsReport {
 }
 
 /// `spinstate data ligands`.
-#[derive(Debug, Clone, Serialize)]
+#[derive(Debug, Clone, Serialize, schemars::JsonSchema)]
 pub struct LigandsReport {
     /// "bundled" or the `--data` directory.
     pub origin: String,
@@ -180,7 +183,7 @@ impl Render for LigandsReport {
 }
 
 /// One row of `spinstate data pascal` (χ in 10⁻⁶ cm³ mol⁻¹, cgs).
-#[derive(Debug, Clone, Serialize)]
+#[derive(Debug, Clone, Serialize, schemars::JsonSchema)]
 pub struct PascalRow {
     /// "atom", "cation", "anion", "ligand", "solvent" or "bond" (constitutive correction).
     pub kind: String,
@@ -191,7 +194,7 @@ pub struct PascalRow {
 }
 
 /// `spinstate data pascal`.
-#[derive(Debug, Clone, Serialize)]
+#[derive(Debug, Clone, Serialize, schemars::JsonSchema)]
 pub struct PascalReport {
     pub origin: String,
     pub entries: Vec<PascalRow>,
@@ -215,22 +218,24 @@ impl Render for PascalReport {
 }
 
 /// One row of `spinstate data moment-ranges`.
-#[derive(Debug, Clone, Serialize)]
+#[derive(Debug, Clone, Serialize, schemars::JsonSchema)]
 pub struct MomentRangeRow {
+    /// Number of d electrons.
     pub dn: usize,
     pub geometry: String,
     /// Spin multiplicity 2S+1 of the state.
     pub multiplicity: i32,
     pub ground_term: String,
-    /// Typical μ_eff at room temperature (μB).
+    /// Lower end of the typical room-temperature μ_eff (μB).
     pub mu_min: f64,
+    /// Upper end of the typical room-temperature μ_eff (μB).
     pub mu_max: f64,
     pub examples: String,
     pub source: String,
 }
 
 /// `spinstate data moment-ranges`.
-#[derive(Debug, Clone, Serialize)]
+#[derive(Debug, Clone, Serialize, schemars::JsonSchema)]
 pub struct MomentRangesReport {
     pub origin: String,
     pub ranges: Vec<MomentRangeRow>,
@@ -265,9 +270,10 @@ impl Render for MomentRangesReport {
 }
 
 /// One row of `spinstate data bond-lengths` (Å).
-#[derive(Debug, Clone, Serialize)]
+#[derive(Debug, Clone, Serialize, schemars::JsonSchema)]
 pub struct BondLengthDataRow {
     pub metal: String,
+    /// Oxidation state of the metal (formal charge).
     pub oxidation_state: i32,
     pub donor: String,
     pub donor_class: String,
@@ -282,7 +288,7 @@ pub struct BondLengthDataRow {
 }
 
 /// `spinstate data bond-lengths`.
-#[derive(Debug, Clone, Serialize)]
+#[derive(Debug, Clone, Serialize, schemars::JsonSchema)]
 pub struct BondLengthsReport {
     pub origin: String,
     pub rows: Vec<BondLengthDataRow>,

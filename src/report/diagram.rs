@@ -7,12 +7,13 @@ use crate::plot::style::Column;
 use serde::Serialize;
 
 /// One level followed across the diagram.
-#[derive(Debug, Clone, Serialize)]
+#[derive(Debug, Clone, Serialize, schemars::JsonSchema)]
 pub struct SeriesRow {
     /// Unique column name, e.g. "4T1g(4P)" or "2T2g#3(2H)".
     pub key: String,
     /// Label with multiplicity, e.g. "4T1g".
     pub label: String,
+    /// Spin multiplicity 2S+1.
     pub multiplicity: i32,
     /// Free-ion parent term.
     pub parent: String,
@@ -23,10 +24,12 @@ pub struct SeriesRow {
 }
 
 /// The whole diagram (energies in units of Racah B).
-#[derive(Debug, Clone, Serialize)]
+#[derive(Debug, Clone, Serialize, schemars::JsonSchema)]
 pub struct DiagramReport {
+    /// Number of d electrons.
     pub dn: usize,
     pub geometry: String,
+    /// Racah C/B of the diagram (dimensionless).
     pub c_over_b: f64,
     /// Δ/B values (Δ = 10Dq), evenly spaced from 0 to the maximum, both included.
     pub delta_over_b: Vec<f64>,

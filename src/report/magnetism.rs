@@ -8,7 +8,7 @@ use crate::units;
 use serde::Serialize;
 
 /// One temperature point (cgs-emu units unless the report's `units` is "si").
-#[derive(Debug, Clone, Serialize)]
+#[derive(Debug, Clone, Serialize, schemars::JsonSchema)]
 pub struct MagnetismPoint {
     /// Temperature (K).
     pub t: f64,
@@ -23,15 +23,18 @@ pub struct MagnetismPoint {
 }
 
 /// The whole `magnetism` report.
-#[derive(Debug, Clone, Serialize)]
+#[derive(Debug, Clone, Serialize, schemars::JsonSchema)]
 pub struct MagnetismReport {
     /// Unit system of χ and χT: "cgs" (cm³ mol⁻¹, default) or "si" (m³ mol⁻¹).
     pub units: String,
+    /// Number of d electrons.
     pub dn: usize,
     pub geometry: String,
-    /// Racah B, C and Dq (cm⁻¹).
+    /// Racah B (cm⁻¹).
     pub b: f64,
+    /// Racah C (cm⁻¹).
     pub c: f64,
+    /// Dq (cm⁻¹).
     pub dq: f64,
     /// Spin–orbit constant used in the Hamiltonian (cm⁻¹, after any reduction by κ).
     pub zeta: f64,

@@ -24,7 +24,7 @@ pub mod structure_spin;
 pub mod tetragonal_fit;
 
 use comfy_table::{presets::UTF8_FULL_CONDENSED, ContentArrangement, Table};
-pub use render::{to_json, Render};
+pub use render::{to_json, JsonSchema, Render};
 
 /// A table with the project's style and the given header.
 pub fn new_table<I, S>(header: I) -> Table

@@ -46,3 +46,72 @@ pub fn to_json<T: Serialize + ?Sized>(report: &T) -> String {
     s.push('\n');
     s
 }
+
+/// The JSON Schema (draft 2020-12, of the serialised form) of what a command prints with
+/// `--json`: one report type, or one of several, each with the case it is printed in.
+/// Descriptions are the fields' doc comments, which state units.
+pub struct JsonSchema {
+    generator: schemars::SchemaGenerator,
+    cases: Vec<(String, schemars::Schema)>,
+}
+
+impl JsonSchema {
+    pub fn new() -> Self {
+        JsonSchema {
+            generator: schemars::generate::SchemaSettings::draft2020_12()
+                .for_serialize()
+                .into_generator(),
+            cases: Vec::new(),
+        }
+    }
+
+    /// Adds a report type the command prints `when` (a few words, e.g. "one complex").
+    pub fn case<T: schemars::JsonSchema>(mut self, when: &str) -> Self {
+        let schema = self.generator.subschema_for::<T>();
+        self.cases.push((when.to_string(), schema));
+        self
+    }
+
+    /// The schema as a JSON value, titled `title`.
+    pub fn finish(mut self, title: &str) -> serde_json::Value {
+        use serde_json::{json, Value};
+        let mut root = serde_json::Map::new();
+        root.insert(
+            "$schema".into(),
+            json!("https://json-schema.org/draft/2020-12/schema"),
+        );
+        root.insert("title".into(), json!(title));
+        let cases: Vec<Value> = self
+            .cases
+            .into_iter()
+            .map(|(when, schema)| {
+                let mut v = schema.to_value();
+                if let Value::Object(m) = &mut v {
+                    m.insert("description".into(), json!(when));
+                }
+                v
+            })
+            .collect();
+        match <[Value; 1]>::try_from(cases) {
+            Ok([one]) => {
+                if let Value::Object(m) = one {
+                    root.extend(m);
+                }
+            }
+            Err(many) => {
+                root.insert("oneOf".into(), Value::Array(many));
+            }
+        }
+        let defs = self.generator.take_definitions(true);
+        if !defs.is_empty() {
+            root.insert("$defs".into(), Value::Object(defs));
+        }
+        Value::Object(root)
+    }
+}
+
+impl Default for JsonSchema {
+    fn default() -> Self {
+        Self::new()
+    }
+}

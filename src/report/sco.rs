@@ -17,7 +17,7 @@ use crate::sco::model::{simulate, Branch, Transition, GAS_CONSTANT};
 use serde::Serialize;
 
 /// One data point with the fitted value.
-#[derive(Debug, Clone, Serialize)]
+#[derive(Debug, Clone, Serialize, schemars::JsonSchema)]
 pub struct ResidualRow {
     /// K.
     pub t: f64,
@@ -32,44 +32,57 @@ pub struct ResidualRow {
 }
 
 /// The `sco-fit` report.
-#[derive(Debug, Clone, Serialize)]
+#[derive(Debug, Clone, Serialize, schemars::JsonSchema)]
 pub struct FitReport {
     /// "ideal" or "cooperative".
     pub model: String,
     /// Where the values came from.
     pub source: String,
+    /// Number of data points fitted.
     pub points: usize,
     /// T½ (K).
     pub t_half: f64,
+    /// 1σ of T½ (K); null when not determined.
     pub t_half_err: Option<f64>,
     /// ΔH (kJ mol⁻¹).
     pub dh: f64,
+    /// 1σ of ΔH (kJ mol⁻¹); null when not determined.
     pub dh_err: Option<f64>,
     /// ΔS (J mol⁻¹ K⁻¹).
     pub ds: f64,
+    /// 1σ of ΔS (J mol⁻¹ K⁻¹); null when not determined.
     pub ds_err: Option<f64>,
     /// Γ (kJ mol⁻¹); 0 for the ideal model.
     pub gamma: f64,
+    /// 1σ of Γ (kJ mol⁻¹); null when not fitted.
     pub gamma_err: Option<f64>,
     /// Γ/(2RT½): above 1 the transition is first order with hysteresis.
     pub gamma_over_2rt_half: f64,
-    /// Turning points of the loop (K); null without hysteresis.
+    /// Lower turning point T↓ of the loop (K); null without hysteresis.
     pub t_down: Option<f64>,
+    /// 1σ of T↓ (K); null without hysteresis.
     pub t_down_err: Option<f64>,
+    /// Upper turning point T↑ of the loop (K); null without hysteresis.
     pub t_up: Option<f64>,
+    /// 1σ of T↑ (K); null without hysteresis.
     pub t_up_err: Option<f64>,
     /// T↑ − T↓ (K); null without hysteresis.
     pub loop_width: Option<f64>,
-    /// χ_M·T of the pure high- and low-spin states (cm³ K mol⁻¹).
+    /// χ_M·T of the pure high-spin state (cm³ K mol⁻¹).
     pub chit_hs: f64,
+    /// 1σ of the high-spin χ_M·T (cm³ K mol⁻¹); null when fixed.
     pub chit_hs_err: Option<f64>,
+    /// χ_M·T of the pure low-spin state (cm³ K mol⁻¹).
     pub chit_ls: f64,
+    /// 1σ of the low-spin χ_M·T (cm³ K mol⁻¹); null when fixed.
     pub chit_ls_err: Option<f64>,
     /// Trapped high-spin fraction r.
     pub residual_hs_fraction: f64,
+    /// 1σ of the trapped high-spin fraction; null when not fitted.
     pub residual_hs_fraction_err: Option<f64>,
     /// R ln[(2S_HS+1)/(2S_LS+1)] (J mol⁻¹ K⁻¹) and ΔS minus it; null without the spins.
     pub ds_spin: Option<f64>,
+    /// ΔS minus its spin part (J mol⁻¹ K⁻¹, mostly vibrational); null without the spins.
     pub ds_other: Option<f64>,
     /// RMS of the residuals (cm³ K mol⁻¹).
     pub rms: f64,
@@ -460,33 +473,42 @@ fn figure(
 }
 
 /// One simulated point.
-#[derive(Debug, Clone, Serialize)]
+#[derive(Debug, Clone, Serialize, schemars::JsonSchema)]
 pub struct CurveRow {
     /// K.
     pub t: f64,
-    /// High-spin fraction on the heating and cooling branches (equal outside a loop).
+    /// High-spin fraction on the heating branch (0..1; equal to cooling outside a loop).
     pub gamma_heating: f64,
+    /// High-spin fraction on the cooling branch (0..1).
     pub gamma_cooling: f64,
-    /// χ_M·T on each branch (cm³ K mol⁻¹).
+    /// χ_M·T on the heating branch (cm³ K mol⁻¹).
     pub chit_heating: f64,
+    /// χ_M·T on the cooling branch (cm³ K mol⁻¹).
     pub chit_cooling: f64,
 }
 
 /// The `sco-curve` report.
-#[derive(Debug, Clone, Serialize)]
+#[derive(Debug, Clone, Serialize, schemars::JsonSchema)]
 pub struct CurveReport {
-    /// kJ mol⁻¹, J mol⁻¹ K⁻¹, kJ mol⁻¹.
+    /// ΔH = H_HS − H_LS (kJ mol⁻¹).
     pub dh: f64,
+    /// ΔS = S_HS − S_LS (J mol⁻¹ K⁻¹).
     pub ds: f64,
+    /// Interaction parameter Γ (kJ mol⁻¹); 0 for the ideal model.
     pub gamma: f64,
     /// T½ = ΔH/ΔS (K).
     pub t_half: f64,
+    /// Γ/(2RT½) (dimensionless): above 1 the transition is first order with hysteresis.
     pub gamma_over_2rt_half: f64,
+    /// Trapped high-spin fraction r (0 ≤ r < 1).
     pub residual_hs_fraction: f64,
-    /// Turning points (K); null without hysteresis.
+    /// Lower turning point T↓ (K); null without hysteresis.
     pub t_down: Option<f64>,
+    /// Upper turning point T↑ (K); null without hysteresis.
     pub t_up: Option<f64>,
+    /// χ_M·T of the pure high-spin state (cm³ K mol⁻¹).
     pub chit_hs: f64,
+    /// χ_M·T of the pure low-spin state (cm³ K mol⁻¹).
     pub chit_ls: f64,
     pub points: Vec<CurveRow>,
     #[serde(skip)]

@@ -6,6 +6,7 @@
 //! Type for Comma-Separated Values (CSV) Files", 2005): a header, then records of its width.
 
 use crate::common::run;
+use serde_json::Value;
 
 /// One quick run of every command (and of each way `data`, `check` and `predict` produce
 /// their output); a command missing here fails `every_command_has_an_example`.
@@ -220,6 +221,7 @@ const EXAMPLES: &[&[&str]] = &[
         "--ox",
         "2",
     ],
+    &["schema", "levels"],
 ];
 
 fn with(args: &[&str], extra: &[&str]) -> Vec<String> {
@@ -364,4 +366,191 @@ fn jsonl_only_where_rows_stream() {
             assert!(v["row"].is_u64(), "{l}");
         }
     }
+}
+
+/// Resolves a local `$ref` ("#/$defs/Name") against the root schema.
+fn resolve<'a>(root: &'a Value, schema: &'a Value) -> &'a Value {
+    match schema.get("$ref").and_then(Value::as_str) {
+        Some(r) => root
+            .pointer(r.trim_start_matches('#'))
+            .unwrap_or_else(|| panic!("dangling $ref {r}")),
+        None => schema,
+    }
+}
+
+/// Whether `v` has the JSON type `t` (an integer is also a number).
+fn has_type(v: &Value, t: &str) -> bool {
+    match t {
+        "null" => v.is_null(),
+        "boolean" => v.is_boolean(),
+        "integer" => v.is_i64() || v.is_u64(),
+        "number" => v.is_number(),
+        "string" => v.is_string(),
+        "array" => v.is_array(),
+        "object" => v.is_object(),
+        _ => panic!("unknown type {t}"),
+    }
+}
+
+/// Checks `v` against the part of JSON Schema (draft 2020-12) the report schemas use: `type`,
+/// `properties` with `required` (and no key outside them), `items`, `oneOf`/`anyOf`, `$ref`,
+/// `enum`/`const`. Returns what does not fit, with its path.
+fn mismatch(root: &Value, schema: &Value, v: &Value, path: &str) -> Option<String> {
+    let s = resolve(root, schema);
+    if let Some(alts) = s
+        .get("oneOf")
+        .or_else(|| s.get("anyOf"))
+        .and_then(Value::as_array)
+    {
+        let fits = alts
+            .iter()
+            .filter(|a| mismatch(root, a, v, path).is_none())
+            .count();
+        let ok = if s.get("oneOf").is_some() {
+            fits == 1
+        } else {
+            fits >= 1
+        };
+        if !ok {
+            return Some(format!("{path}: {fits} alternatives fit"));
+        }
+    }
+    if let Some(t) = s.get("type") {
+        let types: Vec<&str> = match t {
+            Value::String(t) => vec![t.as_str()],
+            Value::Array(ts) => ts.iter().filter_map(Value::as_str).collect(),
+            _ => panic!("type {t}"),
+        };
+        if !types.iter().any(|t| has_type(v, t)) {
+            return Some(format!("{path}: {v} is not {types:?}"));
+        }
+    }
+    if let Some(options) = s.get("enum").and_then(Value::as_array) {
+        if !options.contains(v) {
+            return Some(format!("{path}: {v} not in {options:?}"));
+        }
+    }
+    if let Some(c) = s.get("const") {
+        if c != v {
+            return Some(format!("{path}: {v} is not {c}"));
+        }
+    }
+    if let (Some(props), Some(obj)) = (
+        s.get("properties").and_then(Value::as_object),
+        v.as_object(),
+    ) {
+        for key in s
+            .get("required")
+            .and_then(Value::as_array)
+            .into_iter()
+            .flatten()
+        {
+            if !obj.contains_key(key.as_str().unwrap()) {
+                return Some(format!("{path}: required {key} missing"));
+            }
+        }
+        for (k, x) in obj {
+            let Some(p) = props.get(k) else {
+                return Some(format!("{path}: {k} is not in the schema"));
+            };
+            if let Some(m) = mismatch(root, p, x, &format!("{path}.{k}")) {
+                return Some(m);
+            }
+        }
+    }
+    if let (Some(items), Some(arr)) = (s.get("items"), v.as_array()) {
+        for (i, x) in arr.iter().enumerate() {
+            if let Some(m) = mismatch(root, items, x, &format!("{path}[{i}]")) {
+                return Some(m);
+            }
+        }
+    }
+    None
+}
+
+/// The schema of a command's --json.
+fn schema(command: &str) -> Value {
+    let (code, out, err) = run(&["schema", command]);
+    assert_eq!(code, 0, "{err}");
+    serde_json::from_str(&out).unwrap()
+}
+
+/// `schema COMMAND` describes what `COMMAND --json` prints: every example's output fits its
+/// command's schema, with no field the schema lacks (the schema is derived from the report
+/// types, so a new field shows up in both).
+#[test]
+fn schema_of_every_command_fits_its_json() {
+    let mut checked = 0;
+    for e in EXAMPLES.iter().filter(|e| e[0] != "schema") {
+        let s = schema(e[0]);
+        assert_eq!(
+            s["$schema"], "https://json-schema.org/draft/2020-12/schema",
+            "{e:?}"
+        );
+        let (code, out, err) = run_owned(&with(e, &["--json"]));
+        assert_eq!(code, 0, "{err}");
+        let v: Value = serde_json::from_str(&out).unwrap();
+        if let Some(m) = mismatch(&s, &s, &v, e[0]) {
+            panic!("{e:?}: {m}");
+        }
+        checked += 1;
+    }
+    assert!(checked >= 25, "{checked}");
+    // The checker itself refuses what does not fit.
+    let s = schema("crossover");
+    let (_, out, _) = run(&["crossover", "--dn", "6", "--json"]);
+    let mut v: Value = serde_json::from_str(&out).unwrap();
+    v["crossovers"][0]["dn"] = Value::from("six");
+    assert!(mismatch(&s, &s, &v, "crossover").is_some());
+    v["crossovers"][0]["dn"] = Value::from(6);
+    v["extra"] = Value::from(1);
+    assert!(mismatch(&s, &s, &v, "crossover").is_some());
+    let (code, _, err) = run(&["schema", "nonsense"]);
+    assert_eq!(code, 2);
+    assert_eq!(err.trim().lines().count(), 1, "{err}");
+}
+
+/// Every number in every command's JSON has a description (which states its unit, or that it
+/// is a count or dimensionless: units in JSON field docs are the project's rule).
+#[test]
+fn every_number_in_a_schema_is_described() {
+    fn walk(s: &Value, at: &str, missing: &mut Vec<String>) {
+        if let Some(props) = s.get("properties").and_then(Value::as_object) {
+            for (k, p) in props {
+                let types = match p.get("type") {
+                    Some(Value::String(t)) => vec![t.clone()],
+                    Some(Value::Array(ts)) => ts
+                        .iter()
+                        .filter_map(|t| t.as_str().map(String::from))
+                        .collect(),
+                    _ => Vec::new(),
+                };
+                let item_number = p["items"]["type"] == "number";
+                let numeric = types.iter().any(|t| t == "number" || t == "integer") || item_number;
+                if numeric && p.get("description").is_none() {
+                    missing.push(format!("{at}.{k}"));
+                }
+            }
+        }
+        if let Some(defs) = s.get("$defs").and_then(Value::as_object) {
+            for (name, d) in defs {
+                walk(d, name, missing);
+            }
+        }
+        for kw in ["oneOf", "anyOf"] {
+            for a in s.get(kw).and_then(Value::as_array).into_iter().flatten() {
+                walk(a, at, missing);
+            }
+        }
+    }
+    let mut missing = Vec::new();
+    for c in commands().iter().filter(|c| *c != "schema") {
+        walk(&schema(c), c, &mut missing);
+    }
+    missing.sort();
+    missing.dedup();
+    assert!(
+        missing.is_empty(),
+        "numbers without a description: {missing:?}"
+    );
 }
