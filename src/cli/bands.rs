@@ -1,10 +1,9 @@
 //! `spinstate bands`: which spin-allowed bands each spin state puts in a spectrometer window.
 
-use super::common::{ComplexArgs, Format};
+use super::common::{emit, ComplexArgs, OutputArgs};
 use super::fit_bands::SAFETY;
 use super::{Failure, Output};
 use spinstate::report::bands::BandsReport;
-use spinstate::report::to_json;
 use spinstate::spectra::count::{
     charge_transfer_limit, count_bands, ChargeTransferLimit, CountRequest, DEFAULT_RESOLUTION,
 };
@@ -62,7 +61,7 @@ pub struct Args {
     #[arg(long, value_name = "N")]
     pub observed: Option<usize>,
     #[command(flatten)]
-    pub format: Format,
+    pub output: OutputArgs,
 }
 
 /// Parses "200-1100" or "200,1100" (nm).
@@ -169,9 +168,5 @@ pub fn run(args: &Args, data: &DataSet) -> Result<Output, Failure> {
         charge_transfer,
     };
     let report = BandsReport::new(&count_bands(&req)?);
-    Ok(Output::text(if args.format.json {
-        to_json(&report)
-    } else {
-        report.to_table()
-    }))
+    emit(&report, &(), args.output.asked())
 }

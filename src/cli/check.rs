@@ -1,7 +1,7 @@
 //! `spinstate check`: one verdict on the spin state from all the evidence, for one complex given
 //! by options or for every row of a CSV file (`--input`).
 
-use super::common::Format;
+use super::common::{emit, CsvOutput, JsonlOutput, OutputArgs};
 use super::figure::write_html;
 use super::{Failure, Output};
 use indicatif::{ProgressBar, ProgressStyle};
@@ -12,7 +12,6 @@ use spinstate::report::check::{
 };
 use spinstate::report::figures::sample_figures;
 use spinstate::report::html::{self, parameter_rows, Section};
-use spinstate::report::to_json;
 use spinstate::tables::DataSet;
 use std::io::IsTerminal;
 use std::path::{Path, PathBuf};
@@ -21,7 +20,11 @@ use std::path::{Path, PathBuf};
 const PROGRESS_FROM: usize = 20;
 
 #[derive(Debug, clap::Args)]
-#[command(after_help = SAFETY)]
+#[command(
+    after_help = SAFETY,
+    mut_arg("csv", |a| a.help("Also write the verdicts as CSV to FILE ('-' for stdout, instead of the table or JSON)")),
+    mut_arg("jsonl", |a| a.requires("input").help("With --input: print one JSON object per line as each row is checked (a sample's report under \"sample\", a bad row under \"error\", each with its \"row\")"))
+)]
 pub struct Args {
     /// CSV file with one sample per row (columns: see the manual, `cargo doc` → spinstate::manual, or `data/demo/samples.csv`).
     #[arg(long, value_name = "FILE", conflicts_with_all = ["metal", "ligands"])]
@@ -138,18 +141,15 @@ pub struct Args {
     /// direction), fitted and weighed as evidence.
     #[arg(long, value_name = "FILE")]
     pub chit_file: Option<PathBuf>,
-    /// Also write the verdicts as CSV to FILE.
-    #[arg(long, value_name = "FILE")]
-    pub csv: Option<PathBuf>,
-    /// With --input: print one JSON object per line as each row is checked (a sample's report
-    /// under "sample", a bad row under "error", each with its "row").
-    #[arg(long, requires = "input", conflicts_with = "json")]
-    pub jsonl: bool,
+    #[command(flatten)]
+    pub csv: CsvOutput,
+    #[command(flatten)]
+    pub jsonl: JsonlOutput,
     /// Also write a self-contained HTML report (inline figures, printable) to FILE.
     #[arg(long, value_name = "FILE")]
     pub html: Option<PathBuf>,
     #[command(flatten)]
-    pub format: Format,
+    pub output: OutputArgs,
 }
 
 /// The command-line option that sets a batch column ("evans_conc" → "--evans-conc").
@@ -408,17 +408,6 @@ pub fn html_section(
     })
 }
 
-/// Writes CSV text to `path`; `-` means stdout, which the caller then prints instead of the
-/// table or JSON (returns true).
-fn write_csv(path: &Path, text: &str) -> Result<bool, Failure> {
-    if path.as_os_str() == "-" {
-        return Ok(true);
-    }
-    std::fs::write(path, text)
-        .map_err(|e| Failure::usage(format!("--csv: cannot write {}: {e}", path.display())))?;
-    Ok(false)
-}
-
 /// CSV records as text, without a header row of their own.
 fn csv_text(records: &[Vec<String>]) -> Result<String, Failure> {
     let mut w = csv::WriterBuilder::new()
@@ -446,6 +435,21 @@ enum Stream {
     JsonLines,
     /// `--csv -`: the CSV rows are the output.
     Csv,
+}
+
+impl Stream {
+    /// The form the shared output options ask for on stdout.
+    fn of(asked: &super::common::Asked<'_>, jsonl: &JsonlOutput) -> Stream {
+        if asked.csv_to_stdout() {
+            Stream::Csv
+        } else if jsonl.lines {
+            Stream::JsonLines
+        } else if asked.json {
+            Stream::Json
+        } else {
+            Stream::Table
+        }
+    }
 }
 
 fn write_failed(e: std::io::Error) -> Failure {
@@ -505,18 +509,11 @@ fn stream_batch(args: &Args, path: &Path, data: &DataSet) -> Result<Output, Fail
     let mut reader = batch::BatchReader::new(std::io::BufReader::new(file)).map_err(input_error)?;
     let loaded = loaded(data)?;
     let base = path.parent();
-    let csv_to_stdout = args.csv.as_deref().is_some_and(|p| p.as_os_str() == "-");
-    let mode = if csv_to_stdout {
-        Stream::Csv
-    } else if args.jsonl {
-        Stream::JsonLines
-    } else if args.format.json {
-        Stream::Json
-    } else {
-        Stream::Table
-    };
-    let mut csv_out = match &args.csv {
-        Some(file) if !csv_to_stdout => {
+    let asked = args.output.asked().csv(&args.csv);
+    let mode = Stream::of(&asked, &args.jsonl);
+    let csv_file = asked.csv.filter(|_| mode != Stream::Csv);
+    let mut csv_out = match csv_file {
+        Some(file) => {
             let mut w = csv::Writer::from_path(file).map_err(|e| {
                 Failure::usage(format!("--csv: cannot write {}: {e}", file.display()))
             })?;
@@ -646,16 +643,26 @@ fn stream_batch(args: &Args, path: &Path, data: &DataSet) -> Result<Output, Fail
     }
     Ok(Output {
         stdout: String::new(),
-        warnings: errors
-            .iter()
-            .map(|e| format!("error: {}: {e}", path.display()))
+        warnings: csv_file
+            .map(|f| format!("wrote {}", f.display()))
+            .into_iter()
+            .chain(
+                errors
+                    .iter()
+                    .map(|e| format!("error: {}: {e}", path.display())),
+            )
             .collect(),
         code: if errors.is_empty() { 0 } else { 2 },
     })
 }
 
 pub fn run(args: &Args, data: &DataSet) -> Result<Output, Failure> {
-    super::figure::only_with(args.jsonl, "--jsonl", args.input.is_some(), "--input FILE")?;
+    super::figure::only_with(
+        args.jsonl.lines,
+        "--jsonl",
+        args.input.is_some(),
+        "--input FILE",
+    )?;
     args.centre.check_used(args.structure.is_some())?;
     if let (Some(path), None) = (&args.input, &args.html) {
         return stream_batch(args, path, data);
@@ -665,34 +672,18 @@ pub fn run(args: &Args, data: &DataSet) -> Result<Output, Failure> {
             .map_err(|e| Failure::usage(format!("--input: cannot read {}: {e}", path.display())))?;
         let (report, bad, sections) =
             run_batch_with(&text, path.parent(), data, args.html.is_some())?;
-        let csv_to_stdout = match &args.csv {
-            Some(csv) => write_csv(csv, &report.to_csv())?,
-            None => false,
-        };
-        let mut notes = Vec::new();
+        let mut out = emit(&report, &(), args.output.asked().csv(&args.csv))?;
         if let Some(file) = &args.html {
             let title = format!("Spin-state check of {}", path.display());
             let page = html::page(&title, None, &sections, &report.errors, SAFETY);
-            notes.push(write_html(&page, file)?);
+            out.warnings.push(write_html(&page, file)?);
         }
-        let stdout = if csv_to_stdout {
-            report.to_csv()
-        } else if args.format.json {
-            to_json(&report)
-        } else {
-            format!("{}{}\n", report.to_table(), SAFETY)
-        };
-        return Ok(Output {
-            stdout,
-            warnings: notes
-                .into_iter()
-                .chain(
-                    bad.iter()
-                        .map(|e| format!("error: {}: {e}", path.display())),
-                )
-                .collect(),
-            code: if bad.is_empty() { 0 } else { 2 },
-        });
+        out.warnings.extend(
+            bad.iter()
+                .map(|e| format!("error: {}: {e}", path.display())),
+        );
+        out.code = if bad.is_empty() { 0 } else { 2 };
+        return Ok(out);
     }
     let given = match &args.structure {
         Some(path) => Some(read_structure_input(args, path, data)?),
@@ -735,18 +726,7 @@ pub fn run(args: &Args, data: &DataSet) -> Result<Output, Failure> {
         error: None,
     })?;
     let report = CheckReport::new(&result, None, None).with_safety();
-    let one_csv = || BatchReport::new(vec![report.clone()], Vec::new()).to_csv();
-    let csv_to_stdout = match &args.csv {
-        Some(csv) => write_csv(csv, &one_csv())?,
-        None => false,
-    };
-    let mut out = Output::text(if csv_to_stdout {
-        one_csv()
-    } else if args.format.json {
-        to_json(&report)
-    } else {
-        report.to_table()
-    });
+    let mut out = emit(&report, &(), args.output.asked().csv(&args.csv))?;
     out.warnings.extend(structure_notes);
     if let Some(file) = &args.html {
         let section = html_section(&sample.input, &result, report.clone())?;

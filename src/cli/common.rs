@@ -3,16 +3,179 @@
 use super::Failure;
 use spinstate::complex::LigandCount;
 use spinstate::engine::{Calculation, Geometry};
+use spinstate::report::Render;
 use spinstate::tables::DataSet;
 use spinstate::Param;
-use std::path::Path;
+use std::path::{Path, PathBuf};
 
-/// Output format options.
-#[derive(Debug, Clone, clap::Args)]
-pub struct Format {
+/// The output options every command takes (`--json`; a form every report has, built from
+/// serde like JSON, goes here too). The output options are declared in this file once: this
+/// struct, and one struct per form only some reports have (CSV, SVG, JSON lines), which a
+/// command flattens when its report has that form (clap then refuses the others in one line).
+/// [`Asked`] gathers what was asked and [`emit`] renders it.
+#[derive(Debug, Clone, Default, clap::Args)]
+pub struct OutputArgs {
     /// Print machine-readable JSON (a top-level object) instead of a table.
     #[arg(long)]
     pub json: bool,
+}
+
+/// `--csv FILE` ('-' for stdout), for commands whose report has a CSV form.
+#[derive(Debug, Clone, Default, clap::Args)]
+pub struct CsvOutput {
+    /// Also write the result as CSV (header row, full precision) to FILE ('-' for stdout,
+    /// instead of the table or JSON).
+    #[arg(long = "csv", id = "csv", value_name = "FILE")]
+    pub file: Option<PathBuf>,
+}
+
+/// `--svg FILE` ('-' for stdout), for commands whose report has a figure.
+#[derive(Debug, Clone, Default, clap::Args)]
+pub struct SvgOutput {
+    /// Write an SVG figure to FILE ('-' for stdout, instead of the table or JSON).
+    #[arg(long = "svg", id = "svg", value_name = "FILE")]
+    pub file: Option<PathBuf>,
+}
+
+/// `--jsonl`, for commands that stream rows.
+#[derive(Debug, Clone, Default, clap::Args)]
+pub struct JsonlOutput {
+    /// Print one JSON object per line as each row is done.
+    #[arg(long = "jsonl", id = "jsonl", conflicts_with = "json")]
+    pub lines: bool,
+}
+
+/// What the output options of a command ask for.
+#[derive(Debug, Clone, Copy, Default)]
+pub struct Asked<'a> {
+    pub json: bool,
+    pub csv: Option<&'a Path>,
+    pub svg: Option<&'a Path>,
+    pub png: Option<&'a Path>,
+}
+
+/// `-` as a file name: standard output.
+fn is_stdout(path: Option<&Path>) -> bool {
+    path.is_some_and(|p| p.as_os_str() == "-")
+}
+
+impl OutputArgs {
+    /// The output asked for by this option alone; add the others with [`Asked::csv`], … .
+    pub fn asked(&self) -> Asked<'_> {
+        Asked {
+            json: self.json,
+            ..Asked::default()
+        }
+    }
+}
+
+impl<'a> Asked<'a> {
+    pub fn csv(self, o: &'a CsvOutput) -> Self {
+        Asked {
+            csv: o.file.as_deref(),
+            ..self
+        }
+    }
+
+    pub fn svg(self, o: &'a SvgOutput) -> Self {
+        Asked {
+            svg: o.file.as_deref(),
+            ..self
+        }
+    }
+
+    /// The PNG copy of the figure (`--png` of [`super::figure::FigureArgs`]).
+    pub fn figure(self, f: &'a super::figure::FigureArgs) -> Self {
+        Asked {
+            png: f.png.as_deref(),
+            ..self
+        }
+    }
+
+    /// `--csv -`: the CSV is what goes to stdout.
+    pub fn csv_to_stdout(&self) -> bool {
+        is_stdout(self.csv)
+    }
+
+    /// True when stdout gets the human table (no JSON, no CSV or SVG to stdout).
+    pub fn shows_table(&self) -> bool {
+        !self.json && !self.csv_to_stdout() && !is_stdout(self.svg)
+    }
+}
+
+/// Writes a rendered form to `path` for `option`, returning the note for stderr.
+fn write_form(
+    option: &str,
+    path: &Path,
+    text: &str,
+    summary: Option<String>,
+) -> Result<String, Failure> {
+    std::fs::write(path, text)
+        .map_err(|e| Failure::usage(format!("{option}: cannot write {}: {e}", path.display())))?;
+    Ok(match summary {
+        Some(s) => format!("wrote {} ({s})", path.display()),
+        None => format!("wrote {}", path.display()),
+    })
+}
+
+/// A form the command's report does not have (a command flattens only the options of the
+/// forms it has, so this names a mistake in the command line layer, said in one line).
+fn unavailable(option: &str) -> Failure {
+    Failure::usage(format!(
+        "{option} is not available for this result; accepted: --json and the options in --help"
+    ))
+}
+
+/// The one way a command's result leaves the program: the files asked for (CSV, SVG, PNG;
+/// each noted on stderr), and on stdout the CSV or SVG when its file is '-', else the JSON
+/// with --json, else the table. `figure` is what the report's figure needs beyond its data
+/// (`&()` for reports without one).
+pub fn emit<R: Render>(
+    report: &R,
+    figure: &R::Figure,
+    asked: Asked<'_>,
+) -> Result<super::Output, Failure> {
+    if asked.csv_to_stdout() && is_stdout(asked.svg) {
+        return Err(Failure::usage(
+            "--csv - and --svg - both ask for stdout: write one of them to a FILE",
+        ));
+    }
+    let mut out = super::Output::default();
+    let mut stdout = None;
+    if let Some(path) = asked.csv {
+        let text = report.csv().ok_or_else(|| unavailable("--csv"))?;
+        if is_stdout(Some(path)) {
+            stdout = Some(text);
+        } else {
+            out.warnings
+                .push(write_form("--csv", path, &text, report.csv_summary())?);
+        }
+    }
+    if asked.svg.is_some() || asked.png.is_some() {
+        let svg = report.svg(figure).ok_or_else(|| {
+            unavailable(if asked.svg.is_some() {
+                "--svg"
+            } else {
+                "--png"
+            })
+        })?;
+        if let Some(path) = asked.svg {
+            if is_stdout(Some(path)) {
+                stdout = Some(svg.clone());
+            } else {
+                out.warnings.push(write_form("--svg", path, &svg, None)?);
+            }
+        }
+        if let Some(path) = asked.png {
+            out.warnings.push(super::figure::write_png(&svg, path)?);
+        }
+    }
+    out.stdout = match stdout {
+        Some(text) => text,
+        None if asked.json => report.json(),
+        None => report.table(),
+    };
+    Ok(out)
 }
 
 /// The parameters of one ligand-field calculation: absolute (cm⁻¹) or as ratios to B.
@@ -108,62 +271,6 @@ impl ComplexArgs {
             None => Ok(None),
         }
     }
-}
-
-/// How a report that also has CSV and SVG forms renders itself.
-pub struct Renderings<C, S, J, T>
-where
-    C: Fn() -> String,
-    S: Fn() -> Result<String, String>,
-    J: Fn() -> String,
-    T: Fn() -> String,
-{
-    pub csv: C,
-    pub svg: S,
-    pub json: J,
-    pub table: T,
-}
-
-/// Writes the CSV (to a file, or to stdout with '-') and SVG files asked for, noting each file
-/// written, and puts the CSV, the JSON or the table on stdout.
-pub fn emit<C, S, J, T>(
-    csv: Option<&Path>,
-    svg: Option<&Path>,
-    json: bool,
-    r: Renderings<C, S, J, T>,
-) -> Result<super::Output, Failure>
-where
-    C: Fn() -> String,
-    S: Fn() -> Result<String, String>,
-    J: Fn() -> String,
-    T: Fn() -> String,
-{
-    let mut out = super::Output::default();
-    let mut csv_to_stdout = false;
-    if let Some(path) = csv {
-        if path.as_os_str() == "-" {
-            csv_to_stdout = true;
-        } else {
-            std::fs::write(path, (r.csv)()).map_err(|e| {
-                Failure::usage(format!("--csv: cannot write {}: {e}", path.display()))
-            })?;
-            out.warnings.push(format!("wrote {}", path.display()));
-        }
-    }
-    if let Some(path) = svg {
-        let text = (r.svg)().map_err(|e| Failure::usage(format!("--svg: drawing failed: {e}")))?;
-        std::fs::write(path, text)
-            .map_err(|e| Failure::usage(format!("--svg: cannot write {}: {e}", path.display())))?;
-        out.warnings.push(format!("wrote {}", path.display()));
-    }
-    out.stdout = if csv_to_stdout {
-        (r.csv)()
-    } else if json {
-        (r.json)()
-    } else {
-        (r.table)()
-    };
-    Ok(out)
 }
 
 /// Resolves a complex given as metal, oxidation state, geometry and NAME[:COUNT] ligands, with
@@ -344,8 +451,8 @@ impl FieldArgs {
     }
 }
 
-/// A command, as far as its option names are concerned.
-#[derive(Debug, Clone, Copy, PartialEq, Eq)]
+/// A command, as far as its option names are concerned (and as `schema COMMAND` names it).
+#[derive(Debug, Clone, Copy, PartialEq, Eq, clap::ValueEnum)]
 pub enum Cmd {
     Levels,
     Diagram,
@@ -363,6 +470,17 @@ pub enum Cmd {
     ScoFit,
     ScoCurve,
     Structure,
+    #[value(skip)]
+    Schema,
+}
+
+impl Cmd {
+    /// The command's name on the command line.
+    pub fn name(self) -> String {
+        use clap::ValueEnum;
+        self.to_possible_value()
+            .map_or_else(String::new, |v| v.get_name().to_string())
+    }
 }
 
 /// The option of `cmd` that sets `param`, when exactly one does. The one place that maps the

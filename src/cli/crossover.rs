@@ -1,10 +1,9 @@
 //! `spinstate crossover`: the Δ/B where the ground-state spin changes.
 
-use super::common::Format;
+use super::common::{emit, OutputArgs};
 use super::{Failure, Output};
 use spinstate::engine::{crossover, tanabe_sugano_c_over_b, Geometry};
 use spinstate::report::crossover::{CrossoverReport, CrossoverRow};
-use spinstate::report::to_json;
 
 #[derive(Debug, clap::Args)]
 pub struct Args {
@@ -18,7 +17,7 @@ pub struct Args {
     #[arg(long, value_name = "R", allow_hyphen_values = true)]
     pub c_over_b: Option<f64>,
     #[command(flatten)]
-    pub format: Format,
+    pub output: OutputArgs,
 }
 
 pub fn run(args: &Args) -> Result<Output, Failure> {
@@ -52,9 +51,5 @@ pub fn run(args: &Args) -> Result<Output, Failure> {
         });
     }
     let report = CrossoverReport { crossovers: rows };
-    Ok(Output::text(if args.format.json {
-        to_json(&report)
-    } else {
-        report.to_table()
-    }))
+    emit(&report, &(), args.output.asked())
 }

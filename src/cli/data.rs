@@ -1,13 +1,12 @@
 //! `spinstate data`: list the chemistry tables as loaded (bundled, or edited copies from
 //! `--data DIR`).
 
-use super::common::Format;
+use super::common::{emit, OutputArgs};
 use super::{Failure, Output};
 use spinstate::report::data::{
     BondLengthDataRow, BondLengthsReport, IonsReport, LigandsReport, MomentRangeRow,
     MomentRangesReport, PascalReport, PascalRow,
 };
-use spinstate::report::to_json;
 use spinstate::tables::DataSet;
 
 /// Which table to list.
@@ -31,35 +30,28 @@ pub struct Args {
     #[arg(value_enum)]
     pub table: Table,
     #[command(flatten)]
-    pub format: Format,
+    pub output: OutputArgs,
 }
 
 pub fn run(args: &Args, data: &DataSet) -> Result<Output, Failure> {
     let origin = data
         .dir()
         .map_or("bundled".to_string(), |d| d.display().to_string());
-    let text = match args.table {
+    let asked = args.output.asked();
+    match args.table {
         Table::Ions => {
             let r = IonsReport {
                 origin,
                 ions: data.ions()?.rows.iter().map(Into::into).collect(),
             };
-            if args.format.json {
-                to_json(&r)
-            } else {
-                r.to_table()
-            }
+            emit(&r, &(), asked)
         }
         Table::Ligands => {
             let r = LigandsReport {
                 origin,
                 ligands: data.ligands()?.rows.iter().map(Into::into).collect(),
             };
-            if args.format.json {
-                to_json(&r)
-            } else {
-                r.to_table()
-            }
+            emit(&r, &(), asked)
         }
         Table::Pascal => {
             let table = data.pascal()?;
@@ -76,11 +68,7 @@ pub fn run(args: &Args, data: &DataSet) -> Result<Output, Failure> {
                     })
                     .collect(),
             };
-            if args.format.json {
-                to_json(&r)
-            } else {
-                r.to_table()
-            }
+            emit(&r, &(), asked)
         }
         Table::MomentRanges => {
             let table = data.moment_ranges()?;
@@ -101,11 +89,7 @@ pub fn run(args: &Args, data: &DataSet) -> Result<Output, Failure> {
                     })
                     .collect(),
             };
-            if args.format.json {
-                to_json(&r)
-            } else {
-                r.to_table()
-            }
+            emit(&r, &(), asked)
         }
         Table::BondLengths => {
             let table = data.bond_lengths()?;
@@ -127,12 +111,7 @@ pub fn run(args: &Args, data: &DataSet) -> Result<Output, Failure> {
                     })
                     .collect(),
             };
-            if args.format.json {
-                to_json(&r)
-            } else {
-                r.to_table()
-            }
+            emit(&r, &(), asked)
         }
-    };
-    Ok(Output::text(text))
+    }
 }

@@ -2,13 +2,14 @@
 //! copy embedded in the binary.
 
 use super::check::run_batch_with;
-use super::common::Format;
+use super::common::{emit, OutputArgs};
 use super::figure::write_html;
 use super::{Failure, Output};
 use spinstate::check::demo::{INTRO, SAMPLES};
+use spinstate::report::check::BatchReport;
 use spinstate::report::check::SAFETY;
 use spinstate::report::html;
-use spinstate::report::to_json;
+use spinstate::report::Render;
 use spinstate::tables::DataSet;
 use std::path::PathBuf;
 
@@ -19,7 +20,7 @@ pub struct Args {
     #[arg(long, value_name = "FILE")]
     pub html: Option<PathBuf>,
     #[command(flatten)]
-    pub format: Format,
+    pub output: OutputArgs,
 }
 
 /// The scenario's introduction with how to run the same sheet by hand.
@@ -40,24 +41,33 @@ pub fn run(args: &Args, data: &DataSet) -> Result<Output, Failure> {
         );
         notes.push(write_html(&page, file)?);
     }
-    let stdout = if args.format.json {
-        to_json(&report)
-    } else {
+    let mut out = emit(&DemoPage(&report), &(), args.output.asked())?;
+    out.warnings = notes
+        .into_iter()
+        .chain(bad.iter().map(|e| format!("error: demo sheet: {e}")))
+        .collect();
+    out.code = if bad.is_empty() { 0 } else { 2 };
+    Ok(out)
+}
+
+/// The demo's result: the batch report, whose table form is the scenario's page (its
+/// introduction, the verdicts, where each sample sits against the crossover, the safety note);
+/// its JSON is the batch report's.
+#[derive(serde::Serialize)]
+#[serde(transparent)]
+struct DemoPage<'a>(&'a BatchReport);
+
+impl Render for DemoPage<'_> {
+    type Figure = ();
+
+    fn table(&self) -> String {
         format!(
             "{}\n\n{}\nWhere each sample sits against the spin crossover (the mean Δ̄/B of its two spin states, \
 each at its own bond length, estimated or measured, against the engine's crossover for its d^n and C/B; \
 the estimate's uncertainty is wide, so near the crossover this is a guide):\n{}\n{SAFETY}\n",
             intro(),
-            report.to_table(),
-            report.crossover_table()
+            self.0.verdict_table(),
+            self.0.crossover_table()
         )
-    };
-    Ok(Output {
-        stdout,
-        warnings: notes
-            .into_iter()
-            .chain(bad.iter().map(|e| format!("error: demo sheet: {e}")))
-            .collect(),
-        code: if bad.is_empty() { 0 } else { 2 },
-    })
+    }
 }

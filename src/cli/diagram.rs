@@ -1,18 +1,17 @@
 //! `spinstate diagram`: E/B of every level against Δ/B, optionally with a sample marked on it.
 
-use super::common::{emit, ComplexArgs, Format, Renderings};
-use super::figure::{write_png, FigureArgs};
+use super::common::{emit, ComplexArgs, CsvOutput, OutputArgs, SvgOutput};
+use super::figure::FigureArgs;
 use super::{Failure, Output};
 use spinstate::engine::diagram;
 use spinstate::plot::energy::{EnergyOptions, SampleMark};
 use spinstate::plot::marks;
 use spinstate::predict::predict;
-use spinstate::report::diagram::DiagramReport;
-use spinstate::report::to_json;
+use spinstate::report::diagram::{DiagramFigure, DiagramReport};
 use spinstate::tables::DataSet;
-use std::path::PathBuf;
 
 #[derive(Debug, clap::Args)]
+#[command(mut_arg("csv", |a| a.help("Write the full diagram as CSV (one column per level) to FILE ('-' for stdout)")))]
 pub struct Args {
     /// Number of d electrons, 0..=10 (not needed with --metal).
     #[arg(long, value_name = "N")]
@@ -58,21 +57,19 @@ pub struct Args {
     /// Highlight each spin state's spin-allowed levels (the others grey).
     #[arg(long)]
     pub highlight_spins: bool,
-    /// Write the full diagram as CSV (one column per level) to FILE ('-' for stdout).
-    #[arg(long, value_name = "FILE")]
-    pub csv: Option<PathBuf>,
-    /// Write an SVG figure to FILE.
-    #[arg(long, value_name = "FILE")]
-    pub svg: Option<PathBuf>,
+    #[command(flatten)]
+    pub csv: CsvOutput,
+    #[command(flatten)]
+    pub svg: SvgOutput,
     #[command(flatten)]
     pub figure: FigureArgs,
     #[command(flatten)]
-    pub format: Format,
+    pub output: OutputArgs,
 }
 
 pub fn run(args: &Args, data: &DataSet) -> Result<Output, Failure> {
     args.figure.check_used(
-        args.svg.is_some(),
+        args.svg.file.is_some(),
         &[(args.highlight_spins, "--highlight-spins")],
     )?;
     let geometry = args.geometry;
@@ -180,20 +177,7 @@ pub fn run(args: &Args, data: &DataSet) -> Result<Output, Failure> {
         title,
         highlight,
     };
-    let svg = || report.to_svg_with(sample.as_ref(), &options);
-    let mut out = emit(
-        args.csv.as_deref(),
-        args.svg.as_deref(),
-        args.format.json,
-        Renderings {
-            csv: || report.to_csv(),
-            svg: || Ok(svg()),
-            json: || to_json(&report),
-            table: || report.to_table(),
-        },
-    )?;
-    if let Some(path) = &args.figure.png {
-        out.warnings.push(write_png(&svg(), path)?);
-    }
-    Ok(out)
+    let figure = DiagramFigure { options, sample };
+    let asked = args.output.asked().csv(&args.csv).svg(&args.svg);
+    emit(&report, &figure, asked.figure(&args.figure))
 }

@@ -1,11 +1,10 @@
 //! `spinstate evans`: an Evans-method NMR shift to χ_M, χ_M·T, μ_eff and unpaired electrons.
 
-use super::common::Format;
+use super::common::{emit, OutputArgs};
 use super::measured::{measured, positive, CompareArgs, DiaArgs, UnitArgs};
 use super::{Failure, Output};
 use spinstate::measured::evans::{self, EvansInput, MagnetGeometry, Shift, SolventTerms};
 use spinstate::report::measured::{MeasuredMomentReport, EVANS_SAFETY};
-use spinstate::report::to_json;
 use spinstate::tables::DataSet;
 
 #[derive(Debug, clap::Args)]
@@ -79,7 +78,7 @@ pub struct Args {
     #[command(flatten)]
     pub compare: CompareArgs,
     #[command(flatten)]
-    pub format: Format,
+    pub output: OutputArgs,
 }
 
 pub fn run(args: &Args, data: &DataSet) -> Result<Output, Failure> {
@@ -156,9 +155,5 @@ pub fn run(args: &Args, data: &DataSet) -> Result<Output, Failure> {
         comparison.as_ref().map(|(c, dn, g)| (c, *dn, g.as_str())),
         EVANS_SAFETY,
     );
-    Ok(Output::text(if args.format.json {
-        to_json(&report)
-    } else {
-        report.to_table()
-    }))
+    emit(&report, &(), args.output.asked())
 }

@@ -1,11 +1,10 @@
 //! `spinstate fit-bands`: fit Dq, B (and C) to observed band maxima.
 
-use super::common::{parsed, Format};
+use super::common::{emit, parsed, OutputArgs};
 use super::{Failure, Output};
 use spinstate::engine::Geometry;
 use spinstate::report::fit_bands::{Context, FitBandsReport};
 use spinstate::report::tetragonal_fit::TetragonalFitReport;
-use spinstate::report::to_json;
 use spinstate::spectra::fit::{crossover_position, fit_bands, FitRequest, ForbiddenBand};
 use spinstate::spectra::tetragonal::{fit_tetragonal, TetragonalRequest};
 use spinstate::spectra::units::parse_bands;
@@ -69,7 +68,7 @@ pub struct Args {
     #[arg(long, value_name = "K", default_value_t = spinstate::spectra::fit::DEFAULT_PATIENCE)]
     pub max_evaluations: usize,
     #[command(flatten)]
-    pub format: Format,
+    pub output: OutputArgs,
 }
 
 pub fn run(args: &Args, data: &DataSet) -> Result<Output, Failure> {
@@ -137,11 +136,7 @@ pub fn run(args: &Args, data: &DataSet) -> Result<Output, Failure> {
                 "caution: {c}; follow your institution's rules and the SDS"
             ));
         }
-        return Ok(Output::text(if args.format.json {
-            to_json(&report)
-        } else {
-            report.to_table()
-        }));
+        return emit(&report, &(), args.output.asked());
     }
     let req = FitRequest {
         dn,
@@ -192,11 +187,7 @@ pub fn run(args: &Args, data: &DataSet) -> Result<Output, Failure> {
             ));
         }
     }
-    Ok(Output::text(if args.format.json {
-        to_json(&report)
-    } else {
-        report.to_table()
-    }))
+    emit(&report, &(), args.output.asked())
 }
 
 /// Parses --forbidden: "14900:2Eg,15200" with positions in `unit`.

@@ -1,16 +1,15 @@
 //! `spinstate levels`: every level of one d^n calculation.
 
-use super::common::{FieldArgs, Format};
+use super::common::{emit, FieldArgs, OutputArgs};
 use super::{Failure, Output};
 use spinstate::report::levels::{LevelRow, LevelsReport};
-use spinstate::report::to_json;
 
 #[derive(Debug, clap::Args)]
 pub struct Args {
     #[command(flatten)]
     pub field: FieldArgs,
     #[command(flatten)]
-    pub format: Format,
+    pub output: OutputArgs,
 }
 
 pub fn run(args: &Args) -> Result<Output, Failure> {
@@ -76,9 +75,5 @@ pub fn run(args: &Args) -> Result<Output, Failure> {
         ground,
         levels,
     };
-    Ok(Output::text(if args.format.json {
-        to_json(&report)
-    } else {
-        report.to_table()
-    }))
+    emit(&report, &(), args.output.asked())
 }

@@ -1,16 +1,19 @@
 //! `spinstate magnetism`: χ(T), χT and μ_eff from the full ligand field with spin–orbit coupling.
 
-use super::common::{emit, ComplexArgs, FieldArgs, Format, Renderings};
+use super::common::{emit, ComplexArgs, CsvOutput, FieldArgs, OutputArgs, SvgOutput};
 use super::{Failure, Output};
 use spinstate::magnetism::{temperature_grid, MagneticModel, ZeemanLevels, G_ELECTRON};
 use spinstate::plot::moment::{Point, Quantity};
 use spinstate::report::magnetism::{MagnetismPoint, MagnetismReport, MomentPlot};
-use spinstate::report::to_json;
 use spinstate::tables::DataSet;
 use spinstate::units;
 use std::path::{Path, PathBuf};
 
 #[derive(Debug, clap::Args)]
+#[command(
+    mut_arg("csv", |a| a.help("Write every point as CSV to FILE ('-' for stdout)")),
+    mut_arg("svg", |a| a.help("Write an SVG figure to FILE ('-' for stdout; μ_eff against T unless --plot chit)"))
+)]
 pub struct Args {
     #[command(flatten)]
     pub field: FieldArgs,
@@ -52,12 +55,10 @@ pub struct Args {
     /// Unit system of χ and χT: cgs (cm³/mol, default) or si (m³/mol).
     #[arg(long, value_name = "SYSTEM", default_value = "cgs", value_parser = ["cgs", "si"])]
     pub units: String,
-    /// Write every point as CSV to FILE ('-' for stdout).
-    #[arg(long, value_name = "FILE")]
-    pub csv: Option<PathBuf>,
-    /// Write an SVG figure to FILE (μ_eff against T unless --plot chit).
-    #[arg(long, value_name = "FILE")]
-    pub svg: Option<PathBuf>,
+    #[command(flatten)]
+    pub csv: CsvOutput,
+    #[command(flatten)]
+    pub svg: SvgOutput,
     /// What the figure shows against T: chit (χ_M·T) or mu (μ_eff, the default).
     #[arg(long, value_name = "Q", value_parser = ["chit", "mu"])]
     pub plot: Option<String>,
@@ -68,12 +69,12 @@ pub struct Args {
     #[command(flatten)]
     pub figure: super::figure::FigureArgs,
     #[command(flatten)]
-    pub format: Format,
+    pub output: OutputArgs,
 }
 
 pub fn run(args: &Args, data: &DataSet) -> Result<Output, Failure> {
     args.figure.check_used(
-        args.svg.is_some(),
+        args.svg.file.is_some(),
         &[
             (args.plot.is_some(), "--plot"),
             (args.measured.is_some(), "--measured"),
@@ -174,22 +175,8 @@ pub fn run(args: &Args, data: &DataSet) -> Result<Output, Failure> {
         column: args.figure.column(),
         title: None,
     };
-    let svg = || report.to_svg_with(&plot);
-    let mut out = emit(
-        args.csv.as_deref(),
-        args.svg.as_deref(),
-        args.format.json,
-        Renderings {
-            csv: || report.to_csv(),
-            svg: || Ok(svg()),
-            json: || to_json(&report),
-            table: || report.to_table(16),
-        },
-    )?;
-    if let Some(path) = &args.figure.png {
-        out.warnings.push(super::figure::write_png(&svg(), path)?);
-    }
-    Ok(out)
+    let asked = args.output.asked().csv(&args.csv).svg(&args.svg);
+    emit(&report, &plot, asked.figure(&args.figure))
 }
 
 /// Reads measured points for the figure, converted to its quantity and unit system.

@@ -15,6 +15,7 @@ pub mod magnetism;
 pub mod measured;
 pub mod moment;
 pub mod predict;
+pub mod schema;
 pub mod sco_curve;
 pub mod sco_fit;
 pub mod screen;
@@ -75,6 +76,8 @@ pub enum Command {
     /// Metal centres of crystal structures (CIF) or coordinates (XYZ): bonds, shape measures,
     /// Σ/Θ/ζ and the spin state the bond lengths support; several files compared.
     Structure(structure::Args),
+    /// The JSON Schema of a command's --json output (field descriptions with units).
+    Schema(schema::Args),
 }
 
 /// A failure with its exit code (1: computation did not finish, 2: bad usage or input).
@@ -124,15 +127,6 @@ pub struct Output {
     pub code: u8,
 }
 
-impl Output {
-    pub fn text(stdout: String) -> Self {
-        Output {
-            stdout,
-            ..Default::default()
-        }
-    }
-}
-
 /// Runs the parsed command. One rule for the global `--data DIR` across commands: it must name
 /// an existing directory (checked before any command runs), and a command that reads no table
 /// says so instead of ignoring it silently.
@@ -147,7 +141,11 @@ pub fn run(cli: Cli) -> Result<Output, Failure> {
     }
     let reads_no_table = matches!(
         cli.command,
-        Command::Levels(_) | Command::Diagram(_) | Command::Crossover(_) | Command::ScoCurve(_)
+        Command::Levels(_)
+            | Command::Diagram(_)
+            | Command::Crossover(_)
+            | Command::ScoCurve(_)
+            | Command::Schema(_)
     );
     let data_unused = cli.data.is_some() && reads_no_table;
     let cmd = Command::name_of(&cli.command);
@@ -188,6 +186,7 @@ impl Command {
             Command::ScoFit(_) => Cmd::ScoFit,
             Command::ScoCurve(_) => Cmd::ScoCurve,
             Command::Structure(_) => Cmd::Structure,
+            Command::Schema(_) => Cmd::Schema,
         }
     }
 }
@@ -210,5 +209,6 @@ fn dispatch(command: Command, data: &DataSet) -> Result<Output, Failure> {
         Command::ScoFit(a) => sco_fit::run(&a, data),
         Command::ScoCurve(a) => sco_curve::run(&a),
         Command::Structure(a) => structure::run(&a, data),
+        Command::Schema(a) => schema::run(&a),
     }
 }

@@ -1,13 +1,12 @@
 //! `spinstate moment`: a measured χ_M, χ_M·T, μ_eff or magnetometer reading to χ_M, χ_M·T,
 //! μ_eff and unpaired electrons.
 
-use super::common::Format;
+use super::common::{emit, OutputArgs};
 use super::measured::{measured, positive, CompareArgs, DiaArgs, UnitArgs};
 use super::{Failure, Output};
 use spinstate::measured::moment::{chi_from_magnetometer, MagnetometerReading};
 use spinstate::measured::{Measured, MomentResult};
 use spinstate::report::measured::{MeasuredMomentReport, MOMENT_SAFETY};
-use spinstate::report::to_json;
 use spinstate::tables::DataSet;
 use spinstate::units::SusceptibilityUnits;
 
@@ -73,7 +72,7 @@ pub struct Args {
     #[command(flatten)]
     pub compare: CompareArgs,
     #[command(flatten)]
-    pub format: Format,
+    pub output: OutputArgs,
 }
 
 pub fn run(args: &Args, data: &DataSet) -> Result<Output, Failure> {
@@ -147,9 +146,5 @@ pub fn run(args: &Args, data: &DataSet) -> Result<Output, Failure> {
         comparison.as_ref().map(|(c, dn, g)| (c, *dn, g.as_str())),
         MOMENT_SAFETY,
     );
-    Ok(Output::text(if args.format.json {
-        to_json(&report)
-    } else {
-        report.to_table()
-    }))
+    emit(&report, &(), args.output.asked())
 }

@@ -1,14 +1,13 @@
 //! `spinstate predict`: spin state, ground term, moments and bands of a complex from its
 //! composition.
 
-use super::common::Format;
+use super::common::{emit, OutputArgs};
 use super::{Failure, Output};
 use spinstate::complex::{ComplexSpec, LigandCount, Overrides};
 use spinstate::engine::Geometry;
 use spinstate::predict::{predict_with, PredictOptions};
 use spinstate::report::predict::PredictReport;
 use spinstate::report::structure_spin::StructureSpinReport;
-use spinstate::report::to_json;
 use spinstate::spectra::count;
 use spinstate::structure::spin::structure_spin;
 use spinstate::tables::DataSet;
@@ -50,7 +49,7 @@ pub struct Args {
     #[arg(long)]
     pub all: bool,
     #[command(flatten)]
-    pub format: Format,
+    pub output: OutputArgs,
 }
 
 impl Args {
@@ -111,11 +110,7 @@ fn run_structure(args: &Args, path: &Path, data: &DataSet) -> Result<Output, Fai
         centre.spin_state_from_bonds,
         notes,
     );
-    Ok(Output::text(if args.format.json {
-        to_json(&report)
-    } else {
-        report.to_table()
-    }))
+    emit(&report, &(), args.output.asked())
 }
 
 pub fn run(args: &Args, data: &DataSet) -> Result<Output, Failure> {
@@ -140,20 +135,18 @@ pub fn run(args: &Args, data: &DataSet) -> Result<Output, Failure> {
     report
         .notes
         .push(count::hidden_above_note(charge_transfer.as_ref()));
-    Ok(Output::text(if args.format.json {
-        to_json(&report)
-    } else {
-        let mut table = report.to_table();
-        let omitted = [
-            Some(&report.bands_high_spin),
-            report.bands_low_spin.as_ref(),
-        ]
-        .into_iter()
-        .flatten()
-        .any(|s| s.omitted > 0);
-        if omitted {
-            table.push_str("note: --all lists the bands above the window too\n");
-        }
-        table
-    }))
+    let asked = args.output.asked();
+    let mut out = emit(&report, &(), asked)?;
+    let omitted = [
+        Some(&report.bands_high_spin),
+        report.bands_low_spin.as_ref(),
+    ]
+    .into_iter()
+    .flatten()
+    .any(|s| s.omitted > 0);
+    if omitted && asked.shows_table() {
+        out.stdout
+            .push_str("note: --all lists the bands above the window too\n");
+    }
+    Ok(out)
 }

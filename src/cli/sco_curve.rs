@@ -1,14 +1,16 @@
 //! `spinstate sco-curve`: simulate a spin transition, γ_HS(T) and χ_M·T(T) on both branches.
 
-use super::common::{emit, Format, Renderings};
+use super::common::{emit, CsvOutput, OutputArgs, SvgOutput};
 use super::{Failure, Output};
 use spinstate::magnetism::temperature_grid;
 use spinstate::report::sco::{CurveReport, TransitionPlot};
-use spinstate::report::to_json;
 use spinstate::sco::model::Transition;
-use std::path::PathBuf;
 
 #[derive(Debug, clap::Args)]
+#[command(
+    mut_arg("csv", |a| a.help("Write every point as CSV to FILE ('-' for stdout)")),
+    mut_arg("svg", |a| a.help("Write an SVG plot of χ_M·T (and γ_HS) against T to FILE ('-' for stdout)"))
+)]
 pub struct Args {
     /// ΔH = H_HS − H_LS (kJ/mol).
     #[arg(long, value_name = "KJ/MOL", allow_hyphen_values = true)]
@@ -67,12 +69,10 @@ pub struct Args {
     /// Number of temperatures from tmin to tmax, both included.
     #[arg(long, value_name = "P", default_value_t = 61)]
     pub points: usize,
-    /// Write every point as CSV to FILE ('-' for stdout).
-    #[arg(long, value_name = "FILE")]
-    pub csv: Option<PathBuf>,
-    /// Write an SVG plot of χ_M·T (and γ_HS) against T to FILE.
-    #[arg(long, value_name = "FILE")]
-    pub svg: Option<PathBuf>,
+    #[command(flatten)]
+    pub csv: CsvOutput,
+    #[command(flatten)]
+    pub svg: SvgOutput,
     /// What the figure shows against T: chit (χ_M·T, with γ_HS on a right-hand axis) or gamma
     /// (the high-spin fraction γ_HS).
     /// [default: chit]
@@ -81,12 +81,12 @@ pub struct Args {
     #[command(flatten)]
     pub figure: super::figure::FigureArgs,
     #[command(flatten)]
-    pub format: Format,
+    pub output: OutputArgs,
 }
 
 pub fn run(args: &Args) -> Result<Output, Failure> {
     args.figure
-        .check_used(args.svg.is_some(), &[(args.plot.is_some(), "--plot")])?;
+        .check_used(args.svg.file.is_some(), &[(args.plot.is_some(), "--plot")])?;
     let tr = Transition {
         dh: args.dh * 1000.0,
         ds: args.ds,
@@ -106,20 +106,6 @@ pub fn run(args: &Args) -> Result<Output, Failure> {
         column: args.figure.column(),
         fraction: args.plot.as_deref() == Some("gamma"),
     };
-    let svg = || report.to_svg_with(&plot);
-    let mut out = emit(
-        args.csv.as_deref(),
-        args.svg.as_deref(),
-        args.format.json,
-        Renderings {
-            csv: || report.to_csv(),
-            svg: || Ok(svg()),
-            json: || to_json(&report),
-            table: || report.to_table(),
-        },
-    )?;
-    if let Some(path) = &args.figure.png {
-        out.warnings.push(super::figure::write_png(&svg(), path)?);
-    }
-    Ok(out)
+    let asked = args.output.asked().csv(&args.csv).svg(&args.svg);
+    emit(&report, &plot, asked.figure(&args.figure))
 }

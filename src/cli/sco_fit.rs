@@ -1,10 +1,9 @@
 //! `spinstate sco-fit`: fit a spin transition to χ_M·T(T) or variable-temperature Evans data.
 
-use super::common::{emit, Format, Renderings};
+use super::common::{emit, CsvOutput, OutputArgs, SvgOutput};
 use super::{Failure, Output};
 use spinstate::measured::evans::MagnetGeometry;
 use spinstate::report::sco::{FitReport, TransitionPlot};
-use spinstate::report::to_json;
 use spinstate::sco::data::{read_curve, read_evans_series, EvansSeries};
 use spinstate::sco::fit::{fit, FitRequest, ModelKind, PureState};
 use spinstate::sco::pure_state_ranges;
@@ -13,6 +12,10 @@ use spinstate::units::spin_only_chi_t_cgs;
 use std::path::PathBuf;
 
 #[derive(Debug, clap::Args)]
+#[command(
+    mut_arg("csv", |a| a.help("Write the points with the fit as CSV to FILE ('-' for stdout)")),
+    mut_arg("svg", |a| a.help("Write an SVG plot of the data, the fitted curve and the residuals to FILE ('-' for stdout)"))
+)]
 pub struct Args {
     /// CSV file: a temperature column and one of χ_M·T, χ_M or μ_eff (headers T, chiT, chi_m,
     /// mu_eff, each with an optional _unit), optional `direction` (cooling/heating) and `err`;
@@ -61,12 +64,10 @@ pub struct Args {
     /// Evans: mass susceptibility of the solvent (cm³/g) for the solvent term.
     #[arg(long, value_name = "CM3/G", allow_hyphen_values = true)]
     pub chi0: Option<f64>,
-    /// Write the points with the fit as CSV to FILE ('-' for stdout).
-    #[arg(long, value_name = "FILE")]
-    pub csv: Option<PathBuf>,
-    /// Write an SVG plot of the data, the fitted curve and the residuals to FILE.
-    #[arg(long, value_name = "FILE")]
-    pub svg: Option<PathBuf>,
+    #[command(flatten)]
+    pub csv: CsvOutput,
+    #[command(flatten)]
+    pub svg: SvgOutput,
     /// What the figure shows against T: chit (χ_M·T, with γ_HS on a right-hand axis) or gamma
     /// (the high-spin fraction γ_HS).
     /// [default: chit]
@@ -75,12 +76,12 @@ pub struct Args {
     #[command(flatten)]
     pub figure: super::figure::FigureArgs,
     #[command(flatten)]
-    pub format: Format,
+    pub output: OutputArgs,
 }
 
 pub fn run(args: &Args, data: &DataSet) -> Result<Output, Failure> {
     args.figure
-        .check_used(args.svg.is_some(), &[(args.plot.is_some(), "--plot")])?;
+        .check_used(args.svg.file.is_some(), &[(args.plot.is_some(), "--plot")])?;
     for (given, option) in [
         (args.magnet.is_some(), "--magnet"),
         (args.chi0.is_some(), "--chi0"),
@@ -183,20 +184,6 @@ pub fn run(args: &Args, data: &DataSet) -> Result<Output, Failure> {
         column: args.figure.column(),
         fraction: args.plot.as_deref() == Some("gamma"),
     };
-    let svg = || report.to_svg_with(&plot);
-    let mut out = emit(
-        args.csv.as_deref(),
-        args.svg.as_deref(),
-        args.format.json,
-        Renderings {
-            csv: || report.to_csv(),
-            svg: || Ok(svg()),
-            json: || to_json(&report),
-            table: || report.to_table(),
-        },
-    )?;
-    if let Some(path) = &args.figure.png {
-        out.warnings.push(super::figure::write_png(&svg(), path)?);
-    }
-    Ok(out)
+    let asked = args.output.asked().csv(&args.csv).svg(&args.svg);
+    emit(&report, &plot, asked.figure(&args.figure))
 }

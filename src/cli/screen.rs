@@ -1,10 +1,9 @@
 //! `spinstate screen`: rank candidate coordination spheres by their distance to the crossover.
 
-use super::common::{parsed, Format};
+use super::common::{emit, parsed, CsvOutput, OutputArgs};
 use super::{Failure, Output};
 use indicatif::{ProgressBar, ProgressStyle};
-use spinstate::report::screen::{write_csv, ScreenReport};
-use spinstate::report::to_json;
+use spinstate::report::screen::ScreenOutput;
 use spinstate::screen::{DonorSet, Filters, IonSpec, Keep, Screen, SizeRange, Target};
 use spinstate::tables::DataSet;
 use std::io::IsTerminal;
@@ -14,6 +13,7 @@ use std::path::PathBuf;
 const DEFAULT_TOP: usize = 20;
 
 #[derive(Debug, clap::Args)]
+#[command(mut_arg("csv", |a| a.help("Write the ranked list as CSV to FILE ('-' for stdout)")))]
 pub struct Args {
     /// Metal ion(s), comma-separated: SYMBOL (with --ox) or SYMBOL:OX, e.g. Fe or Fe:2,Co:2,Fe:3.
     #[arg(long, value_name = "LIST", value_delimiter = ',', required = true)]
@@ -60,11 +60,10 @@ pub struct Args {
     /// Number of distinct ligands, N or MIN..MAX, e.g. 1..2.
     #[arg(long, value_name = "RANGE", value_parser = parsed::<SizeRange>)]
     pub kinds: Option<SizeRange>,
-    /// Write the ranked list as CSV to FILE ('-' for stdout).
-    #[arg(long, value_name = "FILE")]
-    pub csv: Option<PathBuf>,
     #[command(flatten)]
-    pub format: Format,
+    pub csv: CsvOutput,
+    #[command(flatten)]
+    pub output: OutputArgs,
 }
 
 impl Args {
@@ -172,7 +171,7 @@ pub fn run(args: &Args, data: &DataSet) -> Result<Output, Failure> {
             (screen, errors)
         }
     };
-    let full_list = args.format.json || args.csv.is_some();
+    let full_list = args.output.json || args.csv.file.is_some();
     let keep = match args.top {
         Some(n) => Keep::Top(n),
         None if full_list => Keep::All,
@@ -182,44 +181,17 @@ pub fn run(args: &Args, data: &DataSet) -> Result<Output, Failure> {
     let outcome = screen.run(keep, &mut |done| bar.set_position(done));
     bar.finish_and_clear();
 
-    let mut csv_to_stdout = false;
-    if let Some(path) = &args.csv {
-        if path.as_os_str() == "-" {
-            csv_to_stdout = true;
-        } else {
-            let file = std::fs::File::create(path).map_err(|e| {
-                Failure::usage(format!("--csv: cannot write {}: {e}", path.display()))
-            })?;
-            write_csv(&screen, &outcome.hits, std::io::BufWriter::new(file)).map_err(|e| {
-                Failure::usage(format!("--csv: cannot write {}: {e}", path.display()))
-            })?;
-            out.warnings.push(format!(
-                "wrote {} ({} ranked candidates)",
-                path.display(),
-                outcome.hits.len()
-            ));
-        }
-    }
-    out.stdout = if csv_to_stdout {
-        let mut buf = Vec::new();
-        write_csv(&screen, &outcome.hits, &mut buf)
-            .map_err(|e| Failure::usage(format!("--csv: {e}")))?;
-        String::from_utf8_lossy(&buf).into_owned()
-    } else if args.format.json {
-        to_json(&ScreenReport::new(
-            &screen,
-            &outcome,
-            &rejected,
-            outcome.hits.len(),
-        ))
-    } else {
-        ScreenReport::new(
-            &screen,
-            &outcome,
-            &rejected,
-            args.top.unwrap_or(DEFAULT_TOP),
-        )
-        .to_table()
-    };
+    let mut shown = emit(
+        &ScreenOutput {
+            screen: &screen,
+            outcome: &outcome,
+            rejected: &rejected,
+            table_rows: args.top.unwrap_or(DEFAULT_TOP),
+        },
+        &(),
+        args.output.asked().csv(&args.csv),
+    )?;
+    out.stdout = shown.stdout;
+    out.warnings.append(&mut shown.warnings);
     Ok(out)
 }

@@ -2,10 +2,9 @@
 //! bonds, shape, octahedral distortion and the spin state the bond lengths support; several
 //! files are compared centre by centre.
 
-use super::common::Format;
+use super::common::{emit, OutputArgs};
 use super::{Failure, Output};
 use spinstate::report::structure::{CentreRow, ChangeRow, StructureReport};
-use spinstate::report::to_json;
 use spinstate::structure::centre::{analyse, compare, Centre};
 use spinstate::structure::sphere::{sphere, Cutoff};
 use spinstate::structure::{MetalChoice, Structure};
@@ -71,7 +70,7 @@ pub struct Args {
     #[arg(long, value_name = "N", allow_hyphen_values = true)]
     pub ox: Option<i32>,
     #[command(flatten)]
-    pub format: Format,
+    pub output: OutputArgs,
 }
 
 /// Reads a structure file; errors name the file.
@@ -163,12 +162,8 @@ pub fn run(args: &Args, data: &DataSet) -> Result<Output, Failure> {
         let changes = compare((&pair[0].0, &pair[0].1), (&pair[1].0, &pair[1].1));
         report.changes.extend(changes.iter().map(ChangeRow::new));
     }
-    let mut out = Output::text(if args.format.json {
-        to_json(&report)
-    } else {
-        report.to_table()
-    });
-    if args.format.json {
+    let mut out = emit(&report, &(), args.output.asked())?;
+    if args.output.json {
         out.warnings = report.notes.iter().map(|n| format!("note: {n}")).collect();
     }
     Ok(out)

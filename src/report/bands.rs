@@ -1,12 +1,13 @@
 //! Report of `spinstate bands`: the band-count check.
 
 use super::fit_bands::jump_text;
+use super::Render;
 use super::{fmt_num, new_table};
 use crate::spectra::count::BandCount;
 use serde::Serialize;
 
 /// One spin-allowed transition.
-#[derive(Debug, Clone, Serialize)]
+#[derive(Debug, Clone, Serialize, schemars::JsonSchema)]
 pub struct BandRow {
     /// "4A2g → 4T2g".
     pub transition: String,
@@ -17,6 +18,7 @@ pub struct BandRow {
     /// Position (nm).
     pub wavelength_nm: f64,
     pub in_window: bool,
+    /// Electrons that change orbital in the band's main strong-field jump (1 or 2); null when not determined.
     pub electrons_moved: Option<u32>,
     /// One-electron fraction below 0.1 (or a spin-forbidden band): expected weak.
     pub weak: bool,
@@ -39,7 +41,7 @@ pub struct BandRow {
 }
 
 /// Bands inside the window after merging.
-#[derive(Debug, Clone, Serialize)]
+#[derive(Debug, Clone, Serialize, schemars::JsonSchema)]
 pub struct MergedRow {
     /// Mean position (cm⁻¹).
     pub position: f64,
@@ -58,10 +60,11 @@ pub struct MergedRow {
 }
 
 /// The bands of one spin state.
-#[derive(Debug, Clone, Serialize)]
+#[derive(Debug, Clone, Serialize, schemars::JsonSchema)]
 pub struct SpinRow {
     /// "high", "low", "intermediate" or "only".
     pub spin_state: String,
+    /// Spin multiplicity 2S+1 of this spin state.
     pub multiplicity: i32,
     /// Lowest level of this spin.
     pub reference: String,
@@ -71,7 +74,9 @@ pub struct SpinRow {
     pub offset: f64,
     pub bands: Vec<BandRow>,
     pub merged: Vec<MergedRow>,
+    /// Fewest bands of this spin state one may see in the window (weak and hidden bands left out; a count).
     pub min_expected: usize,
+    /// Most bands of this spin state one may see in the window (a count).
     pub max_expected: usize,
     /// Indices into `merged`, most visible first, weakest last.
     pub ranked: Vec<usize>,
@@ -80,8 +85,9 @@ pub struct SpinRow {
 }
 
 /// The whole `bands` report.
-#[derive(Debug, Clone, Serialize)]
+#[derive(Debug, Clone, Serialize, schemars::JsonSchema)]
 pub struct BandsReport {
+    /// Number of d electrons.
     pub dn: usize,
     pub geometry: String,
     /// Dq (cm⁻¹).
@@ -99,6 +105,7 @@ pub struct BandsReport {
     /// Resolution (cm⁻¹).
     pub resolution: f64,
     pub spin_states: Vec<SpinRow>,
+    /// Number of bands observed, when given (a count).
     pub observed: Option<usize>,
     /// "high spin", "low spin", "both", "neither", … (null without --observed).
     pub verdict: Option<String>,
@@ -181,9 +188,13 @@ impl BandsReport {
             charge_transfer_ligand: r.charge_transfer.as_ref().map(|c| c.ligand.clone()),
         }
     }
+}
+
+impl Render for BandsReport {
+    type Figure = ();
 
     /// Human table.
-    pub fn to_table(&self) -> String {
+    fn table(&self) -> String {
         let mut s = format!(
             "d{} {}: Δ = 10Dq = {} cm⁻¹, B = {} cm⁻¹, C = {} cm⁻¹ (C/B = {}); window {}–{} nm ({}–{} cm⁻¹), resolution {} cm⁻¹\n",
             self.dn,

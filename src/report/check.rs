@@ -10,6 +10,7 @@
 //! `{"samples": [<one complex without "safety">], "errors": [{"row", "name", "column",
 //! "message"}], "safety"}`.
 
+use super::Render;
 use super::{fmt_num, new_table};
 use crate::check::batch::RowError;
 use crate::check::{CheckResult, EvidenceKind};
@@ -19,7 +20,7 @@ use serde::Serialize;
 pub const SAFETY: &str = "Safety: cyanide salts are very toxic and release HCN with acid; cobalt, nickel and other heavy-metal compounds are sensitisers or carcinogens and go to heavy-metal waste; perchlorate salts of complexes can explode; superconducting NMR magnets pull ferromagnetic objects and affect implants, and NMR tubes and capillary inserts break easily. Follow your institution's rules, the supplier's SDS and licensed practice; this output is not a safety approval.";
 
 /// One line of evidence.
-#[derive(Debug, Clone, Serialize)]
+#[derive(Debug, Clone, Serialize, schemars::JsonSchema)]
 pub struct EvidenceRow {
     /// "prediction", "structure-field", "evans", "moment", "bands", "bond-length" or
     /// "chit-curve".
@@ -40,7 +41,7 @@ pub struct EvidenceRow {
 }
 
 /// What a structure (`check --structure`) gave: its centre, bonds and field.
-#[derive(Debug, Clone, Serialize)]
+#[derive(Debug, Clone, Serialize, schemars::JsonSchema)]
 pub struct StructureRow {
     /// The structure file.
     pub file: String,
@@ -67,7 +68,7 @@ pub struct StructureRow {
 }
 
 /// The verdict on one complex.
-#[derive(Debug, Clone, Serialize)]
+#[derive(Debug, Clone, Serialize, schemars::JsonSchema)]
 pub struct CheckReport {
     /// Sample name (batch input), null for a single check.
     pub name: Option<String>,
@@ -77,6 +78,7 @@ pub struct CheckReport {
     pub complex: String,
     /// e.g. "Fe(II)".
     pub ion: String,
+    /// Number of d electrons.
     pub dn: usize,
     /// oct, tet or sqpl.
     pub geometry: String,
@@ -182,8 +184,45 @@ impl CheckReport {
         format!("verdict: {} (confidence {})", self.verdict, self.confidence)
     }
 
+    fn support_of(&self, kind: EvidenceKind) -> String {
+        let cells: Vec<String> = self
+            .evidence
+            .iter()
+            .filter(|e| e.kind == kind.name())
+            .map(|e| {
+                // A prediction that supports both states is the estimate's borderline, or a
+                // predicted spin crossover: say which.
+                if kind == EvidenceKind::Prediction && e.supports == "both" {
+                    if self.predicted_spin_state == "crossover" {
+                        "crossover".to_string()
+                    } else {
+                        "borderline".to_string()
+                    }
+                } else if e.strength == "none" {
+                    e.supports.clone()
+                } else {
+                    format!("{} ({})", e.supports, e.strength)
+                }
+            })
+            .collect();
+        if cells.is_empty() {
+            "—".into()
+        } else {
+            cells.join(", ")
+        }
+    }
+}
+
+impl Render for CheckReport {
+    type Figure = ();
+
+    /// The batch CSV with this one sample as its row.
+    fn csv(&self) -> Option<String> {
+        BatchReport::new(vec![self.clone()], Vec::new()).csv()
+    }
+
     /// Human-readable table of one complex.
-    pub fn to_table(&self) -> String {
+    fn table(&self) -> String {
         let mut out = format!("{}\n", self.title());
         if let Some(st) = &self.structure {
             out.push_str(&format!(
@@ -229,38 +268,10 @@ impl CheckReport {
         }
         out
     }
-
-    fn support_of(&self, kind: EvidenceKind) -> String {
-        let cells: Vec<String> = self
-            .evidence
-            .iter()
-            .filter(|e| e.kind == kind.name())
-            .map(|e| {
-                // A prediction that supports both states is the estimate's borderline, or a
-                // predicted spin crossover: say which.
-                if kind == EvidenceKind::Prediction && e.supports == "both" {
-                    if self.predicted_spin_state == "crossover" {
-                        "crossover".to_string()
-                    } else {
-                        "borderline".to_string()
-                    }
-                } else if e.strength == "none" {
-                    e.supports.clone()
-                } else {
-                    format!("{} ({})", e.supports, e.strength)
-                }
-            })
-            .collect();
-        if cells.is_empty() {
-            "—".into()
-        } else {
-            cells.join(", ")
-        }
-    }
 }
 
 /// A bad row of a batch file.
-#[derive(Debug, Clone, Serialize)]
+#[derive(Debug, Clone, Serialize, schemars::JsonSchema)]
 pub struct RowErrorRow {
     /// Line of the file (header = 1).
     pub row: usize,
@@ -282,7 +293,7 @@ impl From<&RowError> for RowErrorRow {
 }
 
 /// Every sample of a batch file.
-#[derive(Debug, Clone, Serialize)]
+#[derive(Debug, Clone, Serialize, schemars::JsonSchema)]
 pub struct BatchReport {
     pub samples: Vec<CheckReport>,
     pub errors: Vec<RowErrorRow>,
@@ -320,7 +331,7 @@ impl BatchReport {
     }
 
     /// The verdict table with one line per sample (bad rows included), then the reasons.
-    pub fn to_table(&self) -> String {
+    pub fn verdict_table(&self) -> String {
         rows_table(&self.rows())
     }
 
@@ -353,15 +364,26 @@ impl BatchReport {
         }
         format!("{t}\n")
     }
+}
+
+impl Render for BatchReport {
+    type Figure = ();
+
+    /// The verdict table (as [`BatchReport::verdict_table`]), then the safety note.
+    fn table(&self) -> String {
+        format!("{}{SAFETY}\n", self.verdict_table())
+    }
 
     /// CSV: one line per row of the input (bad rows with their error), full precision.
-    pub fn to_csv(&self) -> String {
-        let mut w = csv::Writer::from_writer(Vec::new());
-        w.write_record(csv_header()).expect("CSV to memory");
-        for row in self.rows() {
-            w.write_record(csv_record(row)).expect("CSV to memory");
-        }
-        String::from_utf8(w.into_inner().expect("CSV to memory")).expect("CSV is UTF-8")
+    fn csv(&self) -> Option<String> {
+        Some({
+            let mut w = csv::Writer::from_writer(Vec::new());
+            w.write_record(csv_header()).expect("CSV to memory");
+            for row in self.rows() {
+                w.write_record(csv_record(row)).expect("CSV to memory");
+            }
+            String::from_utf8(w.into_inner().expect("CSV to memory")).expect("CSV is UTF-8")
+        })
     }
 }
 

@@ -1,13 +1,16 @@
 //! Report of `spinstate crossover`.
 
+use super::Render;
 use super::{fmt_num, new_table};
 use serde::Serialize;
 
 /// One crossover row.
-#[derive(Debug, Clone, Serialize)]
+#[derive(Debug, Clone, Serialize, schemars::JsonSchema)]
 pub struct CrossoverRow {
+    /// Number of d electrons.
     pub dn: usize,
     pub geometry: String,
+    /// Racah C/B used (dimensionless).
     pub c_over_b: f64,
     /// Δ/B (Δ = 10Dq) where the ground-state spin changes; null when it never changes.
     pub delta_over_b: Option<f64>,
@@ -25,13 +28,15 @@ pub struct CrossoverRow {
 }
 
 /// The `crossover` report.
-#[derive(Debug, Clone, Serialize)]
+#[derive(Debug, Clone, Serialize, schemars::JsonSchema)]
 pub struct CrossoverReport {
     pub crossovers: Vec<CrossoverRow>,
 }
 
-impl CrossoverReport {
-    pub fn to_table(&self) -> String {
+impl Render for CrossoverReport {
+    type Figure = ();
+
+    fn table(&self) -> String {
         let mut t = new_table([
             "d^n",
             "geometry",

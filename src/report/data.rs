@@ -1,13 +1,15 @@
 //! Report of `spinstate data`: the chemistry tables as loaded (bundled or from `--data DIR`).
 
+use super::Render;
 use super::{fmt_num, new_table};
 use crate::tables::{Ion, Ligand};
 use serde::Serialize;
 
 /// One ion row (energies in cm⁻¹).
-#[derive(Debug, Clone, Serialize)]
+#[derive(Debug, Clone, Serialize, schemars::JsonSchema)]
 pub struct IonRow {
     pub symbol: String,
+    /// Oxidation state of the metal (formal charge, e.g. 2).
     pub oxidation_state: i32,
     /// Name with Roman numeral, e.g. "Fe(II)".
     pub ion: String,
@@ -49,13 +51,15 @@ impl From<&Ion> for IonRow {
 }
 
 /// One ligand row.
-#[derive(Debug, Clone, Serialize)]
+#[derive(Debug, Clone, Serialize, schemars::JsonSchema)]
 pub struct LigandRow {
     pub name: String,
     pub aliases: Vec<String>,
     /// Donor atoms (element symbols); their number is the denticity.
     pub donors: Vec<String>,
+    /// Donor atoms bound per ligand (a count).
     pub denticity: usize,
+    /// Charge of the free ligand (elementary charges).
     pub charge: i32,
     /// Jørgensen f (dimensionless).
     pub f: f64,
@@ -97,7 +101,7 @@ impl From<&Ligand> for LigandRow {
 }
 
 /// `spinstate data ions`.
-#[derive(Debug, Clone, Serialize)]
+#[derive(Debug, Clone, Serialize, schemars::JsonSchema)]
 pub struct IonsReport {
     /// "bundled" or the `--data` directory.
     pub origin: String,
@@ -105,7 +109,7 @@ pub struct IonsReport {
 }
 
 /// `spinstate data ligands`.
-#[derive(Debug, Clone, Serialize)]
+#[derive(Debug, Clone, Serialize, schemars::JsonSchema)]
 pub struct LigandsReport {
     /// "bundled" or the `--data` directory.
     pub origin: String,
@@ -116,9 +120,11 @@ fn opt(x: Option<f64>, d: usize) -> String {
     x.map_or(String::new(), |v| fmt_num(v, d))
 }
 
-impl IonsReport {
+impl Render for IonsReport {
+    type Figure = ();
+
     /// Human table.
-    pub fn to_table(&self) -> String {
+    fn table(&self) -> String {
         let mut t = new_table([
             "ion",
             "d^n",
@@ -151,9 +157,11 @@ impl IonsReport {
     }
 }
 
-impl LigandsReport {
+impl Render for LigandsReport {
+    type Figure = ();
+
     /// Human table.
-    pub fn to_table(&self) -> String {
+    fn table(&self) -> String {
         let mut t = new_table([
             "ligand", "aliases", "donors", "charge", "f", "h", "π", "binds", "source",
         ]);
@@ -175,7 +183,7 @@ impl LigandsReport {
 }
 
 /// One row of `spinstate data pascal` (χ in 10⁻⁶ cm³ mol⁻¹, cgs).
-#[derive(Debug, Clone, Serialize)]
+#[derive(Debug, Clone, Serialize, schemars::JsonSchema)]
 pub struct PascalRow {
     /// "atom", "cation", "anion", "ligand", "solvent" or "bond" (constitutive correction).
     pub kind: String,
@@ -186,14 +194,16 @@ pub struct PascalRow {
 }
 
 /// `spinstate data pascal`.
-#[derive(Debug, Clone, Serialize)]
+#[derive(Debug, Clone, Serialize, schemars::JsonSchema)]
 pub struct PascalReport {
     pub origin: String,
     pub entries: Vec<PascalRow>,
 }
 
-impl PascalReport {
-    pub fn to_table(&self) -> String {
+impl Render for PascalReport {
+    type Figure = ();
+
+    fn table(&self) -> String {
         let mut t = new_table(["kind", "entry", "χ (10⁻⁶ cm³/mol)", "source"]);
         for r in &self.entries {
             t.add_row(vec![
@@ -208,29 +218,33 @@ impl PascalReport {
 }
 
 /// One row of `spinstate data moment-ranges`.
-#[derive(Debug, Clone, Serialize)]
+#[derive(Debug, Clone, Serialize, schemars::JsonSchema)]
 pub struct MomentRangeRow {
+    /// Number of d electrons.
     pub dn: usize,
     pub geometry: String,
     /// Spin multiplicity 2S+1 of the state.
     pub multiplicity: i32,
     pub ground_term: String,
-    /// Typical μ_eff at room temperature (μB).
+    /// Lower end of the typical room-temperature μ_eff (μB).
     pub mu_min: f64,
+    /// Upper end of the typical room-temperature μ_eff (μB).
     pub mu_max: f64,
     pub examples: String,
     pub source: String,
 }
 
 /// `spinstate data moment-ranges`.
-#[derive(Debug, Clone, Serialize)]
+#[derive(Debug, Clone, Serialize, schemars::JsonSchema)]
 pub struct MomentRangesReport {
     pub origin: String,
     pub ranges: Vec<MomentRangeRow>,
 }
 
-impl MomentRangesReport {
-    pub fn to_table(&self) -> String {
+impl Render for MomentRangesReport {
+    type Figure = ();
+
+    fn table(&self) -> String {
         let mut t = new_table([
             "d^n",
             "geometry",
@@ -256,9 +270,10 @@ impl MomentRangesReport {
 }
 
 /// One row of `spinstate data bond-lengths` (Å).
-#[derive(Debug, Clone, Serialize)]
+#[derive(Debug, Clone, Serialize, schemars::JsonSchema)]
 pub struct BondLengthDataRow {
     pub metal: String,
+    /// Oxidation state of the metal (formal charge).
     pub oxidation_state: i32,
     pub donor: String,
     pub donor_class: String,
@@ -273,14 +288,16 @@ pub struct BondLengthDataRow {
 }
 
 /// `spinstate data bond-lengths`.
-#[derive(Debug, Clone, Serialize)]
+#[derive(Debug, Clone, Serialize, schemars::JsonSchema)]
 pub struct BondLengthsReport {
     pub origin: String,
     pub rows: Vec<BondLengthDataRow>,
 }
 
-impl BondLengthsReport {
-    pub fn to_table(&self) -> String {
+impl Render for BondLengthsReport {
+    type Figure = ();
+
+    fn table(&self) -> String {
         let range =
             |r: Option<(f64, f64)>| r.map_or(String::new(), |(a, b)| format!("{a:.3}–{b:.3}"));
         let mut t = new_table([

@@ -1,17 +1,19 @@
 //! Report of `spinstate diagram` and its renderers: table, JSON, CSV and SVG.
 
+use super::Render;
 use super::{fmt_num, new_table};
 use crate::plot::energy::{energy_svg, EnergyOptions, SampleMark};
 use crate::plot::style::Column;
 use serde::Serialize;
 
 /// One level followed across the diagram.
-#[derive(Debug, Clone, Serialize)]
+#[derive(Debug, Clone, Serialize, schemars::JsonSchema)]
 pub struct SeriesRow {
     /// Unique column name, e.g. "4T1g(4P)" or "2T2g#3(2H)".
     pub key: String,
     /// Label with multiplicity, e.g. "4T1g".
     pub label: String,
+    /// Spin multiplicity 2S+1.
     pub multiplicity: i32,
     /// Free-ion parent term.
     pub parent: String,
@@ -22,10 +24,12 @@ pub struct SeriesRow {
 }
 
 /// The whole diagram (energies in units of Racah B).
-#[derive(Debug, Clone, Serialize)]
+#[derive(Debug, Clone, Serialize, schemars::JsonSchema)]
 pub struct DiagramReport {
+    /// Number of d electrons.
     pub dn: usize,
     pub geometry: String,
+    /// Racah C/B of the diagram (dimensionless).
     pub c_over_b: f64,
     /// Δ/B values (Δ = 10Dq), evenly spaced from 0 to the maximum, both included.
     pub delta_over_b: Vec<f64>,
@@ -58,8 +62,51 @@ impl DiagramReport {
         }
     }
 
+    /// The default caption: d^n, geometry and C/B.
+    pub fn caption(&self) -> String {
+        format!(
+            "d^{{{}}}, {}, *C*/*B* = {}",
+            self.dn,
+            self.geometry,
+            fmt_num(self.c_over_b, 2)
+        )
+    }
+
+    /// An SVG figure one journal column wide: levels coloured and dashed by spin multiplicity,
+    /// free-ion terms on the left, level labels on the right, the crossover with its value.
+    pub fn to_svg(&self) -> Result<String, String> {
+        Ok(self.to_svg_with(
+            None,
+            &EnergyOptions {
+                column: Column::Single,
+                title: self.caption(),
+                highlight: Vec::new(),
+            },
+        ))
+    }
+
+    /// The SVG figure with an optional sample and the given options.
+    pub fn to_svg_with(&self, sample: Option<&SampleMark>, options: &EnergyOptions) -> String {
+        energy_svg(self, sample, options)
+    }
+}
+
+/// What the diagram's figure shows beyond the report: its options and an optional sample.
+#[derive(Debug, Clone)]
+pub struct DiagramFigure {
+    pub options: EnergyOptions,
+    pub sample: Option<SampleMark>,
+}
+
+impl Render for DiagramReport {
+    type Figure = DiagramFigure;
+
+    fn svg(&self, figure: &DiagramFigure) -> Option<String> {
+        Some(self.to_svg_with(figure.sample.as_ref(), &figure.options))
+    }
+
     /// A short table: E/B of every level at Δ/B = 0, the middle and the maximum.
-    pub fn to_table(&self) -> String {
+    fn table(&self) -> String {
         let n = self.delta_over_b.len();
         let cols = [0, n / 2, n - 1];
         let heads: Vec<String> = cols
@@ -91,57 +138,31 @@ impl DiagramReport {
     }
 
     /// CSV: first column Δ/B, then one column of E/B per level (full precision).
-    pub fn to_csv(&self) -> String {
-        use std::fmt::Write;
-        // The header goes through the CSV writer (level keys are quoted if they ever need it);
-        // the numbers never need quoting and are written straight into one buffer, which keeps
-        // a 1000-point d⁵ diagram's CSV from dominating the command's time.
-        let mut w = csv::Writer::from_writer(Vec::new());
-        let mut header = vec!["delta_over_b".to_string()];
-        header.extend(self.series.iter().map(|s| s.key.clone()));
-        w.write_record(&header).expect("CSV to memory");
-        let mut out =
-            String::from_utf8(w.into_inner().expect("CSV to memory")).expect("CSV is UTF-8");
-        out.reserve(self.delta_over_b.len() * (self.series.len() + 1) * 12);
-        for (i, x) in self.delta_over_b.iter().enumerate() {
-            let _ = write!(out, "{x}");
-            for s in &self.series {
-                out.push(',');
-                let e = s.energies[i];
-                if e.is_finite() {
-                    let _ = write!(out, "{e}");
+    fn csv(&self) -> Option<String> {
+        Some({
+            use std::fmt::Write;
+            // The header goes through the CSV writer (level keys are quoted if they ever need it);
+            // the numbers never need quoting and are written straight into one buffer, which keeps
+            // a 1000-point d⁵ diagram's CSV from dominating the command's time.
+            let mut w = csv::Writer::from_writer(Vec::new());
+            let mut header = vec!["delta_over_b".to_string()];
+            header.extend(self.series.iter().map(|s| s.key.clone()));
+            w.write_record(&header).expect("CSV to memory");
+            let mut out =
+                String::from_utf8(w.into_inner().expect("CSV to memory")).expect("CSV is UTF-8");
+            out.reserve(self.delta_over_b.len() * (self.series.len() + 1) * 12);
+            for (i, x) in self.delta_over_b.iter().enumerate() {
+                let _ = write!(out, "{x}");
+                for s in &self.series {
+                    out.push(',');
+                    let e = s.energies[i];
+                    if e.is_finite() {
+                        let _ = write!(out, "{e}");
+                    }
                 }
+                out.push('\n');
             }
-            out.push('\n');
-        }
-        out
-    }
-
-    /// The default caption: d^n, geometry and C/B.
-    pub fn caption(&self) -> String {
-        format!(
-            "d^{{{}}}, {}, *C*/*B* = {}",
-            self.dn,
-            self.geometry,
-            fmt_num(self.c_over_b, 2)
-        )
-    }
-
-    /// An SVG figure one journal column wide: levels coloured and dashed by spin multiplicity,
-    /// free-ion terms on the left, level labels on the right, the crossover with its value.
-    pub fn to_svg(&self) -> Result<String, String> {
-        Ok(self.to_svg_with(
-            None,
-            &EnergyOptions {
-                column: Column::Single,
-                title: self.caption(),
-                highlight: Vec::new(),
-            },
-        ))
-    }
-
-    /// The SVG figure with an optional sample and the given options.
-    pub fn to_svg_with(&self, sample: Option<&SampleMark>, options: &EnergyOptions) -> String {
-        energy_svg(self, sample, options)
+            out
+        })
     }
 }

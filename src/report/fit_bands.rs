@@ -1,5 +1,6 @@
 //! Report of `spinstate fit-bands`: fitted Dq, B, C with the band assignment.
 
+use super::Render;
 use super::{fmt_num, new_table};
 use crate::spectra::fit::{
     relative_to_crossover, AssignedBand, BandFit, Determination, FitOutcome, FitParameter,
@@ -9,7 +10,7 @@ use crate::Result;
 use serde::Serialize;
 
 /// One observed band with its assignment.
-#[derive(Debug, Clone, Serialize)]
+#[derive(Debug, Clone, Serialize, schemars::JsonSchema)]
 pub struct AssignmentRow {
     /// Observed maximum (cm⁻¹).
     pub observed: f64,
@@ -33,7 +34,7 @@ pub struct AssignmentRow {
 }
 
 /// A calculated transition that was not observed.
-#[derive(Debug, Clone, Serialize)]
+#[derive(Debug, Clone, Serialize, schemars::JsonSchema)]
 pub struct PredictedRow {
     pub transition: String,
     pub label: String,
@@ -42,12 +43,13 @@ pub struct PredictedRow {
     pub energy: f64,
     /// Position as a wavelength (nm).
     pub wavelength_nm: f64,
+    /// Electrons that change orbital in the band's main strong-field jump (1 or 2); null when not determined.
     pub electrons_moved: Option<u32>,
     pub weak: bool,
 }
 
 /// A parameter held fixed.
-#[derive(Debug, Clone, Serialize)]
+#[derive(Debug, Clone, Serialize, schemars::JsonSchema)]
 pub struct FixedRow {
     /// "B", "C" or "C/B".
     pub name: String,
@@ -57,7 +59,7 @@ pub struct FixedRow {
 }
 
 /// 1σ uncertainties (null when exactly determined or not fitted).
-#[derive(Debug, Clone, Serialize, Default)]
+#[derive(Debug, Clone, Serialize, Default, schemars::JsonSchema)]
 pub struct UncertaintyRow {
     /// σ(Dq), cm⁻¹.
     pub dq: Option<f64>,
@@ -67,13 +69,14 @@ pub struct UncertaintyRow {
     pub b: Option<f64>,
     /// σ(C), cm⁻¹.
     pub c: Option<f64>,
+    /// σ(Δ/B) (dimensionless).
     pub delta_over_b: Option<f64>,
     /// σ(β) = σ(B)/B0.
     pub beta: Option<f64>,
 }
 
 /// The spin state the fitted field implies.
-#[derive(Debug, Clone, Serialize)]
+#[derive(Debug, Clone, Serialize, schemars::JsonSchema)]
 pub struct SpinCheckRow {
     /// 2S+1 of the ground state at the fitted parameters.
     pub ground_multiplicity: i32,
@@ -89,15 +92,20 @@ pub struct SpinCheckRow {
 }
 
 /// Another assignment that was fitted.
-#[derive(Debug, Clone, Serialize)]
+#[derive(Debug, Clone, Serialize, schemars::JsonSchema)]
 pub struct AlternativeRow {
     pub spin_state: String,
     /// Upper-level labels in band order.
     pub assignment: Vec<String>,
+    /// Dq of this assignment (cm⁻¹).
     pub dq: f64,
+    /// Δ = 10Dq of this assignment (cm⁻¹).
     pub delta: f64,
+    /// Racah B of this assignment (cm⁻¹); null when B does not enter the bands.
     pub b: Option<f64>,
+    /// Racah C of this assignment (cm⁻¹); null when C does not enter the bands.
     pub c: Option<f64>,
+    /// Δ/B of this assignment (dimensionless); null without B.
     pub delta_over_b: Option<f64>,
     /// rms residual (cm⁻¹).
     pub rms: f64,
@@ -107,8 +115,9 @@ pub struct AlternativeRow {
 }
 
 /// The whole `fit-bands` report. Energies in cm⁻¹ unless a field says otherwise.
-#[derive(Debug, Clone, Serialize)]
+#[derive(Debug, Clone, Serialize, schemars::JsonSchema)]
 pub struct FitBandsReport {
+    /// Number of d electrons.
     pub dn: usize,
     pub geometry: String,
     /// Unit the bands were given in.
@@ -132,6 +141,7 @@ pub struct FitBandsReport {
     /// C/B used in the calculation (fitted, given or the default), also when C does not enter
     /// the bands; the crossover is placed at this ratio.
     pub c_over_b_used: f64,
+    /// Δ/B of the fit (dimensionless); null when B does not enter the bands.
     pub delta_over_b: Option<f64>,
     /// Nephelauxetic ratio B/B0, when B0 is given.
     pub beta: Option<f64>,
@@ -142,6 +152,7 @@ pub struct FitBandsReport {
     pub uncertainties: UncertaintyRow,
     /// "exact" or "over-determined".
     pub determination: String,
+    /// Bands minus fitted parameters (a count; 0 for an exact fit).
     pub degrees_of_freedom: usize,
     pub free_parameters: Vec<String>,
     pub fixed: Vec<FixedRow>,
@@ -166,11 +177,12 @@ pub struct FitBandsReport {
     /// (cm⁻¹; Lever 1984); null for other cases.
     pub convention: Option<ConventionRow>,
     pub notes: Vec<String>,
+    /// Evaluations of the model the fit took (a count).
     pub evaluations: usize,
 }
 
 /// Δ and B as published tables read them (cm⁻¹).
-#[derive(Debug, Clone, Serialize)]
+#[derive(Debug, Clone, Serialize, schemars::JsonSchema)]
 pub struct ConventionRow {
     /// Δ = ν₁.
     pub delta: f64,
@@ -339,9 +351,13 @@ impl FitBandsReport {
             evaluations: f.evaluations,
         })
     }
+}
+
+impl Render for FitBandsReport {
+    type Figure = ();
 
     /// Human table.
-    pub fn to_table(&self) -> String {
+    fn table(&self) -> String {
         let mut s = String::new();
         let pm = |x: Option<f64>, d: usize| {
             x.map(|v| format!(" ± {}", fmt_num(v, d)))

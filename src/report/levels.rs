@@ -1,10 +1,11 @@
 //! Report of `spinstate levels`: every level of one calculation.
 
+use super::Render;
 use super::{fmt_num, new_table};
 use serde::Serialize;
 
 /// One level as reported (energies in cm⁻¹, or in units of B when the input was given as ratios).
-#[derive(Debug, Clone, Serialize)]
+#[derive(Debug, Clone, Serialize, schemars::JsonSchema)]
 pub struct LevelRow {
     /// Energy above the ground level (cm⁻¹, or units of B in ratio mode).
     pub energy: f64,
@@ -34,32 +35,42 @@ pub struct LevelRow {
 }
 
 /// The whole `levels` report.
-#[derive(Debug, Clone, Serialize)]
+#[derive(Debug, Clone, Serialize, schemars::JsonSchema)]
 pub struct LevelsReport {
+    /// Number of d electrons.
     pub dn: usize,
     pub geometry: String,
     /// Point group whose labels are used (Oh, Td, D4h).
     pub point_group: String,
     /// "cm-1" or "B" (energies in units of Racah B).
     pub energy_unit: String,
+    /// Racah B (cm⁻¹; 1 in ratio mode, where energies are in units of B).
     pub b: f64,
+    /// Racah C (cm⁻¹, or units of B in ratio mode).
     pub c: f64,
+    /// Dq (cm⁻¹, or units of B in ratio mode).
     pub dq: f64,
     /// Δ = 10Dq.
     pub delta: f64,
+    /// Tetragonal parameter Ds (cm⁻¹, or units of B in ratio mode).
     pub ds: f64,
+    /// Tetragonal parameter Dt (cm⁻¹, or units of B in ratio mode).
     pub dt: f64,
     /// One-electron spin–orbit constant ζ (0 when spin–orbit coupling is off).
     pub zeta: f64,
+    /// C/B (dimensionless).
     pub c_over_b: f64,
+    /// Δ/B = 10Dq/B (dimensionless).
     pub delta_over_b: f64,
     pub ground: String,
     pub levels: Vec<LevelRow>,
 }
 
-impl LevelsReport {
+impl Render for LevelsReport {
+    type Figure = ();
+
     /// Human table.
-    pub fn to_table(&self) -> String {
+    fn table(&self) -> String {
         let unit = if self.energy_unit == "B" {
             "E/B"
         } else {

@@ -1,5 +1,6 @@
 //! Report of `spinstate magnetism`: χ, χT and μ_eff against temperature.
 
+use super::Render;
 use super::{fmt_num, new_table};
 use crate::plot::moment::{moment_svg, Curve, MomentFigure, Point, Quantity, Reference};
 use crate::plot::style::Column;
@@ -7,7 +8,7 @@ use crate::units;
 use serde::Serialize;
 
 /// One temperature point (cgs-emu units unless the report's `units` is "si").
-#[derive(Debug, Clone, Serialize)]
+#[derive(Debug, Clone, Serialize, schemars::JsonSchema)]
 pub struct MagnetismPoint {
     /// Temperature (K).
     pub t: f64,
@@ -22,15 +23,18 @@ pub struct MagnetismPoint {
 }
 
 /// The whole `magnetism` report.
-#[derive(Debug, Clone, Serialize)]
+#[derive(Debug, Clone, Serialize, schemars::JsonSchema)]
 pub struct MagnetismReport {
     /// Unit system of χ and χT: "cgs" (cm³ mol⁻¹, default) or "si" (m³ mol⁻¹).
     pub units: String,
+    /// Number of d electrons.
     pub dn: usize,
     pub geometry: String,
-    /// Racah B, C and Dq (cm⁻¹).
+    /// Racah B (cm⁻¹).
     pub b: f64,
+    /// Racah C (cm⁻¹).
     pub c: f64,
+    /// Dq (cm⁻¹).
     pub dq: f64,
     /// Spin–orbit constant used in the Hamiltonian (cm⁻¹, after any reduction by κ).
     pub zeta: f64,
@@ -51,9 +55,12 @@ pub struct MagnetismReport {
     pub notes: Vec<String>,
 }
 
+/// Points shown in the human table.
+pub const TABLE_ROWS: usize = 16;
+
 impl MagnetismReport {
     /// A human table of at most `rows` evenly spaced points.
-    pub fn to_table(&self, rows: usize) -> String {
+    pub fn table_of(&self, rows: usize) -> String {
         let (chi_unit, chi_t_unit) = if self.units == "si" {
             ("m³/mol", "m³ K/mol")
         } else {
@@ -113,43 +120,6 @@ impl MagnetismReport {
             s.push_str(&format!("note: {n}\n"));
         }
         s
-    }
-
-    /// CSV of every point (full precision).
-    pub fn to_csv(&self) -> String {
-        let mut w = csv::Writer::from_writer(Vec::new());
-        let si = self.units == "si";
-        w.write_record([
-            "t_k",
-            if si {
-                "chi_m3_per_mol"
-            } else {
-                "chi_cm3_per_mol"
-            },
-            if si {
-                "chi_t_m3_k_per_mol"
-            } else {
-                "chi_t_cm3_k_per_mol"
-            },
-            "mu_eff_bohr",
-            "chi_x",
-            "chi_y",
-            "chi_z",
-        ])
-        .expect("CSV to memory");
-        for p in &self.points {
-            w.write_record([
-                p.t.to_string(),
-                p.chi.to_string(),
-                p.chi_t.to_string(),
-                p.mu_eff.to_string(),
-                p.chi_axes[0].to_string(),
-                p.chi_axes[1].to_string(),
-                p.chi_axes[2].to_string(),
-            ])
-            .expect("CSV to memory");
-        }
-        String::from_utf8(w.into_inner().expect("CSV to memory")).expect("UTF-8")
     }
 
     /// The figure: μ_eff against T with the spin-only value of the ground level.
@@ -230,6 +200,58 @@ impl MagnetismReport {
             },
             p.column,
         )
+    }
+}
+
+impl Render for MagnetismReport {
+    type Figure = MomentPlot;
+
+    /// At most [`TABLE_ROWS`] evenly spaced points (the CSV and JSON hold them all).
+    fn table(&self) -> String {
+        self.table_of(TABLE_ROWS)
+    }
+
+    /// CSV of every point (full precision).
+    fn csv(&self) -> Option<String> {
+        Some({
+            let mut w = csv::Writer::from_writer(Vec::new());
+            let si = self.units == "si";
+            w.write_record([
+                "t_k",
+                if si {
+                    "chi_m3_per_mol"
+                } else {
+                    "chi_cm3_per_mol"
+                },
+                if si {
+                    "chi_t_m3_k_per_mol"
+                } else {
+                    "chi_t_cm3_k_per_mol"
+                },
+                "mu_eff_bohr",
+                "chi_x",
+                "chi_y",
+                "chi_z",
+            ])
+            .expect("CSV to memory");
+            for p in &self.points {
+                w.write_record([
+                    p.t.to_string(),
+                    p.chi.to_string(),
+                    p.chi_t.to_string(),
+                    p.mu_eff.to_string(),
+                    p.chi_axes[0].to_string(),
+                    p.chi_axes[1].to_string(),
+                    p.chi_axes[2].to_string(),
+                ])
+                .expect("CSV to memory");
+            }
+            String::from_utf8(w.into_inner().expect("CSV to memory")).expect("UTF-8")
+        })
+    }
+
+    fn svg(&self, plot: &MomentPlot) -> Option<String> {
+        Some(self.to_svg_with(plot))
     }
 }
 

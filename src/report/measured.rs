@@ -1,6 +1,7 @@
 //! Reports of `spinstate evans` and `spinstate moment`: χ_M, χ_M·T, μ_eff and unpaired electrons
 //! with uncertainties, the diamagnetic correction and the spin-state comparison.
 
+use super::Render;
 use super::{fmt_num, new_table};
 use crate::measured::compare::{spin_text, Comparison, MomentVerdict, Orbital};
 use crate::measured::evans::EvansResult;
@@ -16,10 +17,11 @@ pub const EVANS_SAFETY: &str = "Safety: superconducting magnets pull ferromagnet
 pub const MOMENT_SAFETY: &str = "Safety: magnetometry at low temperature uses liquid nitrogen and helium (cold burns, asphyxiation in closed rooms); cyanide and heavy-metal compounds need your lab's usual handling. Follow your institution's rules and a local risk assessment; this output is not a safety approval.";
 
 /// One line of a Pascal sum.
-#[derive(Debug, Clone, Serialize)]
+#[derive(Debug, Clone, Serialize, schemars::JsonSchema)]
 pub struct DiaTermRow {
     pub name: String,
     pub kind: String,
+    /// How many of this entry the formula holds (a count, may be fractional for solvates).
     pub count: f64,
     /// Increment per unit (`chi_unit`).
     pub each: f64,
@@ -29,10 +31,11 @@ pub struct DiaTermRow {
 }
 
 /// The diamagnetic correction.
-#[derive(Debug, Clone, Serialize)]
+#[derive(Debug, Clone, Serialize, schemars::JsonSchema)]
 pub struct DiaReport {
     /// χ_D subtracted (`chi_unit`; negative or 0).
     pub value: f64,
+    /// 1σ of χ_D (`chi_unit`).
     pub err: f64,
     /// "given", "pascal", "rough" or "none".
     pub method: String,
@@ -41,15 +44,17 @@ pub struct DiaReport {
 }
 
 /// Evans-specific quantities.
-#[derive(Debug, Clone, Serialize)]
+#[derive(Debug, Clone, Serialize, schemars::JsonSchema)]
 pub struct EvansDetails {
     /// "solenoid" (field along the tube) or "transverse".
     pub magnet: String,
     /// Δδ = 10⁶ Δf/f, solution line minus insert line (ppm).
     pub shift_ppm: f64,
+    /// 1σ of the shift (ppm).
     pub shift_ppm_err: f64,
     /// Concentration of the paramagnet (mol/L).
     pub concentration: f64,
+    /// 1σ of the concentration (mol/L).
     pub concentration_err: f64,
     /// The shift term of χ_M (`chi_unit`).
     pub chi_shift_term: f64,
@@ -60,7 +65,7 @@ pub struct EvansDetails {
 }
 
 /// One spin state's expectation.
-#[derive(Debug, Clone, Serialize)]
+#[derive(Debug, Clone, Serialize, schemars::JsonSchema)]
 pub struct StateRow {
     /// "high spin", "low spin" or "only spin state".
     pub state: String,
@@ -79,22 +84,26 @@ pub struct StateRow {
     /// μ_so(1 − αλ/10Dq) (μB).
     pub mu_spin_orbit_corrected: Option<f64>,
     /// T terms: μ_eff (μB) at the measurement temperature from the full ligand field with
-    /// spin–orbit coupling, for κ = 0.7 and κ = 1.0.
+    /// spin–orbit coupling, for κ = 0.7.
     pub mu_ligand_field_kappa_07: Option<f64>,
+    /// μ_eff (μB) from the full ligand field at κ = 1.0 (T terms only).
     pub mu_ligand_field_kappa_10: Option<f64>,
-    /// Typical published range (μB).
+    /// Lower end of the typical published range (μB).
     pub range_min: Option<f64>,
+    /// Upper end of the typical published range (μB).
     pub range_max: Option<f64>,
     pub range_source: Option<String>,
-    /// Window counted as agreement (μB).
+    /// Lower end of the window counted as agreement (μB).
     pub window_min: f64,
+    /// Upper end of the window counted as agreement (μB).
     pub window_max: f64,
     pub notes: Vec<String>,
 }
 
 /// Comparison with the spin states.
-#[derive(Debug, Clone, Serialize)]
+#[derive(Debug, Clone, Serialize, schemars::JsonSchema)]
 pub struct ComparisonReport {
+    /// Number of d electrons.
     pub dn: usize,
     pub geometry: String,
     /// "supports", "ambiguous", "between-states" or "outside-expectations".
@@ -106,7 +115,7 @@ pub struct ComparisonReport {
 }
 
 /// The whole report of `evans` or `moment`.
-#[derive(Debug, Clone, Serialize)]
+#[derive(Debug, Clone, Serialize, schemars::JsonSchema)]
 pub struct MeasuredMomentReport {
     /// "evans" or "moment".
     pub command: String,
@@ -118,26 +127,33 @@ pub struct MeasuredMomentReport {
     pub chi_t_unit: String,
     /// Temperature (K).
     pub temperature: f64,
+    /// 1σ of the temperature (K).
     pub temperature_err: f64,
     /// Molar susceptibility as measured (`chi_unit`).
     pub chi_m: f64,
+    /// 1σ of χ_M (`chi_unit`).
     pub chi_m_err: f64,
     /// χ_M − χ_D (`chi_unit`).
     pub chi_m_corrected: f64,
+    /// 1σ of χ_M − χ_D (`chi_unit`).
     pub chi_m_corrected_err: f64,
     /// χ_M·T of the corrected susceptibility (`chi_t_unit`).
     pub chi_m_t: f64,
+    /// 1σ of χ_M·T (`chi_t_unit`).
     pub chi_m_t_err: f64,
     /// Effective moment (μB).
     pub mu_eff: f64,
+    /// 1σ of μ_eff (μB).
     pub mu_eff_err: f64,
     /// Unpaired electrons from μ_eff = √(n(n+2)) (real).
     pub unpaired: f64,
+    /// 1σ of the number of unpaired electrons.
     pub unpaired_err: f64,
     /// Nearest integer.
     pub unpaired_nearest: u32,
     /// Formula as given, and its molar mass (g/mol), when known.
     pub formula: Option<String>,
+    /// Molar mass (g/mol), from the formula or given; null without either.
     pub molar_mass: Option<f64>,
     pub dia: DiaReport,
     pub evans: Option<EvansDetails>,
@@ -257,9 +273,13 @@ impl MeasuredMomentReport {
             safety: safety.to_string(),
         }
     }
+}
+
+impl Render for MeasuredMomentReport {
+    type Figure = ();
 
     /// Human-readable tables.
-    pub fn to_table(&self) -> String {
+    fn table(&self) -> String {
         let chi = |v: f64, e: f64| {
             if e > 0.0 {
                 format!("{v:.4e} ± {e:.1e}")

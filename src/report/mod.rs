@@ -1,4 +1,5 @@
-//! Serialisable report types and their renderers (table, JSON, CSV, SVG).
+//! Serialisable report types and their renderers (table, JSON, CSV, SVG), each through the one
+//! [`Render`] trait of `render.rs`.
 //!
 //! Reports are plain data built from engine results; rendering never computes science. Human
 //! tables round; JSON and CSV keep full precision.
@@ -15,6 +16,7 @@ pub mod levels;
 pub mod magnetism;
 pub mod measured;
 pub mod predict;
+pub mod render;
 pub mod sco;
 pub mod screen;
 pub mod structure;
@@ -22,14 +24,7 @@ pub mod structure_spin;
 pub mod tetragonal_fit;
 
 use comfy_table::{presets::UTF8_FULL_CONDENSED, ContentArrangement, Table};
-use serde::Serialize;
-
-/// Pretty JSON of a report (top-level object), with a trailing newline.
-pub fn to_json<T: Serialize>(report: &T) -> String {
-    let mut s = serde_json::to_string_pretty(report).expect("reports serialise to JSON");
-    s.push('\n');
-    s
-}
+pub use render::{to_json, JsonSchema, Render};
 
 /// A table with the project's style and the given header.
 pub fn new_table<I, S>(header: I) -> Table

@@ -4,17 +4,19 @@
 //! μB, wavelengths in nm; `null` where a value does not apply (e.g. B of a d¹ ion, the crossover
 //! of a geometry whose spin cannot change).
 
+use super::Render;
 use super::{fmt_num, new_table};
 use crate::complex::{Origin, Parameter};
 use crate::predict::{Prediction, SpinBands};
 use serde::Serialize;
 
 /// One ligand as used in the estimate.
-#[derive(Debug, Clone, Serialize)]
+#[derive(Debug, Clone, Serialize, schemars::JsonSchema)]
 pub struct LigandRow {
     pub name: String,
     /// Number of ligands.
     pub count: usize,
+    /// Donor atoms bound per ligand (a count).
     pub denticity: usize,
     /// Donor atoms (element symbols).
     pub donors: Vec<String>,
@@ -31,7 +33,7 @@ pub struct LigandRow {
 }
 
 /// One parameter, given vs estimated (cm⁻¹).
-#[derive(Debug, Clone, Serialize)]
+#[derive(Debug, Clone, Serialize, schemars::JsonSchema)]
 pub struct ParameterRow {
     /// Value used (cm⁻¹); null when nominal (no result depends on it).
     pub value: Option<f64>,
@@ -62,7 +64,7 @@ fn used(p: &Parameter) -> Option<f64> {
 }
 
 /// Δ, B and C, each given vs estimated.
-#[derive(Debug, Clone, Serialize)]
+#[derive(Debug, Clone, Serialize, schemars::JsonSchema)]
 pub struct Parameters {
     pub delta: ParameterRow,
     pub b: ParameterRow,
@@ -70,7 +72,7 @@ pub struct Parameters {
 }
 
 /// The ground state on one side of the crossover.
-#[derive(Debug, Clone, Serialize)]
+#[derive(Debug, Clone, Serialize, schemars::JsonSchema)]
 pub struct StateRow {
     /// Total spin S.
     pub spin: f64,
@@ -81,7 +83,7 @@ pub struct StateRow {
 }
 
 /// Distance from the crossover.
-#[derive(Debug, Clone, Serialize)]
+#[derive(Debug, Clone, Serialize, schemars::JsonSchema)]
 pub struct MarginRow {
     /// Δ/B − crossover Δ/B (dimensionless; negative on the high-spin side).
     pub delta_over_b: f64,
@@ -94,7 +96,7 @@ pub struct MarginRow {
 }
 
 /// One band.
-#[derive(Debug, Clone, Serialize)]
+#[derive(Debug, Clone, Serialize, schemars::JsonSchema)]
 pub struct BandRow {
     /// Upper level, e.g. "4T1g".
     pub to: String,
@@ -121,7 +123,7 @@ pub struct BandRow {
 }
 
 /// The spin-allowed bands of one spin state.
-#[derive(Debug, Clone, Serialize)]
+#[derive(Debug, Clone, Serialize, schemars::JsonSchema)]
 pub struct BandSet {
     /// Total spin S of the state.
     pub spin: f64,
@@ -168,7 +170,7 @@ impl From<&SpinBands> for BandSet {
 }
 
 /// The literature spin state of the complex, when it is in `reported_spin_states.csv`.
-#[derive(Debug, Clone, Serialize)]
+#[derive(Debug, Clone, Serialize, schemars::JsonSchema)]
 pub struct ReportedRow {
     /// Label as in the table, e.g. "[Fe(bpy)3]2+".
     pub complex: String,
@@ -194,7 +196,7 @@ impl From<&crate::tables::ReportedComplex> for ReportedRow {
 }
 
 /// The two spin states' own fields and the energy gap between them.
-#[derive(Debug, Clone, Serialize)]
+#[derive(Debug, Clone, Serialize, schemars::JsonSchema)]
 pub struct SpinGeometryRow {
     /// Spin state whose geometry the ion's g refers to: "hs", "ls" or "any".
     pub reference_state: String,
@@ -215,13 +217,14 @@ pub struct SpinGeometryRow {
 }
 
 /// The whole `predict` report.
-#[derive(Debug, Clone, Serialize)]
+#[derive(Debug, Clone, Serialize, schemars::JsonSchema)]
 pub struct PredictReport {
     /// Formula as built from the ligands, e.g. "[Fe(NCS)2(py)4]".
     pub complex: String,
     /// Metal ion, e.g. "Fe(II)".
     pub ion: String,
     pub metal: String,
+    /// Oxidation state of the metal (formal charge).
     pub oxidation_state: i32,
     /// oct, tet or sqpl.
     pub geometry: String,
@@ -416,9 +419,13 @@ impl PredictReport {
         self.reported = r.map(Into::into);
         self
     }
+}
+
+impl Render for PredictReport {
+    type Figure = ();
 
     /// Human-readable text with tables.
-    pub fn to_table(&self) -> String {
+    fn table(&self) -> String {
         let opt = |x: Option<f64>, d: usize| x.map_or("—".to_string(), |v| fmt_num(v, d));
         let mut out = format!(
             "{}  {}, d{}, {} ({}), charge {}\n",

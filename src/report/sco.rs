@@ -5,6 +5,7 @@
 //! kJ mol⁻¹, ΔS in J mol⁻¹ K⁻¹, χ_M·T in cm³ K mol⁻¹; every fitted quantity `x` has `x_err`
 //! (1σ; null when fixed or not determined).
 
+use super::Render;
 use super::{fmt_num, new_table};
 use crate::plot::moment::Curve;
 use crate::plot::style::Column;
@@ -16,7 +17,7 @@ use crate::sco::model::{simulate, Branch, Transition, GAS_CONSTANT};
 use serde::Serialize;
 
 /// One data point with the fitted value.
-#[derive(Debug, Clone, Serialize)]
+#[derive(Debug, Clone, Serialize, schemars::JsonSchema)]
 pub struct ResidualRow {
     /// K.
     pub t: f64,
@@ -31,44 +32,57 @@ pub struct ResidualRow {
 }
 
 /// The `sco-fit` report.
-#[derive(Debug, Clone, Serialize)]
+#[derive(Debug, Clone, Serialize, schemars::JsonSchema)]
 pub struct FitReport {
     /// "ideal" or "cooperative".
     pub model: String,
     /// Where the values came from.
     pub source: String,
+    /// Number of data points fitted.
     pub points: usize,
     /// T½ (K).
     pub t_half: f64,
+    /// 1σ of T½ (K); null when not determined.
     pub t_half_err: Option<f64>,
     /// ΔH (kJ mol⁻¹).
     pub dh: f64,
+    /// 1σ of ΔH (kJ mol⁻¹); null when not determined.
     pub dh_err: Option<f64>,
     /// ΔS (J mol⁻¹ K⁻¹).
     pub ds: f64,
+    /// 1σ of ΔS (J mol⁻¹ K⁻¹); null when not determined.
     pub ds_err: Option<f64>,
     /// Γ (kJ mol⁻¹); 0 for the ideal model.
     pub gamma: f64,
+    /// 1σ of Γ (kJ mol⁻¹); null when not fitted.
     pub gamma_err: Option<f64>,
     /// Γ/(2RT½): above 1 the transition is first order with hysteresis.
     pub gamma_over_2rt_half: f64,
-    /// Turning points of the loop (K); null without hysteresis.
+    /// Lower turning point T↓ of the loop (K); null without hysteresis.
     pub t_down: Option<f64>,
+    /// 1σ of T↓ (K); null without hysteresis.
     pub t_down_err: Option<f64>,
+    /// Upper turning point T↑ of the loop (K); null without hysteresis.
     pub t_up: Option<f64>,
+    /// 1σ of T↑ (K); null without hysteresis.
     pub t_up_err: Option<f64>,
     /// T↑ − T↓ (K); null without hysteresis.
     pub loop_width: Option<f64>,
-    /// χ_M·T of the pure high- and low-spin states (cm³ K mol⁻¹).
+    /// χ_M·T of the pure high-spin state (cm³ K mol⁻¹).
     pub chit_hs: f64,
+    /// 1σ of the high-spin χ_M·T (cm³ K mol⁻¹); null when fixed.
     pub chit_hs_err: Option<f64>,
+    /// χ_M·T of the pure low-spin state (cm³ K mol⁻¹).
     pub chit_ls: f64,
+    /// 1σ of the low-spin χ_M·T (cm³ K mol⁻¹); null when fixed.
     pub chit_ls_err: Option<f64>,
     /// Trapped high-spin fraction r.
     pub residual_hs_fraction: f64,
+    /// 1σ of the trapped high-spin fraction; null when not fitted.
     pub residual_hs_fraction_err: Option<f64>,
     /// R ln[(2S_HS+1)/(2S_LS+1)] (J mol⁻¹ K⁻¹) and ΔS minus it; null without the spins.
     pub ds_spin: Option<f64>,
+    /// ΔS minus its spin part (J mol⁻¹ K⁻¹, mostly vibrational); null without the spins.
     pub ds_other: Option<f64>,
     /// RMS of the residuals (cm³ K mol⁻¹).
     pub rms: f64,
@@ -159,8 +173,58 @@ impl FitReport {
         }
     }
 
+    /// SVG: the data (cooling ▼, heating △, other ○) with the fitted curve on both branches,
+    /// a γ_HS axis on the right and a residual panel below; one journal column wide.
+    pub fn to_svg(&self) -> Result<String, String> {
+        Ok(self.to_svg_with(&TransitionPlot::default()))
+    }
+
+    /// The figure at the width and in the quantity asked for.
+    pub fn to_svg_with(&self, plot: &TransitionPlot) -> String {
+        let (lo, hi) = self
+            .residuals
+            .iter()
+            .map(|r| r.t)
+            .fold((f64::INFINITY, f64::NEG_INFINITY), |(a, b), t| {
+                (a.min(t), b.max(t))
+            });
+        let title = if self.model == "cooperative" {
+            format!(
+                "Cooperative fit: Δ*H* = {:.1} kJ mol⁻¹, *Γ* = {:.2} kJ mol⁻¹",
+                self.dh, self.gamma
+            )
+        } else {
+            format!(
+                "Ideal fit: Δ*H* = {:.1} kJ mol⁻¹, Δ*S* = {:.0} J K⁻¹ mol⁻¹",
+                self.dh, self.ds
+            )
+        };
+        let points: Vec<(f64, f64, Direction, Option<f64>)> = self
+            .residuals
+            .iter()
+            .map(|r| (r.t, r.observed, direction(&r.branch), Some(r.residual)))
+            .collect();
+        figure(
+            title,
+            &self.transition,
+            (self.chit_hs, self.chit_ls),
+            (lo, hi),
+            &points,
+            (self.t_down.zip(self.t_up), self.t_half),
+            plot,
+        )
+    }
+}
+
+impl Render for FitReport {
+    type Figure = TransitionPlot;
+
+    fn svg(&self, plot: &TransitionPlot) -> Option<String> {
+        Some(self.to_svg_with(plot))
+    }
+
     /// Human-readable table.
-    pub fn to_table(&self) -> String {
+    fn table(&self) -> String {
         // A value without an uncertainty was either held fixed or is not determined by the data.
         let pm = |name: &str, v: f64, e: Option<f64>, d: usize| match e {
             Some(e) => format!("{} ± {}", fmt_num(v, d), fmt_num(e, d.max(1))),
@@ -268,67 +332,27 @@ impl FitReport {
     }
 
     /// CSV of the points: T, observed, calculated, residual, branch (full precision).
-    pub fn to_csv(&self) -> String {
-        let mut w = csv::Writer::from_writer(Vec::new());
-        let _ = w.write_record([
-            "t_k",
-            "chit_observed_cm3kmol",
-            "chit_calculated_cm3kmol",
-            "residual_cm3kmol",
-            "branch",
-        ]);
-        for r in &self.residuals {
+    fn csv(&self) -> Option<String> {
+        Some({
+            let mut w = csv::Writer::from_writer(Vec::new());
             let _ = w.write_record([
-                r.t.to_string(),
-                r.observed.to_string(),
-                r.calculated.to_string(),
-                r.residual.to_string(),
-                r.branch.clone(),
+                "t_k",
+                "chit_observed_cm3kmol",
+                "chit_calculated_cm3kmol",
+                "residual_cm3kmol",
+                "branch",
             ]);
-        }
-        String::from_utf8(w.into_inner().unwrap_or_default()).unwrap_or_default()
-    }
-
-    /// SVG: the data (cooling ▼, heating △, other ○) with the fitted curve on both branches,
-    /// a γ_HS axis on the right and a residual panel below; one journal column wide.
-    pub fn to_svg(&self) -> Result<String, String> {
-        Ok(self.to_svg_with(&TransitionPlot::default()))
-    }
-
-    /// The figure at the width and in the quantity asked for.
-    pub fn to_svg_with(&self, plot: &TransitionPlot) -> String {
-        let (lo, hi) = self
-            .residuals
-            .iter()
-            .map(|r| r.t)
-            .fold((f64::INFINITY, f64::NEG_INFINITY), |(a, b), t| {
-                (a.min(t), b.max(t))
-            });
-        let title = if self.model == "cooperative" {
-            format!(
-                "Cooperative fit: Δ*H* = {:.1} kJ mol⁻¹, *Γ* = {:.2} kJ mol⁻¹",
-                self.dh, self.gamma
-            )
-        } else {
-            format!(
-                "Ideal fit: Δ*H* = {:.1} kJ mol⁻¹, Δ*S* = {:.0} J K⁻¹ mol⁻¹",
-                self.dh, self.ds
-            )
-        };
-        let points: Vec<(f64, f64, Direction, Option<f64>)> = self
-            .residuals
-            .iter()
-            .map(|r| (r.t, r.observed, direction(&r.branch), Some(r.residual)))
-            .collect();
-        figure(
-            title,
-            &self.transition,
-            (self.chit_hs, self.chit_ls),
-            (lo, hi),
-            &points,
-            (self.t_down.zip(self.t_up), self.t_half),
-            plot,
-        )
+            for r in &self.residuals {
+                let _ = w.write_record([
+                    r.t.to_string(),
+                    r.observed.to_string(),
+                    r.calculated.to_string(),
+                    r.residual.to_string(),
+                    r.branch.clone(),
+                ]);
+            }
+            String::from_utf8(w.into_inner().unwrap_or_default()).unwrap_or_default()
+        })
     }
 }
 
@@ -449,33 +473,42 @@ fn figure(
 }
 
 /// One simulated point.
-#[derive(Debug, Clone, Serialize)]
+#[derive(Debug, Clone, Serialize, schemars::JsonSchema)]
 pub struct CurveRow {
     /// K.
     pub t: f64,
-    /// High-spin fraction on the heating and cooling branches (equal outside a loop).
+    /// High-spin fraction on the heating branch (0..1; equal to cooling outside a loop).
     pub gamma_heating: f64,
+    /// High-spin fraction on the cooling branch (0..1).
     pub gamma_cooling: f64,
-    /// χ_M·T on each branch (cm³ K mol⁻¹).
+    /// χ_M·T on the heating branch (cm³ K mol⁻¹).
     pub chit_heating: f64,
+    /// χ_M·T on the cooling branch (cm³ K mol⁻¹).
     pub chit_cooling: f64,
 }
 
 /// The `sco-curve` report.
-#[derive(Debug, Clone, Serialize)]
+#[derive(Debug, Clone, Serialize, schemars::JsonSchema)]
 pub struct CurveReport {
-    /// kJ mol⁻¹, J mol⁻¹ K⁻¹, kJ mol⁻¹.
+    /// ΔH = H_HS − H_LS (kJ mol⁻¹).
     pub dh: f64,
+    /// ΔS = S_HS − S_LS (J mol⁻¹ K⁻¹).
     pub ds: f64,
+    /// Interaction parameter Γ (kJ mol⁻¹); 0 for the ideal model.
     pub gamma: f64,
     /// T½ = ΔH/ΔS (K).
     pub t_half: f64,
+    /// Γ/(2RT½) (dimensionless): above 1 the transition is first order with hysteresis.
     pub gamma_over_2rt_half: f64,
+    /// Trapped high-spin fraction r (0 ≤ r < 1).
     pub residual_hs_fraction: f64,
-    /// Turning points (K); null without hysteresis.
+    /// Lower turning point T↓ (K); null without hysteresis.
     pub t_down: Option<f64>,
+    /// Upper turning point T↑ (K); null without hysteresis.
     pub t_up: Option<f64>,
+    /// χ_M·T of the pure high-spin state (cm³ K mol⁻¹).
     pub chit_hs: f64,
+    /// χ_M·T of the pure low-spin state (cm³ K mol⁻¹).
     pub chit_ls: f64,
     pub points: Vec<CurveRow>,
     #[serde(skip)]
@@ -511,7 +544,46 @@ impl CurveReport {
         })
     }
 
-    pub fn to_table(&self) -> String {
+    /// SVG of χ_M·T (and γ_HS) against T on both branches, one journal column wide.
+    pub fn to_svg(&self) -> Result<String, String> {
+        Ok(self.to_svg_with(&TransitionPlot::default()))
+    }
+
+    /// The figure at the width and in the quantity asked for.
+    pub fn to_svg_with(&self, plot: &TransitionPlot) -> String {
+        let tmin = self.points.first().map_or(50.0, |p| p.t);
+        let tmax = self.points.last().map_or(350.0, |p| p.t);
+        let title = if self.gamma > 0.0 {
+            format!(
+                "Simulated: Δ*H* = {:.1} kJ mol⁻¹, *Γ* = {:.2} kJ mol⁻¹",
+                self.dh, self.gamma
+            )
+        } else {
+            format!(
+                "Simulated: Δ*H* = {:.1} kJ mol⁻¹, Δ*S* = {:.0} J K⁻¹ mol⁻¹",
+                self.dh, self.ds
+            )
+        };
+        figure(
+            title,
+            &self.transition,
+            (self.chit_hs, self.chit_ls),
+            (tmin, tmax),
+            &[],
+            (self.t_down.zip(self.t_up), self.t_half),
+            plot,
+        )
+    }
+}
+
+impl Render for CurveReport {
+    type Figure = TransitionPlot;
+
+    fn svg(&self, plot: &TransitionPlot) -> Option<String> {
+        Some(self.to_svg_with(plot))
+    }
+
+    fn table(&self) -> String {
         let mut out = format!(
             "spin transition: ΔH = {} kJ/mol, ΔS = {} J/mol/K, Γ = {} kJ/mol (Γ/2RT½ = {}), T½ = {} K\n",
             fmt_num(self.dh, 2),
@@ -549,55 +621,26 @@ impl CurveReport {
         out
     }
 
-    pub fn to_csv(&self) -> String {
-        let mut w = csv::Writer::from_writer(Vec::new());
-        let _ = w.write_record([
-            "t_k",
-            "gamma_heating",
-            "gamma_cooling",
-            "chit_heating_cm3kmol",
-            "chit_cooling_cm3kmol",
-        ]);
-        for p in &self.points {
+    fn csv(&self) -> Option<String> {
+        Some({
+            let mut w = csv::Writer::from_writer(Vec::new());
             let _ = w.write_record([
-                p.t.to_string(),
-                p.gamma_heating.to_string(),
-                p.gamma_cooling.to_string(),
-                p.chit_heating.to_string(),
-                p.chit_cooling.to_string(),
+                "t_k",
+                "gamma_heating",
+                "gamma_cooling",
+                "chit_heating_cm3kmol",
+                "chit_cooling_cm3kmol",
             ]);
-        }
-        String::from_utf8(w.into_inner().unwrap_or_default()).unwrap_or_default()
-    }
-
-    /// SVG of χ_M·T (and γ_HS) against T on both branches, one journal column wide.
-    pub fn to_svg(&self) -> Result<String, String> {
-        Ok(self.to_svg_with(&TransitionPlot::default()))
-    }
-
-    /// The figure at the width and in the quantity asked for.
-    pub fn to_svg_with(&self, plot: &TransitionPlot) -> String {
-        let tmin = self.points.first().map_or(50.0, |p| p.t);
-        let tmax = self.points.last().map_or(350.0, |p| p.t);
-        let title = if self.gamma > 0.0 {
-            format!(
-                "Simulated: Δ*H* = {:.1} kJ mol⁻¹, *Γ* = {:.2} kJ mol⁻¹",
-                self.dh, self.gamma
-            )
-        } else {
-            format!(
-                "Simulated: Δ*H* = {:.1} kJ mol⁻¹, Δ*S* = {:.0} J K⁻¹ mol⁻¹",
-                self.dh, self.ds
-            )
-        };
-        figure(
-            title,
-            &self.transition,
-            (self.chit_hs, self.chit_ls),
-            (tmin, tmax),
-            &[],
-            (self.t_down.zip(self.t_up), self.t_half),
-            plot,
-        )
+            for p in &self.points {
+                let _ = w.write_record([
+                    p.t.to_string(),
+                    p.gamma_heating.to_string(),
+                    p.gamma_cooling.to_string(),
+                    p.chit_heating.to_string(),
+                    p.chit_cooling.to_string(),
+                ]);
+            }
+            String::from_utf8(w.into_inner().unwrap_or_default()).unwrap_or_default()
+        })
     }
 }

@@ -6,17 +6,19 @@
 //! one row per ranked candidate with the columns of [`CSV_HEADER`].
 
 use super::predict::CAUTION_FOOTER;
+use super::Render;
 use super::{fmt_num, new_table};
 use crate::screen::{Candidate, Hit, Outcome, Screen};
 use serde::Serialize;
 use std::io::Write;
 
 /// One ion of the screen with its crossover.
-#[derive(Debug, Clone, Serialize)]
+#[derive(Debug, Clone, Serialize, schemars::JsonSchema)]
 pub struct ScreenIonRow {
     /// e.g. "Fe(II)".
     pub ion: String,
     pub metal: String,
+    /// Oxidation state of the metal (formal charge).
     pub oxidation_state: i32,
     /// Number of d electrons.
     pub dn: usize,
@@ -31,7 +33,7 @@ pub struct ScreenIonRow {
 }
 
 /// The filters as applied (null or empty when not used).
-#[derive(Debug, Clone, Serialize)]
+#[derive(Debug, Clone, Serialize, schemars::JsonSchema)]
 pub struct FilterRow {
     pub require: Vec<String>,
     pub forbid: Vec<String>,
@@ -46,14 +48,15 @@ pub struct FilterRow {
 }
 
 /// A ligand of a candidate and how many are bound.
-#[derive(Debug, Clone, Serialize)]
+#[derive(Debug, Clone, Serialize, schemars::JsonSchema)]
 pub struct LigandCountRow {
     pub name: String,
+    /// How many of this ligand are bound.
     pub count: usize,
 }
 
 /// One ranked candidate.
-#[derive(Debug, Clone, Serialize)]
+#[derive(Debug, Clone, Serialize, schemars::JsonSchema)]
 pub struct ScreenRow {
     /// 1 = best for the target.
     pub rank: usize,
@@ -78,11 +81,13 @@ pub struct ScreenRow {
     pub b: f64,
     /// Racah C (cm⁻¹).
     pub c: f64,
+    /// C/B of the candidate (dimensionless).
     pub c_over_b: f64,
     /// Δ/B of the predicted ground state.
     pub delta_over_b: f64,
     /// Mean field Δ̄/B of the two spin states (what the margin and score use).
     pub mean_delta_over_b: f64,
+    /// Δ/B where the ground spin changes for this ion, geometry and C/B (dimensionless).
     pub crossover_delta_over_b: f64,
     /// E_HS − E_LS (cm⁻¹), each state at its own geometry (> 0: low spin lower).
     pub energy_gap: f64,
@@ -207,7 +212,7 @@ pub fn write_csv<W: Write>(screen: &Screen, hits: &[Hit], out: W) -> std::io::Re
 }
 
 /// The whole `screen` report.
-#[derive(Debug, Clone, Serialize)]
+#[derive(Debug, Clone, Serialize, schemars::JsonSchema)]
 pub struct ScreenReport {
     /// oct, tet or sqpl.
     pub geometry: String,
@@ -241,7 +246,7 @@ pub struct ScreenReport {
 }
 
 /// A row of a candidates file that could not be used.
-#[derive(Debug, Clone, Serialize)]
+#[derive(Debug, Clone, Serialize, schemars::JsonSchema)]
 pub struct RejectedRow {
     /// Data row number (1 = the first row after the header).
     pub row: usize,
@@ -350,9 +355,13 @@ impl ScreenReport {
             cautions,
         }
     }
+}
+
+impl Render for ScreenReport {
+    type Figure = ();
 
     /// Human-readable text with the ranked table.
-    pub fn to_table(&self) -> String {
+    fn table(&self) -> String {
         let ions: Vec<String> = self
             .ions
             .iter()
@@ -444,5 +453,45 @@ impl ScreenReport {
             }
         }
         out
+    }
+}
+
+/// A finished screen as the command prints it: the JSON holds every hit kept, the table the
+/// first `table_rows`, the CSV every hit kept (rows built one candidate at a time).
+pub struct ScreenOutput<'a> {
+    pub screen: &'a Screen,
+    pub outcome: &'a Outcome,
+    /// Rows of a candidates file that could not be used.
+    pub rejected: &'a [crate::screen::RejectedCandidate],
+    pub table_rows: usize,
+}
+
+impl Serialize for ScreenOutput<'_> {
+    fn serialize<S: serde::Serializer>(&self, s: S) -> Result<S::Ok, S::Error> {
+        ScreenReport::new(
+            self.screen,
+            self.outcome,
+            self.rejected,
+            self.outcome.hits.len(),
+        )
+        .serialize(s)
+    }
+}
+
+impl Render for ScreenOutput<'_> {
+    type Figure = ();
+
+    fn table(&self) -> String {
+        ScreenReport::new(self.screen, self.outcome, self.rejected, self.table_rows).table()
+    }
+
+    fn csv(&self) -> Option<String> {
+        let mut buf = Vec::new();
+        write_csv(self.screen, &self.outcome.hits, &mut buf).expect("CSV to memory");
+        Some(String::from_utf8(buf).expect("CSV is UTF-8"))
+    }
+
+    fn csv_summary(&self) -> Option<String> {
+        Some(format!("{} ranked candidates", self.outcome.hits.len()))
     }
 }

@@ -11,12 +11,13 @@
 //! "switched"}]}`. Units: distances and ranges in Å, Σ and Θ in degrees, ζ in Å, shape
 //! measures dimensionless (0–100).
 
+use super::Render;
 use super::{fmt_num, new_table};
 use crate::structure::centre::{Centre, CentreChange};
 use serde::Serialize;
 
 /// One metal–donor bond.
-#[derive(Debug, Clone, Serialize)]
+#[derive(Debug, Clone, Serialize, schemars::JsonSchema)]
 pub struct BondRow {
     /// Donor label; a symmetry image carries its operator and lattice translation in brackets.
     pub donor: String,
@@ -26,9 +27,10 @@ pub struct BondRow {
 }
 
 /// The mean over the donors of one element.
-#[derive(Debug, Clone, Serialize)]
+#[derive(Debug, Clone, Serialize, schemars::JsonSchema)]
 pub struct ElementMeanRow {
     pub element: String,
+    /// Donor atoms of this element (a count).
     pub count: usize,
     /// Å.
     pub mean_distance: f64,
@@ -42,7 +44,7 @@ pub struct ElementMeanRow {
 }
 
 /// One shape measure.
-#[derive(Debug, Clone, Serialize)]
+#[derive(Debug, Clone, Serialize, schemars::JsonSchema)]
 pub struct ShapeRow {
     /// "octahedron", "trigonal-prism", "tetrahedron", "square-plane", "square-pyramid" or
     /// "trigonal-bipyramid".
@@ -52,7 +54,7 @@ pub struct ShapeRow {
 }
 
 /// One metal centre.
-#[derive(Debug, Clone, Serialize)]
+#[derive(Debug, Clone, Serialize, schemars::JsonSchema)]
 pub struct CentreRow {
     /// The structure file.
     pub file: String,
@@ -64,6 +66,7 @@ pub struct CentreRow {
     pub index: usize,
     /// As given with --ox; null when not given.
     pub oxidation_state: Option<i32>,
+    /// Donor atoms bound to the metal (a count).
     pub coordination_number: usize,
     pub bonds: Vec<BondRow>,
     pub means_by_element: Vec<ElementMeanRow>,
@@ -135,7 +138,7 @@ impl CentreRow {
 }
 
 /// The change of one centre between two structures.
-#[derive(Debug, Clone, Serialize)]
+#[derive(Debug, Clone, Serialize, schemars::JsonSchema)]
 pub struct ChangeRow {
     pub label: String,
     /// File of the first structure.
@@ -168,7 +171,7 @@ impl ChangeRow {
 }
 
 /// The whole report.
-#[derive(Debug, Clone, Serialize)]
+#[derive(Debug, Clone, Serialize, schemars::JsonSchema)]
 pub struct StructureReport {
     pub files: Vec<String>,
     /// What was done to the input (disorder, partial occupancies, assumed symmetry), each
@@ -178,8 +181,10 @@ pub struct StructureReport {
     pub changes: Vec<ChangeRow>,
 }
 
-impl StructureReport {
-    pub fn to_table(&self) -> String {
+impl Render for StructureReport {
+    type Figure = ();
+
+    fn table(&self) -> String {
         let opt = |x: Option<f64>, d: usize| x.map_or("—".to_string(), |v| fmt_num(v, d));
         let mut out = String::new();
         for c in &self.centres {

@@ -1,12 +1,13 @@
 //! Report of `predict --structure`: the donors' angular-overlap parameters, the d-orbital
 //! energies, the lowest levels, the ground spin and its margin.
 
+use super::Render;
 use crate::engine::PointGroup;
 use crate::structure::spin::StructureSpin;
 use serde::Serialize;
 
 /// One donor of the field.
-#[derive(Debug, Clone, Serialize)]
+#[derive(Debug, Clone, Serialize, schemars::JsonSchema)]
 pub struct DonorRow {
     pub donor: String,
     pub element: String,
@@ -21,15 +22,16 @@ pub struct DonorRow {
 }
 
 /// One level: label, 2S and energy above the ground level (cm⁻¹).
-#[derive(Debug, Clone, Serialize)]
+#[derive(Debug, Clone, Serialize, schemars::JsonSchema)]
 pub struct LevelRow {
     pub label: String,
+    /// Twice the total spin, 2S.
     pub two_s: i32,
     /// cm⁻¹ above the ground level.
     pub energy: f64,
 }
 
-#[derive(Debug, Clone, Serialize)]
+#[derive(Debug, Clone, Serialize, schemars::JsonSchema)]
 pub struct StructureSpinReport {
     pub centre: String,
     pub composition: String,
@@ -47,8 +49,9 @@ pub struct StructureSpinReport {
     /// Total spin S of the ground level.
     pub spin: f64,
     /// Factor by which the field must be scaled for the ground spin to change (None: not
-    /// within 1/4..4), and the 2S it changes to.
+    /// within 1/4..4; dimensionless).
     pub margin_field_scale: Option<f64>,
+    /// 2S of the spin state the field scaling would reach; null with the scale.
     pub margin_two_s: Option<i32>,
     pub spin_state_from_bonds: String,
     pub notes: Vec<String>,
@@ -110,8 +113,12 @@ impl StructureSpinReport {
             notes,
         }
     }
+}
 
-    pub fn to_table(&self) -> String {
+impl Render for StructureSpinReport {
+    type Figure = ();
+
+    fn table(&self) -> String {
         let mut out = format!(
             "{}  {}  field from the structure (angular overlap model), labels in {}{}\n",
             self.centre,

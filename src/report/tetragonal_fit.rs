@@ -1,13 +1,14 @@
 //! Report of `spinstate fit-bands --geometry tetragonal`: fitted Dq, Ds, Dt (and B) with the
 //! band assignment. Energies in cm⁻¹.
 
+use super::Render;
 use super::{fmt_num, new_table};
 use crate::spectra::tetragonal::{aom_differences, TetragonalFit, TetragonalOutcome};
 use crate::spectra::EnergyUnit;
 use serde::Serialize;
 
 /// One observed band with its assignment.
-#[derive(Debug, Clone, Serialize)]
+#[derive(Debug, Clone, Serialize, schemars::JsonSchema)]
 pub struct TetragonalBandRow {
     /// Observed maximum (cm⁻¹).
     pub observed: f64,
@@ -26,7 +27,7 @@ pub struct TetragonalBandRow {
 }
 
 /// A calculated transition no band was assigned to.
-#[derive(Debug, Clone, Serialize)]
+#[derive(Debug, Clone, Serialize, schemars::JsonSchema)]
 pub struct UnassignedRow {
     pub label: String,
     /// Position (cm⁻¹).
@@ -34,26 +35,33 @@ pub struct UnassignedRow {
 }
 
 /// 1σ uncertainties (cm⁻¹), null when exactly determined or not fitted.
-#[derive(Debug, Clone, Serialize, Default)]
+#[derive(Debug, Clone, Serialize, Default, schemars::JsonSchema)]
 pub struct TetragonalUncertaintyRow {
+    /// σ(Dq(xy)) (cm⁻¹).
     pub dq: Option<f64>,
+    /// σ(Ds) (cm⁻¹).
     pub ds: Option<f64>,
+    /// σ(Dt) (cm⁻¹).
     pub dt: Option<f64>,
+    /// σ(B) (cm⁻¹).
     pub b: Option<f64>,
 }
 
 /// Another assignment that was fitted.
-#[derive(Debug, Clone, Serialize)]
+#[derive(Debug, Clone, Serialize, schemars::JsonSchema)]
 pub struct TetragonalAlternativeRow {
     pub spin_state: String,
     /// Ground level of the spin at this fit.
     pub reference: String,
     /// Upper-level labels in band order.
     pub assignment: Vec<String>,
-    /// Dq(xy), Ds, Dt, B (cm⁻¹).
+    /// Dq(xy) of this assignment (cm⁻¹).
     pub dq: f64,
+    /// Ds of this assignment (cm⁻¹).
     pub ds: f64,
+    /// Dt of this assignment (cm⁻¹).
     pub dt: f64,
+    /// Racah B of this assignment (cm⁻¹); null when B does not enter the bands.
     pub b: Option<f64>,
     /// rms residual (cm⁻¹).
     pub rms: f64,
@@ -62,8 +70,9 @@ pub struct TetragonalAlternativeRow {
 }
 
 /// The whole report.
-#[derive(Debug, Clone, Serialize)]
+#[derive(Debug, Clone, Serialize, schemars::JsonSchema)]
 pub struct TetragonalFitReport {
+    /// Number of d electrons.
     pub dn: usize,
     /// Always "tetragonal".
     pub geometry: String,
@@ -88,6 +97,7 @@ pub struct TetragonalFitReport {
     /// Equatorial minus axial e_σ and e_π in the angular overlap model: 2δσ = 4Ds + 5Dt,
     /// 2δπ = 3Ds − 5Dt (cm⁻¹).
     pub delta_e_sigma: f64,
+    /// Equatorial minus axial e_π, δπ (cm⁻¹).
     pub delta_e_pi: f64,
     /// Racah B (cm⁻¹), null when B does not enter the bands of this spin.
     pub b: Option<f64>,
@@ -100,6 +110,7 @@ pub struct TetragonalFitReport {
     pub uncertainties: TetragonalUncertaintyRow,
     /// "exact" or "over-determined".
     pub determination: String,
+    /// Bands minus fitted parameters (a count; 0 for an exact fit).
     pub degrees_of_freedom: usize,
     pub free_parameters: Vec<String>,
     /// Parameter combinations the bands leave free (empty when all are determined).
@@ -113,6 +124,7 @@ pub struct TetragonalFitReport {
     pub alternatives: Vec<TetragonalAlternativeRow>,
     pub concerns: Vec<String>,
     pub notes: Vec<String>,
+    /// Evaluations of the model the fit took (a count).
     pub evaluations: usize,
 }
 
@@ -209,9 +221,13 @@ impl TetragonalFitReport {
             evaluations: f.evaluations,
         }
     }
+}
+
+impl Render for TetragonalFitReport {
+    type Figure = ();
 
     /// Terminal rendering.
-    pub fn to_table(&self) -> String {
+    fn table(&self) -> String {
         let pm = |x: Option<f64>| {
             x.map(|v| format!(" ± {}", fmt_num(v, 0)))
                 .unwrap_or_default()

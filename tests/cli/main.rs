@@ -22,6 +22,7 @@ mod levels;
 mod limits;
 mod magnetism;
 mod moment;
+mod output;
 mod plots;
 mod predict;
 mod sco;
