@@ -254,7 +254,7 @@ impl FromStr for Geometry {
             }
             _ => {
                 return Err(Error::Unknown {
-                    kind: "geometry (accepted: oct, tet, sqpl, tetragonal, sqpy, tbp)".into(),
+                    kind: crate::error::NameKind::Geometry,
                     name: s.to_string(),
                     suggestions: closest_names(s, Geometry::ALL.iter().map(|g| g.name())),
                 })

@@ -211,7 +211,7 @@ fn element(symbol: &str) -> Option<Element> {
 /// Number of d electrons of a d-block element in an oxidation state: group − oxidation state.
 pub fn d_electron_count(symbol: &str, oxidation_state: i32) -> Result<(usize, TransitionSeries)> {
     let el = element(symbol).ok_or_else(|| Error::Unknown {
-        kind: "element symbol".into(),
+        kind: crate::error::NameKind::Element,
         name: symbol.into(),
         suggestions: closest_names(symbol, Element::iter().map(|e| e.symbol())),
     })?;
@@ -350,8 +350,7 @@ impl IonTable {
             .into_iter()
             .find(|s| s.eq_ignore_ascii_case(key))
             .ok_or_else(|| Error::Unknown {
-                kind: "metal (give an element symbol such as Fe; `spinstate data ions` lists them)"
-                    .into(),
+                kind: crate::error::NameKind::Metal,
                 name: key.to_string(),
                 suggestions: closest_names(key, self.metals()),
             })?;

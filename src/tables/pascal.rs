@@ -152,7 +152,7 @@ impl PascalTable {
     /// The row with this name, or an error naming the closest known names.
     pub fn require(&self, name: &str) -> Result<&PascalEntry> {
         self.get(name).ok_or_else(|| Error::Unknown {
-            kind: "Pascal-table entry".into(),
+            kind: crate::error::NameKind::PascalEntry,
             name: name.to_string(),
             suggestions: self.closest(name),
         })
