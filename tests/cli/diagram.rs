@@ -199,15 +199,8 @@ fn projected_levels_and_spin_minima_equal_the_spin_blocks() {
             let parents = calc.parent_table().unwrap();
             let projected = calc.levels().unwrap();
             let blocks = calc.levels_with(&parents, true).unwrap();
-            let key = |l: &spinstate::engine::Level| {
-                (
-                    l.two_s,
-                    l.irrep.clone(),
-                    l.index,
-                    l.parent.clone(),
-                    l.degeneracy,
-                )
-            };
+            let key =
+                |l: &spinstate::engine::Level| (l.two_s, l.irrep, l.index, l.parent, l.degeneracy);
             let mut a: Vec<_> = projected.levels.iter().map(key).collect();
             let mut b: Vec<_> = blocks.levels.iter().map(key).collect();
             a.sort();
