@@ -27,7 +27,8 @@ pub enum Error {
     /// A name (metal, ligand, geometry, element…) is not known.
     #[error("{}", one_line(&unknown_text(.kind, .name, .suggestions)))]
     Unknown {
-        kind: String,
+        /// What kind of name it is (routes the error, e.g. to a batch column).
+        kind: NameKind,
         name: String,
         suggestions: Vec<String>,
     },
@@ -42,17 +43,92 @@ pub enum Error {
     Computation(String),
 }
 
-/// "unknown KIND 'NAME'; did you mean A, B? (HINT)": a parenthetical hint at the end of `kind`
-/// goes after the suggestions.
-fn unknown_text(kind: &str, name: &str, suggestions: &[String]) -> String {
-    let (head, hint) = match kind.find(" (") {
-        Some(i) if kind.ends_with(')') => (&kind[..i], &kind[i + 1..]),
-        _ => (kind, ""),
-    };
-    let mut s = format!("unknown {head} '{name}'{}", suggestion_text(suggestions));
-    if !hint.is_empty() {
-        s.push(' ');
-        s.push_str(hint);
+/// The kind of name an [`Error::Unknown`] concerns. Display gives the words of the message
+/// ("metal", "energy unit (accepted: cm-1, nm, kK, eV)"): the noun, then the hint in brackets.
+#[derive(Debug, Clone, PartialEq, Eq)]
+pub enum NameKind {
+    /// A metal of the ion table.
+    Metal,
+    /// A ligand of the ligand table.
+    Ligand,
+    /// A coordination geometry.
+    Geometry,
+    /// An element symbol.
+    Element,
+    /// A row of the Pascal-constant table.
+    PascalEntry,
+    /// An energy unit of band positions.
+    EnergyUnit,
+    /// A susceptibility unit system.
+    UnitSystem,
+    /// The magnet geometry of an Evans measurement.
+    MagnetGeometry,
+    /// The atom label of a metal centre in a structure, with the structure's name and the
+    /// labels of its metal atoms.
+    MetalLabel { structure: String, labels: String },
+    /// A batch CSV column header, with its position (from 1) and the accepted headers.
+    Column { position: usize, accepted: String },
+}
+
+impl NameKind {
+    /// The noun of the message ("metal label").
+    pub fn noun(&self) -> &'static str {
+        match self {
+            NameKind::Metal => "metal",
+            NameKind::Ligand => "ligand",
+            NameKind::Geometry => "geometry",
+            NameKind::Element => "element symbol",
+            NameKind::PascalEntry => "Pascal-table entry",
+            NameKind::EnergyUnit => "energy unit",
+            NameKind::UnitSystem => "unit system",
+            NameKind::MagnetGeometry => "magnet geometry",
+            NameKind::MetalLabel { .. } => "metal label",
+            NameKind::Column { .. } => "column",
+        }
+    }
+
+    /// What the user can do instead, in brackets in the message; None when the suggestions say
+    /// enough.
+    pub fn hint(&self) -> Option<String> {
+        Some(match self {
+            NameKind::Metal => {
+                "give an element symbol such as Fe; `spinstate data ions` lists them".into()
+            }
+            NameKind::Ligand => "`spinstate data ligands` lists them; to add one, copy data/ligands.csv, add a row with its f and source, and load the tables from that directory".into(),
+            NameKind::Geometry => "accepted: oct, tet, sqpl, tetragonal, sqpy, tbp".into(),
+            NameKind::EnergyUnit => "accepted: cm-1, nm, kK, eV".into(),
+            NameKind::UnitSystem => "accepted: cgs, si".into(),
+            NameKind::MagnetGeometry => "accepted: solenoid, transverse".into(),
+            NameKind::MetalLabel { structure, labels } => {
+                format!("metals in {structure}: {labels}")
+            }
+            NameKind::Column { position, accepted } => {
+                format!("header position {position}; accepted: {accepted}")
+            }
+            NameKind::Element | NameKind::PascalEntry => return None,
+        })
+    }
+}
+
+impl std::fmt::Display for NameKind {
+    fn fmt(&self, f: &mut std::fmt::Formatter<'_>) -> std::fmt::Result {
+        f.write_str(self.noun())?;
+        match self.hint() {
+            Some(h) => write!(f, " ({h})"),
+            None => Ok(()),
+        }
+    }
+}
+
+/// "unknown KIND 'NAME'; did you mean A, B? (HINT)": the hint goes after the suggestions.
+fn unknown_text(kind: &NameKind, name: &str, suggestions: &[String]) -> String {
+    let mut s = format!(
+        "unknown {} '{name}'{}",
+        kind.noun(),
+        suggestion_text(suggestions)
+    );
+    if let Some(hint) = kind.hint() {
+        s.push_str(&format!(" ({hint})"));
     }
     s
 }
@@ -198,13 +274,13 @@ mod tests {
     #[test]
     fn unknown_names_put_the_hint_last() {
         let e = Error::Unknown {
-            kind: "geometry (accepted: oct, tet)".into(),
+            kind: NameKind::Geometry,
             name: "octt".into(),
             suggestions: vec!["oct".into()],
         };
         assert_eq!(
             e.to_string(),
-            "unknown geometry 'octt'; did you mean oct? (accepted: oct, tet)"
+            "unknown geometry 'octt'; did you mean oct? (accepted: oct, tet, sqpl, tetragonal, sqpy, tbp)"
         );
     }
 

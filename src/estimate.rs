@@ -41,7 +41,7 @@
 //! The calibrated constants ([`Calibration`]) were fitted to `data/reported_spin_states.csv`
 //! ([`crate::calibration`]); the test suite refits them and checks leave-one-out accuracy.
 
-use crate::engine::{Crossover, Geometry};
+use crate::engine::{Crossover, Geometry, Irrep};
 use crate::tables::{
     FieldBasis, Ion, IonTable, Ligand, PiRole, Provenance, ReferenceState, TransitionSeries,
 };
@@ -314,16 +314,16 @@ pub fn choose_spin(
 ) -> Option<SpinChoice> {
     let (xc, slope) = (cross.delta_over_b?, cross.slope?);
     let mean = 0.5 * (x_high_spin + x_low_spin);
-    let jt = |term: &str, x: f64| -> f64 {
-        if cross.geometry.jahn_teller_active(term) {
+    let jt = |irrep: Option<Irrep>, x: f64| -> f64 {
+        if irrep.is_some_and(|i| cross.geometry.jahn_teller_active(i)) {
             cal.jahn_teller * x * b
         } else {
             0.0
         }
     };
-    let ls_term = cross.low_spin.as_ref().map_or("", |l| l.term.as_str());
-    let gap =
-        slope * b * (mean - xc) - jt(&cross.high_spin.term, x_high_spin) + jt(ls_term, x_low_spin);
+    let ls_irrep = cross.low_spin.as_ref().map(|l| l.irrep);
+    let gap = slope * b * (mean - xc) - jt(Some(cross.high_spin.irrep), x_high_spin)
+        + jt(ls_irrep, x_low_spin);
     let state = if gap <= 0.0 {
         SpinState::High
     } else if gap <= cal.crossover_window {
@@ -370,13 +370,16 @@ pub fn crossover_target(
     let (xc, slope) = (cross.delta_over_b?, cross.slope?);
     let h = sg.high_spin_factor;
     let l = sg.low_spin_factor;
-    let ls_term = cross.low_spin.as_ref().map_or("", |t| t.term.as_str());
-    let u_h = if cross.geometry.jahn_teller_active(&cross.high_spin.term) {
+    let u_h = if cross.geometry.jahn_teller_active(cross.high_spin.irrep) {
         2.0 * h / (h + l)
     } else {
         0.0
     };
-    let u_l = if cross.geometry.jahn_teller_active(ls_term) {
+    let u_l = if cross
+        .low_spin
+        .as_ref()
+        .is_some_and(|t| cross.geometry.jahn_teller_active(t.irrep))
+    {
         2.0 * l / (h + l)
     } else {
         0.0

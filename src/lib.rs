@@ -24,6 +24,6 @@ pub mod structure;
 pub mod tables;
 pub mod units;
 
-pub use error::{Error, Result};
+pub use error::{Error, NameKind, Result};
 pub use param::Param;
 pub mod plot;

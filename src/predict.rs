@@ -8,8 +8,7 @@
 //! the ground state's Δ; the bands of each spin state from a calculation at that state's Δ.
 
 use crate::complex::ResolvedComplex;
-use crate::engine::levels::term_l;
-use crate::engine::{Crossover, Level, PointGroup, Spectrum};
+use crate::engine::{Crossover, Level, PointGroup, Species, Spectrum, Term};
 use crate::error::{Error, Result};
 use crate::magnetism::{MagneticModel, ZeemanLevels};
 use crate::units::{spin_only_moment, spin_orbital_moment};
@@ -37,8 +36,8 @@ pub struct Margin {
 pub struct Band {
     /// Label of the upper level, e.g. "4T1g".
     pub to: String,
-    /// Free-ion parent of the upper level, e.g. "4P".
-    pub to_parent: String,
+    /// Free-ion parent of the upper level, e.g. 4P (None when it could not be labelled).
+    pub to_parent: Option<Term>,
     /// Transition energy (cm⁻¹).
     pub energy: f64,
     /// Wavelength (nm) = 10⁷ / energy.
@@ -176,7 +175,7 @@ fn spin_bands(
             let weak = jump.is_some_and(|j| j.weak);
             Band {
                 to: l.label(),
-                to_parent: l.parent.clone(),
+                to_parent: l.parent,
                 energy,
                 wavelength_nm: 1e7 / energy,
                 intensity: crate::spectra::transitions::intensity(geometry, true, weak),
@@ -267,21 +266,21 @@ pub fn predict_with(complex: &ResolvedComplex, options: PredictOptions) -> Resul
             ));
         }
     }
-    let l = term_l(&ground.parent).ok_or_else(|| {
+    let l = ground.parent.map(|t| t.l).ok_or_else(|| {
         Error::Computation(format!(
             "parent term '{}' of the ground level has no L letter",
-            ground.parent
+            Term::text_of(ground.parent)
         ))
     })?;
     let unpaired = ground.two_s as usize;
     let group = complex.point_group();
     let first_order_orbital = match group {
-        PointGroup::Oh | PointGroup::Td => ground.irrep.starts_with('T'),
-        PointGroup::D4h => ground.irrep.starts_with('E'),
+        PointGroup::Oh | PointGroup::Td => ground.irrep.species().is_some_and(Species::is_triplet),
+        PointGroup::D4h => ground.irrep.is(Species::E),
         PointGroup::C1 => false,
     };
     let jahn_teller =
-        matches!(group, PointGroup::Oh | PointGroup::Td) && ground.irrep.starts_with('E');
+        matches!(group, PointGroup::Oh | PointGroup::Td) && ground.irrep.is(Species::E);
     if first_order_orbital {
         notes.push(format!(
             "the {} ground term carries first-order orbital angular momentum: expect a moment above spin-only that depends on temperature",
@@ -437,7 +436,7 @@ mod tests {
         let p = run("Fe", 2, "oct", &["H2O:6"]);
         assert_eq!(p.spin_state, SpinState::High);
         assert_eq!(p.ground.label(), "5T2g");
-        assert_eq!(p.ground.parent, "5D");
+        assert_eq!(p.ground.parent, Some(Term::new(4, 2)));
         assert_eq!(p.unpaired, 4);
         assert!(p.first_order_orbital && !p.jahn_teller);
         // One spin-allowed band 5T2g → 5Eg at Δ (Lever 1984, from memory; d6 HS has one band).

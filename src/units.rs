@@ -137,7 +137,7 @@ impl FromStr for SusceptibilityUnits {
             "cgs" | "emu" | "cgs-emu" => Ok(SusceptibilityUnits::Cgs),
             "si" => Ok(SusceptibilityUnits::Si),
             _ => Err(Error::Unknown {
-                kind: "unit system (accepted: cgs, si)".into(),
+                kind: crate::error::NameKind::UnitSystem,
                 name: s.to_string(),
                 suggestions: closest_names(s, ["cgs", "si"]),
             }),

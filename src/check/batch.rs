@@ -25,7 +25,7 @@ use super::{
 };
 use crate::complex::{ComplexSpec, LigandCount, Overrides};
 use crate::engine::Geometry;
-use crate::error::{closest_names, Error, Result};
+use crate::error::{closest_names, Error, NameKind, Result};
 use crate::measured::evans::{EvansInput, MagnetGeometry, Shift, SolventTerms};
 use crate::measured::Measured;
 use crate::param::Param;
@@ -238,12 +238,10 @@ impl<R: std::io::Read> BatchReader<R> {
             if !known.contains(&h.as_str()) {
                 let near = closest_names(h, known.iter().copied());
                 return Err(Error::Unknown {
-                    kind: format!(
-                        "column (header position {}; accepted: {}, {})",
-                        i + 1,
-                        REQUIRED.join(", "),
-                        OPTIONAL.join(", ")
-                    ),
+                    kind: NameKind::Column {
+                        position: i + 1,
+                        accepted: format!("{}, {}", REQUIRED.join(", "), OPTIONAL.join(", ")),
+                    },
                     name: h.clone(),
                     suggestions: near,
                 });
@@ -726,8 +724,14 @@ pub fn column_of(part: Part, param: &Param) -> Option<&'static str> {
 
 fn complex_column(e: &Error) -> &'static str {
     match e {
-        Error::Unknown { kind, .. } if kind.starts_with("metal") => "metal",
-        Error::Unknown { kind, .. } if kind.starts_with("ligand") => "ligands",
+        Error::Unknown {
+            kind: NameKind::Metal | NameKind::MetalLabel { .. },
+            ..
+        } => "metal",
+        Error::Unknown {
+            kind: NameKind::Ligand,
+            ..
+        } => "ligands",
         Error::InvalidParameter { param, .. } => match param {
             Param::OxidationState(_) => "ox",
             Param::Delta => "delta",

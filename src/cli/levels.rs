@@ -23,9 +23,9 @@ pub fn run(args: &Args) -> Result<Output, Failure> {
                 energy: l.energy,
                 multiplicity: l.multiplicity(),
                 spin: (l.multiplicity() - 1) as f64 / 2.0,
-                label: l.irrep.clone(),
+                label: spinstate::engine::Irrep::sum_text(&l.irrep),
                 degeneracy: l.degeneracy,
-                parent: l.parent_term.clone(),
+                parent: spinstate::engine::Term::text_of(l.parent_term),
                 spin_allowed: l.multiplicity() == g,
                 s_squared: Some(l.s_squared),
                 from_level: Some(l.parent_level.clone()),
@@ -34,7 +34,10 @@ pub fn run(args: &Args) -> Result<Output, Failure> {
             .collect();
         let ground = format!(
             "{} ({} states) from {} ({})",
-            so[0].irrep, so[0].degeneracy, so[0].parent_level, so[0].parent_term
+            spinstate::engine::Irrep::sum_text(&so[0].irrep),
+            so[0].degeneracy,
+            so[0].parent_level,
+            spinstate::engine::Term::text_of(so[0].parent_term)
         );
         (rows, ground)
     } else {
@@ -49,14 +52,21 @@ pub fn run(args: &Args) -> Result<Output, Failure> {
                 spin: l.spin(),
                 label: l.label(),
                 degeneracy: l.degeneracy,
-                parent: l.parent.clone(),
+                parent: spinstate::engine::Term::text_of(l.parent),
                 spin_allowed: l.two_s == ground.two_s,
                 s_squared: None,
                 from_level: None,
                 weight: None,
             })
             .collect();
-        (rows, format!("{} ({})", ground.label(), ground.parent))
+        (
+            rows,
+            format!(
+                "{} ({})",
+                ground.label(),
+                spinstate::engine::Term::text_of(ground.parent)
+            ),
+        )
     };
     let report = LevelsReport {
         dn: r.calc.dn,

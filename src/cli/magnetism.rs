@@ -130,7 +130,11 @@ pub fn run(args: &Args, data: &DataSet) -> Result<Output, Failure> {
         dq: r.dq,
         zeta: model.effective_zeta(),
         kappa: model.kappa,
-        ground_level: format!("{} ({})", ground.label(), ground.parent),
+        ground_level: format!(
+            "{} ({})",
+            ground.label(),
+            spinstate::engine::Term::text_of(ground.parent)
+        ),
         orbital_triplet_ground: ground.degeneracy == 3,
         spin_only_moment: units::spin_only_moment(unpaired),
         spin_only_chi_t: units.from_cgs(units::spin_only_chi_t_cgs(unpaired)),

@@ -3,6 +3,7 @@
 
 use super::field::LigandField;
 use super::geometry::Geometry;
+use super::labels::{Irrep, Term};
 use super::levels::Calculation;
 use crate::error::{require_finite, Error, Result};
 use crate::param::Param;
@@ -50,8 +51,10 @@ pub struct SpinGround {
     pub two_s: i32,
     /// Label with multiplicity, e.g. "5T2g".
     pub term: String,
-    /// Free-ion parent term, e.g. "5D".
-    pub parent: String,
+    /// The irrep of that level (T2g).
+    pub irrep: Irrep,
+    /// Free-ion parent term, e.g. 5D (None when the level could not be labelled).
+    pub parent: Option<Term>,
 }
 
 /// Where the ground-state spin changes for one d^n, geometry and C/B.
@@ -129,7 +132,8 @@ fn ground_state(dn: usize, geometry: Geometry, c_over_b: f64, x: f64) -> Result<
     Ok(SpinGround {
         two_s: g.two_s,
         term: g.label(),
-        parent: g.parent.clone(),
+        irrep: g.irrep,
+        parent: g.parent,
     })
 }
 

@@ -3,6 +3,7 @@
 
 use super::crossover::{crossover, Crossover};
 use super::geometry::Geometry;
+use super::labels::{Irrep, Term};
 use super::levels::{Calculation, Spectrum};
 use super::projection::Projection;
 use crate::error::{require_finite, Error, Result};
@@ -13,12 +14,12 @@ use crate::param::Param;
 pub struct Series {
     /// Twice the total spin.
     pub two_s: i32,
-    /// Mulliken label without multiplicity, e.g. "T1g".
-    pub irrep: String,
+    /// Mulliken label without multiplicity, e.g. T1g.
+    pub irrep: Irrep,
     /// Position among levels of the same spin and irrep (lowest = 1).
     pub index: usize,
-    /// Free-ion parent term.
-    pub parent: String,
+    /// Free-ion parent term (None when the level could not be labelled).
+    pub parent: Option<Term>,
     /// Orbital degeneracy.
     pub degeneracy: usize,
     /// E/B above the ground level at each Δ/B of the diagram.
@@ -34,9 +35,14 @@ impl Series {
     /// A unique column name such as "4T1g(4P)" or, for repeated labels, "2T2g#3(2H)".
     pub fn key(&self, repeated: bool) -> String {
         if repeated {
-            format!("{}#{}({})", self.label(), self.index, self.parent)
+            format!(
+                "{}#{}({})",
+                self.label(),
+                self.index,
+                Term::text_of(self.parent)
+            )
         } else {
-            format!("{}({})", self.label(), self.parent)
+            format!("{}({})", self.label(), Term::text_of(self.parent))
         }
     }
 }
@@ -155,9 +161,9 @@ fn diagram_with(
                     energies[pi] = l.energy;
                     series.push(Series {
                         two_s: l.two_s,
-                        irrep: l.irrep.clone(),
+                        irrep: l.irrep,
                         index: l.index,
-                        parent: l.parent.clone(),
+                        parent: l.parent,
                         degeneracy: l.degeneracy,
                         energies,
                     });

@@ -2,6 +2,7 @@
 //! group used for labels.
 
 use super::field::{LigandField, DS_MIXING};
+use super::labels::{Irrep, Species};
 use super::symmetry::PointGroup;
 use crate::error::{closest_names, Error, Result};
 use crate::param::Param;
@@ -187,13 +188,13 @@ impl Geometry {
         }
     }
 
-    /// Whether a state with this ground term (a label such as "5Eg") is strongly Jahn–Teller
+    /// Whether a state whose ground level has this irrep (Eg) is strongly Jahn–Teller
     /// active: an orbital doublet of an octahedron, where the σ-antibonding e_g set is unevenly
     /// filled (high-spin d⁴, low-spin d⁷, d⁹). Tetrahedral E terms couple weakly; planar and
     /// tetragonal fields have already lifted the degeneracy.
-    pub fn jahn_teller_active(self, term: &str) -> bool {
+    pub fn jahn_teller_active(self, irrep: Irrep) -> bool {
         match self {
-            Geometry::Octahedral => term.trim_start_matches(char::is_numeric).starts_with("Eg"),
+            Geometry::Octahedral => irrep == Irrep::mulliken(Species::E, true),
             Geometry::Tetrahedral
             | Geometry::SquarePlanar
             | Geometry::Tetragonal
@@ -254,7 +255,7 @@ impl FromStr for Geometry {
             }
             _ => {
                 return Err(Error::Unknown {
-                    kind: "geometry (accepted: oct, tet, sqpl, tetragonal, sqpy, tbp)".into(),
+                    kind: crate::error::NameKind::Geometry,
                     name: s.to_string(),
                     suggestions: closest_names(s, Geometry::ALL.iter().map(|g| g.name())),
                 })

@@ -6,6 +6,7 @@
 
 use super::field::LigandField;
 use super::hermitian::{add_field, add_scaled, eigen_unsorted, eigenvalues};
+use super::labels::{Irrep, Species, Term};
 use super::shell::{shell, Shell, SpinBlock};
 use super::symmetry::{Characters, PointGroup};
 use crate::error::{num, require_finite, Error, Result};
@@ -17,11 +18,6 @@ use std::sync::{Mutex, OnceLock};
 
 type C64 = Complex<f64>;
 
-/// Letters of orbital angular momentum L = 0, 1, 2, …
-pub const L_LETTERS: [char; 13] = [
-    'S', 'P', 'D', 'F', 'G', 'H', 'I', 'K', 'L', 'M', 'N', 'O', 'Q',
-];
-
 /// Largest energy parameter accepted (B, C, the field, ζ). Energies beyond 10¹² cm⁻¹ are far
 /// outside any ligand field (the strong-field limit and trial points of fits reach ≈ 10⁷–10¹¹);
 /// rejecting them keeps every later sum finite.
@@ -30,18 +26,6 @@ pub const MAX_ENERGY: f64 = 1e12;
 /// Smallest Racah B accepted (in whatever unit the energies use: cm⁻¹, or 1 when energies are in
 /// units of B).
 pub const MIN_B: f64 = 1e-100;
-
-/// Free-ion term symbol such as "4F" from 2S and L.
-pub fn term_symbol(two_s: i32, l: usize) -> String {
-    format!("{}{}", two_s + 1, L_LETTERS.get(l).copied().unwrap_or('?'))
-}
-
-/// L of a free-ion term symbol such as "5D" or "4T1g(F)": the first letter's place in
-/// [`L_LETTERS`].
-pub fn term_l(term: &str) -> Option<usize> {
-    let letter = term.chars().find(|c| c.is_ascii_alphabetic())?;
-    L_LETTERS.iter().position(|&c| c == letter)
-}
 
 /// The runs of a sorted list that belong together: item i joins the run of item i − 1 when
 /// `joins(i)` (e.g. eigenvalues closer than a tolerance, which form one degenerate level).
@@ -84,12 +68,13 @@ pub struct Level {
     pub absolute_energy: f64,
     /// Twice the total spin S (from the exact S² eigenspace of the state).
     pub two_s: i32,
-    /// Mulliken label of the orbital part (e.g. "T1g"), or the L letter for a free ion.
-    pub irrep: String,
+    /// Mulliken label of the orbital part (e.g. T1g), or the L of a free ion.
+    pub irrep: Irrep,
     /// Orbital degeneracy (1, 2 or 3 in cubic groups; 2L+1 for a free ion).
     pub degeneracy: usize,
-    /// Free-ion parent term (e.g. "4F") of the level, followed down to zero field.
-    pub parent: String,
+    /// Free-ion parent term (e.g. 4F) of the level, followed down to zero field; None when the
+    /// level could not be labelled.
+    pub parent: Option<Term>,
     /// Position of this level among levels of the same spin and irrep, lowest = 1.
     pub index: usize,
 }
@@ -396,7 +381,7 @@ impl Calculation {
                 .map(|t| RawLevel {
                     energy: t.energy * self.b,
                     two_s: t.two_s,
-                    irrep: L_LETTERS.get(t.l).copied().unwrap_or('?').to_string(),
+                    irrep: Irrep::FreeIon { l: t.l },
                     dim: 2 * t.l + 1,
                     l_sq: Some((t.l * (t.l + 1)) as f64),
                 })
@@ -484,11 +469,10 @@ impl Calculation {
                 };
                 if free_ion {
                     let l = l_from_l_squared(l_sq.unwrap_or(0.0));
-                    let ls = L_LETTERS.get(l).copied().unwrap_or('?').to_string();
                     raw.push(RawLevel {
                         energy,
                         two_s,
-                        irrep: ls,
+                        irrep: Irrep::FreeIon { l },
                         dim: members.len(),
                         l_sq,
                     });
@@ -512,7 +496,7 @@ impl Calculation {
                         None => raw.push(RawLevel {
                             energy,
                             two_s,
-                            irrep: "?".into(),
+                            irrep: Irrep::Unlabelled,
                             dim: members.len(),
                             l_sq,
                         }),
@@ -532,27 +516,24 @@ impl Calculation {
         &self,
         states: &[BlockStates],
         members: &[(f64, usize, usize)],
-    ) -> std::result::Result<Option<Vec<(String, usize)>>, MissingVector> {
+    ) -> std::result::Result<Option<Vec<(Irrep, usize)>>, MissingVector> {
         let mut residues: Vec<i32> = members
             .iter()
             .filter_map(|&(_, bi, _)| states[bi].block.residue)
             .collect();
         residues.sort_unstable();
         if residues.len() == members.len() {
-            let g = match self.group {
-                PointGroup::Oh => "g",
-                _ => "",
-            };
+            let label = |species: Species| (self.group.irrep(species), species.dimension());
             let direct = match (self.group, residues.as_slice()) {
-                (PointGroup::Oh | PointGroup::Td, [0]) => Some(("A1", 1)),
-                (PointGroup::Oh | PointGroup::Td, [2]) => Some(("A2", 1)),
-                (PointGroup::Oh | PointGroup::Td, [0, 1, 3]) => Some(("T1", 3)),
-                (PointGroup::Oh | PointGroup::Td, [1, 2, 3]) => Some(("T2", 3)),
-                (PointGroup::D4h, [1, 3]) => Some(("Eg", 2)),
+                (PointGroup::Oh | PointGroup::Td, [0]) => Some(Species::A1),
+                (PointGroup::Oh | PointGroup::Td, [2]) => Some(Species::A2),
+                (PointGroup::Oh | PointGroup::Td, [0, 1, 3]) => Some(Species::T1),
+                (PointGroup::Oh | PointGroup::Td, [1, 2, 3]) => Some(Species::T2),
+                (PointGroup::D4h, [1, 3]) => Some(Species::E),
                 _ => None,
             };
-            if let Some((name, dim)) = direct {
-                return Ok(Some(vec![(format!("{name}{g}"), dim)]));
+            if let Some(species) = direct {
+                return Ok(Some(vec![label(species)]));
             }
             // E of O (χ(C₃) = −1) or one-dimensional irreps of D₄ (χ(C₂′) = ±1): one rotation
             // is enough; anything else falls through to the full set of characters.
@@ -567,18 +548,18 @@ impl Calculation {
             };
             match (self.group, residues.as_slice()) {
                 (PointGroup::Oh | PointGroup::Td, [0, 2]) if (rot_char(0)? + 1.0).abs() < 1e-4 => {
-                    return Ok(Some(vec![(format!("E{g}"), 2)]));
+                    return Ok(Some(vec![label(Species::E)]));
                 }
                 (PointGroup::D4h, [r @ (0 | 2)]) => {
                     let c2x = rot_char(2)?;
-                    let name = match (r, c2x > 0.0) {
-                        (0, true) => "A1g",
-                        (0, false) => "A2g",
-                        (_, true) => "B1g",
-                        (_, false) => "B2g",
+                    let species = match (r, c2x > 0.0) {
+                        (0, true) => Species::A1,
+                        (0, false) => Species::A2,
+                        (_, true) => Species::B1,
+                        (_, false) => Species::B2,
                     };
                     if (c2x.abs() - 1.0).abs() < 1e-4 {
-                        return Ok(Some(vec![(name.to_string(), 1)]));
+                        return Ok(Some(vec![label(species)]));
                     }
                 }
                 _ => {}
@@ -712,8 +693,8 @@ impl Calculation {
         let mut table: ParentTable = Vec::new();
         for r in raw {
             let l = l_from_l_squared(r.l_sq.unwrap_or(0.0));
-            let term = term_symbol(r.two_s, l);
-            let key = (r.two_s, r.irrep.clone());
+            let term = Term::new(r.two_s, l);
+            let key = (r.two_s, r.irrep);
             match table.iter_mut().find(|(k, _)| *k == key) {
                 Some((_, v)) => v.push(term),
                 None => table.push((key, vec![term])),
@@ -724,7 +705,7 @@ impl Calculation {
 }
 
 /// For each (2S, irrep), the parent terms of its levels in order of energy.
-pub type ParentTable = Vec<((i32, String), Vec<String>)>;
+pub type ParentTable = Vec<((i32, Irrep), Vec<Term>)>;
 
 /// Re⟨v|R|v⟩ for eigenvector `k` of a block and rotation `ri` of [`super::symmetry::Rotation::ALL`].
 fn expectation(block: &SpinBlock, vecs: &DMatrix<C64>, k: usize, ri: usize) -> f64 {
@@ -745,7 +726,7 @@ struct MissingVector;
 pub(crate) struct RawLevel {
     pub(crate) energy: f64,
     pub(crate) two_s: i32,
-    pub(crate) irrep: String,
+    pub(crate) irrep: Irrep,
     pub(crate) dim: usize,
     pub(crate) l_sq: Option<f64>,
 }
@@ -758,7 +739,7 @@ pub(crate) fn assemble(raw: Vec<RawLevel>, parents: &ParentTable) -> Spectrum {
     let ground = raw.first().map(|r| r.energy).unwrap_or(0.0);
     // (position in `parents` or None, 2S, irrep, levels seen so far) per key met: looked up by
     // reference, so that no label is copied but the parent each level keeps.
-    let mut counters: Vec<(Option<usize>, i32, String, usize)> = Vec::new();
+    let mut counters: Vec<(Option<usize>, i32, Irrep, usize)> = Vec::new();
     let mut levels = Vec::with_capacity(raw.len());
     for r in raw {
         let slot = match counters
@@ -770,17 +751,14 @@ pub(crate) fn assemble(raw: Vec<RawLevel>, parents: &ParentTable) -> Spectrum {
                 let table = parents
                     .iter()
                     .position(|((s, i), _)| *s == r.two_s && *i == r.irrep);
-                counters.push((table, r.two_s, r.irrep.clone(), 0));
+                counters.push((table, r.two_s, r.irrep, 0));
                 counters.len() - 1
             }
         };
         let entry = &mut counters[slot];
         entry.3 += 1;
         let idx = entry.3;
-        let parent = entry
-            .0
-            .and_then(|t| parents[t].1.get(idx - 1).cloned())
-            .unwrap_or_else(|| "?".to_string());
+        let parent = entry.0.and_then(|t| parents[t].1.get(idx - 1).copied());
         levels.push(Level {
             energy: r.energy - ground,
             absolute_energy: r.energy,
@@ -839,19 +817,5 @@ mod parent_tests {
                 }
             }
         }
-    }
-}
-
-#[cfg(test)]
-mod tests {
-    use super::*;
-
-    /// L letters S, P, D, F, G, H, I (common practice).
-    #[test]
-    fn term_l_reads_the_letter() {
-        assert_eq!(term_l("4F"), Some(3));
-        assert_eq!(term_l("2I"), Some(6));
-        assert_eq!(term_l(&term_symbol(4, 2)), Some(2));
-        assert_eq!(term_l("5"), None);
     }
 }

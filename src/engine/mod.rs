@@ -10,6 +10,7 @@ pub mod diagram;
 pub mod field;
 pub mod geometry;
 pub mod hermitian;
+pub mod labels;
 pub mod levels;
 pub mod operators;
 pub mod projection;
@@ -24,6 +25,7 @@ pub use crossover::{
 pub use diagram::{diagram, Diagram, Series};
 pub use field::LigandField;
 pub use geometry::Geometry;
+pub use labels::{Irrep, Species, Term};
 pub use levels::{Calculation, Level, Spectrum};
 pub use spin_orbit::{SpinOrbitLevel, SpinOrbitSolution};
 pub use symmetry::PointGroup;

@@ -12,6 +12,7 @@
 //! of the irrep's dimension.
 
 use super::hermitian::{add_field, add_scaled};
+use super::labels::{Irrep, Species};
 use super::levels::{assemble, degenerate_runs, Calculation, ParentTable, RawLevel, Spectrum};
 use super::shell::shell;
 use super::symmetry::PointGroup;
@@ -24,7 +25,7 @@ use std::sync::OnceLock;
 #[derive(Debug, Clone)]
 struct IrrepBlock {
     two_s: i32,
-    irrep: String,
+    irrep: Irrep,
     /// Dimension of the irrep (the degeneracy of each of its levels).
     dim: usize,
     rep_b: DMatrix<f64>,
@@ -70,25 +71,24 @@ impl Projection {
     }
 
     fn build(dn: usize, group: PointGroup) -> Option<Projection> {
-        let g = if group == PointGroup::Td { "" } else { "g" };
         let mut out = Vec::new();
         let mut states = 0;
         let blocks = shell(dn).blocks(true);
         for block in blocks {
             let residue = block.residue?;
             // (operator, [(eigenvalue, irrep, dimension)]) for this block.
-            let (op, wanted): (DMatrix<f64>, Vec<(f64, &str, usize)>) = match (group, residue) {
+            let (op, wanted): (DMatrix<f64>, Vec<(f64, Species, usize)>) = match (group, residue) {
                 (PointGroup::D4h, 1) => (
                     DMatrix::zeros(block.dim(), block.dim()),
-                    vec![(0.0, "Eg", 2)],
+                    vec![(0.0, Species::E, 2)],
                 ),
                 (PointGroup::D4h, 3) => continue,
                 (PointGroup::D4h, r) => {
                     let c2x = block.rotation_re(2);
                     let names = if r == 0 {
-                        ("A1g", "A2g")
+                        (Species::A1, Species::A2)
                     } else {
-                        ("B1g", "B2g")
+                        (Species::B1, Species::B2)
                     };
                     (
                         0.5 * (c2x + c2x.transpose()),
@@ -99,12 +99,19 @@ impl Projection {
                     let c3 = block.rotation_re(0);
                     (
                         c3 + c3.transpose(),
-                        vec![(2.0, "A1", 1), (-1.0, "E", 2), (0.0, "T1", 3)],
+                        vec![
+                            (2.0, Species::A1, 1),
+                            (-1.0, Species::E, 2),
+                            (0.0, Species::T1, 3),
+                        ],
                     )
                 }
                 (_, 2) => {
                     let c3 = block.rotation_re(0);
-                    (c3 + c3.transpose(), vec![(2.0, "A2", 1), (0.0, "T2", 3)])
+                    (
+                        c3 + c3.transpose(),
+                        vec![(2.0, Species::A2, 1), (0.0, Species::T2, 3)],
+                    )
                 }
                 _ => continue, // rows of T₁ and T₂ already kept from the blocks above
             };
@@ -121,11 +128,7 @@ impl Projection {
                 let qt = q.transpose();
                 let project = |m: &DMatrix<f64>| &qt * (m * &q);
                 states += q.ncols() * dim;
-                let irrep = if group == PointGroup::D4h {
-                    name.to_string()
-                } else {
-                    format!("{name}{g}")
-                };
+                let irrep = group.irrep(name);
                 out.push(IrrepBlock {
                     two_s: block.two_s,
                     irrep,
@@ -193,7 +196,7 @@ impl Projection {
                 raw.push(RawLevel {
                     energy,
                     two_s: blk.two_s,
-                    irrep: blk.irrep.clone(),
+                    irrep: blk.irrep,
                     dim: blk.dim,
                     l_sq: None,
                 });
@@ -222,18 +225,17 @@ impl Projection {
                 a.energy
                     .total_cmp(&b.energy)
                     .then(b.two_s.cmp(&a.two_s))
-                    .then(table_order(&a.irrep).cmp(&table_order(&b.irrep)))
+                    .then(table_order(a.irrep).cmp(&table_order(b.irrep)))
             });
         }
         Ok(assemble(raw, parents))
     }
 }
 
-/// Position of an irrep in the character tables of O and D₄ (A₁, A₂, B₁, B₂, E, T₁, T₂).
-fn table_order(irrep: &str) -> usize {
-    const ORDER: [&str; 7] = ["A1", "A2", "B1", "B2", "E", "T1", "T2"];
-    let name = irrep.trim_end_matches('g');
-    ORDER.iter().position(|&o| o == name).unwrap_or(ORDER.len())
+/// Position of an irrep in the character tables of O and D₄ (A₁, A₂, B₁, B₂, E, T₁, T₂; the
+/// order of [`Species`]), other labels last.
+fn table_order(irrep: Irrep) -> (bool, Option<Species>) {
+    (irrep.species().is_none(), irrep.species())
 }
 
 /// The eigenvalues of one projected block's Hamiltonian for `calc` (a complex field is refused:

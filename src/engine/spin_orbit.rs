@@ -9,6 +9,7 @@
 //! blocks), with ⟨S²⟩ reported as computed.
 
 use super::hermitian::{add_field, add_scaled, eigen};
+use super::labels::{Irrep, Term};
 use super::levels::Calculation;
 use super::shell::{shell, SpinOrbitBlock};
 use super::symmetry::{double_group_labels, Characters, PointGroup, Rotation};
@@ -60,13 +61,14 @@ pub struct SpinOrbitLevel {
     pub degeneracy: usize,
     /// ⟨S²⟩ averaged over the states (spin is not a good quantum number with ζ ≠ 0).
     pub s_squared: f64,
-    /// Double-group (Bethe) label from the characters of the states, e.g. "Γ8g"; "Γ6g+Γ7g" for
-    /// an accidental degeneracy, "?" when the group is C1.
-    pub irrep: String,
+    /// Double-group (Bethe) labels from the characters of the states, e.g. [Γ8g]; two for an
+    /// accidental degeneracy (shown "Γ6g+Γ7g" by [`Irrep::sum_text`]), none when the group is
+    /// C1 or the characters do not decompose (shown "?").
+    pub irrep: Vec<Irrep>,
     /// Spin-free level with the largest weight, e.g. "4T1g".
     pub parent_level: String,
-    /// Free-ion term of that spin-free level, e.g. "4F".
-    pub parent_term: String,
+    /// Free-ion term of that spin-free level, e.g. 4F (None when it could not be labelled).
+    pub parent_term: Option<Term>,
     /// Weight (0..1) of that spin-free level in the states.
     pub weight: f64,
 }
@@ -106,10 +108,10 @@ impl Calculation {
         &self,
         solution: &SpinOrbitSolution,
         members: &[(f64, f64, usize, f64, usize, usize)],
-    ) -> String {
+    ) -> Vec<Irrep> {
         let fourfold = self.group != PointGroup::C1 && self.field.has_fourfold_z_axis();
         if !fourfold {
-            return "?".into();
+            return Vec::new();
         }
         let rotations = shell(self.dn).spin_orbit_rotations();
         let mut ch = Characters::default();
@@ -118,7 +120,7 @@ impl Calculation {
         for &(_, _, _, _, bi, k) in members {
             let st = &solution.blocks[bi];
             let Some(class) = st.block.class else {
-                return "?".into();
+                return Vec::new();
             };
             ch.e += 1.0;
             // exp(−iπ/2·M_J) with 2M_J ≡ class (mod 8).
@@ -138,12 +140,8 @@ impl Calculation {
         ch.c4z = c4.re;
         ch.c2z = c2.re;
         match double_group_labels(self.group, self.dn % 2 == 1, &ch) {
-            Some(parts) => parts
-                .iter()
-                .map(|(n, _)| n.as_str())
-                .collect::<Vec<_>>()
-                .join("+"),
-            None => "?".into(),
+            Some(parts) => parts.into_iter().map(|(n, _)| n).collect(),
+            None => Vec::new(),
         }
     }
 
@@ -255,7 +253,7 @@ impl Calculation {
                 irrep,
                 s_squared: group.iter().map(|s| s.1).sum::<f64>() / n,
                 parent_level: pl.label(),
-                parent_term: pl.parent.clone(),
+                parent_term: pl.parent,
                 weight: wsum / n,
             });
             i = j;

@@ -7,6 +7,7 @@
 
 use super::basis::{Determinant, SPIN_ORBITALS};
 use super::field::complex_orbital_form;
+use super::labels::{Irrep, Species};
 use super::operators::DetList;
 use nalgebra::{Complex, DMatrix, Matrix3, Vector3};
 
@@ -197,61 +198,61 @@ pub fn double_group_labels(
     group: PointGroup,
     odd_electrons: bool,
     ch: &Characters,
-) -> Option<Vec<(String, usize)>> {
+) -> Option<Vec<(Irrep, usize)>> {
     let r2 = std::f64::consts::SQRT_2;
-    type Row = (&'static str, usize, [f64; 5]);
-    let (sizes, chi, table, suffix): (&[f64], [f64; 5], Vec<Row>, &str) = match group {
+    type Row = (u8, usize, [f64; 5]);
+    let gerade = group.gerade();
+    let (sizes, chi, table): (&[f64], [f64; 5], Vec<Row>) = match group {
         PointGroup::Oh | PointGroup::Td => {
-            let sfx = if group == PointGroup::Oh { "g" } else { "" };
             let chi = [ch.e, ch.c3, ch.c4z, ch.c2z, ch.c2_face];
             let table = if odd_electrons {
                 vec![
-                    ("Γ6", 2, [2.0, 1.0, r2, 0.0, 0.0]),
-                    ("Γ7", 2, [2.0, 1.0, -r2, 0.0, 0.0]),
-                    ("Γ8", 4, [4.0, -1.0, 0.0, 0.0, 0.0]),
+                    (6, 2, [2.0, 1.0, r2, 0.0, 0.0]),
+                    (7, 2, [2.0, 1.0, -r2, 0.0, 0.0]),
+                    (8, 4, [4.0, -1.0, 0.0, 0.0, 0.0]),
                 ]
             } else {
                 vec![
-                    ("Γ1", 1, [1.0, 1.0, 1.0, 1.0, 1.0]),
-                    ("Γ2", 1, [1.0, 1.0, -1.0, 1.0, -1.0]),
-                    ("Γ3", 2, [2.0, -1.0, 0.0, 2.0, 0.0]),
-                    ("Γ4", 3, [3.0, 0.0, 1.0, -1.0, -1.0]),
-                    ("Γ5", 3, [3.0, 0.0, -1.0, -1.0, 1.0]),
+                    (1, 1, [1.0, 1.0, 1.0, 1.0, 1.0]),
+                    (2, 1, [1.0, 1.0, -1.0, 1.0, -1.0]),
+                    (3, 2, [2.0, -1.0, 0.0, 2.0, 0.0]),
+                    (4, 3, [3.0, 0.0, 1.0, -1.0, -1.0]),
+                    (5, 3, [3.0, 0.0, -1.0, -1.0, 1.0]),
                 ]
             };
-            (&[1.0, 8.0, 6.0, 3.0, 6.0], chi, table, sfx)
+            (&[1.0, 8.0, 6.0, 3.0, 6.0], chi, table)
         }
         PointGroup::D4h => {
             let chi = [ch.e, ch.c4z, ch.c2z, ch.c2_x, ch.c2_face];
             let table = if odd_electrons {
                 vec![
-                    ("Γ6", 2, [2.0, r2, 0.0, 0.0, 0.0]),
-                    ("Γ7", 2, [2.0, -r2, 0.0, 0.0, 0.0]),
+                    (6, 2, [2.0, r2, 0.0, 0.0, 0.0]),
+                    (7, 2, [2.0, -r2, 0.0, 0.0, 0.0]),
                 ]
             } else {
                 vec![
-                    ("Γ1", 1, [1.0, 1.0, 1.0, 1.0, 1.0]),
-                    ("Γ2", 1, [1.0, 1.0, 1.0, -1.0, -1.0]),
-                    ("Γ3", 1, [1.0, -1.0, 1.0, 1.0, -1.0]),
-                    ("Γ4", 1, [1.0, -1.0, 1.0, -1.0, 1.0]),
-                    ("Γ5", 2, [2.0, 0.0, -2.0, 0.0, 0.0]),
+                    (1, 1, [1.0, 1.0, 1.0, 1.0, 1.0]),
+                    (2, 1, [1.0, 1.0, 1.0, -1.0, -1.0]),
+                    (3, 1, [1.0, -1.0, 1.0, 1.0, -1.0]),
+                    (4, 1, [1.0, -1.0, 1.0, -1.0, 1.0]),
+                    (5, 2, [2.0, 0.0, -2.0, 0.0, 0.0]),
                 ]
             };
-            (&[1.0, 2.0, 1.0, 2.0, 2.0], chi, table, "g")
+            (&[1.0, 2.0, 1.0, 2.0, 2.0], chi, table)
         }
         PointGroup::C1 => return None,
     };
     let order: f64 = sizes.iter().sum();
     let mut out = Vec::new();
     let mut dim = 0.0;
-    for (name, d, chars) in table {
+    for (n_bethe, d, chars) in table {
         let n: f64 = (0..5).map(|k| sizes[k] * chars[k] * chi[k]).sum::<f64>() / order;
         let k = n.round();
         if (n - k).abs() > 1e-4 || k < 0.0 {
             return None;
         }
         for _ in 0..k as usize {
-            out.push((format!("{name}{suffix}"), d));
+            out.push((Irrep::Bethe { n: n_bethe, gerade }, d));
             dim += d as f64;
         }
     }
@@ -269,68 +270,58 @@ pub struct Characters {
     pub c2_x: f64,
 }
 
-struct Irrep {
-    name: &'static str,
-    dim: usize,
+/// One row of a character table.
+struct IrrepRow {
+    species: Species,
     chars: &'static [f64],
 }
 
 // O: classes E, 8C3, 6C2' (face diagonals, [110]), 6C4, 3C2 (= C4²).
 const O_SIZES: [f64; 5] = [1.0, 8.0, 6.0, 6.0, 3.0];
-const O_IRREPS: [Irrep; 5] = [
-    Irrep {
-        name: "A1",
-        dim: 1,
+const O_IRREPS: [IrrepRow; 5] = [
+    IrrepRow {
+        species: Species::A1,
         chars: &[1.0, 1.0, 1.0, 1.0, 1.0],
     },
-    Irrep {
-        name: "A2",
-        dim: 1,
+    IrrepRow {
+        species: Species::A2,
         chars: &[1.0, 1.0, -1.0, -1.0, 1.0],
     },
-    Irrep {
-        name: "E",
-        dim: 2,
+    IrrepRow {
+        species: Species::E,
         chars: &[2.0, -1.0, 0.0, 0.0, 2.0],
     },
-    Irrep {
-        name: "T1",
-        dim: 3,
+    IrrepRow {
+        species: Species::T1,
         chars: &[3.0, 0.0, -1.0, 1.0, -1.0],
     },
-    Irrep {
-        name: "T2",
-        dim: 3,
+    IrrepRow {
+        species: Species::T2,
         chars: &[3.0, 0.0, 1.0, -1.0, -1.0],
     },
 ];
 
 // D4: classes E, 2C4, C2 (= C4²), 2C2' (x, y axes), 2C2'' (diagonals).
 const D4_SIZES: [f64; 5] = [1.0, 2.0, 1.0, 2.0, 2.0];
-const D4_IRREPS: [Irrep; 5] = [
-    Irrep {
-        name: "A1",
-        dim: 1,
+const D4_IRREPS: [IrrepRow; 5] = [
+    IrrepRow {
+        species: Species::A1,
         chars: &[1.0, 1.0, 1.0, 1.0, 1.0],
     },
-    Irrep {
-        name: "A2",
-        dim: 1,
+    IrrepRow {
+        species: Species::A2,
         chars: &[1.0, 1.0, 1.0, -1.0, -1.0],
     },
-    Irrep {
-        name: "B1",
-        dim: 1,
+    IrrepRow {
+        species: Species::B1,
         chars: &[1.0, -1.0, 1.0, 1.0, -1.0],
     },
-    Irrep {
-        name: "B2",
-        dim: 1,
+    IrrepRow {
+        species: Species::B2,
         chars: &[1.0, -1.0, 1.0, -1.0, 1.0],
     },
-    Irrep {
-        name: "E",
-        dim: 2,
+    IrrepRow {
+        species: Species::E,
         chars: &[2.0, 0.0, -2.0, 0.0, 0.0],
     },
 ];
@@ -345,12 +336,17 @@ impl PointGroup {
         }
     }
 
-    /// Suffix for gerade labels.
-    fn suffix(self) -> &'static str {
+    /// Whether labels carry "g": the groups with inversion (every d^n state is gerade).
+    pub fn gerade(self) -> bool {
         match self {
-            PointGroup::Oh | PointGroup::D4h => "g",
-            _ => "",
+            PointGroup::Oh | PointGroup::D4h => true,
+            PointGroup::Td | PointGroup::C1 => false,
         }
+    }
+
+    /// The Mulliken label of `species` in this group (T1g in O_h, T1 in T_d).
+    pub fn irrep(self, species: Species) -> Irrep {
+        Irrep::mulliken(species, self.gerade())
     }
 
     /// The irreps that a free-ion term of orbital angular momentum `l` splits into, with their
@@ -359,7 +355,7 @@ impl PointGroup {
     /// d^n state is even under inversion, so the g labels follow from the proper rotations alone
     /// (and T_d, isomorphic to O, takes the same characters). Standard group theory (e.g.
     /// F. A. Cotton, Chemical Applications of Group Theory, 3rd ed., 1990, ch. 9).
-    pub fn term_irreps(self, l: usize) -> Vec<(String, usize)> {
+    pub fn term_irreps(self, l: usize) -> Vec<(Irrep, usize)> {
         let chi = |theta: f64| -> f64 {
             let sum: f64 = (-(l as i64)..=l as i64)
                 .map(|m| (m as f64 * theta).cos())
@@ -382,8 +378,8 @@ impl PointGroup {
     /// Decomposes a (possibly reducible) character into irreducible labels with their
     /// dimensions, e.g. [("T1g", 3)]. Returns None when the character is not a sum of irreps
     /// (which signals a numerical grouping problem).
-    pub fn decompose(self, ch: &Characters) -> Option<Vec<(String, usize)>> {
-        let (sizes, irreps, chi): (&[f64], &[Irrep], [f64; 5]) = match self {
+    pub fn decompose(self, ch: &Characters) -> Option<Vec<(Irrep, usize)>> {
+        let (sizes, irreps, chi): (&[f64], &[IrrepRow], [f64; 5]) = match self {
             PointGroup::Oh | PointGroup::Td => (
                 &O_SIZES,
                 &O_IRREPS,
@@ -399,7 +395,7 @@ impl PointGroup {
                 if (ch.e - n).abs() > 1e-6 || n < 1.0 {
                     return None;
                 }
-                return Some(vec![("A".to_string(), 1); n as usize]);
+                return Some(vec![(self.irrep(Species::A), 1); n as usize]);
             }
         };
         let order: f64 = sizes.iter().sum();
@@ -418,8 +414,9 @@ impl PointGroup {
                 return None;
             }
             for _ in 0..k as usize {
-                out.push((format!("{}{}", irrep.name, self.suffix()), irrep.dim));
-                dim_total += irrep.dim as f64;
+                let dim = irrep.species.dimension();
+                out.push((self.irrep(irrep.species), dim));
+                dim_total += dim as f64;
             }
         }
         ((dim_total - ch.e).abs() < 1e-6 && !out.is_empty()).then_some(out)
@@ -453,7 +450,10 @@ mod tests {
         // F. A. Cotton, Chemical Applications of Group Theory, 3rd ed. (1990), ch. 9 (the
         // table of terms in O_h; entries from memory).
         let names = |g: PointGroup, l: usize| -> Vec<String> {
-            g.term_irreps(l).into_iter().map(|p| p.0).collect()
+            g.term_irreps(l)
+                .into_iter()
+                .map(|p| p.0.to_string())
+                .collect()
         };
         assert_eq!(names(PointGroup::Oh, 0), ["A1g"]);
         assert_eq!(names(PointGroup::Oh, 1), ["T1g"]);
@@ -494,7 +494,7 @@ mod tests {
             c2_x: 1.0,
         };
         let parts = PointGroup::Oh.decompose(&ch).unwrap();
-        let names: Vec<_> = parts.iter().map(|p| p.0.as_str()).collect();
+        let names: Vec<_> = parts.iter().map(|p| p.0.to_string()).collect();
         assert_eq!(names, ["Eg", "T2g"]);
     }
 }

@@ -17,7 +17,8 @@
 //! ²H of d³ and d⁷) are taken in order of L (a convention: the field mixes them).
 
 use super::basis::{total_ml, total_two_ms};
-use super::levels::{degenerate_runs, term_symbol, Calculation, ParentTable, L_LETTERS};
+use super::labels::{Irrep, Term};
+use super::levels::{degenerate_runs, Calculation, ParentTable};
 use super::shell::{shell, two_s_values};
 use super::symmetry::PointGroup;
 use crate::error::Result;
@@ -36,9 +37,9 @@ pub struct FreeTerm {
 }
 
 impl FreeTerm {
-    /// Term symbol such as "4F".
-    pub fn symbol(&self) -> String {
-        term_symbol(self.two_s, self.l)
+    /// The term (2S, L), shown as "4F".
+    pub fn term(&self) -> Term {
+        Term::new(self.two_s, self.l)
     }
 }
 
@@ -80,17 +81,17 @@ pub fn parent_table(
     let terms = free_ion_terms(dn, c_over_b)?;
     let mut table: ParentTable = Vec::new();
     for t in terms.iter() {
-        let symbol = t.symbol();
-        let irreps: Vec<String> = if by_term {
-            vec![L_LETTERS.get(t.l).copied().unwrap_or('?').to_string()]
+        let symbol = t.term();
+        let irreps: Vec<Irrep> = if by_term {
+            vec![Irrep::FreeIon { l: t.l }]
         } else {
             group.term_irreps(t.l).into_iter().map(|p| p.0).collect()
         };
         for irrep in irreps {
             let key = (t.two_s, irrep);
             match table.iter_mut().find(|(k, _)| *k == key) {
-                Some((_, v)) => v.push(symbol.clone()),
-                None => table.push((key, vec![symbol.clone()])),
+                Some((_, v)) => v.push(symbol),
+                None => table.push((key, vec![symbol])),
             }
         }
     }
@@ -306,7 +307,7 @@ mod tests {
         ];
         assert_eq!(terms.len(), want.len());
         for (t, (sym, e)) in terms.iter().zip(want) {
-            assert_eq!(t.symbol(), sym);
+            assert_eq!(t.term(), sym.parse().unwrap());
             assert_abs_diff_eq!(t.energy, e, epsilon = 1e-9);
         }
     }
@@ -329,8 +330,8 @@ mod tests {
         }
         // d³: ²P and ²H are exactly degenerate, and ²P comes first by convention.
         let d3 = free_ion_terms(3, 4.5).unwrap();
-        let p = d3.iter().position(|t| t.symbol() == "2P").unwrap();
-        assert_eq!(d3[p + 1].symbol(), "2H");
+        let p = d3.iter().position(|t| t.term() == Term::new(1, 1)).unwrap();
+        assert_eq!(d3[p + 1].term(), Term::new(1, 5));
         assert_abs_diff_eq!(d3[p].energy, d3[p + 1].energy, epsilon = 1e-9);
     }
 

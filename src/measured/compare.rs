@@ -19,8 +19,7 @@
 //! the metal, oxidation state and ligands can fill it from its own tables.
 
 use super::Measured;
-use crate::engine::levels::term_l;
-use crate::engine::{Calculation, Geometry};
+use crate::engine::{Calculation, Geometry, Irrep, Species, Term};
 use crate::error::{Error, Result};
 use crate::param::Param;
 use crate::tables::moment_ranges::MomentRangeTable;
@@ -114,8 +113,8 @@ pub struct StateExpectation {
     pub two_s: i32,
     /// Ground term from the engine, e.g. "5Eg".
     pub ground_term: String,
-    /// Its free-ion parent, e.g. "5D".
-    pub parent: String,
+    /// Its free-ion parent, e.g. 5D (None when it could not be labelled).
+    pub parent: Option<Term>,
     /// Spin-only moment (μB).
     pub spin_only: f64,
     /// Spin plus unquenched orbital moment of the parent term (μB); `None` for S = 0.
@@ -184,23 +183,19 @@ fn ground_at(dn: usize, geometry: Geometry, delta_over_b: f64) -> Result<crate::
     Ok(calc.levels()?.ground().clone())
 }
 
-fn orbital_kind(geometry: Geometry, irrep: &str, two_s: i32) -> Orbital {
+fn orbital_kind(geometry: Geometry, irrep: Irrep, two_s: i32) -> Orbital {
     if two_s == 0 {
         return Orbital::NotApplicable;
     }
     if !matches!(geometry, Geometry::Octahedral | Geometry::Tetrahedral) {
         return Orbital::NotApplicable;
     }
-    if irrep.starts_with('T') {
-        Orbital::FirstOrder
-    } else if irrep.starts_with("A2") {
-        Orbital::SecondOrder { alpha: 4.0 }
-    } else if irrep.starts_with("A1") {
-        Orbital::SecondOrder { alpha: 0.0 }
-    } else if irrep.starts_with('E') {
-        Orbital::SecondOrder { alpha: 2.0 }
-    } else {
-        Orbital::NotApplicable
+    match irrep.species() {
+        Some(Species::T1 | Species::T2) => Orbital::FirstOrder,
+        Some(Species::A2) => Orbital::SecondOrder { alpha: 4.0 },
+        Some(Species::A1) => Orbital::SecondOrder { alpha: 0.0 },
+        Some(Species::E) => Orbital::SecondOrder { alpha: 2.0 },
+        Some(Species::A | Species::B1 | Species::B2) | None => Orbital::NotApplicable,
     }
 }
 
@@ -331,9 +326,11 @@ pub fn expectations(
         let spin_orbital = if level.two_s == 0 {
             None
         } else {
-            term_l(&level.parent).map(|l| crate::units::spin_orbital_moment(level.two_s, l))
+            level
+                .parent
+                .map(|t| crate::units::spin_orbital_moment(level.two_s, t.l))
         };
-        let orbital = orbital_kind(spec.geometry, &level.irrep, level.two_s);
+        let orbital = orbital_kind(spec.geometry, level.irrep, level.two_s);
         let lambda = match (zeta, level.two_s) {
             (Some(z), two_s) if two_s > 0 && spec.dn != 5 => {
                 let sign = if spec.dn < 5 { 1.0 } else { -1.0 };
@@ -405,7 +402,7 @@ pub fn expectations(
             state: state.to_string(),
             two_s: level.two_s,
             ground_term: level.label(),
-            parent: level.parent.clone(),
+            parent: level.parent,
             spin_only,
             spin_orbital,
             orbital,
@@ -597,7 +594,7 @@ mod tests {
         assert_relative_eq!(e[1].spin_only, 8f64.sqrt());
         // 5D parent: √(4·6 + 6) = √30 = 5.48 (textbook μ_S+L, common practice).
         assert_relative_eq!(e[0].spin_orbital.unwrap(), 30f64.sqrt());
-        assert_eq!(e[0].parent, "5D");
+        assert_eq!(e[0].parent, Some(Term::new(4, 2)));
     }
 
     #[test]

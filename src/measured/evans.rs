@@ -85,7 +85,7 @@ impl FromStr for MagnetGeometry {
             "solenoid" | "superconducting" | "parallel" => Ok(MagnetGeometry::Solenoid),
             "transverse" | "electromagnet" | "perpendicular" => Ok(MagnetGeometry::Transverse),
             _ => Err(Error::Unknown {
-                kind: "magnet geometry (accepted: solenoid, transverse)".into(),
+                kind: crate::error::NameKind::MagnetGeometry,
                 name: s.to_string(),
                 suggestions: crate::error::closest_names(s, ["solenoid", "transverse"]),
             }),

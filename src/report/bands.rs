@@ -144,7 +144,7 @@ impl BandsReport {
                         .map(|b| BandRow {
                             transition: format!("{} → {}", s.reference, b.transition.label),
                             label: b.transition.label.clone(),
-                            parent: b.transition.parent.clone(),
+                            parent: crate::engine::Term::text_of(b.transition.parent),
                             energy: b.transition.energy,
                             wavelength_nm: 1e7 / b.transition.energy,
                             in_window: b.in_window,

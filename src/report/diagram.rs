@@ -54,7 +54,7 @@ impl DiagramReport {
                     key: s.key(d.needs_index(s)),
                     label: s.label(),
                     multiplicity: s.two_s + 1,
-                    parent: s.parent.clone(),
+                    parent: crate::engine::Term::text_of(s.parent),
                     degeneracy: s.degeneracy,
                     energies: s.energies.clone(),
                 })

@@ -235,7 +235,7 @@ impl FitBandsReport {
             observed_in_unit: unit.from_wavenumber(a.observed),
             transition: arrow(&f.reference, &a.transition.label),
             label: a.transition.label.clone(),
-            parent: a.transition.parent.clone(),
+            parent: crate::engine::Term::text_of(a.transition.parent),
             calculated: a.transition.energy,
             residual: a.residual,
             electrons_moved: if spin_forbidden {
@@ -322,7 +322,7 @@ impl FitBandsReport {
                 .map(|p| PredictedRow {
                     transition: arrow(&f.reference, &p.transition.label),
                     label: p.transition.label.clone(),
-                    parent: p.transition.parent.clone(),
+                    parent: crate::engine::Term::text_of(p.transition.parent),
                     energy: p.transition.energy,
                     wavelength_nm: 1e7 / p.transition.energy,
                     electrons_moved: p.jump.electrons,

@@ -72,7 +72,7 @@ pub fn parameter_rows(r: &CheckResult) -> Vec<(String, String)> {
         format!(
             "{} ({})",
             r.prediction.ground.label(),
-            r.prediction.ground.parent
+            crate::engine::Term::text_of(r.prediction.ground.parent)
         ),
     ));
     rows

@@ -208,7 +208,7 @@ impl MeasuredMomentReport {
                     state: s.state.clone(),
                     spin: f64::from(s.two_s) / 2.0,
                     ground_term: s.ground_term.clone(),
-                    parent: s.parent.clone(),
+                    parent: crate::engine::Term::text_of(s.parent),
                     mu_spin_only: s.spin_only,
                     mu_spin_orbital: s.spin_orbital,
                     orbital: match s.orbital {

@@ -154,7 +154,7 @@ impl From<&SpinBands> for BandSet {
                 .iter()
                 .map(|b| BandRow {
                     to: b.to.clone(),
-                    to_parent: b.to_parent.clone(),
+                    to_parent: crate::engine::Term::text_of(b.to_parent),
                     energy: b.energy,
                     wavelength_nm: b.wavelength_nm,
                     intensity: b.intensity.class.to_string(),
@@ -323,7 +323,7 @@ impl PredictReport {
         let state = |s: &crate::engine::SpinGround| StateRow {
             spin: s.two_s as f64 / 2.0,
             term: s.term.clone(),
-            parent: s.parent.clone(),
+            parent: crate::engine::Term::text_of(s.parent),
         };
         let mut cautions = c.cautions.clone();
         if !cautions.is_empty() {
@@ -395,7 +395,7 @@ impl PredictReport {
             }),
             borderline: p.margin.is_some_and(|m| m.borderline),
             ground_term: p.ground.label(),
-            parent_term: p.ground.parent.clone(),
+            parent_term: crate::engine::Term::text_of(p.ground.parent),
             spin: p.spin,
             unpaired: p.unpaired,
             spin_only_moment: p.spin_only_moment,

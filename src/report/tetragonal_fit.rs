@@ -198,7 +198,7 @@ impl TetragonalFitReport {
                     observed_in_unit: unit.from_wavenumber(a.observed),
                     transition: format!("{} → {}", f.reference, a.label),
                     label: a.label.clone(),
-                    parent: a.parent.clone(),
+                    parent: crate::engine::Term::text_of(a.parent),
                     calculated: a.calculated,
                     residual: a.residual,
                 })

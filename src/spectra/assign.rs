@@ -194,6 +194,7 @@ pub fn seeds(
 #[cfg(test)]
 mod tests {
     use super::*;
+    use crate::engine::{Irrep, Species};
 
     #[test]
     fn assignment_count_is_k_falling_n() {
@@ -220,10 +221,10 @@ mod tests {
             4.5,
         );
         let best = &s[0];
-        assert_eq!(best.keys[0].irrep, "T2g");
+        assert_eq!(best.keys[0].irrep, Irrep::mulliken(Species::T2, true));
         assert_eq!(
-            (best.keys[1].irrep.as_str(), best.keys[1].index),
-            ("T1g", 1)
+            (best.keys[1].irrep, best.keys[1].index),
+            (Irrep::mulliken(Species::T1, true), 1)
         );
         assert!((best.x - 23.9).abs() < 1.0, "Δ/B {}", best.x);
         assert!((best.b - 729.0).abs() < 40.0, "B {}", best.b);

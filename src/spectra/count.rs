@@ -25,7 +25,7 @@ use super::transitions::{
     band_manifold, calculation, intensity, jumps, spin_states, Intensity, SpinCandidate,
     Transition, WEAK_FRACTION,
 };
-use crate::engine::{Geometry, PointGroup};
+use crate::engine::{Geometry, PointGroup, Species};
 use crate::error::{require_finite, Error, Result};
 use crate::param::Param;
 
@@ -310,7 +310,7 @@ pub fn count_bands(req: &CountRequest) -> Result<BandCount> {
         };
         let forbidden = m.upper_two_s != m.two_s;
         let band_jumps = jumps(&calc, req.geometry, &spectrum, &m)?;
-        let ground_e = cubic && m.reference.irrep.starts_with('E');
+        let ground_e = cubic && m.reference.irrep.is(Species::E);
         let mut bands: Vec<CountedBand> = m
             .transitions
             .iter()
@@ -338,7 +338,7 @@ pub fn count_bands(req: &CountRequest) -> Result<BandCount> {
                     // orbital occupation; an E of the ground configuration (the sharp
                     // 4Eg(G) of high-spin d5) does not.
                     jahn_teller: ground_e
-                        || (cubic && t.key.irrep.starts_with('E') && j.electrons != Some(0)),
+                        || (cubic && t.key.irrep.is(Species::E) && j.electrons != Some(0)),
                     merged_into: None,
                     intensity: intensity(req.geometry, !forbidden, j.weak),
                 }
@@ -497,6 +497,7 @@ pub fn count_bands(req: &CountRequest) -> Result<BandCount> {
 #[cfg(test)]
 mod tests {
     use super::*;
+    use crate::engine::{Irrep, Species};
 
     fn request(dn: usize, dq: f64, b: f64, c_over_b: f64, observed: Option<usize>) -> CountRequest {
         CountRequest {
@@ -523,7 +524,7 @@ mod tests {
         let a2 = hs
             .bands
             .iter()
-            .find(|b| b.transition.key.irrep == "A2g")
+            .find(|b| b.transition.key.irrep == Irrep::mulliken(Species::A2, true))
             .unwrap();
         assert_eq!(a2.electrons_moved, Some(2));
         assert!(a2.weak);

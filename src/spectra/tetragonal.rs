@@ -28,7 +28,7 @@ use super::transitions::{
     band_manifold, default_c_over_b, select_spin, spin_states, SpinCandidate, SpinChoice,
     TransitionKey,
 };
-use crate::engine::{Calculation, Geometry, LigandField, Spectrum};
+use crate::engine::{Calculation, Geometry, LigandField, Spectrum, Term};
 use crate::error::{require_finite, Error, Result};
 use crate::least_squares::Residuals;
 use crate::param::Param;
@@ -79,8 +79,8 @@ pub struct TetragonalBand {
     pub observed: f64,
     /// Upper level ("3Eg", "2B2g"), with its index when the irrep repeats ("3Eg[2]").
     pub label: String,
-    /// Free-ion parent term of the upper level.
-    pub parent: String,
+    /// Free-ion parent term of the upper level (None when it could not be labelled).
+    pub parent: Option<Term>,
     /// Calculated energy above the ground level of the spin (cm⁻¹).
     pub calculated: f64,
     /// Observed minus calculated (cm⁻¹).
@@ -657,7 +657,7 @@ fn refine(
         assigned.push(TetragonalBand {
             observed: obs,
             label,
-            parent: level.parent.clone(),
+            parent: level.parent,
             calculated,
             residual: obs - calculated,
         });

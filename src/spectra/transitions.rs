@@ -6,7 +6,7 @@
 //! scaled (non-crossing rule), so this key follows one physical level across field strengths
 //! while the energy order of different keys may change.
 
-use crate::engine::{Calculation, Geometry, Level, LigandField, Spectrum};
+use crate::engine::{Calculation, Geometry, Irrep, Level, LigandField, Spectrum, Term};
 use crate::error::{Error, Result};
 use crate::param::Param;
 
@@ -156,7 +156,7 @@ pub fn select_spin(states: &[SpinCandidate], choice: SpinChoice) -> Vec<SpinCand
 #[derive(Debug, Clone, PartialEq, Eq, Hash)]
 pub struct TransitionKey {
     pub two_s: i32,
-    pub irrep: String,
+    pub irrep: Irrep,
     /// Position among levels of the same spin and irrep, lowest = 1.
     pub index: usize,
 }
@@ -166,7 +166,7 @@ impl TransitionKey {
     pub fn of(level: &Level) -> Self {
         TransitionKey {
             two_s: level.two_s,
-            irrep: level.irrep.clone(),
+            irrep: level.irrep,
             index: level.index,
         }
     }
@@ -192,8 +192,8 @@ pub struct Transition {
     /// Label made unique within its manifold ("4T2g", "4T1g(F)", "4T1g(P)", "1T2g[2]"; see
     /// [`manifold`]).
     pub label: String,
-    /// Free-ion parent term of the upper level ("4P").
-    pub parent: String,
+    /// Free-ion parent term of the upper level (4P).
+    pub parent: Option<Term>,
     /// Energy above the lower level of the transition (cm⁻¹).
     pub energy: f64,
     /// Orbital degeneracy of the upper level.
@@ -209,7 +209,7 @@ pub struct Manifold {
     /// Label of the lowest level, unique within the manifold like the transition labels.
     pub reference_label: String,
     /// Free-ion parent of the lowest level.
-    pub reference_parent: String,
+    pub reference_parent: Option<Term>,
     /// Energy of the lowest level of this spin above the ground level (cm⁻¹; 0 when this spin
     /// is the ground state).
     pub offset: f64,
@@ -243,15 +243,14 @@ fn unique_labels(levels: &[&Level]) -> Vec<String> {
             if same.len() == 1 {
                 return base;
             }
-            let letter =
-                |x: &Level| -> String { x.parent.chars().filter(|c| c.is_alphabetic()).collect() };
-            let mut letters: Vec<String> = same.iter().map(|o| letter(o)).collect();
+            let letter = |x: &Level| x.parent.map(Term::letter);
+            let mut letters: Vec<Option<char>> = same.iter().map(|o| letter(o)).collect();
             let n = letters.len();
             letters.sort();
             letters.dedup();
-            let distinct = letters.len() == n && letters.iter().all(|x| !x.is_empty());
-            if distinct {
-                format!("{base}({})", letter(l))
+            let distinct = letters.len() == n && letters.iter().all(Option::is_some);
+            if let (true, Some(own)) = (distinct, letter(l)) {
+                format!("{base}({own})")
             } else if l.index == 1 {
                 base
             } else {
@@ -308,7 +307,7 @@ fn manifold_to(spectrum: &Spectrum, two_s: i32, upper: i32) -> Option<Manifold> 
         .map(|(l, label)| Transition {
             key: TransitionKey::of(l),
             label: label.clone(),
-            parent: l.parent.clone(),
+            parent: l.parent,
             energy: l.energy - lowest.energy,
             degeneracy: l.degeneracy,
         })
@@ -317,7 +316,7 @@ fn manifold_to(spectrum: &Spectrum, two_s: i32, upper: i32) -> Option<Manifold> 
         two_s,
         reference: TransitionKey::of(lowest),
         reference_label: own_labels[0].clone(),
-        reference_parent: lowest.parent.clone(),
+        reference_parent: lowest.parent,
         offset: lowest.energy,
         upper_two_s: upper,
         transitions,
@@ -549,6 +548,7 @@ mod intensity_tests {
 #[cfg(test)]
 mod tests {
     use super::*;
+    use crate::engine::{Irrep, Species};
     use approx::assert_abs_diff_eq;
 
     fn oct() -> Geometry {
@@ -608,7 +608,11 @@ mod tests {
 
         let calc = calculation(7, oct(), 920.0, 825.0, 3822.0).unwrap();
         let m = manifold(&calc.levels().unwrap(), 3).unwrap();
-        let a2 = m.transitions.iter().find(|t| t.key.irrep == "A2g").unwrap();
+        let a2 = m
+            .transitions
+            .iter()
+            .find(|t| t.key.irrep == Irrep::mulliken(Species::A2, true))
+            .unwrap();
         let keys = vec![m.reference.clone(), a2.key.clone()];
         let conf = strong_field_configurations(7, oct(), 825.0, 3822.0, &keys).unwrap();
         assert_eq!(conf[0].as_deref(), Some(&[5, 2][..]));

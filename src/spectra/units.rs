@@ -85,7 +85,7 @@ impl FromStr for EnergyUnit {
             "eV" | "ev" => EnergyUnit::ElectronVolt,
             _ => {
                 return Err(Error::Unknown {
-                    kind: "energy unit (accepted: cm-1, nm, kK, eV)".into(),
+                    kind: crate::error::NameKind::EnergyUnit,
                     name: s.to_string(),
                     suggestions: closest_names(key, EnergyUnit::NAMES),
                 })

@@ -383,7 +383,10 @@ impl Structure {
                 .find(|&i| self.atoms[i].label.eq_ignore_ascii_case(l))
                 .map(|i| vec![i])
                 .ok_or_else(|| Error::Unknown {
-                    kind: format!("metal label (metals in {}: {})", self.name, labels()),
+                    kind: crate::error::NameKind::MetalLabel {
+                        structure: self.name.clone(),
+                        labels: labels(),
+                    },
                     name: l.clone(),
                     suggestions: crate::error::closest_names(
                         l,

@@ -168,30 +168,45 @@ mod tests {
         Cell::new("t.csv", 4, "x", text)
     }
 
+    /// One cell check, its error as text.
+    type Check = fn(Cell<'_>) -> Option<String>;
+
     #[test]
     fn each_check_names_table_line_and_column() {
-        let e = cell("abc").number(0.0..=1.0, "").unwrap_err().to_string();
-        assert!(e.contains("t.csv") && e.contains("line 4, column x"), "{e}");
-        assert!(e.contains("'abc' is not a number"), "{e}");
-        let e = cell("2").number(0.0..=1.0, " Å").unwrap_err().to_string();
-        assert!(e.contains("outside the sensible range 0..=1 Å"), "{e}");
-        let e = cell("inf").finite().unwrap_err().to_string();
-        assert!(e.contains("not a finite number"), "{e}");
-        let e = cell("-1").non_negative().unwrap_err().to_string();
-        assert!(e.contains("not a finite number ≥ 0"), "{e}");
-        let e = cell("").source().unwrap_err().to_string();
-        assert!(e.contains("every row needs a source"), "{e}");
-        let e = cell("").required().unwrap_err().to_string();
-        assert!(e.contains("a value is required"), "{e}");
-        let e = cell("9").int(0..=8).unwrap_err().to_string();
-        assert!(e.contains("9 is outside 0..=8"), "{e}");
-        let e = cell("z")
-            .one_of(&[("a", 1), ("b", 2)])
-            .unwrap_err()
-            .to_string();
-        assert!(e.contains("unknown value 'z' (accepted: a, b)"), "{e}");
-        let e = cell("nine").int_or_any(0..=8).unwrap_err().to_string();
-        assert!(e.contains("'any' or an integer in 0..=8"), "{e}");
+        let text = |r: Result<impl Sized>| r.err().map(|e| e.to_string());
+        // (cell text, check, a fragment of the error)
+        let cases: [(&str, Check, &str); 9] = [
+            (
+                "abc",
+                |c| text(c.number(0.0..=1.0, "")),
+                "'abc' is not a number",
+            ),
+            (
+                "2",
+                |c| text(c.number(0.0..=1.0, " Å")),
+                "outside the sensible range 0..=1 Å",
+            ),
+            ("inf", |c| text(c.finite()), "not a finite number"),
+            ("-1", |c| text(c.non_negative()), "not a finite number ≥ 0"),
+            ("", |c| text(c.source()), "every row needs a source"),
+            ("", |c| text(c.required()), "a value is required"),
+            ("9", |c| text(c.int(0..=8)), "9 is outside 0..=8"),
+            (
+                "z",
+                |c| text(c.one_of(&[("a", 1), ("b", 2)])),
+                "unknown value 'z' (accepted: a, b)",
+            ),
+            (
+                "nine",
+                |c| text(c.int_or_any(0..=8)),
+                "'any' or an integer in 0..=8",
+            ),
+        ];
+        for (value, check, needle) in cases {
+            let e = check(cell(value)).unwrap_or_else(|| panic!("{value:?} passed: {needle}"));
+            assert!(e.contains("t.csv") && e.contains("line 4, column x"), "{e}");
+            assert!(e.contains(needle), "{e}");
+        }
     }
 
     #[test]

@@ -211,7 +211,7 @@ fn element(symbol: &str) -> Option<Element> {
 /// Number of d electrons of a d-block element in an oxidation state: group − oxidation state.
 pub fn d_electron_count(symbol: &str, oxidation_state: i32) -> Result<(usize, TransitionSeries)> {
     let el = element(symbol).ok_or_else(|| Error::Unknown {
-        kind: "element symbol".into(),
+        kind: crate::error::NameKind::Element,
         name: symbol.into(),
         suggestions: closest_names(symbol, Element::iter().map(|e| e.symbol())),
     })?;
@@ -350,8 +350,7 @@ impl IonTable {
             .into_iter()
             .find(|s| s.eq_ignore_ascii_case(key))
             .ok_or_else(|| Error::Unknown {
-                kind: "metal (give an element symbol such as Fe; `spinstate data ions` lists them)"
-                    .into(),
+                kind: crate::error::NameKind::Metal,
                 name: key.to_string(),
                 suggestions: closest_names(key, self.metals()),
             })?;
@@ -479,20 +478,24 @@ mod tests {
     #[test]
     fn bad_rows_name_line_and_column() {
         let head = HEADER.join(",");
-        let e = IonTable::parse(&format!("{head}\nFe,2,5000,,,,,hs,,,,x\n")).unwrap_err();
-        assert!(e.to_string().contains("line 2, column b0"), "{e}");
-        let e = IonTable::parse(&format!("{head}\nFe,2,917,,,,,hs,,,,\n")).unwrap_err();
-        assert!(e.to_string().contains("column source"), "{e}");
-        let e = IonTable::parse(&format!("{head}\nFe,9,917,,,,,hs,,,,x\n")).unwrap_err();
-        assert!(e.to_string().contains("oxidation state of Fe"), "{e}");
-        let e = IonTable::parse(&format!("{head}\nNa,1,,,,,,any,,,,x\n")).unwrap_err();
-        assert!(e.to_string().contains("d-block"), "{e}");
-        let e = IonTable::parse(&format!("{head}\nFe,2,917,,,,,high,,,,x\n")).unwrap_err();
-        assert!(e.to_string().contains("column g_state"), "{e}");
-        let e = IonTable::parse(&format!("{head}\nFe,2,917,,,,,hs,,g=guessed,,x\n")).unwrap_err();
-        assert!(e.to_string().contains("column provenance"), "{e}");
-        let e = IonTable::parse("symbol,ox\nFe,2\n").unwrap_err();
-        assert!(e.to_string().contains("header"), "{e}");
+        // (the rows after the header, or a whole text with "!" first; a fragment of the error)
+        let cases = [
+            ("Fe,2,5000,,,,,hs,,,,x", "line 2, column b0"),
+            ("Fe,2,917,,,,,hs,,,,", "column source"),
+            ("Fe,9,917,,,,,hs,,,,x", "oxidation state of Fe"),
+            ("Na,1,,,,,,any,,,,x", "d-block"),
+            ("Fe,2,917,,,,,high,,,,x", "column g_state"),
+            ("Fe,2,917,,,,,hs,,g=guessed,,x", "column provenance"),
+            ("!symbol,ox\nFe,2", "header"),
+        ];
+        for (rows, needle) in cases {
+            let text = match rows.strip_prefix('!') {
+                Some(whole) => format!("{whole}\n"),
+                None => format!("{head}\n{rows}\n"),
+            };
+            let e = IonTable::parse(&text).unwrap_err();
+            assert!(e.to_string().contains(needle), "{e}");
+        }
     }
 
     #[test]

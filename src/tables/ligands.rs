@@ -241,7 +241,7 @@ impl LigandTable {
             .iter()
             .find(|r| r.is_called(name))
             .ok_or_else(|| Error::Unknown {
-                kind: "ligand (`spinstate data ligands` lists them; to add one, copy data/ligands.csv, add a row with its f and source, and load the tables from that directory)".into(),
+                kind: crate::error::NameKind::Ligand,
                 name: name.trim().to_string(),
                 suggestions: closest_names(name.trim(), self.all_names()),
             })

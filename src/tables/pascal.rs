@@ -152,7 +152,7 @@ impl PascalTable {
     /// The row with this name, or an error naming the closest known names.
     pub fn require(&self, name: &str) -> Result<&PascalEntry> {
         self.get(name).ok_or_else(|| Error::Unknown {
-            kind: "Pascal-table entry".into(),
+            kind: crate::error::NameKind::PascalEntry,
             name: name.to_string(),
             suggestions: self.closest(name),
         })
@@ -234,28 +234,30 @@ mod tests {
     #[test]
     fn bad_rows_are_reported_with_row_and_column() {
         let head = "kind,name,formula,value_1e-6_cm3_per_mol,source\n";
-        let e = PascalTable::parse(&format!("{head}atom,H,H,abc,src\n")).unwrap_err();
-        assert!(
-            e.to_string()
-                .contains("line 2, column value_1e-6_cm3_per_mol"),
-            "{e}"
-        );
-        let e = PascalTable::parse(&format!("{head}ligand,py,C5H5N,-49,\n")).unwrap_err();
-        assert!(e.to_string().contains("needs a source"), "{e}");
-        let e = PascalTable::parse(&format!("{head}ligand,py,C5H5N,49,x\n")).unwrap_err();
-        assert!(e.to_string().contains("diamagnetic"), "{e}");
-        let e =
-            PascalTable::parse(&format!("{head}atom,H,H,-2.93,x\natom,H,H,-2.93,x\n")).unwrap_err();
-        assert!(
-            e.to_string().contains("line 3") && e.to_string().contains("duplicate"),
-            "{e}"
-        );
-        let e = PascalTable::parse(&format!("{head}atom,N,O,-5,x\n")).unwrap_err();
-        assert!(e.to_string().contains("does not match"), "{e}");
-        let e = PascalTable::parse(&format!("{head}ligand,py,C5H5Q,-49,x\n")).unwrap_err();
-        assert!(e.to_string().contains("column formula"), "{e}");
-        let e = PascalTable::parse("a,b\n1,2\n").unwrap_err();
-        assert!(e.to_string().contains("header"), "{e}");
+        // (the rows after the header, or a whole text with "!" first; fragments of the error)
+        let cases: [(&str, &[&str]); 7] = [
+            (
+                "atom,H,H,abc,src\n",
+                &["line 2, column value_1e-6_cm3_per_mol"],
+            ),
+            ("ligand,py,C5H5N,-49,\n", &["needs a source"]),
+            ("ligand,py,C5H5N,49,x\n", &["diamagnetic"]),
+            (
+                "atom,H,H,-2.93,x\natom,H,H,-2.93,x\n",
+                &["line 3", "duplicate"],
+            ),
+            ("atom,N,O,-5,x\n", &["does not match"]),
+            ("ligand,py,C5H5Q,-49,x\n", &["column formula"]),
+            ("!a,b\n1,2\n", &["header"]),
+        ];
+        for (rows, needles) in cases {
+            let text = match rows.strip_prefix('!') {
+                Some(whole) => whole.to_string(),
+                None => format!("{head}{rows}"),
+            };
+            let e = PascalTable::parse(&text).unwrap_err();
+            assert!(needles.iter().all(|n| e.to_string().contains(n)), "{e}");
+        }
     }
 
     #[test]

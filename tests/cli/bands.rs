@@ -229,30 +229,55 @@ fn window_and_resolution_change_the_count() {
     assert_eq!(merged[0]["members"].as_array().unwrap().len(), 2);
 }
 
-#[test]
-fn bad_input_is_rejected_with_exit_code_2() {
-    let base = [
-        "bands",
-        "--dn",
-        "3",
-        "--geometry",
-        "oct",
-        "--dq",
-        "1740",
-        "--b",
-        "728.6",
-    ];
-    let with = |extra: &[&'static str]| -> Vec<&'static str> {
-        let mut v = base.to_vec();
-        v.extend_from_slice(extra);
-        v
-    };
-    expect_usage_error(&with(&["--window", "900-300"]), "--window");
-    expect_usage_error(&with(&["--window", "abc"]), "--window");
-    expect_usage_error(&with(&["--resolution", "-5"]), "--resolution");
-    expect_usage_error(
+/// Bad input: (arguments after `bands`, a fragment the one-line error must contain).
+const BAD_INPUT: &[(&[&str], &str)] = &[
+    (
         &[
-            "bands",
+            "--dn",
+            "3",
+            "--geometry",
+            "oct",
+            "--dq",
+            "1740",
+            "--b",
+            "728.6",
+            "--window",
+            "900-300",
+        ],
+        "--window",
+    ),
+    (
+        &[
+            "--dn",
+            "3",
+            "--geometry",
+            "oct",
+            "--dq",
+            "1740",
+            "--b",
+            "728.6",
+            "--window",
+            "abc",
+        ],
+        "--window",
+    ),
+    (
+        &[
+            "--dn",
+            "3",
+            "--geometry",
+            "oct",
+            "--dq",
+            "1740",
+            "--b",
+            "728.6",
+            "--resolution",
+            "-5",
+        ],
+        "--resolution",
+    ),
+    (
+        &[
             "--dn",
             "3",
             "--geometry",
@@ -263,10 +288,9 @@ fn bad_input_is_rejected_with_exit_code_2() {
             "-1",
         ],
         "--b",
-    );
-    expect_usage_error(
+    ),
+    (
         &[
-            "bands",
             "--dn",
             "11",
             "--geometry",
@@ -277,10 +301,9 @@ fn bad_input_is_rejected_with_exit_code_2() {
             "700",
         ],
         "--dn",
-    );
-    expect_usage_error(
+    ),
+    (
         &[
-            "bands",
             "--dn",
             "3",
             "--geometry",
@@ -291,7 +314,16 @@ fn bad_input_is_rejected_with_exit_code_2() {
             "700",
         ],
         "Dq",
-    );
+    ),
+];
+
+#[test]
+fn bad_input_is_rejected_with_exit_code_2() {
+    for (args, needle) in BAD_INPUT {
+        let mut full = vec!["bands"];
+        full.extend_from_slice(args);
+        expect_usage_error(&full, needle);
+    }
     // No field given: a parser error, exit code 2.
     let (code, _, _) = run(&["bands", "--dn", "3", "--geometry", "oct", "--b", "700"]);
     assert_eq!(code, 2);

@@ -224,23 +224,31 @@ fn table_output_has_the_verdict_and_the_safety_note() {
     assert!(err.is_empty(), "{err}");
 }
 
-#[test]
-fn bad_single_input() {
-    let mut a: Vec<&str> = FE_PY.to_vec();
-    a.extend(["--evans-shift-ppm", "0.4"]);
-    expect_usage_error(&a, "--evans-conc");
-    let mut a: Vec<&str> = FE_PY.to_vec();
-    a.extend(["--bands", "11000 abc"]);
-    expect_usage_error(&a, "'abc' is not a band maximum");
-    let mut a: Vec<&str> = FE_PY.to_vec();
-    a.extend(["--bond-length", "21.8"]);
-    expect_usage_error(&a, "--bond-length");
-    let mut a: Vec<&str> = FE_PY.to_vec();
-    a.extend(["--mu-eff", "5.2"]);
-    expect_usage_error(&a, "--moment-temp");
-    expect_usage_error(
+/// The sample of [`FE_PY`] as arguments after `check`.
+const FE: [&str; 8] = [
+    "--metal",
+    "Fe",
+    "--ox",
+    "2",
+    "--geometry",
+    "oct",
+    "--ligand",
+    "py:6",
+];
+
+/// Bad input to one sample: (arguments after `check`, with `FE` standing for the sample of
+/// [`FE_PY`]; a fragment the one-line error must contain).
+const BAD_INPUT: &[(&[&str], &[&str], &str)] = &[
+    (&FE, &["--evans-shift-ppm", "0.4"], "--evans-conc"),
+    (
+        &FE,
+        &["--bands", "11000 abc"],
+        "'abc' is not a band maximum",
+    ),
+    (&FE, &["--bond-length", "21.8"], "--bond-length"),
+    (&FE, &["--mu-eff", "5.2"], "--moment-temp"),
+    (
         &[
-            "check",
             "--metal",
             "Fe",
             "--ox",
@@ -250,21 +258,51 @@ fn bad_single_input() {
             "--ligand",
             "pyy:6",
         ],
+        &[],
         "--ligand: unknown ligand 'pyy'",
-    );
-    let mut a: Vec<&str> = FE_PY.to_vec();
-    a.extend([
-        "--evans-shift-ppm",
-        "-0.4",
-        "--evans-conc",
-        "0.01",
-        "--evans-temp",
-        "298",
-    ]);
-    expect_usage_error(
-        &a,
+    ),
+    (
+        &FE,
+        &[
+            "--evans-shift-ppm",
+            "-0.4",
+            "--evans-conc",
+            "0.01",
+            "--evans-temp",
+            "298",
+        ],
         "use the transverse magnet geometry (options: --evans-magnet)",
-    );
+    ),
+    // The same sample as the batch row of `batch_errors_name_columns_and_options_name_options`:
+    // from the command line the error names the options.
+    (
+        &FE,
+        &[
+            "--evans-shift-ppm",
+            "-0.4",
+            "--evans-conc",
+            "0.01",
+            "--evans-temp",
+            "298",
+        ],
+        "error: --evans-shift-ppm, --evans-shift-hz: shift = -0.4 ppm",
+    ),
+    (
+        &["--input", "/nonexistent/samples.csv"],
+        &[],
+        "--input: cannot read",
+    ),
+];
+
+#[test]
+fn bad_single_input() {
+    assert_eq!(FE_PY[1..], FE);
+    for (sample, extra, needle) in BAD_INPUT {
+        let mut args = vec!["check"];
+        args.extend_from_slice(sample);
+        args.extend_from_slice(extra);
+        expect_usage_error(&args, needle);
+    }
 }
 
 const HEAD: &str = "name,metal,ox,geometry,ligands,mu_eff,moment_temp,bond_length,structure_temp";
@@ -340,10 +378,6 @@ fn batch_file_level_errors() {
         let f = file(text);
         expect_usage_error(&["check", "--input", f.path().to_str().unwrap()], needle);
     }
-    expect_usage_error(
-        &["check", "--input", "/nonexistent/samples.csv"],
-        "--input: cannot read",
-    );
 }
 
 #[test]
@@ -456,17 +490,5 @@ fn batch_errors_name_columns_and_options_name_options() {
         "{err}"
     );
     assert!(!err.contains("--"), "{err}");
-    let mut a: Vec<&str> = FE_PY.to_vec();
-    a.extend([
-        "--evans-shift-ppm",
-        "-0.4",
-        "--evans-conc",
-        "0.01",
-        "--evans-temp",
-        "298",
-    ]);
-    expect_usage_error(
-        &a,
-        "error: --evans-shift-ppm, --evans-shift-hz: shift = -0.4 ppm",
-    );
+    // The same sample from the command line: a case of `BAD_INPUT`.
 }

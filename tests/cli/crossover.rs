@@ -39,9 +39,18 @@ fn one_dn_at_a_chosen_ratio() {
     assert_eq!(row["low_spin_term"], "2T2");
 }
 
+/// Bad input: (arguments after `crossover`, a fragment the one-line error must contain).
+const BAD_INPUT: &[(&[&str], &str)] = &[
+    (&["--dn", "12"], "outside 0..=10"),
+    (&["--c-over-b", "-1"], "must be a ratio > 0"),
+    (&["--geometry", "cube"], "unknown geometry"),
+];
+
 #[test]
 fn bad_input() {
-    expect_usage_error(&["crossover", "--dn", "12"], "outside 0..=10");
-    expect_usage_error(&["crossover", "--c-over-b", "-1"], "must be a ratio > 0");
-    expect_usage_error(&["crossover", "--geometry", "cube"], "unknown geometry");
+    for (args, needle) in BAD_INPUT {
+        let mut full = vec!["crossover"];
+        full.extend_from_slice(args);
+        expect_usage_error(&full, needle);
+    }
 }

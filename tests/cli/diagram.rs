@@ -70,23 +70,14 @@ fn json_series() {
     assert_eq!(first["energies"].as_array().unwrap().len(), 11);
 }
 
-#[test]
-fn bad_input() {
-    expect_usage_error(
-        &[
-            "diagram",
-            "--dn",
-            "6",
-            "--geometry",
-            "oct",
-            "--c-over-b",
-            "0",
-        ],
+/// Bad input: (arguments after `diagram`, a fragment the one-line error must contain).
+const BAD_INPUT: &[(&[&str], &str)] = &[
+    (
+        &["--dn", "6", "--geometry", "oct", "--c-over-b", "0"],
         "must be a ratio > 0",
-    );
-    expect_usage_error(
+    ),
+    (
         &[
-            "diagram",
             "--dn",
             "6",
             "--geometry",
@@ -97,10 +88,9 @@ fn bad_input() {
             "1",
         ],
         "--points 1",
-    );
-    expect_usage_error(
+    ),
+    (
         &[
-            "diagram",
             "--dn",
             "6",
             "--geometry",
@@ -111,7 +101,16 @@ fn bad_input() {
             "-3",
         ],
         "--max -3",
-    );
+    ),
+];
+
+#[test]
+fn bad_input() {
+    for (args, needle) in BAD_INPUT {
+        let mut full = vec!["diagram"];
+        full.extend_from_slice(args);
+        expect_usage_error(&full, needle);
+    }
 }
 
 /// The eigenvalue-only diagram (projected blocks) against labelling every point from its own
@@ -199,15 +198,8 @@ fn projected_levels_and_spin_minima_equal_the_spin_blocks() {
             let parents = calc.parent_table().unwrap();
             let projected = calc.levels().unwrap();
             let blocks = calc.levels_with(&parents, true).unwrap();
-            let key = |l: &spinstate::engine::Level| {
-                (
-                    l.two_s,
-                    l.irrep.clone(),
-                    l.index,
-                    l.parent.clone(),
-                    l.degeneracy,
-                )
-            };
+            let key =
+                |l: &spinstate::engine::Level| (l.two_s, l.irrep, l.index, l.parent, l.degeneracy);
             let mut a: Vec<_> = projected.levels.iter().map(key).collect();
             let mut b: Vec<_> = blocks.levels.iter().map(key).collect();
             a.sort();

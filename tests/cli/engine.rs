@@ -4,7 +4,9 @@
 use approx::assert_abs_diff_eq;
 use proptest::prelude::*;
 use spinstate::engine::shell::shell;
-use spinstate::engine::{crossover, Calculation, Geometry, LigandField, PointGroup, Spectrum};
+use spinstate::engine::{
+    crossover, Calculation, Geometry, Irrep, LigandField, PointGroup, Species, Spectrum,
+};
 
 fn oct(dn: usize, b: f64, c: f64, dq: f64) -> Spectrum {
     Calculation::new(dn, b, c, LigandField::octahedral(dq), PointGroup::Oh)
@@ -243,7 +245,10 @@ fn tetrahedral_labels_carry_no_g() {
     .unwrap();
     let s = calc.levels().unwrap();
     assert_eq!(s.ground().label(), "4A2");
-    assert!(s.levels.iter().all(|l| !l.irrep.ends_with('g')));
+    assert!(s
+        .levels
+        .iter()
+        .all(|l| matches!(l.irrep, Irrep::Mulliken { gerade: false, .. })));
     // Td d7 ≡ Oh d3: first band at 10Dq (Lever 1984).
     assert_abs_diff_eq!(s.levels[1].energy, 3100.0, epsilon = 1e-6);
     assert_eq!(s.levels[1].label(), "4T2");
@@ -254,12 +259,12 @@ fn parents_follow_levels_to_zero_field() {
     // [Cr(H2O)6]3+-like d3: 4T1g(F) and 4T1g(P) (common practice).
     let s = oct(3, 730.0, 3300.0, 1740.0);
     let t1: Vec<_> = s.levels.iter().filter(|l| l.label() == "4T1g").collect();
-    assert_eq!(t1[0].parent, "4F");
-    assert_eq!(t1[1].parent, "4P");
+    assert_eq!(t1[0].parent, Some("4F".parse().unwrap()));
+    assert_eq!(t1[1].parent, Some("4P".parse().unwrap()));
     // LS d6 ground 1A1g comes from 1I (Tanabe & Sugano 1954, from memory).
     let s = oct(6, 600.0, 2880.0, 2300.0);
     assert_eq!(s.ground().label(), "1A1g");
-    assert_eq!(s.ground().parent, "1I");
+    assert_eq!(s.ground().parent, Some("1I".parse().unwrap()));
 }
 
 #[test]
@@ -312,8 +317,14 @@ fn spin_orbit_labels_of_the_d1_t2g_term() {
     )
     .unwrap();
     let lv = calc.spin_orbit_levels(zeta).unwrap();
-    assert_eq!((lv[0].irrep.as_str(), lv[0].degeneracy), ("Γ8g", 4));
-    assert_eq!((lv[1].irrep.as_str(), lv[1].degeneracy), ("Γ7g", 2));
+    assert_eq!(
+        (Irrep::sum_text(&lv[0].irrep).as_str(), lv[0].degeneracy),
+        ("Γ8g", 4)
+    );
+    assert_eq!(
+        (Irrep::sum_text(&lv[1].irrep).as_str(), lv[1].degeneracy),
+        ("Γ7g", 2)
+    );
     assert!((lv[1].energy - 1.5 * zeta).abs() < 0.01 * zeta);
 }
 
@@ -345,7 +356,12 @@ proptest! {
         for (x, y) in a.levels.iter().zip(&h.levels) {
             prop_assert!((x.energy - y.energy).abs() < 1e-6 * (1.0 + x.energy.abs()));
             prop_assert_eq!(x.two_s, y.two_s);
-            prop_assert_eq!(x.irrep.trim_end_matches('g'), y.irrep.as_str());
+            // The O_h label is the T_d one with g.
+            let with_g = match y.irrep {
+                Irrep::Mulliken { species, gerade: false } => Irrep::mulliken(species, true),
+                other => other,
+            };
+            prop_assert_eq!(x.irrep, with_g);
         }
     }
 
@@ -362,7 +378,7 @@ proptest! {
         ] {
             let s = Calculation::new(dn, b, c, field, group).unwrap().levels().unwrap();
             prop_assert_eq!(state_count(&s), binomial(10, dn));
-            prop_assert!(s.levels.iter().all(|l| l.irrep != "?"));
+            prop_assert!(s.levels.iter().all(|l| l.irrep != Irrep::Unlabelled));
             prop_assert!(s.levels.windows(2).all(|w| w[0].energy <= w[1].energy));
         }
     }
@@ -381,14 +397,14 @@ proptest! {
         let calc = Calculation::new(dn, b, 4.5 * b, field, group).unwrap();
         let lv = calc.spin_orbit_levels(zeta).unwrap();
         for l in &lv {
-            prop_assert!(!l.irrep.contains('?'), "d{} {}: {:?}", dn, l.energy, l.irrep);
-            let dims: usize = l.irrep.split('+').map(|n| match n.trim_end_matches('g') {
-                "Γ1" | "Γ2" => 1,
-                "Γ3" if group != PointGroup::D4h => 2,
-                "Γ3" | "Γ4" if group == PointGroup::D4h => 1,
-                "Γ4" | "Γ5" if group != PointGroup::D4h => 3,
-                "Γ5" | "Γ6" | "Γ7" => 2,
-                "Γ8" => 4,
+            prop_assert!(!l.irrep.is_empty(), "d{} {}: {:?}", dn, l.energy, l.irrep);
+            let dims: usize = l.irrep.iter().map(|i| match i {
+                Irrep::Bethe { n: 1 | 2, .. } => 1,
+                Irrep::Bethe { n: 3, .. } if group != PointGroup::D4h => 2,
+                Irrep::Bethe { n: 3 | 4, .. } if group == PointGroup::D4h => 1,
+                Irrep::Bethe { n: 4 | 5, .. } if group != PointGroup::D4h => 3,
+                Irrep::Bethe { n: 5..=7, .. } => 2,
+                Irrep::Bethe { n: 8, .. } => 4,
                 other => panic!("unexpected label {other}"),
             }).sum();
             prop_assert_eq!(dims, l.degeneracy);
@@ -471,6 +487,9 @@ fn angular_overlap_octahedron_matches_the_cubic_field() {
         for (x, y) in a.iter().zip(&b) {
             assert!((x - y).abs() < 1e-6, "d{dn}: {x} vs {y}");
         }
-        assert!(general.levels.iter().all(|l| l.irrep == "A"));
+        assert!(general
+            .levels
+            .iter()
+            .all(|l| l.irrep == Irrep::mulliken(Species::A, false)));
     }
 }

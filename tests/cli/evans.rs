@@ -233,29 +233,32 @@ fn fails(args: &[&str], message: &str) {
         .stderr(predicate::str::contains(message));
 }
 
-#[test]
-fn bad_input_exits_2() {
-    let base = ["--freq-mhz", "400", "--shift-hz", "73.4"];
-    let with = |extra: &[&'static str]| -> Vec<&'static str> {
-        base.iter().copied().chain(extra.iter().copied()).collect()
-    };
-    fails(
-        &with(&["--conc", "0", "--temp", "298"]),
+/// The measured shift most bad-input cases start from.
+const SHIFT: [&str; 4] = ["--freq-mhz", "400", "--shift-hz", "73.4"];
+
+/// Bad input: (arguments after `evans`, then more arguments, a fragment the error must contain).
+const BAD_INPUT: &[(&[&str], &[&str], &str)] = &[
+    (
+        &SHIFT,
+        &["--conc", "0", "--temp", "298"],
         "--conc 0 must be > 0",
-    );
-    fails(
-        &with(&["--conc", "-0.01", "--temp", "298"]),
+    ),
+    (
+        &SHIFT,
+        &["--conc", "-0.01", "--temp", "298"],
         "must be > 0 mol/L",
-    );
-    fails(
-        &with(&["--conc", "0.01", "--temp", "0"]),
+    ),
+    (
+        &SHIFT,
+        &["--conc", "0.01", "--temp", "0"],
         "--temp 0 must be > 0 K",
-    );
-    fails(
-        &with(&["--conc", "0.01", "--temp", "-20"]),
+    ),
+    (
+        &SHIFT,
+        &["--conc", "0.01", "--temp", "-20"],
         "--temp -20 must be > 0 K",
-    );
-    fails(
+    ),
+    (
         &[
             "--shift-hz",
             "-73.4",
@@ -266,9 +269,10 @@ fn bad_input_exits_2() {
             "--temp",
             "298",
         ],
+        &[],
         "change its sign",
-    );
-    fails(
+    ),
+    (
         &[
             "--shift-hz",
             "36.7",
@@ -281,34 +285,42 @@ fn bad_input_exits_2() {
             "--magnet",
             "transverse",
         ],
+        &[],
         "use the solenoid magnet geometry (options: --magnet)",
-    );
-    fails(
-        &with(&["--conc", "0.01", "--temp", "298", "--formula", "FeXq2"]),
+    ),
+    (
+        &SHIFT,
+        &["--conc", "0.01", "--temp", "298", "--formula", "FeXq2"],
         "unknown element 'Xq'",
-    );
-    fails(
-        &with(&["--conc", "0.01", "--temp", "298", "--formula", "Fe(CN6"]),
+    ),
+    (
+        &SHIFT,
+        &["--conc", "0.01", "--temp", "298", "--formula", "Fe(CN6"],
         "character 3",
-    );
-    fails(
-        &with(&["--conc", "0.01", "--temp", "298", "--dia", "1e-4"]),
+    ),
+    (
+        &SHIFT,
+        &["--conc", "0.01", "--temp", "298", "--dia", "1e-4"],
         "must be ≤ 0",
-    );
-    fails(
+    ),
+    (
         &["--shift-hz", "73.4", "--conc", "0.01", "--temp", "298"],
+        &[],
         "--freq-mhz",
-    );
-    fails(
-        &with(&["--mass", "5", "--volume", "0.6", "--temp", "298"]),
+    ),
+    (
+        &SHIFT,
+        &["--mass", "5", "--volume", "0.6", "--temp", "298"],
         "--formula or --molar-mass",
-    );
-    fails(
-        &with(&["--conc", "0.01", "--temp", "298", "--magnet", "sideways"]),
+    ),
+    (
+        &SHIFT,
+        &["--conc", "0.01", "--temp", "298", "--magnet", "sideways"],
         "solenoid",
-    );
-    fails(
-        &with(&[
+    ),
+    (
+        &SHIFT,
+        &[
             "--conc",
             "0.01",
             "--temp",
@@ -317,9 +329,17 @@ fn bad_input_exits_2() {
             "11",
             "--geometry",
             "oct",
-        ]),
+        ],
         "--dn 11",
-    );
+    ),
+];
+
+#[test]
+fn bad_input_exits_2() {
+    for (args, more, needle) in BAD_INPUT {
+        let full: Vec<&str> = args.iter().chain(more.iter()).copied().collect();
+        fails(&full, needle);
+    }
 }
 
 // `--data DIR` replaces the bundled Pascal table; a bad row is reported with row and column.

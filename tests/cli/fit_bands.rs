@@ -198,9 +198,135 @@ fn metal_and_oxidation_state_give_dn_and_b0() {
     assert!(notes
         .iter()
         .any(|n| n.as_str().unwrap().starts_with("caution:")));
-    expect_usage_error(
+}
+
+#[test]
+fn help_carries_a_safety_note() {
+    let (code, out, _) = run(&["fit-bands", "--help"]);
+    assert_eq!(code, 0);
+    assert!(out.contains("Safety"), "{out}");
+}
+
+/// Bad input: (arguments after `fit-bands`, a fragment the one-line error must contain).
+const BAD_INPUT: &[(&[&str], &str)] = &[
+    (
+        &["--dn", "3", "--geometry", "oct", "--bands", "17400"],
+        "--b",
+    ),
+    (
         &[
-            "fit-bands",
+            "--dn",
+            "3",
+            "--geometry",
+            "oct",
+            "--bands",
+            "17400,24600",
+            "--units",
+            "furlong",
+        ],
+        "--units",
+    ),
+    (
+        &["--dn", "3", "--geometry", "oct", "--bands", "17400,abc"],
+        "not a number",
+    ),
+    (
+        &["--dn", "3", "--geometry", "oct", "--bands", "17400,-24600"],
+        "positive",
+    ),
+    (
+        &[
+            "--dn",
+            "3",
+            "--geometry",
+            "oct",
+            "--bands",
+            "17400,24600,90000",
+        ],
+        "misses it by",
+    ),
+    (
+        &[
+            "--dn",
+            "3",
+            "--geometry",
+            "oct",
+            "--bands",
+            "17400,24600,37800",
+            "--fit-c",
+        ],
+        "C/B",
+    ),
+    (
+        &["--dn", "3", "--geometry", "oct", "--bands", "500,900"],
+        "needs B =",
+    ),
+    (
+        &[
+            "--dn",
+            "3",
+            "--geometry",
+            "tetragonal",
+            "--bands",
+            "17400,24600",
+        ],
+        "at least 4 to determine Dq, Ds, Dt, B",
+    ),
+    (
+        &["--dn", "3", "--geometry", "oct", "--bands", "1,2,3,4"],
+        "at most 3",
+    ),
+    (
+        &[
+            "--dn",
+            "3",
+            "--geometry",
+            "oct",
+            "--bands",
+            "17400,24600",
+            "--spin",
+            "medium",
+        ],
+        "--spin",
+    ),
+    (
+        &[
+            "--dn",
+            "3",
+            "--geometry",
+            "oct",
+            "--bands",
+            "17400,24600",
+            "--b0",
+            "-5",
+        ],
+        "--b0",
+    ),
+    // High-spin d5 is fitted on its quartet bands: one band cannot fix Dq and B.
+    (
+        &[
+            "--dn",
+            "5",
+            "--geometry",
+            "oct",
+            "--bands",
+            "18000",
+            "--spin",
+            "high",
+        ],
+        "at least 2",
+    ),
+    (
+        &["--dn", "0", "--geometry", "oct", "--bands", "18000"],
+        "--dn",
+    ),
+    (
+        &["--dn", "3", "--geometry", "hexagonal", "--bands", "18000"],
+        "--geometry",
+    ),
+    // A metal and oxidation state instead of d^n.
+    (
+        &[
             "--metal",
             "Xx",
             "--ox",
@@ -211,10 +337,9 @@ fn metal_and_oxidation_state_give_dn_and_b0() {
             "17400,24600",
         ],
         "unknown metal",
-    );
-    expect_usage_error(
+    ),
+    (
         &[
-            "fit-bands",
             "--metal",
             "Cr",
             "--ox",
@@ -227,93 +352,66 @@ fn metal_and_oxidation_state_give_dn_and_b0() {
             "17400,24600",
         ],
         "disagrees",
-    );
-}
-
-#[test]
-fn help_carries_a_safety_note() {
-    let (code, out, _) = run(&["fit-bands", "--help"]);
-    assert_eq!(code, 0);
-    assert!(out.contains("Safety"), "{out}");
-}
-
-#[test]
-fn bad_input_is_rejected_with_exit_code_2() {
-    let base = ["fit-bands", "--dn", "3", "--geometry", "oct"];
-    let with = |extra: &[&'static str]| -> Vec<&'static str> {
-        let mut v = base.to_vec();
-        v.extend_from_slice(extra);
-        v
-    };
-    expect_usage_error(&with(&["--bands", "17400"]), "--b");
-    expect_usage_error(
-        &with(&["--bands", "17400,24600", "--units", "furlong"]),
-        "--units",
-    );
-    expect_usage_error(&with(&["--bands", "17400,abc"]), "not a number");
-    expect_usage_error(&with(&["--bands", "17400,-24600"]), "positive");
-    expect_usage_error(&with(&["--bands", "17400,24600,90000"]), "misses it by");
-    expect_usage_error(&with(&["--bands", "17400,24600,37800", "--fit-c"]), "C/B");
-    expect_usage_error(&with(&["--bands", "500,900"]), "needs B =");
-    expect_usage_error(
+    ),
+    // Two bands cannot fix Dq, Ds and Dt; three singlet bands of low-spin d6 cannot fix B too.
+    (
         &[
-            "fit-bands",
             "--dn",
-            "3",
+            "9",
             "--geometry",
             "tetragonal",
             "--bands",
-            "17400,24600",
+            "12000,15000",
         ],
-        "at least 4 to determine Dq, Ds, Dt, B",
-    );
-    expect_usage_error(&with(&["--bands", "1,2,3,4"]), "at most 3");
-    expect_usage_error(
-        &with(&["--bands", "17400,24600", "--spin", "medium"]),
-        "--spin",
-    );
-    expect_usage_error(&with(&["--bands", "17400,24600", "--b0", "-5"]), "--b0");
-    expect_usage_error(
+        "Dq, Ds, Dt",
+    ),
+    (
         &[
-            "fit-bands",
             "--dn",
-            "5",
+            "6",
             "--geometry",
-            "oct",
-            "--bands",
-            "18000",
+            "tetragonal",
             "--spin",
-            "high",
-        ],
-        // High-spin d5 is fitted on its quartet bands: one band cannot fix Dq and B.
-        "at least 2",
-    );
-    expect_usage_error(
-        &[
-            "fit-bands",
-            "--dn",
-            "0",
-            "--geometry",
-            "oct",
+            "low",
             "--bands",
-            "18000",
+            "16000,22000,26000",
         ],
-        "--dn",
-    );
-    expect_usage_error(
+        "--b",
+    ),
+    (
         &[
-            "fit-bands",
             "--dn",
-            "3",
+            "8",
             "--geometry",
-            "hexagonal",
+            "tetragonal",
             "--bands",
-            "18000",
+            "8000,12000,14000,16000",
+            "--fit-c",
         ],
-        "--geometry",
-    );
+        "--c-over-b",
+    ),
+];
+
+#[test]
+fn bad_input_is_rejected_with_exit_code_2() {
+    for (args, needle) in BAD_INPUT {
+        let mut full = vec!["fit-bands"];
+        full.extend_from_slice(args);
+        expect_usage_error(&full, needle);
+    }
     // Conflicting options are a usage error from the parser (exit code 2).
-    let (code, _, _) = run(&with(&["--bands", "1,2,3", "--fit-c", "--c-over-b", "4"]));
+    let (code, _, _) = run(&[
+        "fit-bands",
+        "--dn",
+        "3",
+        "--geometry",
+        "oct",
+        "--bands",
+        "1,2,3",
+        "--fit-c",
+        "--c-over-b",
+        "4",
+    ]);
     assert_eq!(code, 2);
 }
 
@@ -367,48 +465,4 @@ fn tetragonal_geometry_fits_ds_and_dt() {
         .unwrap()
         .iter()
         .any(|a| a["near_equal"] == true && a["dt"].as_f64().unwrap() < 0.0));
-}
-
-#[test]
-fn tetragonal_geometry_says_what_the_bands_cannot_determine() {
-    // Two bands cannot fix Dq, Ds and Dt; three singlet bands of low-spin d6 cannot fix B too.
-    expect_usage_error(
-        &[
-            "fit-bands",
-            "--dn",
-            "9",
-            "--geometry",
-            "tetragonal",
-            "--bands",
-            "12000,15000",
-        ],
-        "Dq, Ds, Dt",
-    );
-    expect_usage_error(
-        &[
-            "fit-bands",
-            "--dn",
-            "6",
-            "--geometry",
-            "tetragonal",
-            "--spin",
-            "low",
-            "--bands",
-            "16000,22000,26000",
-        ],
-        "--b",
-    );
-    expect_usage_error(
-        &[
-            "fit-bands",
-            "--dn",
-            "8",
-            "--geometry",
-            "tetragonal",
-            "--bands",
-            "8000,12000,14000,16000",
-            "--fit-c",
-        ],
-        "--c-over-b",
-    );
 }

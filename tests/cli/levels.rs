@@ -141,11 +141,10 @@ fn tetragonal_field_uses_d4h_labels() {
     assert_eq!(v["levels"][0]["label"], "2B1g");
 }
 
-#[test]
-fn bad_input_is_rejected_with_exit_code_2() {
-    expect_usage_error(
+/// Bad input: (arguments after `levels`, a fragment the one-line error must contain).
+const BAD_INPUT: &[(&[&str], &str)] = &[
+    (
         &[
-            "levels",
             "--dn",
             "11",
             "--geometry",
@@ -158,10 +157,9 @@ fn bad_input_is_rejected_with_exit_code_2() {
             "1",
         ],
         "--dn 11 is outside 0..=10",
-    );
-    expect_usage_error(
+    ),
+    (
         &[
-            "levels",
             "--dn",
             "3",
             "--geometry",
@@ -174,10 +172,9 @@ fn bad_input_is_rejected_with_exit_code_2() {
             "1",
         ],
         "--b -5 must be > 0",
-    );
-    expect_usage_error(
+    ),
+    (
         &[
-            "levels",
             "--dn",
             "3",
             "--geometry",
@@ -190,10 +187,9 @@ fn bad_input_is_rejected_with_exit_code_2() {
             "1",
         ],
         "unknown geometry",
-    );
-    expect_usage_error(
+    ),
+    (
         &[
-            "levels",
             "--dn",
             "3",
             "--geometry",
@@ -206,24 +202,13 @@ fn bad_input_is_rejected_with_exit_code_2() {
             "1",
         ],
         "not a finite number",
-    );
-    expect_usage_error(
-        &[
-            "levels",
-            "--dn",
-            "3",
-            "--geometry",
-            "oct",
-            "--b",
-            "700",
-            "--dq",
-            "1",
-        ],
+    ),
+    (
+        &["--dn", "3", "--geometry", "oct", "--b", "700", "--dq", "1"],
         "--b and --c go together",
-    );
-    expect_usage_error(
+    ),
+    (
         &[
-            "levels",
             "--dn",
             "3",
             "--geometry",
@@ -236,10 +221,9 @@ fn bad_input_is_rejected_with_exit_code_2() {
             "20",
         ],
         "not both",
-    );
-    expect_usage_error(
+    ),
+    (
         &[
-            "levels",
             "--dn",
             "3",
             "--geometry",
@@ -254,9 +238,15 @@ fn bad_input_is_rejected_with_exit_code_2() {
             "1",
         ],
         "Ds and Dt apply to",
-    );
-    expect_usage_error(
-        &["levels", "--dn", "3", "--geometry", "oct"],
-        "give the field",
-    );
+    ),
+    (&["--dn", "3", "--geometry", "oct"], "give the field"),
+];
+
+#[test]
+fn bad_input_is_rejected_with_exit_code_2() {
+    for (args, needle) in BAD_INPUT {
+        let mut full = vec!["levels"];
+        full.extend_from_slice(args);
+        expect_usage_error(&full, needle);
+    }
 }

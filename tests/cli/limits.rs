@@ -4,36 +4,53 @@
 
 use crate::common::{expect_usage_error, run};
 
-#[test]
-fn ligand_counts_are_bounded_where_they_are_parsed() {
+/// Limits stated in one line: (arguments, a fragment the error must contain). `DEEP` stands for
+/// a formula nested 1000 brackets deep.
+const LIMITS: &[(&[&str], &str)] = &[
     // No coordination sphere holds more than 12 donor atoms (common practice).
-    let base = ["predict", "--metal", "Fe", "--ox", "2", "--geometry", "oct"];
-    let mut huge = base.to_vec();
-    huge.extend(["--ligand", "H2O:18446744073709551617"]);
-    expect_usage_error(&huge, "1 to 12");
-    let mut wraps = base.to_vec();
-    wraps.extend(["--ligand", "H2O:9223372036854775809"]);
-    expect_usage_error(&wraps, "1 to 12");
-}
-
-#[test]
-fn deep_or_huge_formulas_are_refused_not_overflowed() {
-    let deep = format!("{}H{}", "(".repeat(1000), ")".repeat(1000));
-    let args = [
-        "moment",
-        "--chi",
-        "0.01",
-        "--temp",
-        "300",
-        "--formula",
-        &deep,
-    ];
-    expect_usage_error(&args, "nested deeper than 32");
-}
-
-#[test]
-fn subnormal_b_and_huge_zeta_are_range_errors() {
-    expect_usage_error(
+    (
+        &[
+            "predict",
+            "--metal",
+            "Fe",
+            "--ox",
+            "2",
+            "--geometry",
+            "oct",
+            "--ligand",
+            "H2O:18446744073709551617",
+        ],
+        "1 to 12",
+    ),
+    (
+        &[
+            "predict",
+            "--metal",
+            "Fe",
+            "--ox",
+            "2",
+            "--geometry",
+            "oct",
+            "--ligand",
+            "H2O:9223372036854775809",
+        ],
+        "1 to 12",
+    ),
+    // Deep or huge formulas are refused, not overflowed.
+    (
+        &[
+            "moment",
+            "--chi",
+            "0.01",
+            "--temp",
+            "300",
+            "--formula",
+            "DEEP",
+        ],
+        "nested deeper than 32",
+    ),
+    // A subnormal B and a huge ζ are range errors.
+    (
         &[
             "levels",
             "--dn",
@@ -48,8 +65,8 @@ fn subnormal_b_and_huge_zeta_are_range_errors() {
             "0",
         ],
         "B = 1e-310",
-    );
-    expect_usage_error(
+    ),
+    (
         &[
             "magnetism",
             "--dn",
@@ -66,12 +83,9 @@ fn subnormal_b_and_huge_zeta_are_range_errors() {
             "1e300",
         ],
         "from 0 to 1e12",
-    );
-}
-
-#[test]
-fn curve_points_are_bounded() {
-    expect_usage_error(
+    ),
+    // Curve points are bounded.
+    (
         &[
             "magnetism",
             "--dn",
@@ -88,7 +102,19 @@ fn curve_points_are_bounded() {
             "100000000",
         ],
         "2 to 100000",
-    );
+    ),
+];
+
+#[test]
+fn limits_are_refused_in_one_line() {
+    let deep = format!("{}H{}", "(".repeat(1000), ")".repeat(1000));
+    for (args, needle) in LIMITS {
+        let args: Vec<&str> = args
+            .iter()
+            .map(|&a| if a == "DEEP" { deep.as_str() } else { a })
+            .collect();
+        expect_usage_error(&args, needle);
+    }
 }
 
 #[test]

@@ -84,39 +84,30 @@ fn csv_and_svg_files() {
     assert!(std::fs::read_to_string(&svg).unwrap().contains("μ_eff"));
 }
 
-#[test]
-fn bad_input() {
-    let base = [
-        "magnetism",
-        "--dn",
-        "7",
-        "--geometry",
-        "oct",
-        "--b",
-        "800",
-        "--c",
-        "3700",
-        "--dq",
-        "920",
-    ];
-    let with = |extra: &[&str]| -> Vec<String> {
-        base.iter()
-            .chain(extra.iter())
-            .map(|s| s.to_string())
-            .collect()
-    };
-    let run_err = |args: Vec<String>, needle: &str| {
-        let refs: Vec<&str> = args.iter().map(|s| s.as_str()).collect();
-        expect_usage_error(&refs, needle);
-    };
-    run_err(with(&["--kappa", "1.4"]), "κ = 1.4");
-    run_err(with(&["--tmin", "0"]), "0 < tmin");
-    run_err(with(&["--tmin", "300", "--tmax", "10"]), "0 < tmin ≤ tmax");
-    run_err(with(&["--zeta", "-3"]), "--zeta -3");
-    expect_usage_error(&["magnetism", "--geometry", "oct"], "give --dn");
-    expect_usage_error(
+/// The d⁷ field every bad-input case but the last two starts from.
+const D7: [&str; 10] = [
+    "--dn",
+    "7",
+    "--geometry",
+    "oct",
+    "--b",
+    "800",
+    "--c",
+    "3700",
+    "--dq",
+    "920",
+];
+
+/// Bad input: (arguments after `magnetism`, then more arguments, a fragment the one-line error
+/// must contain).
+const BAD_INPUT: &[(&[&str], &[&str], &str)] = &[
+    (&D7, &["--kappa", "1.4"], "κ = 1.4"),
+    (&D7, &["--tmin", "0"], "0 < tmin"),
+    (&D7, &["--tmin", "300", "--tmax", "10"], "0 < tmin ≤ tmax"),
+    (&D7, &["--zeta", "-3"], "--zeta -3"),
+    (&["--geometry", "oct"], &[], "give --dn"),
+    (
         &[
-            "magnetism",
             "--metal",
             "Qx",
             "--ox",
@@ -126,8 +117,19 @@ fn bad_input() {
             "--ligand",
             "H2O:6",
         ],
+        &[],
         "unknown metal",
-    );
+    ),
+];
+
+#[test]
+fn bad_input() {
+    for (args, more, needle) in BAD_INPUT {
+        let mut full = vec!["magnetism"];
+        full.extend_from_slice(args);
+        full.extend_from_slice(more);
+        expect_usage_error(&full, needle);
+    }
 }
 
 #[test]

@@ -295,61 +295,130 @@ fn table_output_names_the_state_margin_and_cautions() {
         .stdout(contains("spin state: fixed"));
 }
 
+/// Bad input: (arguments after `predict`, fragments the one-line error must contain).
+const BAD_INPUT: &[(&[&str], &[&str])] = &[
+    (
+        &[
+            "--geometry",
+            "oct",
+            "--metal",
+            "Fx",
+            "--ox",
+            "2",
+            "--ligand",
+            "H2O:6",
+        ],
+        &["unknown metal", "Fe"],
+    ),
+    (
+        &[
+            "--geometry",
+            "oct",
+            "--metal",
+            "Fe",
+            "--ox",
+            "5",
+            "--ligand",
+            "H2O:6",
+        ],
+        &["2, 3"],
+    ),
+    (
+        &[
+            "--geometry",
+            "oct",
+            "--metal",
+            "Fe",
+            "--ox",
+            "2",
+            "--ligand",
+            "pyy:6",
+        ],
+        &["unknown ligand", "py"],
+    ),
+    (
+        &[
+            "--geometry",
+            "oct",
+            "--metal",
+            "Fe",
+            "--ox",
+            "2",
+            "--ligand",
+            "en:4",
+        ],
+        &["8 (4 en × 2)", "exactly 6"],
+    ),
+    (
+        &[
+            "--geometry",
+            "oct",
+            "--metal",
+            "Fe",
+            "--ox",
+            "2",
+            "--ligand",
+            "py:x",
+        ],
+        &["whole number"],
+    ),
+    (
+        &[
+            "--geometry",
+            "oct",
+            "--metal",
+            "Fe",
+            "--ox",
+            "2",
+            "--ligand",
+            "H2O:6",
+            "--b",
+            "0",
+        ],
+        &["--b"],
+    ),
+    (
+        &[
+            "--metal",
+            "Fe",
+            "--ox",
+            "2",
+            "--geometry",
+            "tet",
+            "--ligand",
+            "terpy",
+            "--ligand",
+            "Cl",
+        ],
+        &["tridentate in a tet complex", "oct, sqpl"],
+    ),
+    (
+        &[
+            "--metal",
+            "Fe",
+            "--ox",
+            "2",
+            "--geometry",
+            "tetragonal",
+            "--ligand",
+            "H2O:6",
+        ],
+        &["oct, tet or sqpl"],
+    ),
+];
+
 #[test]
 fn bad_input_is_explained() {
-    let base = ["predict", "--geometry", "oct"];
-    let with = |rest: &[&str]| -> String {
-        let mut a: Vec<&str> = base.to_vec();
-        a.extend_from_slice(rest);
-        fails(&a)
-    };
-    let e = with(&["--metal", "Fx", "--ox", "2", "--ligand", "H2O:6"]);
-    assert!(e.contains("unknown metal") && e.contains("Fe"), "{e}");
-    let e = with(&["--metal", "Fe", "--ox", "5", "--ligand", "H2O:6"]);
-    assert!(e.contains("2, 3"), "{e}");
-    let e = with(&["--metal", "Fe", "--ox", "2", "--ligand", "pyy:6"]);
-    assert!(e.contains("unknown ligand") && e.contains("py"), "{e}");
-    let e = with(&["--metal", "Fe", "--ox", "2", "--ligand", "en:4"]);
-    assert!(e.contains("8 (4 en × 2)") && e.contains("exactly 6"), "{e}");
-    let e = with(&["--metal", "Fe", "--ox", "2", "--ligand", "py:x"]);
-    assert!(e.contains("whole number"), "{e}");
+    for (args, needles) in BAD_INPUT {
+        let mut full = vec!["predict"];
+        full.extend_from_slice(args);
+        let e = fails(&full);
+        assert!(needles.iter().all(|n| e.contains(n)), "{e}");
+    }
     // Every table ligand has an f (CO by its place in the spectrochemical series): never refused.
     let v = predict("Fe", 2, "oct", &["CO:6"], &[]);
     assert_eq!(v["spin_state"], "low");
     assert_eq!(v["ligands"][0]["f_from"], "series");
-    let e = with(&[
-        "--metal", "Fe", "--ox", "2", "--ligand", "H2O:6", "--b", "0",
-    ]);
-    assert!(e.contains("--b"), "{e}");
-    let e = fails(&[
-        "predict",
-        "--metal",
-        "Fe",
-        "--ox",
-        "2",
-        "--geometry",
-        "tet",
-        "--ligand",
-        "terpy",
-        "--ligand",
-        "Cl",
-    ]);
-    assert!(
-        e.contains("tridentate in a tet complex") && e.contains("oct, sqpl"),
-        "{e}"
-    );
-    let e = fails(&[
-        "predict",
-        "--metal",
-        "Fe",
-        "--ox",
-        "2",
-        "--geometry",
-        "tetragonal",
-        "--ligand",
-        "H2O:6",
-    ]);
-    assert!(e.contains("oct, tet or sqpl"), "{e}");
     // A missing option is reported by the argument parser (exit code 2, with a usage line).
     Command::cargo_bin("spinstate")
         .unwrap()

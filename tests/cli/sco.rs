@@ -140,56 +140,60 @@ fn curve_simulates_both_branches() {
         .starts_with("t_k,gamma_heating"));
 }
 
+/// Bad input: (the text of a curve file that `FILE` in the arguments stands for, or none; the
+/// arguments; a fragment the one-line error must contain).
+const BAD_INPUT: &[(Option<&str>, &[&str], &str)] = &[
+    (
+        Some("T,chiT\n100,0.1\n200,3.0\n"),
+        &["sco-fit", "--input", "FILE"],
+        "points for",
+    ),
+    (
+        Some("T,chiT\n100,0.1\n200,3.0\n150,1.5\n250,3.1\n120,0.3\n300,3.2\n"),
+        &["sco-fit", "--input", "FILE"],
+        "direction",
+    ),
+    (
+        Some("T,chiT\n100,3.1\n150,3.12\n200,3.15\n250,3.16\n300,3.18\n350,3.2\n400,3.2\n"),
+        &["sco-fit", "--input", "FILE", "--metal", "Fe", "--ox", "2"],
+        "moment",
+    ),
+    (
+        Some("T,chiT\n100,0.1\n150,0.2\n200,9.5\n250,3.0\n300,3.1\n350,3.2\n"),
+        &["sco-fit", "--input", "FILE", "--metal", "Fe", "--ox", "2"],
+        "physically possible range",
+    ),
+    (
+        Some("T,x\n100,1\n"),
+        &["sco-fit", "--input", "FILE"],
+        "no χ_M·T, χ_M or μ_eff column",
+    ),
+    (None, &["sco-curve", "--dh", "12", "--ds", "-3"], "ΔS"),
+    (
+        None,
+        &[
+            "sco-fit",
+            "--input",
+            "data/demo/sco_curve.csv",
+            "--chit-hs",
+            "nan",
+        ],
+        "high-spin state",
+    ),
+];
+
 #[test]
 fn bad_input_is_explained() {
-    let few = temp_file("T,chiT\n100,0.1\n200,3.0\n");
-    expect_usage_error(
-        &["sco-fit", "--input", few.path().to_str().unwrap()],
-        "points for",
-    );
-    let zigzag = temp_file("T,chiT\n100,0.1\n200,3.0\n150,1.5\n250,3.1\n120,0.3\n300,3.2\n");
-    expect_usage_error(
-        &["sco-fit", "--input", zigzag.path().to_str().unwrap()],
-        "direction",
-    );
-    let flat =
-        temp_file("T,chiT\n100,3.1\n150,3.12\n200,3.15\n250,3.16\n300,3.18\n350,3.2\n400,3.2\n");
-    expect_usage_error(
-        &[
-            "sco-fit",
-            "--input",
-            flat.path().to_str().unwrap(),
-            "--metal",
-            "Fe",
-            "--ox",
-            "2",
-        ],
-        "moment",
-    );
-    let wild = temp_file("T,chiT\n100,0.1\n150,0.2\n200,9.5\n250,3.0\n300,3.1\n350,3.2\n");
-    expect_usage_error(
-        &[
-            "sco-fit",
-            "--input",
-            wild.path().to_str().unwrap(),
-            "--metal",
-            "Fe",
-            "--ox",
-            "2",
-        ],
-        "physically possible range",
-    );
-    let nocol = temp_file("T,x\n100,1\n");
-    expect_usage_error(
-        &["sco-fit", "--input", nocol.path().to_str().unwrap()],
-        "no χ_M·T, χ_M or μ_eff column",
-    );
-    expect_usage_error(&["sco-curve", "--dh", "12", "--ds", "-3"], "ΔS");
+    for (text, args, needle) in BAD_INPUT {
+        let file = text.map(temp_file);
+        let path = file.as_ref().map(|f| f.path().to_str().unwrap());
+        let args: Vec<&str> = args
+            .iter()
+            .map(|&a| if a == "FILE" { path.unwrap() } else { a })
+            .collect();
+        expect_usage_error(&args, needle);
+    }
     let demo = "data/demo/sco_curve.csv";
-    expect_usage_error(
-        &["sco-fit", "--input", demo, "--chit-hs", "nan"],
-        "high-spin state",
-    );
     let (code, _, err) = run(&["sco-fit", "--input", demo, "--ox", "2"]);
     assert_eq!(
         code, 2,

@@ -200,12 +200,11 @@ fn csv_output_has_one_row_per_candidate() {
     assert_eq!(lines.count() as u64, binomial(8, 6));
 }
 
-#[test]
-fn bad_pools_and_options_are_explained() {
-    expect_usage_error(&screen_args(&["--pool", "H2O,pyy"]), " py,");
-    expect_usage_error(
+/// Bad input: (arguments after `screen`, a fragment the one-line error must contain).
+const BAD_INPUT: &[(&[&str], &str)] = &[
+    (&FE_OCT_POOL_PYY, " py,"),
+    (
         &[
-            "screen",
             "--metal",
             "Fe",
             "--ox",
@@ -216,13 +215,9 @@ fn bad_pools_and_options_are_explained() {
             "terpy",
         ],
         "cannot fill the 4 donor sites of sqpl",
-    );
-    // Every table ligand can be pooled, π acceptors such as CO included.
-    let v = run_json(&screen_args(&["--pool", "CO,H2O", "--json"]));
-    assert!(!results(&v).is_empty());
-    expect_usage_error(
+    ),
+    (
         &[
-            "screen",
             "--metal",
             "Ni",
             "--ox",
@@ -233,42 +228,127 @@ fn bad_pools_and_options_are_explained() {
             "H2O",
         ],
         "one ground spin",
-    );
-    expect_usage_error(
+    ),
+    (
+        &["--metal", "Fe", "--geometry", "oct", "--pool", "H2O"],
+        "needs an oxidation state",
+    ),
+    (
+        &["--metal", "Fe", "--ox", "2", "--geometry", "oct"],
+        "--pool LIST",
+    ),
+    (
         &[
-            "screen",
             "--metal",
             "Fe",
+            "--ox",
+            "2",
             "--geometry",
             "oct",
             "--pool",
             "H2O",
+            "--target",
+            "middle",
         ],
-        "needs an oxidation state",
-    );
-    expect_usage_error(&screen_args(&[]), "--pool LIST");
-    expect_usage_error(
-        &screen_args(&["--pool", "H2O", "--target", "middle"]),
         "crossover, high or low",
-    );
+    ),
     // Refused while the arguments are parsed, naming the option.
-    expect_usage_error(
-        &screen_args(&["--pool", "H2O", "--target", "middle"]),
+    (
+        &[
+            "--metal",
+            "Fe",
+            "--ox",
+            "2",
+            "--geometry",
+            "oct",
+            "--pool",
+            "H2O",
+            "--target",
+            "middle",
+        ],
         "invalid value 'middle' for '--target",
-    );
-    expect_usage_error(
-        &screen_args(&["--pool", "H2O", "--donors", "N4"]),
+    ),
+    (
+        &[
+            "--metal",
+            "Fe",
+            "--ox",
+            "2",
+            "--geometry",
+            "oct",
+            "--pool",
+            "H2O",
+            "--donors",
+            "N4",
+        ],
         "exactly 6 donor atoms",
-    );
-    expect_usage_error(
-        &screen_args(&["--pool", "H2O", "--size", "4..2"]),
+    ),
+    (
+        &[
+            "--metal",
+            "Fe",
+            "--ox",
+            "2",
+            "--geometry",
+            "oct",
+            "--pool",
+            "H2O",
+            "--size",
+            "4..2",
+        ],
         "MIN..MAX",
-    );
-    expect_usage_error(&screen_args(&["--pool", "H2O", "--top", "0"]), "--top 0");
-    expect_usage_error(
-        &screen_args(&["--candidates", "/nonexistent/x.csv"]),
+    ),
+    (
+        &[
+            "--metal",
+            "Fe",
+            "--ox",
+            "2",
+            "--geometry",
+            "oct",
+            "--pool",
+            "H2O",
+            "--top",
+            "0",
+        ],
+        "--top 0",
+    ),
+    (
+        &[
+            "--metal",
+            "Fe",
+            "--ox",
+            "2",
+            "--geometry",
+            "oct",
+            "--candidates",
+            "/nonexistent/x.csv",
+        ],
         "cannot read",
-    );
+    ),
+];
+
+const FE_OCT_POOL_PYY: [&str; 8] = [
+    "--metal",
+    "Fe",
+    "--ox",
+    "2",
+    "--geometry",
+    "oct",
+    "--pool",
+    "H2O,pyy",
+];
+
+#[test]
+fn bad_pools_and_options_are_explained() {
+    for (args, needle) in BAD_INPUT {
+        let mut full = vec!["screen"];
+        full.extend_from_slice(args);
+        expect_usage_error(&full, needle);
+    }
+    // Every table ligand can be pooled, π acceptors such as CO included.
+    let v = run_json(&screen_args(&["--pool", "CO,H2O", "--json"]));
+    assert!(!results(&v).is_empty());
 }
 
 /// A file with bad rows: each bad row reported with row and column, the good rows ranked, and

@@ -271,39 +271,65 @@ fn cif(body: &str) -> tempfile::NamedTempFile {
 const SITES: &str =
     "loop_\n_atom_site_label\n_atom_site_fract_x\n_atom_site_fract_y\n_atom_site_fract_z\n";
 
+/// Two iron centres, each with one nitrogen donor.
+const TWO_METALS: &str = "4\ntest\nFe 0 0 0\nN 2 0 0\nFe 6 0 0\nN 8 0 0\n";
+
 #[test]
 fn bad_input_is_explained() {
-    let f = file(".xyz", "2\nc\nFe 0 0 0\nN 2.0 zero 0\n");
-    expect_usage_error(&["structure", f.path().to_str().unwrap()], "XYZ line 4");
-    let f = file(".xyz", "2\nc\nC 0 0 0\nN 1.4 0 0\n");
-    expect_usage_error(
-        &["structure", f.path().to_str().unwrap()],
-        "no d-block metal",
-    );
-    let f = file(".xyz", "3\nc\nFe 0 0 0\nN 2.0 0 0\nN 2.1 0 0\n");
-    expect_usage_error(
-        &["structure", f.path().to_str().unwrap()],
-        "on top of each other",
-    );
-    let f = cif(&format!("{SITES}Fe1 0 0 0\nN1 0.2 0 0\n"));
-    expect_usage_error(&["structure", f.path().to_str().unwrap()], "has no cell");
-    let f = cif(&format!("{CELL}{SITES}Fe1 0 0 0\nN1 0.2 0\n"));
-    expect_usage_error(&["structure", f.path().to_str().unwrap()], "CIF line 14");
-    let f = file(".pdb", "x");
-    expect_usage_error(&["structure", f.path().to_str().unwrap()], ".cif");
-    let f = xyz(&[
-        ("Fe", Vector3::zeros()),
-        ("N", Vector3::x() * 2.0),
-        ("Fe", Vector3::x() * 6.0),
-        ("N", Vector3::x() * 8.0),
-    ]);
-    let p = f.path().to_str().unwrap();
-    // Two metals: both are reported; a label that is not a metal is refused.
-    let v = run_json(&["structure", p, "--json"]);
+    // (file extension, file text, options after the file, a fragment the one-line error must
+    // contain).
+    let cases: [(&str, String, &[&str], &str); 9] = [
+        (
+            ".xyz",
+            "2\nc\nFe 0 0 0\nN 2.0 zero 0\n".into(),
+            &[],
+            "XYZ line 4",
+        ),
+        (
+            ".xyz",
+            "2\nc\nC 0 0 0\nN 1.4 0 0\n".into(),
+            &[],
+            "no d-block metal",
+        ),
+        (
+            ".xyz",
+            "3\nc\nFe 0 0 0\nN 2.0 0 0\nN 2.1 0 0\n".into(),
+            &[],
+            "on top of each other",
+        ),
+        (
+            ".cif",
+            format!("data_t\n{SITES}Fe1 0 0 0\nN1 0.2 0 0\n"),
+            &[],
+            "has no cell",
+        ),
+        (
+            ".cif",
+            format!("data_t\n{CELL}{SITES}Fe1 0 0 0\nN1 0.2 0\n"),
+            &[],
+            "CIF line 14",
+        ),
+        (".pdb", "x".into(), &[], ".cif"),
+        // Two metals: a label that is not a metal is refused.
+        (".xyz", TWO_METALS.into(), &["--metal-label", "Fe9"], "Fe1"),
+        (
+            ".xyz",
+            TWO_METALS.into(),
+            &["--metal-index", "2"],
+            "--metal-index",
+        ),
+        (".xyz", TWO_METALS.into(), &["--cutoff", "9"], "--cutoff"),
+    ];
+    for (ext, text, options, needle) in &cases {
+        let f = file(ext, text);
+        let mut args = vec!["structure", f.path().to_str().unwrap()];
+        args.extend_from_slice(options);
+        expect_usage_error(&args, needle);
+    }
+    // Both metals of the two-metal file are reported.
+    let f = file(".xyz", TWO_METALS);
+    let v = run_json(&["structure", f.path().to_str().unwrap(), "--json"]);
     assert_eq!(v["centres"].as_array().unwrap().len(), 2);
-    expect_usage_error(&["structure", p, "--metal-label", "Fe9"], "Fe1");
-    expect_usage_error(&["structure", p, "--metal-index", "2"], "--metal-index");
-    expect_usage_error(&["structure", p, "--cutoff", "9"], "--cutoff");
 }
 
 #[test]

@@ -3,7 +3,7 @@
 //! refuses.
 
 use approx::assert_abs_diff_eq;
-use spinstate::engine::{Calculation, Geometry, LigandField};
+use spinstate::engine::{Calculation, Geometry, Irrep, LigandField, Species};
 use spinstate::spectra::tetragonal::{fit_tetragonal, TetragonalRequest};
 use spinstate::spectra::transitions::band_manifold;
 use spinstate::spectra::SpinChoice;
@@ -69,7 +69,7 @@ fn d8_b2g_component_is_ten_dq_exactly() {
         let b2g = s
             .levels
             .iter()
-            .find(|l| l.two_s == 2 && l.irrep == "B2g")
+            .find(|l| l.two_s == 2 && l.irrep == Irrep::mulliken(Species::B2, true))
             .unwrap();
         assert_abs_diff_eq!(b2g.energy - s.ground().energy, 10_000.0, epsilon = 1e-6);
     }
@@ -87,7 +87,7 @@ fn d8_b2g_component_is_ten_dq_exactly() {
     let eg = s
         .levels
         .iter()
-        .find(|l| l.two_s == 2 && l.irrep == "Eg")
+        .find(|l| l.two_s == 2 && l.irrep == Irrep::mulliken(Species::E, true))
         .unwrap();
     assert_abs_diff_eq!(eg.energy, 10_000.0 - 35.0 * dt / 4.0, epsilon = 2.0);
 }

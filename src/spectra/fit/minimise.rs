@@ -184,7 +184,7 @@ pub(super) fn refine(
                 transition: Transition {
                     key: key.clone(),
                     label: level.label(),
-                    parent: level.parent.clone(),
+                    parent: level.parent,
                     energy,
                     degeneracy: level.degeneracy,
                 },

@@ -641,6 +641,7 @@ fn fit_one_spin(
 #[cfg(test)]
 mod tests {
     use super::*;
+    use crate::engine::{Irrep, Species};
     use approx::assert_relative_eq;
 
     fn request(dn: usize, geometry: Geometry, bands: Vec<f64>) -> FitRequest {
@@ -768,7 +769,7 @@ mod tests {
         let e2 = spectrum
             .levels
             .iter()
-            .find(|l| l.two_s == 1 && l.irrep == "Eg")
+            .find(|l| l.two_s == 1 && l.irrep == Irrep::mulliken(Species::E, true))
             .unwrap()
             .energy;
         let nu = engine_bands(
@@ -1100,7 +1101,7 @@ mod tests {
             .best
             .predicted
             .iter()
-            .find(|p| p.transition.key.irrep == "A2g")
+            .find(|p| p.transition.key.irrep == Irrep::mulliken(Species::A2, true))
             .unwrap();
         assert_relative_eq!(
             a2.transition.energy - n1,

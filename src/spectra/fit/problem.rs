@@ -1,7 +1,7 @@
 //! The fit problem: the request, forbidden bands, free and fixed parameters, and the model that
 //! turns parameters into band energies and residuals.
 
-use crate::engine::{Calculation, Geometry};
+use crate::engine::{Calculation, Geometry, Irrep};
 use crate::error::{Error, Result};
 use crate::param::Param;
 use crate::spectra::transitions::{
@@ -44,8 +44,8 @@ pub struct ForbiddenBand {
     /// Multiplicity 2S+1 of the upper level; None: the spin next below the assumed one (next
     /// above when there is none below).
     pub multiplicity: Option<i32>,
-    /// Irrep of the upper level ("Eg"); None: the lowest level of that multiplicity.
-    pub irrep: Option<String>,
+    /// Irrep of the upper level (Eg); None: the lowest level of that multiplicity.
+    pub irrep: Option<Irrep>,
 }
 
 impl std::str::FromStr for ForbiddenBand {
@@ -73,13 +73,15 @@ impl std::str::FromStr for ForbiddenBand {
                     .ok()
                     .filter(|m| (1..=6).contains(m))
                     .ok_or_else(|| Error::invalid(Param::SpinForbiddenBand, s, accepted))?;
-                let ok_irrep = rest.is_empty()
-                    || (rest.starts_with(['A', 'B', 'E', 'T'])
-                        && rest.chars().all(|c| c.is_ascii_alphanumeric()));
-                if !ok_irrep {
-                    return Err(Error::invalid(Param::SpinForbiddenBand, s, accepted));
-                }
-                (Some(m), (!rest.is_empty()).then(|| rest.to_string()))
+                // A Mulliken label of a single-valued irrep, or none.
+                let irrep = match rest {
+                    "" => None,
+                    r => match r.parse::<Irrep>() {
+                        Ok(i @ Irrep::Mulliken { .. }) => Some(i),
+                        _ => return Err(Error::invalid(Param::SpinForbiddenBand, s, accepted)),
+                    },
+                };
+                (Some(m), irrep)
             }
         };
         Ok(ForbiddenBand {
@@ -291,8 +293,7 @@ pub(super) fn forbidden_target(
             "{}{}",
             two_s + 1,
             band.irrep
-                .clone()
-                .unwrap_or_else(|| String::from(" (any irrep)"))
+                .map_or_else(|| String::from(" (any irrep)"), |i| i.to_string())
         )
     };
     if two_s == state.two_s {
@@ -309,7 +310,7 @@ pub(super) fn forbidden_target(
     spectrum
         .levels
         .iter()
-        .find(|l| l.two_s == two_s && band.irrep.as_ref().is_none_or(|i| *i == l.irrep))
+        .find(|l| l.two_s == two_s && band.irrep.is_none_or(|i| i == l.irrep))
         .map(TransitionKey::of)
         .ok_or_else(|| {
             let have: Vec<String> = {
