@@ -173,7 +173,9 @@ mod tests {
 
     #[test]
     fn each_check_names_table_line_and_column() {
-        let text = |r: Result<impl Sized>| r.err().map(|e| e.to_string());
+        fn text<T>(r: Result<T>) -> Option<String> {
+            r.err().map(|e| e.to_string())
+        }
         // (cell text, check, a fragment of the error)
         let cases: [(&str, Check, &str); 9] = [
             (
