@@ -10,6 +10,7 @@ use super::field::complex_orbital_form;
 use super::labels::{Irrep, Species};
 use super::operators::DetList;
 use nalgebra::{Complex, DMatrix, Matrix3, Vector3};
+use std::sync::OnceLock;
 
 type C64 = Complex<f64>;
 
@@ -118,30 +119,44 @@ fn small_det(mut a: Vec<Vec<C64>>) -> C64 {
     det
 }
 
+/// The minors of a rotation's 5×5 orbital matrix over every pair of equally populated 5-bit
+/// orbital subsets, `[target][source]`: the matrix element between two one-spin strings (the
+/// empty subset gives 1). Exact, so cached per rotation.
+fn orbital_minors(rot: Rotation) -> &'static [[C64; 32]; 32] {
+    static CACHE: [OnceLock<[[C64; 32]; 32]>; 3] = [const { OnceLock::new() }; 3];
+    let index = Rotation::ALL
+        .iter()
+        .position(|&r| r == rot)
+        .expect("Rotation::ALL lists every rotation");
+    CACHE[index].get_or_init(|| {
+        let d = rot.orbital_matrix();
+        let mut minors = [[C64::new(0.0, 0.0); 32]; 32];
+        for (tgt, row) in minors.iter_mut().enumerate() {
+            for (src, entry) in row.iter_mut().enumerate() {
+                if (src as u32).count_ones() != (tgt as u32).count_ones() {
+                    continue;
+                }
+                let s: Vec<usize> = (0..5).filter(|b| src & (1 << b) != 0).collect();
+                let t: Vec<usize> = (0..5).filter(|b| tgt & (1 << b) != 0).collect();
+                let sub = t
+                    .iter()
+                    .map(|&i| s.iter().map(|&j| d[i][j]).collect())
+                    .collect();
+                *entry = if s.is_empty() {
+                    C64::new(1.0, 0.0)
+                } else {
+                    small_det(sub)
+                };
+            }
+        }
+        minors
+    })
+}
+
 /// The many-electron matrix ⟨to|O_R|from⟩ of a spatial rotation (spin untouched): the α and β
 /// electrons transform separately, each set by the minor of the orbital matrix.
 pub fn rotation_matrix(rot: Rotation, from: &DetList, to: &DetList) -> DMatrix<C64> {
-    let d = rot.orbital_matrix();
-    // minors[target][source] over 5-bit subsets with equal population
-    let mut minors = vec![vec![C64::new(0.0, 0.0); 32]; 32];
-    for (src, row) in minors.iter_mut().enumerate() {
-        for (tgt, entry) in row.iter_mut().enumerate() {
-            if (src as u32).count_ones() != (tgt as u32).count_ones() {
-                continue;
-            }
-            let s: Vec<usize> = (0..5).filter(|b| src & (1 << b) != 0).collect();
-            let t: Vec<usize> = (0..5).filter(|b| tgt & (1 << b) != 0).collect();
-            let sub = t
-                .iter()
-                .map(|&i| s.iter().map(|&j| d[i][j]).collect())
-                .collect();
-            *entry = if s.is_empty() {
-                C64::new(1.0, 0.0)
-            } else {
-                small_det(sub)
-            };
-        }
-    }
+    let minors = orbital_minors(rot);
     let mut m = DMatrix::from_element(to.len(), from.len(), C64::new(0.0, 0.0));
     let split = |d: Determinant| ((d & 0x1f) as usize, ((d >> 5) & 0x1f) as usize);
     debug_assert_eq!(SPIN_ORBITALS, 10);
@@ -149,7 +164,7 @@ pub fn rotation_matrix(rot: Rotation, from: &DetList, to: &DetList) -> DMatrix<C
         let (fa, fb) = split(df);
         for (i, &dt) in to.dets.iter().enumerate() {
             let (ta, tb) = split(dt);
-            m[(i, j)] = minors[fa][ta] * minors[fb][tb];
+            m[(i, j)] = minors[ta][fa] * minors[tb][fb];
         }
     }
     m
