@@ -14,6 +14,7 @@ use super::{Record, Table};
 use crate::engine::Geometry;
 use crate::error::{closest_names, Error, Result};
 use mendeleev::Element;
+use std::collections::HashMap;
 
 const HEADER: [&str; 14] = [
     "name",
@@ -140,9 +141,18 @@ impl Ligand {
 }
 
 /// The ligand table.
-#[derive(Debug, Clone, PartialEq)]
+#[derive(Debug, Clone)]
 pub struct LigandTable {
     pub rows: Vec<Ligand>,
+    /// Row of each name and alias in ASCII lower case (checked on use, so edited rows are
+    /// still found by the scan).
+    index: HashMap<String, usize>,
+}
+
+impl PartialEq for LigandTable {
+    fn eq(&self, other: &Self) -> bool {
+        self.rows == other.rows
+    }
 }
 
 impl Table for LigandTable {
@@ -222,7 +232,13 @@ impl Table for LigandTable {
     }
 
     fn from_rows(rows: Vec<Ligand>) -> Self {
-        LigandTable { rows }
+        let mut index = HashMap::new();
+        for (i, r) in rows.iter().enumerate() {
+            for n in std::iter::once(&r.name).chain(&r.aliases) {
+                index.entry(n.trim().to_ascii_lowercase()).or_insert(i);
+            }
+        }
+        LigandTable { rows, index }
     }
 }
 
@@ -237,9 +253,13 @@ impl LigandTable {
     /// The ligand called `name` (abbreviation or alias, case-insensitive). An unknown name gets
     /// the closest known names.
     pub fn find(&self, name: &str) -> Result<&Ligand> {
-        self.rows
-            .iter()
-            .find(|r| r.is_called(name))
+        let indexed = self
+            .index
+            .get(&name.trim().to_ascii_lowercase())
+            .and_then(|&i| self.rows.get(i))
+            .filter(|r| r.is_called(name));
+        indexed
+            .or_else(|| self.rows.iter().find(|r| r.is_called(name)))
             .ok_or_else(|| Error::Unknown {
                 kind: crate::error::NameKind::Ligand,
                 name: name.trim().to_string(),
