@@ -140,7 +140,7 @@ impl Render for DiagramReport {
     /// CSV: first column Δ/B, then one column of E/B per level (full precision).
     fn csv(&self) -> Option<String> {
         Some({
-            use std::fmt::Write;
+            use super::decimal::push_f64;
             // The header goes through the CSV writer (level keys are quoted if they ever need it);
             // the numbers never need quoting and are written straight into one buffer, which keeps
             // a 1000-point d⁵ diagram's CSV from dominating the command's time.
@@ -151,13 +151,13 @@ impl Render for DiagramReport {
             let mut out =
                 String::from_utf8(w.into_inner().expect("CSV to memory")).expect("CSV is UTF-8");
             out.reserve(self.delta_over_b.len() * (self.series.len() + 1) * 12);
-            for (i, x) in self.delta_over_b.iter().enumerate() {
-                let _ = write!(out, "{x}");
+            for (i, &x) in self.delta_over_b.iter().enumerate() {
+                push_f64(&mut out, x);
                 for s in &self.series {
                     out.push(',');
                     let e = s.energies[i];
                     if e.is_finite() {
-                        let _ = write!(out, "{e}");
+                        push_f64(&mut out, e);
                     }
                 }
                 out.push('\n');

@@ -8,6 +8,7 @@ pub mod bands;
 pub mod check;
 pub mod crossover;
 pub mod data;
+pub mod decimal;
 pub mod diagram;
 pub mod figures;
 pub mod fit_bands;
