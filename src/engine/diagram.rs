@@ -136,18 +136,24 @@ fn diagram_with(
         .collect();
     // The points are independent: they are solved on every core, then joined in order.
     use rayon::prelude::*;
-    let spectra: Vec<Spectrum> = xs
-        .par_iter()
-        .map(|&x| {
-            let calc = at(x)?;
-            match &projection {
-                // Δ = 0 is the free ion: its levels are degenerate across irreps, which the
-                // projection handles like any other point.
-                Some(p) => p.levels(&calc, &parents),
-                None => calc.levels_with(&parents, false),
-            }
-        })
-        .collect::<Result<_>>()?;
+    // The crossover search is independent of the points too, so it runs beside them.
+    let (spectra, crossing) = rayon::join(
+        || {
+            xs.par_iter()
+                .map(|&x| {
+                    let calc = at(x)?;
+                    match &projection {
+                        // Δ = 0 is the free ion: its levels are degenerate across irreps,
+                        // which the projection handles like any other point.
+                        Some(p) => p.levels(&calc, &parents),
+                        None => calc.levels_with(&parents, false),
+                    }
+                })
+                .collect::<Result<Vec<Spectrum>>>()
+        },
+        || crossover(dn, geometry, c_over_b),
+    );
+    let spectra = spectra?;
     let mut series: Vec<Series> = Vec::new();
     for (pi, spectrum) in spectra.iter().enumerate() {
         for l in &spectrum.levels {
@@ -183,6 +189,6 @@ fn diagram_with(
         c_over_b,
         delta_over_b: xs,
         series,
-        crossover: crossover(dn, geometry, c_over_b)?,
+        crossover: crossing?,
     })
 }

@@ -11,6 +11,11 @@ pub fn push_f64(out: &mut String, x: f64) {
     }
     let mut buffer = ryu::Buffer::new();
     let text = buffer.format_finite(x);
+    if !text.as_bytes().contains(&b'e') {
+        // "d.ddd" as Display writes it, but "d.0" written "d".
+        out.push_str(text.strip_suffix(".0").unwrap_or(text));
+        return;
+    }
     let (negative, text) = match text.strip_prefix('-') {
         Some(rest) => (true, rest),
         None => (false, text),
@@ -20,20 +25,13 @@ pub fn push_f64(out: &mut String, x: f64) {
     }
     // ryu writes "d.ddd", "d.dddeX" or "deX"; split into digits and the power of ten of the
     // first digit, then write them without an exponent.
-    let (mantissa, exponent) = match text.split_once('e') {
-        Some((m, e)) => (m, e.parse::<i32>().expect("ryu writes an integer exponent")),
-        None => (text, 0),
+    let Some((mantissa, exponent)) = text.split_once('e') else {
+        out.push_str(text);
+        return;
     };
+    let exponent: i32 = exponent.parse().expect("ryu writes an integer exponent");
     let (int_part, frac_part) = mantissa.split_once('.').unwrap_or((mantissa, ""));
     let frac_part = if frac_part == "0" { "" } else { frac_part };
-    if exponent == 0 {
-        out.push_str(int_part);
-        if !frac_part.is_empty() {
-            out.push('.');
-            out.push_str(frac_part);
-        }
-        return;
-    }
     // With an exponent ryu's mantissa has one digit before the point.
     let digits: String = [int_part, frac_part].concat();
     let point = 1 + exponent; // digits before the decimal point

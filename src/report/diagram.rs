@@ -150,17 +150,31 @@ impl Render for DiagramReport {
             w.write_record(&header).expect("CSV to memory");
             let mut out =
                 String::from_utf8(w.into_inner().expect("CSV to memory")).expect("CSV is UTF-8");
-            out.reserve(self.delta_over_b.len() * (self.series.len() + 1) * 12);
-            for (i, &x) in self.delta_over_b.iter().enumerate() {
-                push_f64(&mut out, x);
-                for s in &self.series {
-                    out.push(',');
-                    let e = s.energies[i];
-                    if e.is_finite() {
-                        push_f64(&mut out, e);
+            // Rows are formatted in parallel chunks and joined in order.
+            use rayon::prelude::*;
+            let row_len = (self.series.len() + 1) * 20;
+            let chunks: Vec<String> = (0..self.delta_over_b.len())
+                .collect::<Vec<_>>()
+                .par_chunks(64)
+                .map(|rows| {
+                    let mut text = String::with_capacity(rows.len() * row_len);
+                    for &i in rows {
+                        push_f64(&mut text, self.delta_over_b[i]);
+                        for s in &self.series {
+                            text.push(',');
+                            let e = s.energies[i];
+                            if e.is_finite() {
+                                push_f64(&mut text, e);
+                            }
+                        }
+                        text.push('\n');
                     }
-                }
-                out.push('\n');
+                    text
+                })
+                .collect();
+            out.reserve(chunks.iter().map(String::len).sum());
+            for chunk in &chunks {
+                out.push_str(chunk);
             }
             out
         })
