@@ -53,6 +53,38 @@ pub fn total_two_ms(d: Determinant) -> i32 {
         .sum()
 }
 
+/// Time reversal of a determinant: Θ|d⟩ = sign·|d′⟩. Θ is antiunitary and acts on each
+/// electron as Θ|m α⟩ = (−1)^m |−m β⟩ and Θ|m β⟩ = −(−1)^m |−m α⟩ (Condon–Shortley phases,
+/// Θ = e^{−iπS_y}K; A. Messiah, *Quantum Mechanics*, vol. 2, 1962, ch. XV); the sign also
+/// holds the reordering of the electrons into increasing spin-orbital order.
+pub fn time_reversed(d: Determinant) -> (Determinant, f64) {
+    let mut targets = [0usize; SPIN_ORBITALS];
+    let mut count = 0;
+    let mut sign = 1.0;
+    for p in (0..SPIN_ORBITALS).filter(|&p| d & (1 << p) != 0) {
+        let m = m_of(p);
+        let up = two_ms_of(p) == 1;
+        if m.rem_euclid(2) == 1 {
+            sign = -sign;
+        }
+        if !up {
+            sign = -sign;
+        }
+        targets[count] = spin_orbital(-m, !up);
+        count += 1;
+    }
+    let targets = &targets[..count];
+    let inversions = (0..count)
+        .flat_map(|i| (i + 1..count).map(move |j| (i, j)))
+        .filter(|&(i, j)| targets[i] > targets[j])
+        .count();
+    if inversions % 2 == 1 {
+        sign = -sign;
+    }
+    let mask = targets.iter().fold(0, |m, &t| m | (1 << t));
+    (mask, sign)
+}
+
 /// Sign (−1)^k with k the number of occupied spin-orbitals below `p`.
 fn parity_below(d: Determinant, p: usize) -> f64 {
     if (d & ((1u16 << p) - 1)).count_ones().is_multiple_of(2) {

@@ -8,6 +8,7 @@
 //! the largest weight of their states (the spin-free eigenstates are computed in the same
 //! blocks), with ⟨S²⟩ reported as computed.
 
+use super::basis::time_reversed;
 use super::hermitian::{add_field, add_scaled, eigen};
 use super::labels::{Irrep, Term};
 use super::levels::Calculation;
@@ -101,6 +102,31 @@ fn hamiltonian(
     (re, im)
 }
 
+/// The eigenstates of `block` as the time-reversal images of those of `partner`, the block of
+/// the opposite 2M_J class: Θ Σ c_d |d⟩ = Σ c_d* sign_d |Θd⟩.
+fn time_reversed_states(
+    partner: &SpinOrbitBlockStates,
+    block: &'static SpinOrbitBlock,
+) -> SpinOrbitBlockStates {
+    let columns = partner.vectors.ncols();
+    let mut vectors = DMatrix::from_element(block.dets.len(), columns, C64::new(0.0, 0.0));
+    for (r, &d) in partner.block.dets.dets.iter().enumerate() {
+        let (image, sign) = time_reversed(d);
+        let row = block
+            .dets
+            .position(image)
+            .expect("time reversal maps the class −k onto the class k");
+        for c in 0..columns {
+            vectors[(row, c)] = partner.vectors[(r, c)].conj() * sign;
+        }
+    }
+    SpinOrbitBlockStates {
+        block,
+        energies: partner.energies.clone(),
+        vectors,
+    }
+}
+
 impl Calculation {
     /// Bethe label of a group of degenerate states from their characters (C₄ and C₂ about z
     /// from the 2M_J class, the others from the cached rotation blocks).
@@ -152,6 +178,21 @@ impl Calculation {
 
     /// Every eigenstate with spin–orbit coupling ζ Σ l·s (ζ in cm⁻¹, ≥ 0).
     pub fn spin_orbit(&self, zeta: f64) -> Result<SpinOrbitSolution> {
+        self.spin_orbit_with(zeta, true)
+    }
+
+    /// As [`Calculation::spin_orbit`], with every block diagonalised (the reference the
+    /// time-reversal shortcut is tested against).
+    pub fn spin_orbit_direct(&self, zeta: f64) -> Result<SpinOrbitSolution> {
+        self.spin_orbit_with(zeta, false)
+    }
+
+    /// H commutes with time reversal Θ (the field and ζ l·s are time-even), and Θ maps the
+    /// 2M_J-mod-8 class k onto −k. So the eigenstates of a block whose partner class was
+    /// solved already are the Θ images of the partner's (same energies), with no
+    /// diagonalisation: that halves the work for odd electron counts (Kramers pairs, classes
+    /// 1↔7 and 3↔5) and saves one block in four for even counts (2↔6).
+    fn spin_orbit_with(&self, zeta: f64, use_time_reversal: bool) -> Result<SpinOrbitSolution> {
         require_finite(Param::Zeta, zeta)?;
         if !(0.0..=super::levels::MAX_ENERGY).contains(&zeta) {
             return Err(Error::invalid(
@@ -160,20 +201,33 @@ impl Calculation {
                 "a one-electron spin–orbit constant from 0 to 1e12 cm⁻¹ (free ions: ≈ 100–5000)",
             ));
         }
-        let blocks = self
-            .spin_orbit_blocks()
-            .iter()
-            .map(|block| {
-                let (re, im) = hamiltonian(self, block, zeta);
-                let (energies, vectors) = eigen(re, im)?;
-                Ok(SpinOrbitBlockStates {
-                    block,
-                    energies,
-                    vectors,
-                })
-            })
-            .collect::<Result<Vec<_>>>()?;
-        Ok(SpinOrbitSolution { zeta, blocks })
+        let blocks = self.spin_orbit_blocks();
+        let mut solved: Vec<SpinOrbitBlockStates> = Vec::with_capacity(blocks.len());
+        for block in blocks {
+            let partner = block.class.and_then(|k| {
+                let mirror = (-k).rem_euclid(8);
+                (use_time_reversal && mirror != k)
+                    .then(|| solved.iter().find(|s| s.block.class == Some(mirror)))
+                    .flatten()
+            });
+            let states = match partner {
+                Some(p) => time_reversed_states(p, block),
+                None => {
+                    let (re, im) = hamiltonian(self, block, zeta);
+                    let (energies, vectors) = eigen(re, im)?;
+                    SpinOrbitBlockStates {
+                        block,
+                        energies,
+                        vectors,
+                    }
+                }
+            };
+            solved.push(states);
+        }
+        Ok(SpinOrbitSolution {
+            zeta,
+            blocks: solved,
+        })
     }
 
     /// Levels with spin–orbit coupling, lowest first, each named after its dominant spin-free
@@ -259,5 +313,68 @@ impl Calculation {
             i = j;
         }
         Ok(levels)
+    }
+}
+
+#[cfg(test)]
+mod time_reversal_tests {
+    use super::*;
+    use crate::engine::field::LigandField;
+
+    /// The Θ images are eigenvectors of their own block with the partner's energies, and the
+    /// energies equal those of a direct diagonalisation (Kramers' theorem for odd n; Wigner's
+    /// time-reversal symmetry for even n; A. Messiah, Quantum Mechanics, vol. 2, 1962, ch. XV).
+    #[test]
+    fn time_reversed_blocks_agree_with_direct_diagonalisation() {
+        let fields = [
+            (PointGroup::Oh, LigandField::octahedral(1500.0)),
+            (
+                PointGroup::D4h,
+                LigandField::tetragonal(1400.0, 350.0, 120.0),
+            ),
+        ];
+        let mut mapped = 0;
+        for dn in 1..=9 {
+            for (group, field) in &fields {
+                let calc = Calculation::new(dn, 800.0, 3200.0, field.clone(), *group).unwrap();
+                let fast = calc.spin_orbit(450.0).unwrap();
+                let direct = calc.spin_orbit_direct(450.0).unwrap();
+                assert_eq!(fast.blocks.len(), direct.blocks.len());
+                for (f, d) in fast.blocks.iter().zip(&direct.blocks) {
+                    assert_eq!(f.block.class, d.block.class);
+                    for (a, b) in f.energies.iter().zip(&d.energies) {
+                        assert!(
+                            (a - b).abs() < 1e-8,
+                            "d{dn} {:?}: {a} vs {b}",
+                            f.block.class
+                        );
+                    }
+                    let (re, im) = hamiltonian(&calc, f.block, 450.0);
+                    let h = match im {
+                        Some(im) => re.map(|x| C64::new(x, 0.0)) + im.map(|x| C64::new(0.0, x)),
+                        None => re.map(|x| C64::new(x, 0.0)),
+                    };
+                    let residual = &h * &f.vectors
+                        - &f.vectors
+                            * DMatrix::from_diagonal(&nalgebra::DVector::from_iterator(
+                                f.energies.len(),
+                                f.energies.iter().map(|&e| C64::new(e, 0.0)),
+                            ));
+                    assert!(
+                        residual.norm() < 1e-7,
+                        "d{dn} {:?}: {}",
+                        f.block.class,
+                        residual.norm()
+                    );
+                    let gram = f.vectors.adjoint() * &f.vectors;
+                    let identity = DMatrix::<C64>::identity(gram.nrows(), gram.ncols());
+                    assert!((gram - identity).norm() < 1e-9);
+                    if !std::ptr::eq(f.block, d.block) || f.vectors != d.vectors {
+                        mapped += 1;
+                    }
+                }
+            }
+        }
+        assert!(mapped > 0, "no block took the time-reversal path");
     }
 }
