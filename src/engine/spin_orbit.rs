@@ -336,7 +336,7 @@ mod time_reversal_tests {
         let mut mapped = 0;
         for dn in 1..=9 {
             for (group, field) in &fields {
-                let calc = Calculation::new(dn, 800.0, 3200.0, field.clone(), *group).unwrap();
+                let calc = Calculation::new(dn, 800.0, 3200.0, *field, *group).unwrap();
                 let fast = calc.spin_orbit(450.0).unwrap();
                 let direct = calc.spin_orbit_direct(450.0).unwrap();
                 assert_eq!(fast.blocks.len(), direct.blocks.len());
