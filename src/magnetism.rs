@@ -574,7 +574,8 @@ pub fn finite_field_chi(
 ) -> Result<f64> {
     model.check()?;
     let all = crate::engine::shell::shell(calc.dn).spin_orbit_blocks(false);
-    let blk = &all[0];
+    let block = &all[0];
+    let blk = block.matrices();
     let v = calc.field.complex_matrix();
     let mut h: DMatrix<C64> =
         (&blk.rep_b * calc.b + &blk.rep_c * calc.c + &blk.spin_orbit * model.effective_zeta())
@@ -589,8 +590,13 @@ pub fn finite_field_chi(
     // The Zeeman operator over the single block's determinants, built here in complex
     // arithmetic independently of the sums' cached sub-blocks.
     let direction = [Axis::X, Axis::Y, Axis::Z][axis.min(2)];
-    let momentum =
-        |orbital| one_body_complex(&blk.dets, &blk.dets, &angular_momentum(orbital, direction));
+    let momentum = |orbital| {
+        one_body_complex(
+            &block.dets,
+            &block.dets,
+            &angular_momentum(orbital, direction),
+        )
+    };
     let m =
         momentum(true) * C64::new(model.kappa, 0.0) + momentum(false) * C64::new(model.g_spin, 0.0);
     let kt = boltzmann_cm() * t;

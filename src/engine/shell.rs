@@ -77,6 +77,16 @@ pub struct SpinOrbitBlock {
     /// (2M_L + 2M_S) mod 8 of the block, or None when it holds every determinant.
     pub class: Option<i32>,
     pub dets: DetList,
+    /// The unit matrices of H, built on first use (a block whose eigenstates come from its
+    /// time-reversal partner never needs them).
+    matrices: OnceLock<SpinOrbitMatrices>,
+    /// Total S², built on first use (only the spin of spin–orbit levels needs it).
+    s_squared: OnceLock<DMatrix<f64>>,
+}
+
+/// The unit matrices of H over one spin–orbit block's determinants.
+#[derive(Debug)]
+pub struct SpinOrbitMatrices {
     /// Electron repulsion per unit B and per unit C.
     pub rep_b: DMatrix<f64>,
     pub rep_c: DMatrix<f64>,
@@ -85,11 +95,39 @@ pub struct SpinOrbitBlock {
     pub excitations: Vec<Option<DMatrix<f64>>>,
     /// Σ_i l_i·s_i (multiply by ζ).
     pub spin_orbit: DMatrix<f64>,
-    /// Total S², built on first use (only the spin of spin–orbit levels needs it).
-    s_squared: OnceLock<DMatrix<f64>>,
 }
 
 impl SpinOrbitBlock {
+    /// The block's unit matrices (repulsion, excitations, l·s), built on first use.
+    pub fn matrices(&self) -> &SpinOrbitMatrices {
+        self.matrices.get_or_init(|| {
+            let dets = &self.dets;
+            let mut excitations = Vec::with_capacity(25);
+            for m in -2i32..=2 {
+                for mp in -2i32..=2 {
+                    if self.class.is_some() && (m - mp).rem_euclid(4) != 0 {
+                        excitations.push(None);
+                        continue;
+                    }
+                    excitations.push(Some(one_body(dets, dets, |p, q| {
+                        if m_of(p) == m && m_of(q) == mp && two_ms_of(p) == two_ms_of(q) {
+                            1.0
+                        } else {
+                            0.0
+                        }
+                    })));
+                }
+            }
+            let (rep_b, rep_c) = racah_unit_repulsion(dets);
+            SpinOrbitMatrices {
+                rep_b,
+                rep_c,
+                spin_orbit: one_body(dets, dets, l_dot_s),
+                excitations,
+            }
+        })
+    }
+
     /// Total S² = S₋S₊ + S_z² + S_z over the block's determinants (S₊ leads out of the block,
     /// S₋S₊ back into it).
     pub fn s_squared(&self) -> &DMatrix<f64> {
@@ -218,30 +256,10 @@ impl Shell {
                         .filter(|&d| class.is_none_or(|c| class_of(d) == c))
                         .collect(),
                 );
-                let mut excitations = Vec::with_capacity(25);
-                for m in -2i32..=2 {
-                    for mp in -2i32..=2 {
-                        if class.is_some() && (m - mp).rem_euclid(4) != 0 {
-                            excitations.push(None);
-                            continue;
-                        }
-                        excitations.push(Some(one_body(&dets, &dets, |p, q| {
-                            if m_of(p) == m && m_of(q) == mp && two_ms_of(p) == two_ms_of(q) {
-                                1.0
-                            } else {
-                                0.0
-                            }
-                        })));
-                    }
-                }
-                let (rep_b, rep_c) = racah_unit_repulsion(&dets);
                 SpinOrbitBlock {
                     n: self.n,
                     class,
-                    rep_b,
-                    rep_c,
-                    spin_orbit: one_body(&dets, &dets, l_dot_s),
-                    excitations,
+                    matrices: OnceLock::new(),
                     s_squared: OnceLock::new(),
                     dets,
                 }

@@ -87,16 +87,17 @@ fn hamiltonian(
     block: &SpinOrbitBlock,
     zeta: f64,
 ) -> (DMatrix<f64>, Option<DMatrix<f64>>) {
-    let mut re = &block.rep_b * calc.b;
-    add_scaled(&mut re, calc.c, &block.rep_c);
+    let unit = block.matrices();
+    let mut re = &unit.rep_b * calc.b;
+    add_scaled(&mut re, calc.c, &unit.rep_c);
     if zeta != 0.0 {
-        add_scaled(&mut re, zeta, &block.spin_orbit);
+        add_scaled(&mut re, zeta, &unit.spin_orbit);
     }
     let mut im = None;
     add_field(
         &mut re,
         &mut im,
-        &block.excitations,
+        &unit.excitations,
         &calc.field.complex_matrix(),
     );
     (re, im)
