@@ -423,7 +423,7 @@ proptest! {
             s.blocks.iter().flat_map(|b| b.energies.iter()).sum()
         };
         let trace: f64 = with.blocks.iter().map(|blk| {
-            (&blk.block.rep_b * b + &blk.block.rep_c * (4.5 * b)).trace()
+            (&blk.block.matrices().rep_b * b + &blk.block.matrices().rep_c * (4.5 * b)).trace()
         }).sum();
         prop_assert!((sum(&with) - sum(&without)).abs() < 1e-6 * (1.0 + trace.abs()));
         prop_assert_eq!(with.state_count(), binomial(10, dn));
