@@ -76,14 +76,6 @@ pub fn field_unit(units: SusceptibilityUnits) -> &'static str {
     }
 }
 
-/// Unit of the sample moment in a unit system.
-pub fn moment_unit(units: SusceptibilityUnits) -> &'static str {
-    match units {
-        SusceptibilityUnits::Cgs => "emu",
-        SusceptibilityUnits::Si => "A m2",
-    }
-}
-
 #[cfg(test)]
 mod tests {
     use super::*;
