@@ -339,7 +339,7 @@ mod tests {
 
     // Round trip for S = 5/2: χ_M = 1.4677×10⁻² cm³ mol⁻¹ at 298.15 K → 5.916 μB; in SI
     // 1.8444×10⁻⁷ m³ mol⁻¹ (χ_SI = 4π×10⁻⁶ χ_cgs; CRC Handbook of Chemistry and Physics, note
-    // on magnetic susceptibility units) → the same moment. [C]
+    // on magnetic susceptibility units) → the same moment (computed).
     #[test]
     fn cgs_si_molar_round_trip() {
         let chi_cgs = 1.4677e-2;
