@@ -62,7 +62,8 @@ pub enum EvidenceKind {
 }
 
 impl EvidenceKind {
-    /// "prediction", "evans", "moment", "bands" or "bond-length".
+    /// "prediction", "evans", "moment", "bands", "bond-length", "chit-curve" or
+    /// "structure-field": the `kind` written in the reports.
     pub fn name(self) -> &'static str {
         match self {
             EvidenceKind::Prediction => "prediction",

@@ -307,13 +307,6 @@ impl LigandField {
             PointGroup::C1 => true,
         }
     }
-
-    /// True when the matrix over complex orbitals has no imaginary part.
-    pub fn is_real_in_complex_basis(&self) -> bool {
-        let v = self.complex_matrix();
-        let scale = v.iter().map(|z| z.norm()).fold(1e-300, f64::max);
-        v.iter().all(|z| z.im.abs() <= 1e-12 * scale)
-    }
 }
 
 #[cfg(test)]

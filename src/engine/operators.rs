@@ -97,14 +97,9 @@ pub fn coulomb_integral(m: [i32; 4], f: &Slater) -> f64 {
     s
 }
 
-/// Matrix of the electron repulsion ½ Σ ⟨pq|rs⟩ a†_p a†_q a_s a_r on a determinant list
-/// (closed under the operator: it conserves M_L and M_S).
-pub fn two_body(list: &DetList, f: &Slater) -> DMatrix<f64> {
-    two_body_each(list, std::slice::from_ref(f)).remove(0)
-}
-
-/// [`two_body`] for several sets of Slater integrals at once (e.g. per unit B and per unit C):
-/// one walk over the determinants fills every matrix.
+/// Matrices of the electron repulsion ½ Σ ⟨pq|rs⟩ a†_p a†_q a_s a_r on a determinant list
+/// (closed under the operator: it conserves M_L and M_S), one per set of Slater integrals
+/// (e.g. per unit B and per unit C): one walk over the determinants fills every matrix.
 pub fn two_body_each(list: &DetList, slaters: &[Slater]) -> Vec<DMatrix<f64>> {
     // Integral tables over spatial m's, indexed by (m+2).
     let tables: Vec<[[[[f64; 5]; 5]; 5]; 5]> = slaters

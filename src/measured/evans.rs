@@ -336,7 +336,7 @@ mod tests {
         }
     }
 
-    // Worked example [C] from the solenoid equation χ_M = 3Δf/(4π f c′) (Live & Chan, Anal. Chem.
+    // Worked example, computed here from the solenoid equation χ_M = 3Δf/(4π f c′) (Live & Chan, Anal. Chem.
     // 1970, 42, 791; Schubert, J. Chem. Educ. 1992, 69, 62; from memory): Δf = 73.4 Hz at
     // 400 MHz, c = 0.0125 mol/L → χ_M = 3000·73.4/(4π·400e6·0.0125) = 3.5046×10⁻³ cm³ mol⁻¹
     // (= 238.73 Δf/(f c)); χT at 298.15 K = 1.04490, μ_eff = 2.82787·√1.0449 = 2.8907 μB.
@@ -356,7 +356,7 @@ mod tests {
         assert_eq!(r.moment.unpaired_nearest, 2);
     }
 
-    // Ppm form: χ_M = 2.3873×10⁻⁴ Δδ/c (cgs) [C] from the same equation.
+    // Ppm form: χ_M = 2.3873×10⁻⁴ Δδ/c (cgs), computed from the same equation.
     #[test]
     fn ppm_form_matches_hz_form() {
         let a = evans(&input(hz(73.4, 0.0), MagnetGeometry::Solenoid)).unwrap();
@@ -378,7 +378,7 @@ mod tests {
     }
 
     // Same sample in the two geometries: Δf/f = (4π/3 − α)κ gives a transverse shift half as
-    // large and of opposite sign (Evans 1959 vs Live & Chan 1970, from memory) [C]; both must
+    // large and of opposite sign (D. F. Evans, J. Chem. Soc. 1959, 2003, vs Live & Chan 1970, from memory); both must
     // return the same χ_M.
     #[test]
     fn geometries_agree_for_the_same_sample() {
@@ -471,7 +471,7 @@ mod tests {
         assert_relative_eq!(c.relative(), 0.01f64.hypot(0.01), max_relative = 1e-9);
     }
 
-    // Solvent terms [C]: χ₀ for CH₂Cl₂ = −46.6/84.93 = −0.549×10⁻⁶ cm³ g⁻¹ (CRC Handbook molar
+    // Solvent terms (computed here): χ₀ for CH₂Cl₂ = −46.6/84.93 = −0.549×10⁻⁶ cm³ g⁻¹ (CRC Handbook molar
     // value, from memory); with MW 400 the χ₀·MW term is −2.2×10⁻⁴ cm³ mol⁻¹.
     #[test]
     fn solvent_terms_are_optional() {

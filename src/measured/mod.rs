@@ -227,7 +227,7 @@ mod tests {
 
     // Spin-only S = 5/2 at 298.15 K: χ_M = 4.375/298.15 = 1.4674×10⁻² cm³ mol⁻¹ gives
     // μ_eff = 5.916 and n = 5 (Bain & Berry, J. Chem. Educ. 2008, 85, 532, eq 3a: χT = n(n+2)/8;
-    // the exact constant 0.12505 instead of 1/8 moves μ by 0.02 %). [C]
+    // the exact constant 0.12505 instead of 1/8 moves μ by 0.02 %; the numbers computed here).
     #[test]
     fn spin_only_sextet_round_trip() {
         let chi = 4.375 / 298.15;

@@ -76,14 +76,6 @@ pub fn field_unit(units: SusceptibilityUnits) -> &'static str {
     }
 }
 
-/// Unit of the sample moment in a unit system.
-pub fn moment_unit(units: SusceptibilityUnits) -> &'static str {
-    match units {
-        SusceptibilityUnits::Cgs => "emu",
-        SusceptibilityUnits::Si => "A m2",
-    }
-}
-
 #[cfg(test)]
 mod tests {
     use super::*;
@@ -101,7 +93,7 @@ mod tests {
     }
 
     // χ_M = M·MW/(mass·H) (common practice): 2.45×10⁻⁴ emu, 20 mg, MW 500, 1000 Oe →
-    // 2.45e-4·500/(0.020·1000) = 6.125×10⁻³ cm³ mol⁻¹, an arithmetic check [C].
+    // 2.45e-4·500/(0.020·1000) = 6.125×10⁻³ cm³ mol⁻¹, an arithmetic check.
     #[test]
     fn cgs_formula() {
         let chi =
@@ -115,7 +107,8 @@ mod tests {
     }
 
     // The same measurement in SI: 1 emu = 10⁻³ A m², 1000 Oe ↔ μ₀H = 0.1 T; the SI formula must
-    // give χ_SI = 4π×10⁻⁶ χ_cgs (CRC Handbook note on units) [C].
+    // give χ_SI = 4π×10⁻⁶ χ_cgs (CRC Handbook of Chemistry and Physics, note on
+    // magnetic susceptibility units; the factors computed here).
     #[test]
     fn si_formula_agrees_with_cgs() {
         let cgs =

@@ -232,7 +232,7 @@ mod tests {
 
     // Pyridine by constitutive sum, a check of the summing code: 5 C (−30.00) + 5 H (−14.65)
     // + N(ring) (−4.61) + 5 × C-in-ring (−1.20) = −50.46×10⁻⁶ cm³ mol⁻¹; values Bain & Berry,
-    // J. Chem. Educ. 2008, 85, 532 [S, as reproduced], sum [C]. The tabulated whole-ligand value
+    // J. Chem. Educ. 2008, 85, 532 [S, as reproduced]; the sum is computed here. The tabulated whole-ligand value
     // is −49 [S, as reproduced].
     #[test]
     fn pyridine_constitutive_sum() {
@@ -249,7 +249,7 @@ mod tests {
     }
 
     // K4[Fe(CN)6]·3H2O from ion and ligand increments, Bain & Berry 2008 [S, as reproduced]:
-    // 4 K+ (−14.9) + Fe2+ (−12.8) + 6 CN− (−13.0) + 3 H2O (−13) = −189.4×10⁻⁶. [C]
+    // 4 K+ (−14.9) + Fe2+ (−12.8) + 6 CN− (−13.0) + 3 H2O (−13) = −189.4×10⁻⁶ (sum computed here).
     #[test]
     fn hexacyanoferrate_from_ions() {
         let d = sum("{K+}4[{Fe2+}({CN-})6]·3{H2O}");
@@ -266,7 +266,7 @@ mod tests {
     #[test]
     fn atom_only_sum_is_flagged() {
         let d = sum("C5H5N");
-        // 5 C + 5 H + open-chain N: −30.00 − 14.65 − 5.57 = −50.22×10⁻⁶ [C]
+        // 5 C + 5 H + open-chain N: −30.00 − 14.65 − 5.57 = −50.22×10⁻⁶ (sum computed here)
         assert_relative_eq!(d.value, -50.22e-6, max_relative = 1e-9);
         assert!(d.notes.iter().any(|n| n.contains("constitutive")));
     }

@@ -205,8 +205,8 @@ mod tests {
 
     #[test]
     fn grid_seed_finds_chromium_aqua_region() {
-        // [Cr(H2O)6]3+ ν1 = 17 400, ν2 = 24 600 cm⁻¹ (Lever 1984 [M], band data of A. B. P. Lever, Inorganic Electronic Spectroscopy, 1984, from memory) lie near
-        // Δ/B ≈ 24 and B ≈ 729 (Lever, J. Chem. Educ. 1968, 45, 711 closed forms, [C]).
+        // [Cr(H2O)6]3+ ν1 = 17 400, ν2 = 24 600 cm⁻¹ (band data of A. B. P. Lever, Inorganic Electronic Spectroscopy, 2nd ed., 1984, from memory) lie near
+        // Δ/B ≈ 24 and B ≈ 729 (computed with the closed forms of Lever, J. Chem. Educ. 1968, 45, 711).
         let g = grid(3, Geometry::Octahedral, 3, 4.5).unwrap();
         let c = candidates(&g, 2, 8);
         assert_eq!(c.len(), 3);

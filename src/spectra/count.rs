@@ -515,8 +515,8 @@ mod tests {
 
     #[test]
     fn cobalt_aqua_high_spin_shows_two_strong_and_one_weak_band() {
-        // Octahedral d7 HS 4T1g: → 4T2g, → 4A2g (weak, two-electron), → 4T1g(P) (Lever 1984;
-        // A. B. P. Lever, Inorganic Electronic Spectroscopy, 2nd ed., 1984, from memory [M]); [Co(H2O)6]2+ Dq ≈ 920, B ≈ 825 (band data of A. B. P. Lever, Inorganic Electronic Spectroscopy, 1984, from memory [M]).
+        // Octahedral d7 HS 4T1g: → 4T2g, → 4A2g (weak, two-electron), → 4T1g(P) (A. B. P. Lever, Inorganic Electronic Spectroscopy, 2nd ed., 1984,
+        // from memory); [Co(H2O)6]2+ Dq ≈ 920, B ≈ 825 (band data of Lever 1984, from memory).
         let r = count_bands(&request(7, 921.5, 827.7, 4.633, Some(2))).unwrap();
         let hs = &r.spin_states[0];
         assert_eq!(hs.state.two_s, 3);
@@ -535,8 +535,9 @@ mod tests {
 
     #[test]
     fn cobalt_ammine_low_spin_two_bands() {
-        // Octahedral d6 LS 1A1g: two spin-allowed bands → 1T1g, → 1T2g (A. B. P. Lever, Inorganic Electronic Spectroscopy, 2nd ed., 1984, from memory [M]);
-        // [Co(NH3)6]3+ 21 000 and 29 500 cm⁻¹ at Dq = 2303, B = 634.8, C = 4.8B (§5.6 [C]).
+        // Octahedral d6 LS 1A1g: two spin-allowed bands → 1T1g, → 1T2g (A. B. P. Lever, Inorganic Electronic Spectroscopy, 2nd ed., 1984, from memory);
+        // [Co(NH3)6]3+ 21 000 and 29 500 cm⁻¹ (band maxima: Lever 1984, from memory)
+        // fit by this crate's band fit to Dq = 2303, B = 634.8 at C = 4.8B (computed).
         let r = count_bands(&request(6, 2303.0, 634.8, 4.8, Some(2))).unwrap();
         let ls = r.spin_states.iter().find(|s| s.state.two_s == 0).unwrap();
         assert!(ls.is_ground);

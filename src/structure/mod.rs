@@ -395,26 +395,4 @@ impl Structure {
                 }),
         }
     }
-
-    /// The one metal centre a field calculation needs: the chosen one, or the only one.
-    pub fn single_metal(&self, choice: &MetalChoice) -> Result<usize> {
-        let chosen = self.select_metals(choice)?;
-        match chosen.as_slice() {
-            [one] => Ok(*one),
-            _ => Err(Error::invalid(
-                Param::MetalCentre,
-                format!(
-                    "{} metals in {} ({})",
-                    chosen.len(),
-                    self.name,
-                    chosen
-                        .iter()
-                        .map(|&i| self.atoms[i].label.as_str())
-                        .collect::<Vec<_>>()
-                        .join(", ")
-                ),
-                "one centre, chosen by its index or label",
-            )),
-        }
-    }
 }

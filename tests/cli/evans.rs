@@ -10,7 +10,7 @@ fn json(args: &[&str]) -> Value {
     command_json("evans", args)
 }
 
-// Worked example [C] from the solenoid equation χ_M = 3Δf/(4π f c′) (Live & Chan, Anal. Chem.
+// Worked example, computed here from the solenoid equation χ_M = 3Δf/(4π f c′) (Live & Chan, Anal. Chem.
 // 1970, 42, 791; Schubert, J. Chem. Educ. 1992, 69, 62; from memory): 73.4 Hz at 400 MHz,
 // 0.0125 mol/L, 298.15 K → χ_M = 3.5046×10⁻³ cm³ mol⁻¹, χT = 1.0449, μ_eff = 2.891 μB, n = 2.
 #[test]
@@ -42,7 +42,7 @@ fn worked_example_json_fields() {
 }
 
 // Same sample, field across the tube: the shift is half as large and of opposite sign
-// (Δf/f = (4π/3 − α)κ, α = 0 or 2π; Evans, J. Chem. Soc. 1959, 2003, from memory) [C].
+// (Δf/f = (4π/3 − α)κ, α = 0 or 2π; Evans, J. Chem. Soc. 1959, 2003, from memory).
 #[test]
 fn transverse_magnet_gives_the_same_chi_for_half_the_opposite_shift() {
     let a = json(&[
@@ -186,7 +186,7 @@ fn uncertainties_propagate() {
 }
 
 // Comparison for a d4 octahedral complex: 4.85 μB in the high-spin window (4.7–5.0 typical,
-// Figgis & Lewis 1960, from memory); spin-only 4.90 and 2.83 [C].
+// Figgis & Lewis 1960, from memory); spin-only 4.90 and 2.83 (computed, √(n(n+2))).
 #[test]
 fn comparison_with_spin_states() {
     // χT for μ = 4.85: (4.85/2.82787)² = 2.9415; χ = 2.9415/298.15 = 9.866e-3; Δδ = χ c/2.3873e-4.

@@ -12,7 +12,8 @@ fn json(args: &[&str]) -> Value {
 
 // χ_M = 1.4677×10⁻² cm³ mol⁻¹ at 298.15 K → μ_eff = 5.916 μB, n = 5; in SI the same χ is
 // 1.8444×10⁻⁷ m³ mol⁻¹ and 797.7 √(χT) gives the same moment (μ_eff = 2.828 √(χT), Bain & Berry,
-// J. Chem. Educ. 2008, 85, 532, eq 3a; χ_SI = 4π×10⁻⁶ χ_cgs, CRC Handbook note) [C].
+// J. Chem. Educ. 2008, 85, 532, eq 3a; χ_SI = 4π×10⁻⁶ χ_cgs, CRC Handbook of Chemistry and Physics,
+// note on magnetic susceptibility units; the numbers computed here).
 #[test]
 fn chi_in_cgs_and_si() {
     let a = json(&["--chi", "1.4677e-2", "--temp", "298.15"]);
@@ -58,7 +59,7 @@ fn chi_t_input() {
 }
 
 // Magnetometer: χ_M = M·MW/(mass·H) (common practice); the SI reading of the same sample
-// (10⁻³ A m² per emu, 0.1 T for 1000 Oe) must give the same moment [C].
+// (10⁻³ A m² per emu, 0.1 T for 1000 Oe) must give the same moment (computed).
 #[test]
 fn magnetometer_cgs_and_si() {
     let a = json(&[
@@ -97,7 +98,7 @@ fn magnetometer_cgs_and_si() {
 }
 
 // A/E-term correction on the command line: Ni2+ oct, λ = −324, 10Dq = 8500 → 3.26 μB
-// (μ = μ_so(1 − 4λ/10Dq), Figgis & Lewis 1960, from memory) [C]; 3.2 μB measured (Ashcroft &
+// (μ = μ_so(1 − 4λ/10Dq), Figgis & Lewis 1960, from memory; the 3.26 computed here); 3.2 μB measured (Ashcroft &
 // Mermin, Solid State Physics, 1976: 3.2 for Ni2+) agrees with the only spin state.
 #[test]
 fn comparison_with_spin_orbit_correction() {

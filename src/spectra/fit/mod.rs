@@ -662,7 +662,8 @@ mod tests {
     #[test]
     fn beta_and_crossover_position() {
         // β = B/B0 (Jørgensen's nephelauxetic ratio); [Cr(H2O)6]3+ B ≈ 725 with Jolly's
-        // B0(Cr3+) = 918 gives β ≈ 0.79 (Jørgensen 1962 factor rules with Jolly 1989 B₀ [C], Jolly 1989 [S]).
+        // B0(Cr3+) = 918 gives β ≈ 0.79 (computed: C. K. Jørgensen's
+        // ratio, 1962, with B0 read in W. L. Jolly, Modern Inorganic Chemistry, 1989).
         assert_relative_eq!(
             nephelauxetic_ratio(725.0, 918.0).unwrap(),
             0.7898,
@@ -676,7 +677,7 @@ mod tests {
 
     #[test]
     fn single_band_d1_gives_delta_only() {
-        // d1 octahedral: one band, Δ = ν (closed forms of A. B. P. Lever, Inorganic Electronic Spectroscopy, 1984, Lever 1984 [M]); [Ti(H2O)6]3+ 20 300.
+        // d1 octahedral: one band, Δ = ν (closed forms of A. B. P. Lever, Inorganic Electronic Spectroscopy, 2nd ed., 1984, from memory); [Ti(H2O)6]3+ 20 300.
         let out = fit_bands(&request(1, Geometry::Octahedral, vec![20_300.0])).unwrap();
         assert_relative_eq!(out.best.delta(), 20_300.0, max_relative = 1e-6);
         assert_eq!(out.best.b, None);
@@ -697,7 +698,7 @@ mod tests {
 
     #[test]
     fn fit_c_is_refused_when_c_does_not_enter() {
-        // d3 quartets span 4F and 4P only, 15B apart: C cannot be fitted (Y. Tanabe, S. Sugano, J. Phys. Soc. Jpn. 1954, from memory [C]).
+        // d3 quartets span 4F and 4P only, 15B apart: C cannot be fitted (Y. Tanabe, S. Sugano, J. Phys. Soc. Jpn. 1954, from memory).
         let mut r = request(3, Geometry::Octahedral, vec![17_400.0, 24_600.0, 37_800.0]);
         r.fit_c = true;
         let e = fit_bands(&r).unwrap_err();
@@ -989,7 +990,7 @@ mod tests {
     #[test]
     fn sum_rule_for_d3_and_d8() {
         // 15B = ν2 + ν3 − 3ν1 for octahedral d3 and d8 (Lever, J. Chem. Educ. 1968, 45, 711;
-        // Lever 1984; closed forms of A. B. P. Lever, Inorganic Electronic Spectroscopy, 1984 [M]), checked on engine bands and on the fitted B.
+        // closed forms of A. B. P. Lever, Inorganic Electronic Spectroscopy, 2nd ed., 1984, from memory), checked on engine bands and on the fitted B.
         for (dn, labels, r) in [
             (3, ["4T2g", "4T1g(F)", "4T1g(P)"], 4.5),
             (8, ["3T2g", "3T1g(F)", "3T1g(P)"], 4.709),
@@ -1080,16 +1081,16 @@ mod tests {
 
     #[test]
     fn two_band_closed_forms() {
-        // d3 from ν1, ν2: B = (ν2 − ν1)(ν2 − 2ν1)/(15ν2 − 27ν1) (closed forms of A. B. P. Lever, Inorganic Electronic Spectroscopy, 1984 [C], equivalent to
-        // Lever 1968). [Cr(H2O)6]3+ 17 400, 24 600 → B = 728.6 (band data of A. B. P. Lever, Inorganic Electronic Spectroscopy, 1984, from memory).
+        // d3 from ν1, ν2: B = (ν2 − ν1)(ν2 − 2ν1)/(15ν2 − 27ν1) (closed forms of A. B. P. Lever, Inorganic Electronic Spectroscopy, 2nd ed., 1984,
+        // from memory; equivalent to Lever, J. Chem. Educ. 1968, 45, 711). [Cr(H2O)6]3+ 17 400, 24 600 → B = 728.6 (band data of A. B. P. Lever, Inorganic Electronic Spectroscopy, 1984, from memory).
         let (n1, n2) = (17_400.0, 24_600.0);
         let closed = (n2 - n1) * (n2 - 2.0 * n1) / (15.0 * n2 - 27.0 * n1);
         let out = fit_bands(&request(3, Geometry::Octahedral, vec![n1, n2])).unwrap();
         assert_relative_eq!(out.best.b.unwrap(), closed, max_relative = 1e-6);
         assert_relative_eq!(closed, 728.6, epsilon = 0.05);
         // d2/d7-HS from ν1 = ν(T2g), ν3 = ν(T1g(P)), a = 2ν1 − ν3:
-        // B = [−48a + √(2880ν3² − 576a²)]/1440, 10Dq = a + 15B (closed forms of A. B. P. Lever, Inorganic Electronic Spectroscopy, 1984 [C]);
-        // [V(H2O)6]3+ 17 800, 25 700 (Lever 1984 [M]).
+        // B = [−48a + √(2880ν3² − 576a²)]/1440, 10Dq = a + 15B (closed forms of Lever 1984, from memory);
+        // [V(H2O)6]3+ 17 800, 25 700 (band data of Lever 1984, from memory).
         let (n1, n3): (f64, f64) = (17_800.0, 25_700.0);
         let a = 2.0 * n1 - n3;
         let b = (-48.0 * a + (2880.0 * n3 * n3 - 576.0 * a * a).sqrt()) / 1440.0;
@@ -1113,8 +1114,8 @@ mod tests {
     #[test]
     fn low_spin_d6_exceeds_first_order_b() {
         // First-order strong-field forms E(1T1g) = 10Dq − C, E(1T2g) = 10Dq + 16B − C give
-        // B ≈ (ν2 − ν1)/16 and underestimate B by ≈15–20 % (closed forms of A. B. P. Lever, Inorganic Electronic Spectroscopy, 1984 [C]; forms Lever
-        // 1984 [M]). [Co(NH3)6]3+ 21 000, 29 500: first-order 531, full fit 634.8 at C = 4.8B.
+        // B ≈ (ν2 − ν1)/16 and underestimate B by ≈15–20 % (forms of A. B. P. Lever, Inorganic Electronic Spectroscopy, 2nd ed., 1984,
+        // from memory; the 15–20 % is computed from the two fits below). [Co(NH3)6]3+ 21 000, 29 500: first-order 531, full fit 634.8 at C = 4.8B.
         let mut r = request(6, Geometry::Octahedral, vec![21_000.0, 29_500.0]);
         r.c_over_b = Some(4.8);
         let out = fit_bands(&r).unwrap();

@@ -5,7 +5,7 @@
 /// is flagged (common practice: 3d complexes have B ≈ 400–1100, 4d/5d lower).
 pub const PLAUSIBLE_B: (f64, f64) = (100.0, 1500.0);
 
-/// Range of fitted C/B treated as plausible (free-ion C is about 4–5 B, W. L. Jolly, Modern Inorganic Chemistry, 1989, and the Griffith 1961 / Lever 1984 B₀ tables, from memory [M];
+/// Range of fitted C/B treated as plausible (free-ion C is about 4–5 B, W. L. Jolly, Modern Inorganic Chemistry, 1989, and the Griffith 1961 / Lever 1984 B₀ tables, from memory;
 /// the margins are this tool's choice).
 pub const PLAUSIBLE_C_OVER_B: (f64, f64) = (3.0, 6.0);
 
