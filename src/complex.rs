@@ -20,7 +20,7 @@ use crate::engine::{
 };
 use crate::error::{Error, Result};
 use crate::estimate::{
-    self, BondChange, Calibration, Reliability, SpinChoice, SpinGeometry, CALIBRATION,
+    self, BondChange, Calibration, Reliability, SpinDecision, SpinGeometry, CALIBRATION,
 };
 use crate::param::Param;
 use crate::tables::{
@@ -236,7 +236,7 @@ pub struct ResolvedComplex {
     /// How the two spin states differ in bond length and field.
     pub spin_geometry: SpinGeometry,
     /// The spin state the two fields imply; None when the spin cannot change (or Δ is nominal).
-    pub spin_choice: Option<SpinChoice>,
+    pub spin_choice: Option<SpinDecision>,
     /// The model constants used.
     pub calibration: Calibration,
     /// How defaults were filled in and where the estimate is weak, one sentence each.

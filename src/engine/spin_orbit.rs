@@ -38,14 +38,6 @@ pub struct SpinOrbitSolution {
 }
 
 impl SpinOrbitSolution {
-    /// Lowest energy of all states (cm⁻¹).
-    pub fn ground_energy(&self) -> f64 {
-        self.blocks
-            .iter()
-            .flat_map(|b| b.energies.iter().copied())
-            .fold(f64::INFINITY, f64::min)
-    }
-
     /// Total number of states.
     pub fn state_count(&self) -> usize {
         self.blocks.iter().map(|b| b.energies.len()).sum()
