@@ -35,6 +35,18 @@ pub enum SpinKind {
     Low,
 }
 
+impl SpinKind {
+    /// "high spin", "low spin", "intermediate spin" or "only spin state".
+    pub fn phrase(self) -> &'static str {
+        match self {
+            SpinKind::Only => "only spin state",
+            SpinKind::High => "high spin",
+            SpinKind::Intermediate => "intermediate spin",
+            SpinKind::Low => "low spin",
+        }
+    }
+}
+
 /// A possible ground spin state of d^n in a geometry.
 #[derive(Debug, Clone, Copy, PartialEq, Eq)]
 pub struct SpinCandidate {
