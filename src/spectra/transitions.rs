@@ -45,6 +45,16 @@ impl SpinKind {
             SpinKind::Low => "low spin",
         }
     }
+
+    /// "high-spin", "low-spin", "intermediate-spin" or "only", as in "the high-spin state".
+    pub fn adjective(self) -> &'static str {
+        match self {
+            SpinKind::Only => "only",
+            SpinKind::High => "high-spin",
+            SpinKind::Intermediate => "intermediate-spin",
+            SpinKind::Low => "low-spin",
+        }
+    }
 }
 
 /// A possible ground spin state of d^n in a geometry.
