@@ -92,7 +92,7 @@ pub fn prediction(p: &Prediction) -> Evidence {
                     if side == Support::Low { "low-spin" } else { "high-spin" },
                     m.uncertainty_percent
                 );
-                if cx.notes.iter().any(|n| n.starts_with("back-bonding")) {
+                if cx.back_bonding {
                     detail.push_str("; back-bonding of the π acceptors included");
                 }
                 (
