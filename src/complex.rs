@@ -20,7 +20,7 @@ use crate::engine::{
 };
 use crate::error::{Error, Result};
 use crate::estimate::{
-    self, BondChange, Calibration, Reliability, SpinChoice, SpinGeometry, CALIBRATION,
+    self, BondChange, Calibration, Reliability, SpinDecision, SpinGeometry, CALIBRATION,
 };
 use crate::param::Param;
 use crate::tables::{
@@ -236,9 +236,11 @@ pub struct ResolvedComplex {
     /// How the two spin states differ in bond length and field.
     pub spin_geometry: SpinGeometry,
     /// The spin state the two fields imply; None when the spin cannot change (or Δ is nominal).
-    pub spin_choice: Option<SpinChoice>,
+    pub spin_choice: Option<SpinDecision>,
     /// The model constants used.
     pub calibration: Calibration,
+    /// True when π back-bonding was added to f̄ (π acceptors on an ion below +3, Δ not given).
+    pub back_bonding: bool,
     /// How defaults were filled in and where the estimate is weak, one sentence each.
     pub notes: Vec<String>,
     /// Handling cautions for the metal and ligands (empty when none apply).
@@ -375,7 +377,8 @@ impl ComplexSpec {
             )
             .needing([Param::DataDir]));
         }
-        if back_bonding && self.overrides.delta.is_none() {
+        let back_bonding_added = back_bonding && self.overrides.delta.is_none();
+        if back_bonding_added {
             let acceptors: Vec<&str> = bound
                 .iter()
                 .filter(|b| estimate::ligand_terms(&b.ligand).1 > 0.0)
@@ -628,6 +631,7 @@ impl ComplexSpec {
             spin_geometry,
             spin_choice,
             calibration: *cal,
+            back_bonding: back_bonding_added,
             notes,
             cautions,
         })
@@ -802,6 +806,23 @@ mod tests {
 
     /// Rule of average environment over donor atoms (common practice): [Ni(en)2(H2O)2]2+ has
     /// f̄ = (4 × 1.28 + 2 × 1.00)/6.
+    /// π back-bonding is added to f̄ only for π acceptors on an ion below +3 (common practice):
+    /// [Fe(CN)6]4− gets it, [Fe(H2O)6]2+ and [Co(CN)6]3− do not, and the flag agrees with the
+    /// note that explains it.
+    #[test]
+    fn back_bonding_flag_follows_the_acceptors_and_the_charge() {
+        for (m, ox, l, expected) in [
+            ("Fe", 2, "CN:6", true),
+            ("Fe", 2, "H2O:6", false),
+            ("Co", 3, "CN:6", false),
+        ] {
+            let c = resolve(m, ox, "oct", &[l]).unwrap();
+            assert_eq!(c.back_bonding, expected, "{m}({ox}) {l}");
+            let noted = c.notes.iter().any(|n| n.starts_with("back-bonding"));
+            assert_eq!(noted, expected, "{m}({ox}) {l}");
+        }
+    }
+
     #[test]
     fn average_environment_counts_donor_atoms() {
         let c = resolve("Ni", 2, "oct", &["en:2", "H2O:2"]).unwrap();

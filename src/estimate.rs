@@ -288,7 +288,7 @@ pub fn reference_delta(
 
 /// The spin state implied by the two states' fields.
 #[derive(Debug, Clone, Copy, PartialEq)]
-pub struct SpinChoice {
+pub struct SpinDecision {
     /// Δ_HS/B and Δ_LS/B.
     pub delta_over_b_high_spin: f64,
     pub delta_over_b_low_spin: f64,
@@ -311,7 +311,7 @@ pub fn choose_spin(
     b: f64,
     cross: &Crossover,
     cal: &Calibration,
-) -> Option<SpinChoice> {
+) -> Option<SpinDecision> {
     let (xc, slope) = (cross.delta_over_b?, cross.slope?);
     let mean = 0.5 * (x_high_spin + x_low_spin);
     let jt = |irrep: Option<Irrep>, x: f64| -> f64 {
@@ -331,7 +331,7 @@ pub fn choose_spin(
     } else {
         SpinState::Low
     };
-    Some(SpinChoice {
+    Some(SpinDecision {
         delta_over_b_high_spin: x_high_spin,
         delta_over_b_low_spin: x_low_spin,
         delta_over_b_mean: mean,

@@ -107,8 +107,8 @@ pub enum Param {
     ChiM,
     ChiMCorrected,
     ChiMT,
-    /// χ_M·T of a pure spin state ("high-spin", "low-spin").
-    ChiMTOfState(&'static str),
+    /// χ_M·T of a pure spin state (High or Low).
+    ChiMTOfState(crate::spectra::SpinKind),
     /// One point of a χ_M·T curve: temperature (K) and line of its file.
     ChiMTAt {
         temperature: f64,
@@ -255,7 +255,9 @@ impl Param {
             Param::ChiM => "χ_M",
             Param::ChiMCorrected => "χ_M corrected",
             Param::ChiMT => "χ_M·T",
-            Param::ChiMTOfState(state) => return format!("χ_M·T of the {state} state"),
+            Param::ChiMTOfState(state) => {
+                return format!("χ_M·T of the {} state", state.adjective())
+            }
             Param::ChiMTAt { temperature, line } => {
                 return format!("χ_M·T at {temperature} K (line {line})")
             }

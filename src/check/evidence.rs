@@ -92,7 +92,7 @@ pub fn prediction(p: &Prediction) -> Evidence {
                     if side == Support::Low { "low-spin" } else { "high-spin" },
                     m.uncertainty_percent
                 );
-                if cx.notes.iter().any(|n| n.starts_with("back-bonding")) {
+                if cx.back_bonding {
                     detail.push_str("; back-bonding of the π acceptors included");
                 }
                 (
@@ -165,7 +165,10 @@ fn from_moment(
         .map(|s| {
             format!(
                 "{} {} {:.2}–{:.2} μB",
-                s.state, s.ground_term, s.window.0, s.window.1
+                s.state.phrase(),
+                s.ground_term,
+                s.window.0,
+                s.window.1
             )
         })
         .collect::<Vec<_>>()
@@ -185,9 +188,9 @@ fn from_moment(
     let cmp = compare::compare(mu, states);
     let mut fraction = None;
     let (supports, strength) = match cmp.verdict {
-        compare::MomentVerdict::Supports(i) => match cmp.states[i].state.as_str() {
-            "high spin" => (Support::High, Strength::Strong),
-            "low spin" => (Support::Low, Strength::Strong),
+        compare::MomentVerdict::Supports(i) => match cmp.states[i].state {
+            SpinKind::High => (Support::High, Strength::Strong),
+            SpinKind::Low => (Support::Low, Strength::Strong),
             _ => (Support::Only, Strength::Strong),
         },
         compare::MomentVerdict::Ambiguous => (Support::Both, Strength::None),

@@ -350,7 +350,7 @@ pub struct StructureOutcome {
     pub mean_distance: Option<f64>,
     /// The bond-length verdict of the centre (see
     /// [`crate::structure::centre::spin_state_from_bonds`]).
-    pub spin_state_from_bonds: &'static str,
+    pub spin_state_from_bonds: crate::structure::centre::BondVerdict,
     /// Label of the ground level of the field at the real geometry.
     pub ground: String,
     /// Twice the ground spin of that field.

@@ -4,6 +4,7 @@ use super::Failure;
 use spinstate::complex::LigandCount;
 use spinstate::engine::{Calculation, Geometry};
 use spinstate::report::Render;
+use spinstate::spectra::SpinKind;
 use spinstate::tables::DataSet;
 use spinstate::Param;
 use std::path::{Path, PathBuf};
@@ -571,8 +572,8 @@ pub fn flag_of(param: &Param, cmd: Cmd) -> Option<&'static str> {
         Param::Entropy if cmd == ScoCurve => "--ds",
         Param::Cooperativity if cmd == ScoCurve => "--gamma",
         Param::ResidualFraction if matches!(cmd, ScoCurve | ScoFit) => "--residual",
-        Param::ChiMTOfState("high-spin") if matches!(cmd, ScoCurve | ScoFit) => "--chit-hs",
-        Param::ChiMTOfState("low-spin") if matches!(cmd, ScoCurve | ScoFit) => "--chit-ls",
+        Param::ChiMTOfState(SpinKind::High) if matches!(cmd, ScoCurve | ScoFit) => "--chit-hs",
+        Param::ChiMTOfState(SpinKind::Low) if matches!(cmd, ScoCurve | ScoFit) => "--chit-ls",
         Param::Curve | Param::InputFile if matches!(cmd, ScoFit | Check) => "--input",
         // Bands
         Param::Bands | Param::Band | Param::BandPosition(_) | Param::NumberOfBands

@@ -44,8 +44,8 @@ pub fn run(args: &Args) -> Result<Output, Failure> {
             c_over_b: r,
             delta_over_b: x.delta_over_b,
             limit: x.limit,
-            high_spin_term: x.high_spin.term.clone(),
-            low_spin_term: x.low_spin.as_ref().map(|l| l.term.clone()),
+            high_spin_term: x.high_spin.term.to_string(),
+            low_spin_term: x.low_spin.as_ref().map(|l| l.term.to_string()),
             high_spin_s: x.high_spin.two_s as f64 / 2.0,
             low_spin_s: x.low_spin.as_ref().map(|l| l.two_s as f64 / 2.0),
         });

@@ -28,7 +28,7 @@ pub fn run(args: &Args) -> Result<Output, Failure> {
                 parent: spinstate::engine::Term::text_of(l.parent_term),
                 spin_allowed: l.multiplicity() == g,
                 s_squared: Some(l.s_squared),
-                from_level: Some(l.parent_level.clone()),
+                from_level: Some(l.parent_level.to_string()),
                 weight: Some(l.weight),
             })
             .collect();

@@ -122,19 +122,29 @@ pub fn one_centre(
     Ok(found.remove(0))
 }
 
-/// A metal-choice error with the options that fix it.
+/// A metal-choice error of [`Structure::select_metals`] with the options that fix it, led by
+/// the structure's name unless the error already names it (no metal atom at all, or an
+/// unknown metal label, whose message lists the metals of that structure).
 pub fn with_options(s: &Structure, e: spinstate::Error) -> Failure {
+    use spinstate::{Error, NameKind};
     let hint = match &e {
-        spinstate::Error::InvalidParameter { .. } | spinstate::Error::Unknown { .. } => {
+        Error::InvalidParameter { .. } | Error::Unknown { .. } => {
             " (choose with --metal-index N or --metal-label LABEL)"
         }
         _ => "",
     };
-    let msg = e.to_string();
-    Failure::usage(if msg.contains(&s.name) {
-        format!("{msg}{hint}")
+    let names_structure = matches!(
+        &e,
+        Error::Parse(_)
+            | Error::Unknown {
+                kind: NameKind::MetalLabel { .. },
+                ..
+            }
+    );
+    Failure::usage(if names_structure {
+        format!("{e}{hint}")
     } else {
-        format!("{}: {msg}{hint}", s.name)
+        format!("{}: {e}{hint}", s.name)
     })
 }
 

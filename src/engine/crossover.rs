@@ -3,7 +3,7 @@
 
 use super::field::LigandField;
 use super::geometry::Geometry;
-use super::labels::{Irrep, Term};
+use super::labels::{Irrep, LevelLabel, Term};
 use super::levels::Calculation;
 use crate::error::{require_finite, Error, Result};
 use crate::param::Param;
@@ -49,8 +49,8 @@ const WEAK_FIELD: f64 = 1.0;
 pub struct SpinGround {
     /// Twice the total spin S.
     pub two_s: i32,
-    /// Label with multiplicity, e.g. "5T2g".
-    pub term: String,
+    /// Label with multiplicity, e.g. 5T2g.
+    pub term: LevelLabel,
     /// The irrep of that level (T2g).
     pub irrep: Irrep,
     /// Free-ion parent term, e.g. 5D (None when the level could not be labelled).
@@ -131,7 +131,7 @@ fn ground_state(dn: usize, geometry: Geometry, c_over_b: f64, x: f64) -> Result<
     let g = spectrum.ground();
     Ok(SpinGround {
         two_s: g.two_s,
-        term: g.label(),
+        term: g.level_label(),
         irrep: g.irrep,
         parent: g.parent,
     })

@@ -58,6 +58,33 @@ impl fmt::Display for Term {
     }
 }
 
+/// A spin-free level label ^{2S+1}Γ in the ligand field: twice the total spin and the irrep,
+/// shown "4T1g".
+#[derive(Debug, Clone, Copy, PartialEq, Eq, Hash)]
+pub struct LevelLabel {
+    /// Twice the total spin S.
+    pub two_s: i32,
+    /// Mulliken label of the orbital part (or the L of a free ion).
+    pub irrep: Irrep,
+}
+
+impl LevelLabel {
+    pub fn new(two_s: i32, irrep: Irrep) -> Self {
+        LevelLabel { two_s, irrep }
+    }
+
+    /// Spin multiplicity 2S + 1.
+    pub fn multiplicity(self) -> i32 {
+        self.two_s + 1
+    }
+}
+
+impl fmt::Display for LevelLabel {
+    fn fmt(&self, f: &mut fmt::Formatter<'_>) -> fmt::Result {
+        write!(f, "{}{}", self.multiplicity(), self.irrep)
+    }
+}
+
 /// "4F" → 2S = 3, L = 3.
 impl FromStr for Term {
     type Err = String;

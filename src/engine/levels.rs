@@ -6,7 +6,7 @@
 
 use super::field::LigandField;
 use super::hermitian::{add_field, add_scaled, eigen_unsorted, eigenvalues};
-use super::labels::{Irrep, Species, Term};
+use super::labels::{Irrep, LevelLabel, Species, Term};
 use super::shell::{shell, Shell, SpinBlock};
 use super::symmetry::{Characters, PointGroup};
 use crate::error::{num, require_finite, Error, Result};
@@ -87,7 +87,12 @@ impl Level {
 
     /// Full label such as "4T1g".
     pub fn label(&self) -> String {
-        format!("{}{}", self.multiplicity(), self.irrep)
+        self.level_label().to_string()
+    }
+
+    /// The typed label: 2S and the irrep.
+    pub fn level_label(&self) -> LevelLabel {
+        LevelLabel::new(self.two_s, self.irrep)
     }
 
     /// Total spin S.

@@ -25,7 +25,7 @@ pub use crossover::{
 pub use diagram::{diagram, Diagram, Series};
 pub use field::LigandField;
 pub use geometry::Geometry;
-pub use labels::{Irrep, Species, Term};
+pub use labels::{Irrep, LevelLabel, Species, Term};
 pub use levels::{Calculation, Level, Spectrum};
 pub use spin_orbit::{SpinOrbitLevel, SpinOrbitSolution};
 pub use symmetry::PointGroup;

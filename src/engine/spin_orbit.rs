@@ -10,7 +10,7 @@
 
 use super::basis::time_reversed;
 use super::hermitian::{add_field, add_scaled, eigen};
-use super::labels::{Irrep, Term};
+use super::labels::{Irrep, LevelLabel, Term};
 use super::levels::Calculation;
 use super::shell::{shell, SpinOrbitBlock};
 use super::symmetry::{double_group_labels, Characters, PointGroup, Rotation};
@@ -39,14 +39,6 @@ pub struct SpinOrbitSolution {
 }
 
 impl SpinOrbitSolution {
-    /// Lowest energy of all states (cm⁻¹).
-    pub fn ground_energy(&self) -> f64 {
-        self.blocks
-            .iter()
-            .flat_map(|b| b.energies.iter().copied())
-            .fold(f64::INFINITY, f64::min)
-    }
-
     /// Total number of states.
     pub fn state_count(&self) -> usize {
         self.blocks.iter().map(|b| b.energies.len()).sum()
@@ -66,8 +58,8 @@ pub struct SpinOrbitLevel {
     /// accidental degeneracy (shown "Γ6g+Γ7g" by [`Irrep::sum_text`]), none when the group is
     /// C1 or the characters do not decompose (shown "?").
     pub irrep: Vec<Irrep>,
-    /// Spin-free level with the largest weight, e.g. "4T1g".
-    pub parent_level: String,
+    /// Spin-free level with the largest weight, e.g. 4T1g.
+    pub parent_level: LevelLabel,
     /// Free-ion term of that spin-free level, e.g. 4F (None when it could not be labelled).
     pub parent_term: Option<Term>,
     /// Weight (0..1) of that spin-free level in the states.
@@ -307,7 +299,7 @@ impl Calculation {
                 degeneracy: group.len(),
                 irrep,
                 s_squared: group.iter().map(|s| s.1).sum::<f64>() / n,
-                parent_level: pl.label(),
+                parent_level: pl.level_label(),
                 parent_term: pl.parent,
                 weight: wsum / n,
             });

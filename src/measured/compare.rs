@@ -22,6 +22,7 @@ use super::Measured;
 use crate::engine::{Calculation, Geometry, Irrep, Species, Term};
 use crate::error::{Error, Result};
 use crate::param::Param;
+use crate::spectra::SpinKind;
 use crate::tables::moment_ranges::MomentRangeTable;
 
 /// C/B used to find the ground terms (a typical 3d value; the ground terms do not depend on it
@@ -107,8 +108,9 @@ pub enum Orbital {
 /// Expectation for one spin state.
 #[derive(Debug, Clone, PartialEq)]
 pub struct StateExpectation {
-    /// "high spin", "low spin" or "only spin state".
-    pub state: String,
+    /// High, Low or Only (shown "high spin", "low spin" or "only spin state" by
+    /// [`SpinKind::phrase`]).
+    pub state: SpinKind,
     /// 2S.
     pub two_s: i32,
     /// Ground term from the engine, e.g. "5Eg".
@@ -314,11 +316,11 @@ pub fn expectations(
     let weak = ground_at(spec.dn, spec.geometry, WEAK_DELTA_OVER_B)?;
     let strong = ground_at(spec.dn, spec.geometry, STRONG_DELTA_OVER_B)?;
     let zeta = zeta_of(spec, weak.two_s)?;
-    let mut grounds = vec![(weak.clone(), "high spin")];
+    let mut grounds = vec![(weak.clone(), SpinKind::High)];
     if strong.two_s != weak.two_s {
-        grounds.push((strong, "low spin"));
+        grounds.push((strong, SpinKind::Low));
     } else {
-        grounds[0].1 = "only spin state";
+        grounds[0].1 = SpinKind::Only;
     }
     let mut out = Vec::new();
     for (level, state) in grounds {
@@ -338,7 +340,7 @@ pub fn expectations(
             }
             _ => None,
         };
-        let spin_orbit_corrected = match (orbital, lambda, spec.dq_of(state == "low spin")) {
+        let spin_orbit_corrected = match (orbital, lambda, spec.dq_of(state == SpinKind::Low)) {
             (Orbital::SecondOrder { alpha }, Some(l), Some(dq)) => {
                 Some(spin_only * (1.0 - alpha * l / (10.0 * dq)))
             }
@@ -368,7 +370,7 @@ pub fn expectations(
             ),
             _ => {}
         }
-        if state == "low spin" && spec.geometry == Geometry::Tetrahedral {
+        if state == SpinKind::Low && spec.geometry == Geometry::Tetrahedral {
             notes.push("low-spin tetrahedral complexes are very rare (Δt is small)".into());
         }
         let (computed, computed_delta_over_b) = match (orbital, zeta, spec.temperature) {
@@ -399,7 +401,7 @@ pub fn expectations(
         let lo = points.iter().copied().fold(f64::INFINITY, f64::min);
         let hi = points.iter().copied().fold(f64::NEG_INFINITY, f64::max);
         out.push(StateExpectation {
-            state: state.to_string(),
+            state,
             two_s: level.two_s,
             ground_term: level.label(),
             parent: level.parent,
@@ -430,10 +432,10 @@ pub fn compare(measured: Measured, states: Vec<StateExpectation>) -> Comparison 
         .map(|(i, _)| i)
         .collect();
     let describe = |s: &StateExpectation| {
-        let name = match s.state.as_str() {
-            "high spin" => "high-spin state",
-            "low spin" => "low-spin state",
-            other => other,
+        let name = match s.state {
+            SpinKind::High => "high-spin state",
+            SpinKind::Low => "low-spin state",
+            other => other.phrase(),
         };
         format!("{name} (S = {}, {})", spin_text(s.two_s), s.ground_term)
     };
@@ -614,7 +616,7 @@ mod tests {
         // d8 octahedral has one spin state only.
         let d8 = expectations(&spec(8, Geometry::Octahedral, None, None), ranges()).unwrap();
         assert_eq!(d8.len(), 1);
-        assert_eq!(d8[0].state, "only spin state");
+        assert_eq!(d8[0].state.phrase(), "only spin state");
         let c = compare(Measured::new(Param::MuEff, 1.0, 0.1).unwrap(), d8);
         assert_eq!(c.verdict, MomentVerdict::Outside);
         assert!(c.message.contains("below"));

@@ -197,7 +197,7 @@ impl MeasuredMomentReport {
             geometry: geometry.to_string(),
             verdict: c.verdict.name().to_string(),
             supported_state: match c.verdict {
-                MomentVerdict::Supports(i) => Some(c.states[i].state.clone()),
+                MomentVerdict::Supports(i) => Some(c.states[i].state.phrase().to_string()),
                 _ => None,
             },
             message: c.message.clone(),
@@ -205,7 +205,7 @@ impl MeasuredMomentReport {
                 .states
                 .iter()
                 .map(|s| StateRow {
-                    state: s.state.clone(),
+                    state: s.state.phrase().to_string(),
                     spin: f64::from(s.two_s) / 2.0,
                     ground_term: s.ground_term.clone(),
                     parent: crate::engine::Term::text_of(s.parent),

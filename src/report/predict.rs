@@ -322,7 +322,7 @@ impl PredictReport {
         let both = |a: &Parameter, b: &Parameter| used(a).zip(used(b)).map(|(x, y)| x / y);
         let state = |s: &crate::engine::SpinGround| StateRow {
             spin: s.two_s as f64 / 2.0,
-            term: s.term.clone(),
+            term: s.term.to_string(),
             parent: crate::engine::Term::text_of(s.parent),
         };
         let mut cautions = c.cautions.clone();

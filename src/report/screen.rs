@@ -324,8 +324,8 @@ impl ScreenReport {
                     dn: i.ion.dn,
                     c_over_b: i.c_over_b,
                     crossover_delta_over_b: i.crossover_delta_over_b,
-                    high_spin_term: i.crossover.high_spin.term.clone(),
-                    low_spin_term: i.crossover.low_spin.as_ref().map(|g| g.term.clone()),
+                    high_spin_term: i.crossover.high_spin.term.to_string(),
+                    low_spin_term: i.crossover.low_spin.as_ref().map(|g| g.term.to_string()),
                 })
                 .collect(),
             filters: FilterRow {

@@ -114,7 +114,7 @@ impl CentreRow {
                     mean_distance: m.mean_distance,
                     low_spin_range: m.reference.map(|r| [r.0 .0, r.0 .1]),
                     high_spin_range: m.reference.map(|r| [r.1 .0, r.1 .1]),
-                    supports: m.supports.to_string(),
+                    supports: m.supports.name().to_string(),
                     detail: m.detail.clone(),
                 })
                 .collect(),

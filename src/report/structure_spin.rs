@@ -72,7 +72,7 @@ impl StructureSpinReport {
         centre: &str,
         composition: String,
         s: &StructureSpin,
-        bonds_verdict: &str,
+        bonds_verdict: crate::structure::centre::BondVerdict,
         notes: Vec<String>,
     ) -> Self {
         let f = &s.field;

@@ -15,6 +15,7 @@ use super::model::{spin_entropy, Branch, Transition, GAS_CONSTANT};
 use crate::error::{Error, Result};
 use crate::least_squares::Residuals;
 use crate::param::Param;
+use crate::spectra::SpinKind;
 use levenberg_marquardt::LevenbergMarquardt;
 use nalgebra::{DMatrix, DVector};
 
@@ -300,7 +301,10 @@ pub fn fit(req: &FitRequest) -> Result<FitResult> {
         PureState::Fixed(v) => (*v, *v),
         PureState::Within { lo, hi, .. } => (*lo, *hi),
     };
-    for (what, state) in [("high-spin", &req.chit_hs), ("low-spin", &req.chit_ls)] {
+    for (what, state) in [
+        (SpinKind::High, &req.chit_hs),
+        (SpinKind::Low, &req.chit_ls),
+    ] {
         let possible = |v: f64| (0.0..=MAX_PURE_CHI_T).contains(&v);
         let ok = match state {
             PureState::Fixed(v) => possible(*v),
@@ -631,13 +635,18 @@ pub fn fit(req: &FitRequest) -> Result<FitResult> {
         }
     }
     let mut notes = Vec::new();
-    for (what, state) in [("high-spin", &req.chit_hs), ("low-spin", &req.chit_ls)] {
+    for (what, state) in [
+        (SpinKind::High, &req.chit_hs),
+        (SpinKind::Low, &req.chit_ls),
+    ] {
         match state {
             PureState::Fixed(v) => notes.push(format!(
-                "χ_M·T of the {what} state fixed at {v} cm³ K mol⁻¹"
+                "χ_M·T of the {} state fixed at {v} cm³ K mol⁻¹",
+                what.adjective()
             )),
             PureState::Within { lo, hi, why } => notes.push(format!(
-                "χ_M·T of the {what} state fitted within {lo:.3}–{hi:.3} cm³ K mol⁻¹ ({why})"
+                "χ_M·T of the {} state fitted within {lo:.3}–{hi:.3} cm³ K mol⁻¹ ({why})",
+                what.adjective()
             )),
         }
     }

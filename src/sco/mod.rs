@@ -10,6 +10,7 @@ use crate::engine::{crossover, tanabe_sugano_c_over_b, Geometry};
 use crate::error::{Error, Result};
 use crate::measured::compare::{self, MomentQuery, SpinOrbit};
 use crate::param::Param;
+use crate::spectra::SpinKind;
 use crate::tables::moment_ranges::MomentRangeTable;
 use crate::units::{moment_factor_cgs, spin_only_chi_t_cgs};
 
@@ -57,11 +58,11 @@ pub fn pure_state_ranges(
     let to_chi_t = |(lo, hi): (f64, f64)| ((lo / f).powi(2), (hi / f).powi(2));
     let hs = states
         .iter()
-        .find(|s| s.state == "high spin")
+        .find(|s| s.state == SpinKind::High)
         .ok_or_else(|| Error::Computation("no high-spin expectation".into()))?;
     let ls = states
         .iter()
-        .find(|s| s.state == "low spin")
+        .find(|s| s.state == SpinKind::Low)
         .ok_or_else(|| Error::Computation("no low-spin expectation".into()))?;
     let (ls_lo, ls_hi) = to_chi_t(ls.window);
     Ok(PureStateRanges {

@@ -35,6 +35,28 @@ pub enum SpinKind {
     Low,
 }
 
+impl SpinKind {
+    /// "high spin", "low spin", "intermediate spin" or "only spin state".
+    pub fn phrase(self) -> &'static str {
+        match self {
+            SpinKind::Only => "only spin state",
+            SpinKind::High => "high spin",
+            SpinKind::Intermediate => "intermediate spin",
+            SpinKind::Low => "low spin",
+        }
+    }
+
+    /// "high-spin", "low-spin", "intermediate-spin" or "only", as in "the high-spin state".
+    pub fn adjective(self) -> &'static str {
+        match self {
+            SpinKind::Only => "only",
+            SpinKind::High => "high-spin",
+            SpinKind::Intermediate => "intermediate-spin",
+            SpinKind::Low => "low-spin",
+        }
+    }
+}
+
 /// A possible ground spin state of d^n in a geometry.
 #[derive(Debug, Clone, Copy, PartialEq, Eq)]
 pub struct SpinCandidate {
@@ -515,15 +537,6 @@ pub fn jumps(
         .collect())
 }
 
-/// Text of a configuration such as "t2g^3 eg^0".
-pub fn configuration_text(sets: &[(String, Vec<usize>)], occ: &[u32]) -> String {
-    sets.iter()
-        .zip(occ)
-        .map(|((name, _), n)| format!("{name}^{n}"))
-        .collect::<Vec<_>>()
-        .join(" ")
-}
-
 #[cfg(test)]
 mod intensity_tests {
     use super::*;
@@ -625,7 +638,10 @@ mod tests {
         assert_eq!(sets[0].0, "e");
         assert_eq!(sets[1].0, "t2");
         let sets = orbital_sets(oct()).unwrap();
-        assert_eq!(configuration_text(&sets, &[6, 0]), "t2g^6 eg^0");
+        // Octahedral sets in order t2g, eg (a t2g^6 eg^0 configuration reads in this order).
+        assert_eq!(sets.len(), 2);
+        assert_eq!(sets[0].0, "t2g");
+        assert_eq!(sets[1].0, "eg");
     }
 
     #[test]

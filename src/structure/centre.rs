@@ -30,8 +30,8 @@ pub struct ElementMean {
     pub mean_distance: f64,
     /// Low- and high-spin reference ranges (Å), when the table has them.
     pub reference: Option<((f64, f64), (f64, f64))>,
-    /// "high-spin", "low-spin", "mixture", "both", "neither", or "none" (no reference).
-    pub supports: &'static str,
+    /// High, Low, Mixture, Both, Neither, or Nothing (no reference).
+    pub supports: Support,
     pub detail: String,
 }
 
@@ -57,7 +57,7 @@ pub struct Centre {
     pub shapes: Vec<(IdealShape, f64)>,
     pub best_shape: Option<IdealShape>,
     /// The combined bond-length verdict (see [`spin_state_from_bonds`]).
-    pub spin_state_from_bonds: &'static str,
+    pub spin_state_from_bonds: BondVerdict,
     pub notes: Vec<String>,
 }
 
@@ -80,18 +80,52 @@ impl Centre {
     }
 }
 
+/// The bond-length verdict of a centre, all donor elements taken together.
+#[derive(Debug, Clone, Copy, PartialEq, Eq)]
+pub enum BondVerdict {
+    /// Every element with a reference supports this (Nothing when none has one).
+    Agreed(Support),
+    /// The donor elements disagree.
+    Conflicting,
+}
+
+impl BondVerdict {
+    /// The name of the agreed [`Support`], or "conflicting".
+    pub fn name(self) -> &'static str {
+        match self {
+            BondVerdict::Agreed(s) => s.name(),
+            BondVerdict::Conflicting => "conflicting",
+        }
+    }
+
+    /// True for a verdict on one side or a mixture (high-spin, low-spin, mixture).
+    fn is_a_state(self) -> bool {
+        matches!(
+            self,
+            BondVerdict::Agreed(Support::High | Support::Low | Support::Mixture)
+        )
+    }
+}
+
+impl std::fmt::Display for BondVerdict {
+    fn fmt(&self, f: &mut std::fmt::Formatter<'_>) -> std::fmt::Result {
+        f.write_str(self.name())
+    }
+}
+
 /// Combines the verdicts of each donor element: the common one when all elements with a
-/// reference agree, "conflicting" when they do not, "none" when no element has a reference.
-pub fn spin_state_from_bonds(means: &[ElementMean]) -> &'static str {
-    let decided: Vec<&str> = means
+/// reference agree, conflicting when they do not, Nothing ("none") when no element has a
+/// reference.
+pub fn spin_state_from_bonds(means: &[ElementMean]) -> BondVerdict {
+    let decided: Vec<Support> = means
         .iter()
         .map(|m| m.supports)
-        .filter(|s| *s != Support::Nothing.name())
+        .filter(|s| *s != Support::Nothing)
         .collect();
     match decided.first() {
-        None => Support::Nothing.name(),
-        Some(first) if decided.iter().all(|s| s == first) => first,
-        Some(_) => "conflicting",
+        None => BondVerdict::Agreed(Support::Nothing),
+        Some(&first) if decided.iter().all(|&s| s == first) => BondVerdict::Agreed(first),
+        Some(_) => BondVerdict::Conflicting,
     }
 }
 
@@ -146,10 +180,10 @@ pub fn analyse(
                         format!("{}({})", m.element, roman(ox)),
                         e,
                     );
-                    (ev.supports.name(), ev.detail)
+                    (ev.supports, ev.detail)
                 }
                 (None, Some(ox)) => (
-                    Support::Nothing.name(),
+                    Support::Nothing,
                     format!(
                         "data/bond_lengths.csv has no low- and high-spin range for {}({})–{e}",
                         m.element,
@@ -157,7 +191,7 @@ pub fn analyse(
                     ),
                 ),
                 (_, None) => (
-                    Support::Nothing.name(),
+                    Support::Nothing,
                     "no oxidation state given (the reference ranges are per oxidation state)"
                         .into(),
                 ),
@@ -234,8 +268,8 @@ pub struct CentreChange {
     pub delta_r: Option<f64>,
     /// Change of Σ (degrees), six-coordinate centres.
     pub delta_sigma: Option<f64>,
-    pub state_from: &'static str,
-    pub state_to: &'static str,
+    pub state_from: BondVerdict,
+    pub state_to: BondVerdict,
     /// True when the bond-length verdict went from one spin state to the other (or to or from
     /// a mixture).
     pub switched: bool,
@@ -243,7 +277,6 @@ pub struct CentreChange {
 
 /// Compares the centres of two structures, matched by metal label (then by order).
 pub fn compare(from: (&str, &[Centre]), to: (&str, &[Centre])) -> Vec<CentreChange> {
-    let states = ["high-spin", "low-spin", "mixture"];
     let mut out = Vec::new();
     for (k, a) in from.1.iter().enumerate() {
         let b =
@@ -260,8 +293,8 @@ pub fn compare(from: (&str, &[Centre]), to: (&str, &[Centre])) -> Vec<CentreChan
             _ => None,
         };
         let switched = a.spin_state_from_bonds != b.spin_state_from_bonds
-            && states.contains(&a.spin_state_from_bonds)
-            && states.contains(&b.spin_state_from_bonds);
+            && a.spin_state_from_bonds.is_a_state()
+            && b.spin_state_from_bonds.is_a_state();
         out.push(CentreChange {
             label: a.label.clone(),
             from: from.0.to_string(),
