@@ -105,7 +105,10 @@ impl Calibration {
     }
 }
 
-/// Predicted ground-state spin.
+/// Predicted ground-state spin: the verdict of a prediction from Δ/B against the crossover,
+/// with its thermal window. Not to be confused with [`crate::spectra::SpinKind`], which names
+/// a state's place among the ground states a field can produce (only, high, intermediate,
+/// low) and has no crossover verdict.
 #[derive(Debug, Clone, Copy, PartialEq, Eq)]
 pub enum SpinState {
     /// The high-spin state is lower in energy at its own geometry.

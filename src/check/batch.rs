@@ -21,7 +21,8 @@
 //! Any other column is an error (a misspelt column must not be dropped silently).
 
 use super::{
-    BandInput, BondLengthInput, CheckError, CheckInput, MomentInput, MomentQuantity, Part,
+    BandInput, BondLengthInput, CheckError, CheckInput, EvidenceKind, MomentInput, MomentQuantity,
+    Part,
 };
 use crate::complex::{ComplexSpec, LigandCount, Overrides};
 use crate::engine::Geometry;
@@ -32,9 +33,9 @@ use crate::param::Param;
 use crate::spectra::count::{DEFAULT_RESOLUTION, DEFAULT_WINDOW_NM};
 
 /// Columns every file needs.
-pub const REQUIRED: [&str; 5] = ["name", "metal", "ox", "geometry", "ligands"];
+pub const REQUIRED: &[&str] = &["name", "metal", "ox", "geometry", "ligands"];
 /// Columns a file may have.
-pub const OPTIONAL: [&str; 27] = [
+pub const OPTIONAL: &[&str] = &[
     "delta",
     "b",
     "c",
@@ -62,6 +63,18 @@ pub const OPTIONAL: [&str; 27] = [
     "chit_file",
     "note",
     "source",
+];
+
+/// The kinds of evidence a batch row can carry, in the order of the batch report's columns
+/// (a row has no structure file, so no structure field). A new kind a row can carry is added
+/// here beside its columns in [`OPTIONAL`].
+pub const BATCH_KINDS: &[EvidenceKind] = &[
+    EvidenceKind::Prediction,
+    EvidenceKind::Evans,
+    EvidenceKind::Moment,
+    EvidenceKind::Bands,
+    EvidenceKind::BondLength,
+    EvidenceKind::Curve,
 ];
 
 /// One good row.

@@ -76,6 +76,19 @@ impl EvidenceKind {
         }
     }
 
+    /// The short column heading of this kind in the batch verdict table.
+    pub fn heading(self) -> &'static str {
+        match self {
+            EvidenceKind::Prediction => "prediction",
+            EvidenceKind::Evans => "evans",
+            EvidenceKind::Moment => "moment",
+            EvidenceKind::Bands => "bands",
+            EvidenceKind::BondLength => "bond length",
+            EvidenceKind::Curve => "χT(T) curve",
+            EvidenceKind::StructureField => "structure field",
+        }
+    }
+
     /// True for the model lines (the prediction and the structure's field): they never
     /// decide against a measurement.
     pub fn is_model(self) -> bool {

@@ -12,7 +12,7 @@
 
 use super::Render;
 use super::{fmt_num, new_table};
-use crate::check::batch::RowError;
+use crate::check::batch::{RowError, BATCH_KINDS};
 use crate::check::{CheckResult, EvidenceKind};
 use serde::Serialize;
 
@@ -300,15 +300,6 @@ pub struct BatchReport {
     pub safety: String,
 }
 
-const KINDS: [EvidenceKind; 6] = [
-    EvidenceKind::Prediction,
-    EvidenceKind::Evans,
-    EvidenceKind::Moment,
-    EvidenceKind::Bands,
-    EvidenceKind::BondLength,
-    EvidenceKind::Curve,
-];
-
 impl BatchReport {
     pub fn new(samples: Vec<CheckReport>, errors: Vec<RowErrorRow>) -> Self {
         BatchReport {
@@ -405,7 +396,7 @@ pub fn csv_header() -> Vec<String> {
     .iter()
     .map(|s| s.to_string())
     .collect();
-    header.extend(KINDS.iter().map(|k| k.name().replace('-', "_")));
+    header.extend(BATCH_KINDS.iter().map(|k| k.name().replace('-', "_")));
     header.extend(
         ["verdict", "confidence", "reasons", "recheck", "error"]
             .iter()
@@ -429,7 +420,7 @@ pub fn csv_record(row: BatchRow<'_>) -> Vec<String> {
                 opt(s.crossover_delta_over_b),
                 opt(s.margin_percent),
             ];
-            r.extend(KINDS.iter().map(|k| {
+            r.extend(BATCH_KINDS.iter().map(|k| {
                 let c = s.support_of(*k);
                 if c == "—" {
                     String::new()
@@ -448,7 +439,7 @@ pub fn csv_record(row: BatchRow<'_>) -> Vec<String> {
         }
         Err(e) => {
             let mut r = vec![e.row.to_string(), e.name.clone().unwrap_or_default()];
-            r.extend(std::iter::repeat_n(String::new(), 6 + KINDS.len()));
+            r.extend(std::iter::repeat_n(String::new(), 6 + BATCH_KINDS.len()));
             r.extend([
                 "error".to_string(),
                 String::new(),
@@ -464,17 +455,12 @@ pub fn csv_record(row: BatchRow<'_>) -> Vec<String> {
 /// The verdict table of some rows of a batch (one line per sample or bad row), then their
 /// reasons; a streamed batch prints one such table per chunk of rows.
 pub fn rows_table(rows: &[BatchRow<'_>]) -> String {
-    let mut t = new_table([
-        "sample",
-        "complex",
-        "prediction",
-        "evans",
-        "moment",
-        "bands",
-        "bond length",
-        "χT(T) curve",
-        "verdict",
-    ]);
+    let mut t = new_table(
+        ["sample", "complex"]
+            .into_iter()
+            .chain(BATCH_KINDS.iter().map(|k| k.heading()))
+            .chain(["verdict"]),
+    );
     for row in rows.iter().copied() {
         match row {
             Ok(s) => {
@@ -482,7 +468,7 @@ pub fn rows_table(rows: &[BatchRow<'_>]) -> String {
                     s.name.clone().unwrap_or_default(),
                     format!("{} {}", s.complex, s.ion),
                 ];
-                cells.extend(KINDS.iter().map(|k| s.support_of(*k)));
+                cells.extend(BATCH_KINDS.iter().map(|k| s.support_of(*k)));
                 cells.push(format!("{} ({})", s.verdict, s.confidence));
                 t.add_row(cells);
             }
@@ -491,7 +477,7 @@ pub fn rows_table(rows: &[BatchRow<'_>]) -> String {
                     e.name.clone().unwrap_or_else(|| format!("row {}", e.row)),
                     format!("bad row {}", e.row),
                 ];
-                cells.extend(KINDS.iter().map(|_| "—".to_string()));
+                cells.extend(BATCH_KINDS.iter().map(|_| "—".to_string()));
                 cells.push(format!("error in {}", e.column));
                 t.add_row(cells);
             }

@@ -22,7 +22,9 @@ pub fn default_c_over_b(dn: usize) -> (f64, Option<&'static str>) {
     (crate::engine::tanabe_sugano_c_over_b(dn), source)
 }
 
-/// Where a spin state sits among the ground states the field can produce.
+/// Where a spin state sits among the ground states the field can produce. A property of the
+/// state, not a prediction: the predicted verdict (high, crossover, low, fixed) is
+/// [`crate::estimate::SpinState`].
 #[derive(Debug, Clone, Copy, PartialEq, Eq)]
 pub enum SpinKind {
     /// The only spin of the ground state at any field strength (e.g. octahedral d³).
