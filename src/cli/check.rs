@@ -210,7 +210,7 @@ impl Args {
             ),
         ];
         let num = |x: Option<f64>| x.map(|v| v.to_string());
-        let optional: [(&'static str, Option<String>); 26] = [
+        let optional: Vec<(&'static str, Option<String>)> = vec![
             ("delta", num(self.delta)),
             ("b", num(self.b)),
             ("c", num(self.c)),

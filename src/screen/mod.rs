@@ -214,6 +214,11 @@ impl Screen {
                 .map(|(p, (_, n))| (*n as u32) << (4 * p))
                 .sum()
         });
+        let open = require.is_empty()
+            && forbid.is_empty()
+            && donor_key.is_none()
+            && self.filters.size.is_none()
+            && self.filters.kinds.is_none();
         self.compiled = Compiled {
             require,
             forbid,
@@ -221,6 +226,7 @@ impl Screen {
             donor_key,
             size: self.filters.size,
             kinds: self.filters.kinds,
+            open,
         };
         Ok(())
     }
@@ -599,6 +605,9 @@ impl Screen {
     #[inline]
     fn passes(&self, sphere: &Sphere, s: &Sums) -> bool {
         let c = &self.compiled;
+        if c.open {
+            return true;
+        }
         c.require.iter().all(|&i| sphere.contains(i))
             && !c.forbid.iter().any(|&i| sphere.contains(i))
             && c.donor_key.is_none_or(|k| k == s.donor_key)
@@ -702,27 +711,41 @@ impl Screen {
         state: &mut RunState,
         progress: &mut dyn FnMut(u64),
     ) {
+        // The finished runs plus the current one closed: every k after `last` starts a new
+        // run on top of it, so it is added once here instead of once per k (the same terms in
+        // the same order, so the same sums).
+        let closed = if node.count > 0 {
+            node.done.add_run(&self.pool[node.last], node.count)
+        } else {
+            node.done
+        };
         for k in start..self.pool.len() {
             let d = self.pool[k].denticity;
             if d > node.left || !fill[k][node.left - d] {
                 continue;
             }
-            let mut n = *node;
-            n.sphere.push(k);
-            if k == n.last {
-                n.count += 1;
-            } else {
-                if n.count > 0 {
-                    n.done = n.done.add_run(&self.pool[n.last], n.count);
+            let left = node.left - d;
+            let same = k == node.last;
+            if left == 0 {
+                let sums = if same {
+                    node.done.add_run(&self.pool[k], node.count + 1)
+                } else {
+                    closed.add_run(&self.pool[k], 1)
+                };
+                let mut sphere = node.sphere;
+                sphere.push(k);
+                self.visit(&sphere, &sums, 0, state, progress);
+            } else if (node.sphere.len as usize) + 1 < max_len {
+                let mut n = *node;
+                n.sphere.push(k);
+                if same {
+                    n.count += 1;
+                } else {
+                    n.done = closed;
+                    n.last = k;
+                    n.count = 1;
                 }
-                n.last = k;
-                n.count = 1;
-            }
-            n.left -= d;
-            if n.left == 0 {
-                let sums = n.done.add_run(&self.pool[k], n.count);
-                self.visit(&n.sphere, &sums, 0, state, progress);
-            } else if (n.sphere.len as usize) < max_len {
+                n.left = left;
                 self.walk(&n, k, fill, max_len, state, progress);
             }
         }

@@ -43,6 +43,8 @@ pub(super) struct Ranking {
     pub(super) keep: Keep,
     pub(super) heap: BinaryHeap<Hit>,
     pub(super) all: Vec<Hit>,
+    /// The score of the worst kept hit once the heap is full, updated on every change.
+    bar: Option<f64>,
 }
 
 impl Ranking {
@@ -55,6 +57,7 @@ impl Ranking {
             keep,
             heap: BinaryHeap::with_capacity(cap),
             all: Vec::new(),
+            bar: None,
         }
     }
 
@@ -69,6 +72,11 @@ impl Ranking {
                     if hit < *worst {
                         *worst = hit;
                     }
+                } else {
+                    return;
+                }
+                if self.heap.len() >= n {
+                    self.bar = self.heap.peek().map(|w| w.score);
                 }
             }
         }
@@ -78,10 +86,7 @@ impl Ranking {
     /// always None when every hit is kept).
     #[inline]
     pub(super) fn bar(&self) -> Option<f64> {
-        match self.keep {
-            Keep::Top(n) if self.heap.len() >= n => self.heap.peek().map(|w| w.score),
-            _ => None,
-        }
+        self.bar
     }
 
     pub(super) fn finish(self) -> Vec<Hit> {

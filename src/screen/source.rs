@@ -92,6 +92,8 @@ pub(super) struct Compiled {
     pub(super) donor_key: Option<u32>,
     pub(super) size: Option<SizeRange>,
     pub(super) kinds: Option<SizeRange>,
+    /// No filter at all (every sphere passes; the walk skips the checks).
+    pub(super) open: bool,
 }
 
 pub(super) fn prepare_ion(
