@@ -1,6 +1,7 @@
 //! The spin crossover: the Δ/B at which the spin of the ground state changes, for one d^n,
 //! geometry and C/B. Energies are in units of B (B = 1, C = C/B, 10Dq = Δ/B).
 
+use super::field::LigandField;
 use super::geometry::Geometry;
 use super::labels::{Irrep, LevelLabel, Term};
 use super::levels::Calculation;
@@ -320,14 +321,16 @@ pub fn spin_change_bound(dn: usize, geometry: Geometry, c_over_b: f64) -> Result
         // One spin only (d⁰, d¹, d⁹, d¹⁰): nothing can change.
         return Ok(FLOOR);
     }
-    // Spread of the free-ion terms, in units of B (the cached terms of d^n at this C/B).
-    let terms = super::terms::free_ion_terms(dn, c_over_b)?;
-    let (low, high) = terms
-        .iter()
-        .fold((f64::INFINITY, f64::NEG_INFINITY), |(lo, hi), t| {
-            (lo.min(t.energy), hi.max(t.energy))
-        });
-    let spread = high - low;
+    // Spread of the free-ion terms, in units of B.
+    let free = Calculation::new(
+        dn,
+        1.0,
+        c_over_b,
+        LigandField::zero(),
+        geometry.point_group(0.0, 0.0),
+    )?
+    .levels()?;
+    let spread = free.levels.iter().map(|l| l.energy).fold(0.0_f64, f64::max);
     // One-electron energies per unit Δ/B, and the configurations they give.
     let unit = geometry
         .field(0.1, 0.0, 0.0)?
