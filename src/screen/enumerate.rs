@@ -115,6 +115,9 @@ pub(super) struct Node {
 pub(super) struct RunState {
     /// Per ion: the multiply-only reject test (None: exact path only).
     pub(super) fast: Vec<Option<FastBound>>,
+    /// The single ion's reject test when a leaf may use it before its full sums (one ion, no
+    /// filter, no charge cap).
+    pub(super) lane: Option<FastBound>,
     pub(super) ranking: Ranking,
     pub(super) spheres: u64,
     pub(super) evaluated: u64,

@@ -643,7 +643,14 @@ impl Screen {
                 .map(|ion| FastBound::new(self, ion))
                 .collect()
         };
+        // One ion, no filter and no charge cap: a leaf can be rejected from its sums of f, π
+        // and h before the rest of its sums are built.
+        let lane = match (&fast[..], self.compiled.open, self.compiled.max_abs_charge) {
+            ([Some(bound)], true, None) => Some(*bound),
+            _ => None,
+        };
         let mut state = RunState {
+            lane,
             fast,
             ranking: Ranking::new(match keep {
                 Keep::Top(n) => Keep::Top(n.max(1)),
@@ -727,11 +734,28 @@ impl Screen {
             let left = node.left - d;
             let same = k == node.last;
             if left == 0 {
-                let sums = if same {
-                    node.done.add_run(&self.pool[k], node.count + 1)
+                let (base, count) = if same {
+                    (&node.done, node.count + 1)
                 } else {
-                    closed.add_run(&self.pool[k], 1)
+                    (&closed, 1)
                 };
+                let l = &self.pool[k];
+                if let (Some(lane), Some(bar)) = (&state.lane, state.ranking.bar()) {
+                    // Only Σf, Σπ and Σh enter the reject test; the same additions as
+                    // `add_run`, so the same values.
+                    let f = base.f + l.f_terms[count];
+                    let pi = base.pi + l.pi_terms[count];
+                    let h = base.h + l.h_terms[count];
+                    if lane.rejects_terms(self.target, f, pi, h, bar) {
+                        state.spheres += 1;
+                        state.evaluated += 1;
+                        if state.spheres & 0xFFFF == 0 {
+                            progress(state.spheres);
+                        }
+                        continue;
+                    }
+                }
+                let sums = base.add_run(l, count);
                 let mut sphere = node.sphere;
                 sphere.push(k);
                 self.visit(&sphere, &sums, 0, state, progress);

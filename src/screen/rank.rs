@@ -215,13 +215,19 @@ impl FastBound {
     /// True when the candidate's score is surely below `bar` (NaN never rejects).
     #[inline]
     pub(super) fn rejects(&self, target: Target, s: &Sums, bar: f64) -> bool {
+        self.rejects_terms(target, s.f, s.pi, s.h, bar)
+    }
+
+    /// [`FastBound::rejects`] from the three sums it reads: Σf, Σπ and Σh.
+    #[inline]
+    pub(super) fn rejects_terms(&self, target: Target, f: f64, pi: f64, h: f64, bar: f64) -> bool {
         let beta = if self.k_per_donor == 0.0 {
             1.0
         } else {
-            (1.0 - self.k_per_donor * s.h).max(estimate::BETA_FLOOR)
+            (1.0 - self.k_per_donor * h).max(estimate::BETA_FLOOR)
         };
         let b = self.b0 * beta;
-        let kn = self.k_mean * (s.f + self.pi_weight * s.pi);
+        let kn = self.k_mean * (f + self.pi_weight * pi);
         match target {
             // Low: 100(m − X)/X ≥ bar ⟺ m ≥ X(1 + bar/100).
             Target::Low => {
