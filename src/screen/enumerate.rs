@@ -115,9 +115,9 @@ pub(super) struct Node {
 pub(super) struct RunState {
     /// Per ion: the multiply-only reject test (None: exact path only).
     pub(super) fast: Vec<Option<FastBound>>,
-    /// The single ion's reject test when a leaf may use it before its full sums (one ion, no
-    /// filter, no charge cap).
-    pub(super) lane: Option<FastBound>,
+    /// One ion with a reject test, no filter and no charge cap: a leaf takes `fast[0]` from
+    /// its Σf, Σπ and Σh before the rest of its sums are built.
+    pub(super) light_leaves: bool,
     pub(super) ranking: Ranking,
     pub(super) spheres: u64,
     pub(super) evaluated: u64,

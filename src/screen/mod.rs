@@ -214,11 +214,6 @@ impl Screen {
                 .map(|(p, (_, n))| (*n as u32) << (4 * p))
                 .sum()
         });
-        let open = require.is_empty()
-            && forbid.is_empty()
-            && donor_key.is_none()
-            && self.filters.size.is_none()
-            && self.filters.kinds.is_none();
         self.compiled = Compiled {
             require,
             forbid,
@@ -226,7 +221,6 @@ impl Screen {
             donor_key,
             size: self.filters.size,
             kinds: self.filters.kinds,
-            open,
         };
         Ok(())
     }
@@ -605,9 +599,6 @@ impl Screen {
     #[inline]
     fn passes(&self, sphere: &Sphere, s: &Sums) -> bool {
         let c = &self.compiled;
-        if c.open {
-            return true;
-        }
         c.require.iter().all(|&i| sphere.contains(i))
             && !c.forbid.iter().any(|&i| sphere.contains(i))
             && c.donor_key.is_none_or(|k| k == s.donor_key)
@@ -645,12 +636,11 @@ impl Screen {
         };
         // One ion, no filter and no charge cap: a leaf can be rejected from its sums of f, π
         // and h before the rest of its sums are built.
-        let lane = match (&fast[..], self.compiled.open, self.compiled.max_abs_charge) {
-            ([Some(bound)], true, None) => Some(*bound),
-            _ => None,
-        };
+        let light_leaves = matches!(fast[..], [Some(_)])
+            && self.compiled.is_open()
+            && self.compiled.max_abs_charge.is_none();
         let mut state = RunState {
-            lane,
+            light_leaves,
             fast,
             ranking: Ranking::new(match keep {
                 Keep::Top(n) => Keep::Top(n.max(1)),
@@ -740,18 +730,17 @@ impl Screen {
                     (&closed, 1)
                 };
                 let l = &self.pool[k];
-                if let (Some(lane), Some(bar)) = (&state.lane, state.ranking.bar()) {
+                if let (true, Some(fast), Some(bar)) =
+                    (state.light_leaves, &state.fast[0], state.ranking.bar())
+                {
                     // Only Σf, Σπ and Σh enter the reject test; the same additions as
                     // `add_run`, so the same values.
                     let f = base.f + l.f_terms[count];
                     let pi = base.pi + l.pi_terms[count];
                     let h = base.h + l.h_terms[count];
-                    if lane.rejects_terms(self.target, f, pi, h, bar) {
-                        state.spheres += 1;
+                    if fast.rejects_terms(self.target, f, pi, h, bar) {
+                        count_sphere(state, progress);
                         state.evaluated += 1;
-                        if state.spheres & 0xFFFF == 0 {
-                            progress(state.spheres);
-                        }
                         continue;
                     }
                 }
@@ -784,10 +773,7 @@ impl Screen {
         state: &mut RunState,
         progress: &mut dyn FnMut(u64),
     ) {
-        state.spheres += 1;
-        if state.spheres & 0xFFFF == 0 {
-            progress(state.spheres);
-        }
+        count_sphere(state, progress);
         if !self.passes(sphere, sums) {
             return;
         }
@@ -945,6 +931,15 @@ impl Screen {
             .iter()
             .map(|&(i, n)| (self.pool[i].ligand.name.clone(), n))
             .collect()
+    }
+}
+
+/// Counts one sphere walked, and reports progress every 65 536 spheres.
+#[inline]
+fn count_sphere(state: &mut RunState, progress: &mut dyn FnMut(u64)) {
+    state.spheres += 1;
+    if state.spheres & 0xFFFF == 0 {
+        progress(state.spheres);
     }
 }
 

@@ -43,8 +43,6 @@ pub(super) struct Ranking {
     pub(super) keep: Keep,
     pub(super) heap: BinaryHeap<Hit>,
     pub(super) all: Vec<Hit>,
-    /// The score of the worst kept hit once the heap is full, updated on every change.
-    bar: Option<f64>,
 }
 
 impl Ranking {
@@ -57,7 +55,6 @@ impl Ranking {
             keep,
             heap: BinaryHeap::with_capacity(cap),
             all: Vec::new(),
-            bar: None,
         }
     }
 
@@ -72,11 +69,6 @@ impl Ranking {
                     if hit < *worst {
                         *worst = hit;
                     }
-                } else {
-                    return;
-                }
-                if self.heap.len() >= n {
-                    self.bar = self.heap.peek().map(|w| w.score);
                 }
             }
         }
@@ -86,7 +78,10 @@ impl Ranking {
     /// always None when every hit is kept).
     #[inline]
     pub(super) fn bar(&self) -> Option<f64> {
-        self.bar
+        match self.keep {
+            Keep::Top(n) if self.heap.len() >= n => self.heap.peek().map(|w| w.score),
+            _ => None,
+        }
     }
 
     pub(super) fn finish(self) -> Vec<Hit> {

@@ -92,8 +92,17 @@ pub(super) struct Compiled {
     pub(super) donor_key: Option<u32>,
     pub(super) size: Option<SizeRange>,
     pub(super) kinds: Option<SizeRange>,
-    /// No filter at all (every sphere passes; the walk skips the checks).
-    pub(super) open: bool,
+}
+
+impl Compiled {
+    /// No filter that looks at the sphere (every sphere passes `Screen::passes`).
+    pub(super) fn is_open(&self) -> bool {
+        self.require.is_empty()
+            && self.forbid.is_empty()
+            && self.donor_key.is_none()
+            && self.size.is_none()
+            && self.kinds.is_none()
+    }
 }
 
 pub(super) fn prepare_ion(
